@@ -1,0 +1,36 @@
+// Three projects: node-side code (engine, server, worker) through ts-jest,
+// the app's components through jest-expo, and browser end-to-end runs that
+// need the whole stack (started by tests/run.sh, so they run last and alone).
+const tsJest = [
+  'ts-jest',
+  {
+    isolatedModules: true,
+    tsconfig: { module: 'commonjs', moduleResolution: 'node10', target: 'ES2022', esModuleInterop: true, types: ['jest', 'node'], ignoreDeprecations: '6.0', rootDir: '.' },
+  },
+];
+
+module.exports = {
+  projects: [
+    {
+      displayName: 'node',
+      testEnvironment: 'node',
+      roots: ['<rootDir>/tests'],
+      testMatch: ['<rootDir>/tests/{engine,server,worker}/**/*.test.ts'],
+      transform: { '^.+\\.ts$': tsJest },
+      moduleFileExtensions: ['ts', 'js', 'json'],
+    },
+    {
+      displayName: 'app',
+      preset: 'jest-expo/web',
+      roots: ['<rootDir>/tests'],
+      testMatch: ['<rootDir>/tests/app/**/*.test.tsx'],
+    },
+    {
+      displayName: 'e2e',
+      testEnvironment: 'node',
+      roots: ['<rootDir>/tests'],
+      testMatch: ['<rootDir>/tests/e2e/**/*.test.ts'],
+      transform: { '^.+\\.ts$': tsJest },
+    },
+  ],
+};

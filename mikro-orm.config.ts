@@ -1,0 +1,23 @@
+import { defineConfig } from '@mikro-orm/postgresql';
+import { Migrator } from '@mikro-orm/migrations';
+import { config } from './server/config';
+import { entities } from './server/db/entities';
+
+// Schema changes go through committed migration files, never through schema sync.
+export default defineConfig({
+  host: config.db.host,
+  port: config.db.port,
+  dbName: config.db.dbName,
+  user: config.db.user,
+  entities,
+  extensions: [Migrator],
+  migrations: {
+    path: './server/db/migrations',
+    pathTs: './server/db/migrations',
+    glob: '!(*.d).{js,ts}',
+    transactional: true,
+    snapshot: false,
+  },
+  debug: false,
+  allowGlobalContext: false,
+});

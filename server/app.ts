@@ -1,0 +1,42 @@
+import path from 'node:path';
+import fs from 'node:fs';
+import express, { type Express } from 'express';
+import { RequestContext } from '@mikro-orm/core';
+import type { Queue } from 'bullmq';
+import type { Orm } from './db/orm';
+import type { RunJobData, RunSignals } from './queue';
+import { errorHandler, notFoundHandler } from './errors';
+import { mountAuth } from './auth';
+import { healthRouter } from './routes/health';
+import { runsRouter } from './routes/runs';
+
+export interface Deps {
+  orm: Orm;
+  queue: Queue<RunJobData>;
+  signals: RunSignals;
+}
+
+/** The HTTP application: thin routes over services, wired to the given resources. */
+export function createApp(deps: Deps, opts: { webDir?: string } = {}): Express {
+  const app = express();
+  app.disable('x-powered-by');
+  app.set('trust proxy', 'loopback');
+  app.use(express.json({ limit: '4mb' }));
+  app.use((_req, _res, next) => RequestContext.create(deps.orm.em, next));
+
+  const api = express.Router();
+  api.use('/health', healthRouter(deps));
+  mountAuth(app, api, deps);
+  api.use('/runs', runsRouter(deps));
+  api.use(notFoundHandler);
+  app.use('/api', api);
+
+  // The exported web app: files as they are, every other path to the app shell.
+  const webDir = opts.webDir && path.resolve(opts.webDir);
+  if (webDir && fs.existsSync(path.join(webDir, 'index.html'))) {
+    app.use(express.static(webDir, { index: false, maxAge: '1h' }));
+    app.get('/{*path}', (_req, res) => res.sendFile(path.join(webDir, 'index.html')));
+  }
+  app.use(errorHandler);
+  return app;
+}

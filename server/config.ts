@@ -1,0 +1,34 @@
+// Every port, address and folder the stack uses, read once from the environment.
+// Defaults are for one developer's machine; README lists them.
+const env = process.env;
+
+function int(name: string, fallback: number): number {
+  const raw = env[name];
+  if (raw === undefined || raw === '') return fallback;
+  const v = Number(raw);
+  if (!Number.isInteger(v) || v <= 0 || v > 65535) throw new Error(`${name} must be a port number, got "${raw}"`);
+  return v;
+}
+
+const host = '127.0.0.1'; // services never listen on other addresses
+const port = int('INFALL_PORT', 8080);
+
+export const config = {
+  host,
+  port,
+  publicUrl: env.INFALL_PUBLIC_URL ?? `http://${host}:${port}`,
+  db: {
+    host,
+    port: int('INFALL_PG_PORT', 54329),
+    dbName: env.INFALL_PG_DB ?? 'infall',
+    user: env.INFALL_PG_USER ?? 'infall',
+  },
+  redis: { host, port: int('INFALL_REDIS_PORT', 63799) },
+  queueName: env.INFALL_QUEUE ?? 'infall-runs',
+  workerThreads: Math.max(1, Number(env.INFALL_WORKER_THREADS ?? 2) | 0),
+  webDir: env.INFALL_WEB_DIR ?? 'dist',
+  sessionSecret: env.INFALL_SESSION_SECRET ?? '',
+  production: env.NODE_ENV === 'production',
+};
+
+export type Config = typeof config;

@@ -1,0 +1,31 @@
+import { defineEntity, p, type InferEntity } from '@mikro-orm/core';
+import type { RunSpec } from '../../../shared/spec';
+import { RUN_STATUSES } from '../../../shared/api/contract';
+import { User } from './User';
+
+export const Run = defineEntity({
+  name: 'Run',
+  tableName: 'runs',
+  properties: {
+    id: p.uuid().primary(),
+    owner: () => p.manyToOne(User).index(),
+    name: p.string(),
+    spec: p.json<RunSpec>(),
+    // Copied out of the spec so lists can filter without reading JSON.
+    modelKind: p.string().index(),
+    lawKind: p.string().index(),
+    particles: p.integer(),
+    steps: p.integer(),
+    costInteractions: p.bigint('number'),
+    // Two runs with the same initial conditions under two laws share a pair id.
+    pairId: p.uuid().nullable().index(),
+    status: p.enum([...RUN_STATUSES]).default('queued').index(),
+    progress: p.double().default(0),
+    error: p.text().nullable(),
+    cancelRequested: p.boolean().default(false),
+    createdAt: p.datetime().onCreate(() => new Date()),
+    startedAt: p.datetime().nullable(),
+    finishedAt: p.datetime().nullable(),
+  },
+});
+export type Run = InferEntity<typeof Run>;

@@ -1,0 +1,17 @@
+import { defineEntity, p, type InferEntity } from '@mikro-orm/core';
+import { Run } from './Run';
+
+// One downsampled frame: float32 x,y,z interleaved, little-endian, as bytes.
+export const RunSnapshot = defineEntity({
+  name: 'RunSnapshot',
+  tableName: 'run_snapshots',
+  primaryKeys: ['run', 'frame'],
+  properties: {
+    run: () => p.manyToOne(Run).primary().deleteRule('cascade'),
+    frame: p.integer().primary(),
+    step: p.integer(),
+    timeMyr: p.double(),
+    positions: p.blob(),
+  },
+});
+export type RunSnapshot = InferEntity<typeof RunSnapshot>;

@@ -1,0 +1,21 @@
+import { defineEntity, p, type InferEntity } from '@mikro-orm/core';
+
+export const ROLES = ['student', 'instructor', 'researcher', 'admin'] as const;
+export type Role = (typeof ROLES)[number];
+
+export const User = defineEntity({
+  name: 'User',
+  tableName: 'users',
+  properties: {
+    id: p.integer().primary().autoincrement(),
+    // The identity provider's stable account id and login name.
+    providerId: p.string().unique(),
+    login: p.string().unique(),
+    name: p.string(),
+    email: p.string().nullable(),
+    role: p.enum([...ROLES]).default('student'),
+    notifyOnFinish: p.boolean().default(false),
+    createdAt: p.datetime().onCreate(() => new Date()),
+  },
+});
+export type User = InferEntity<typeof User>;

@@ -1,0 +1,93 @@
+#!/usr/bin/env bash
+# Starts and stops Infall's private PostgreSQL cluster and Redis, both on 127.0.0.1 only.
+# Sourced by start.sh and tests/run.sh; every function takes its folder and port.
+set -euo pipefail
+
+PG_USER_DB="${INFALL_PG_USER:-infall}"
+
+pg_bin() {
+  local d
+  d=$(ls -d /usr/lib/postgresql/*/bin 2>/dev/null | sort -V | tail -n 1)
+  [ -n "$d" ] && echo "$d"
+}
+
+# Installs PostgreSQL and Redis from Debian when they are missing (needs root).
+ensure_system_packages() {
+  local want=()
+  [ -n "$(pg_bin)" ] || want+=(postgresql)
+  command -v redis-server >/dev/null 2>&1 || want+=(redis-server)
+  [ ${#want[@]} -eq 0 ] && return 0
+  echo "[infall] installing from Debian: ${want[*]}"
+  if [ "$(id -u)" -ne 0 ]; then echo "[infall] need root to install ${want[*]} (or install them yourself)" >&2; return 1; fi
+  export DEBIAN_FRONTEND=noninteractive
+  apt-get update -qq
+  apt-get install -y -qq "${want[@]}" >/dev/null
+  # Debian's packages start their own system-wide servers; Infall runs private ones.
+  for s in postgresql redis-server; do service "$s" stop >/dev/null 2>&1 || true; done
+}
+
+# The server runs as the unprivileged postgres user, which must be able to reach the folder.
+allow_traverse() {
+  local dir="$1"
+  while [ "$dir" != "/" ]; do
+    if ! runuser -u postgres -- test -x "$dir" 2>/dev/null; then chmod o+x "$dir"; fi
+    dir=$(dirname "$dir")
+  done
+}
+
+pg_start() {
+  local dir="$1" port="$2" bin
+  bin=$(pg_bin)
+  mkdir -p "$dir"
+  dir=$(cd "$dir" && pwd)
+  local run_as=()
+  if [ "$(id -u)" -eq 0 ]; then
+    run_as=(runuser -u postgres --)
+    chown postgres:postgres "$dir"
+    allow_traverse "$dir"
+  fi
+  if [ ! -f "$dir/data/PG_VERSION" ]; then
+    mkdir -p "$dir/data" "$dir/sock"
+    [ "$(id -u)" -eq 0 ] && chown -R postgres:postgres "$dir"
+    chmod 700 "$dir/data"
+    "${run_as[@]}" "$bin/initdb" -D "$dir/data" -U "$PG_USER_DB" --auth=trust -E UTF8 --locale=C.UTF-8 >"$dir/initdb.log" 2>&1 \
+      || { echo "[infall] initdb failed, see $dir/initdb.log" >&2; return 1; }
+  fi
+  mkdir -p "$dir/sock"
+  [ "$(id -u)" -eq 0 ] && chown postgres:postgres "$dir/sock"
+  if "${run_as[@]}" "$bin/pg_ctl" -D "$dir/data" status >/dev/null 2>&1; then return 0; fi
+  "${run_as[@]}" "$bin/pg_ctl" -D "$dir/data" -l "$dir/postgres.log" -w -t 60 \
+    -o "-p $port -h 127.0.0.1 -k $dir/sock -c fsync=${INFALL_PG_FSYNC:-on}" start >/dev/null \
+    || { echo "[infall] PostgreSQL did not start, see $dir/postgres.log" >&2; return 1; }
+  local db="${INFALL_PG_DB:-infall}"
+  if ! "$bin/psql" -h 127.0.0.1 -p "$port" -U "$PG_USER_DB" -d postgres -tAc "select 1 from pg_database where datname='$db'" | grep -q 1; then
+    "$bin/createdb" -h 127.0.0.1 -p "$port" -U "$PG_USER_DB" "$db"
+  fi
+}
+
+pg_stop() {
+  local dir="$1" bin
+  bin=$(pg_bin)
+  [ -f "$dir/data/PG_VERSION" ] || return 0
+  local run_as=()
+  [ "$(id -u)" -eq 0 ] && run_as=(runuser -u postgres --)
+  "${run_as[@]}" "$bin/pg_ctl" -D "$dir/data" -m fast -w stop >/dev/null 2>&1 || true
+}
+
+redis_start() {
+  local dir="$1" port="$2"
+  mkdir -p "$dir"
+  dir=$(cd "$dir" && pwd)
+  if redis-cli -h 127.0.0.1 -p "$port" ping >/dev/null 2>&1; then return 0; fi
+  # Append-only file on: queued jobs survive a restart.
+  redis-server --port "$port" --bind 127.0.0.1 --protected-mode yes --daemonize yes \
+    --dir "$dir" --appendonly yes --pidfile "$dir/redis.pid" --logfile "$dir/redis.log" --save ''
+  for _ in $(seq 50); do redis-cli -h 127.0.0.1 -p "$port" ping >/dev/null 2>&1 && return 0; sleep 0.1; done
+  echo "[infall] Redis did not start, see $dir/redis.log" >&2
+  return 1
+}
+
+redis_stop() {
+  local port="$1"
+  redis-cli -h 127.0.0.1 -p "$port" shutdown >/dev/null 2>&1 || true
+}

@@ -1,0 +1,166 @@
+import { randomUUID } from 'node:crypto';
+import type { EntityManager } from '@mikro-orm/postgresql';
+import type { Queue } from 'bullmq';
+import { ApiError } from '../errors';
+import { Run, RunOutput, RunSnapshot, type User } from '../db/entities';
+import { parseRunSpec, particleCount, stepCount, estimateInteractions, type RunSpec } from '../../shared/spec';
+import { submitRunBodySchema, type ListRunsQuery } from '../../shared/api/requests';
+import type { RunDetail, RunSummary } from '../../shared/api/contract';
+import { encodeSnapshots } from '../../shared/api/snapshots';
+import type { RunJobData } from '../queue';
+import { visibleRunsFilter, canSeeRun, canManageRun } from './access';
+import { admitRuns } from './admission';
+
+function firstIssue(issues: { path: string; message: string }[], prefix: string): ApiError {
+  const first = issues[0];
+  const field = first.path ? `${prefix}.${first.path}` : prefix;
+  return new ApiError('INVALID_SPEC', `${field}: ${first.message}`, { field, details: issues.map((i) => ({ ...i, path: i.path ? `${prefix}.${i.path}` : prefix })) });
+}
+
+/** Validates a submission into one spec, or two sharing initial conditions. */
+export function specsFromBody(body: unknown): { name: string; specs: RunSpec[] } {
+  const parsed = submitRunBodySchema.safeParse(body);
+  if (!parsed.success) {
+    const issue = parsed.error.issues[0];
+    const field = issue.path.join('.') || 'body';
+    throw new ApiError('BAD_REQUEST', `${field}: ${issue.message}`, { field });
+  }
+  const spec = parseRunSpec(parsed.data.spec);
+  if (!spec.ok) throw firstIssue(spec.issues, 'spec');
+  const specs = [spec.spec];
+  if (parsed.data.pairLaw !== undefined) {
+    const twin = parseRunSpec({ ...spec.spec, law: parsed.data.pairLaw });
+    if (!twin.ok) throw firstIssue(twin.issues.map((i) => ({ ...i, path: i.path.replace(/^law\.?/, '') })), 'pairLaw');
+    if (JSON.stringify(twin.spec.law) === JSON.stringify(spec.spec.law)) {
+      throw new ApiError('BAD_REQUEST', 'pairLaw: the pair must use a different force law from spec.law', { field: 'pairLaw' });
+    }
+    specs.push(twin.spec);
+  }
+  const name = parsed.data.name ?? `${spec.spec.model.kind} under ${specs.map((s) => s.law.kind).join(' vs ')}`;
+  return { name, specs };
+}
+
+export function toSummary(run: Run): RunSummary {
+  const owner = run.owner as User;
+  return {
+    id: run.id,
+    name: run.name,
+    status: run.status,
+    progress: run.progress,
+    modelKind: run.modelKind,
+    lawKind: run.lawKind,
+    particles: run.particles,
+    steps: run.steps,
+    costInteractions: run.costInteractions,
+    pairId: run.pairId ?? null,
+    error: run.error ?? null,
+    createdAt: run.createdAt.toISOString(),
+    startedAt: run.startedAt ? run.startedAt.toISOString() : null,
+    finishedAt: run.finishedAt ? run.finishedAt.toISOString() : null,
+    owner: { id: owner.id, login: owner.login, name: owner.name },
+  };
+}
+
+/**
+ * Stores the runs and enqueues them. Rows are written first (status queued) in one
+ * transaction with the usage charge, so a refused or failed admission leaves nothing.
+ */
+export async function submitRuns(em: EntityManager, queue: Queue<RunJobData>, user: User, body: unknown): Promise<RunSummary[]> {
+  const { name, specs } = specsFromBody(body);
+  const pairId = specs.length > 1 ? randomUUID() : null;
+  const runs = await em.transactional(async (tx) => {
+    const costs = specs.map((s) => estimateInteractions(s));
+    await admitRuns(tx, user, specs, costs);
+    return specs.map((spec, k) =>
+      tx.create(Run, {
+        id: randomUUID(),
+        owner: user.id,
+        name: specs.length > 1 ? `${name} · ${spec.law.kind}` : name,
+        spec,
+        modelKind: spec.model.kind,
+        lawKind: spec.law.kind,
+        particles: particleCount(spec),
+        steps: stepCount(spec),
+        costInteractions: costs[k],
+        pairId,
+      }),
+    );
+  });
+  await queue.addBulk(runs.map((r) => ({ name: 'run', data: { runId: r.id }, opts: { jobId: r.id } })));
+  await em.populate(runs, ['owner']);
+  return runs.map(toSummary);
+}
+
+export async function listRuns(em: EntityManager, user: User, q: ListRunsQuery): Promise<RunSummary[]> {
+  const where: Record<string, unknown> = { ...(await visibleRunsFilter(em, user, q.cohort)) };
+  if (q.status) where.status = q.status;
+  if (q.law) where.lawKind = q.law;
+  if (q.pair) where.pairId = q.pair;
+  const runs = await em.find(Run, where, { populate: ['owner'], orderBy: { createdAt: 'desc' }, limit: q.limit });
+  return runs.map(toSummary);
+}
+
+export async function findVisibleRun(em: EntityManager, user: User, id: string): Promise<Run> {
+  if (!/^[0-9a-f-]{36}$/i.test(id)) throw new ApiError('NOT_FOUND', `No run with id ${id}`);
+  const run = await em.findOne(Run, { id }, { populate: ['owner'] });
+  // A run the user may not see is reported as missing, so ids can't be probed.
+  if (!run || !(await canSeeRun(em, user, run))) throw new ApiError('NOT_FOUND', `No run with id ${id}`);
+  return run;
+}
+
+export async function runDetail(em: EntityManager, run: Run): Promise<RunDetail> {
+  const output = await em.findOne(RunOutput, { run: run.id });
+  const frames = output
+    ? await em.find(RunSnapshot, { run: run.id }, { fields: ['frame', 'step', 'timeMyr'], orderBy: { frame: 'asc' } })
+    : [];
+  return {
+    ...toSummary(run),
+    spec: run.spec,
+    output: output
+      ? {
+          law: output.law,
+          timescales: output.timescales,
+          warnings: output.warnings,
+          diagnostics: output.diagnostics as unknown[],
+          rotationCurves: output.rotationCurves,
+          summary: output.summary,
+          snapshotParticles: output.snapshotParticles,
+          frames: frames.map((f) => ({ frame: f.frame, step: f.step, time_Myr: f.timeMyr })),
+        }
+      : null,
+  };
+}
+
+export async function snapshotBytes(em: EntityManager, run: Run): Promise<Uint8Array> {
+  const rows = await em.find(RunSnapshot, { run: run.id }, { orderBy: { frame: 'asc' } });
+  return encodeSnapshots(
+    rows.map((r) => {
+      const b = r.positions as Uint8Array;
+      const copy = new Uint8Array(b.byteLength);
+      copy.set(b); // Float32Array needs 4-byte alignment, which a Buffer slice may not have
+      return { step: r.step, time_Myr: r.timeMyr, positions: new Float32Array(copy.buffer) };
+    }),
+  );
+}
+
+/** Marks a run for cancelling; a queued one ends at once, a running one at its next check. */
+export async function cancelRun(em: EntityManager, queue: Queue<RunJobData>, user: User, run: Run): Promise<{ endedNow: boolean }> {
+  if (!(await canManageRun(em, user, run))) throw new ApiError('FORBIDDEN', 'Only the run owner or an admin may cancel this run');
+  if (run.status !== 'queued' && run.status !== 'running') {
+    throw new ApiError('CONFLICT', `Run is already ${run.status}; only queued or running runs can be cancelled`);
+  }
+  run.cancelRequested = true;
+  let endedNow = false;
+  if (run.status === 'queued') {
+    const job = await queue.getJob(run.id);
+    // remove() fails when a worker has just locked the job; then the worker sees the flag.
+    const removed = job ? await job.remove().then(() => true, () => false) : true;
+    if (removed) {
+      run.status = 'cancelled';
+      run.finishedAt = new Date();
+      endedNow = true;
+    }
+  }
+  await em.flush();
+  return { endedNow };
+}

@@ -1,0 +1,90 @@
+// The shapes the HTTP API speaks, shared by server, app and tests.
+
+export const RUN_STATUSES = ['queued', 'running', 'finished', 'failed', 'cancelled'] as const;
+export type RunStatus = (typeof RUN_STATUSES)[number];
+export const FINAL_STATUSES: readonly RunStatus[] = ['finished', 'failed', 'cancelled'];
+
+// Stable error codes: clients branch on these, people read the message.
+export const ERROR_CODES = [
+  'BAD_REQUEST',
+  'INVALID_SPEC',
+  'UNAUTHENTICATED',
+  'FORBIDDEN',
+  'CSRF_REJECTED',
+  'NOT_FOUND',
+  'CONFLICT',
+  'QUOTA_EXCEEDED',
+  'RATE_LIMITED',
+  'PAYLOAD_TOO_LARGE',
+  'UNAVAILABLE',
+  'INTERNAL',
+] as const;
+export type ErrorCode = (typeof ERROR_CODES)[number];
+
+export interface ApiErrorBody {
+  error: {
+    code: ErrorCode;
+    message: string;
+    /** Dotted path of the offending input field, when one is to blame. */
+    field?: string;
+    details?: unknown;
+  };
+}
+
+export interface Owner {
+  id: number;
+  login: string;
+  name: string;
+}
+
+export interface RunSummary {
+  id: string;
+  name: string;
+  status: RunStatus;
+  progress: number; // 0..1
+  modelKind: string;
+  lawKind: string;
+  particles: number;
+  steps: number;
+  costInteractions: number;
+  pairId: string | null;
+  error: string | null;
+  createdAt: string;
+  startedAt: string | null;
+  finishedAt: string | null;
+  owner: Owner;
+}
+
+export interface FrameInfo {
+  frame: number;
+  step: number;
+  time_Myr: number;
+}
+
+export interface RunOutputBody {
+  law: unknown;
+  timescales: unknown;
+  warnings: unknown;
+  diagnostics: unknown[];
+  rotationCurves: unknown;
+  summary: unknown;
+  snapshotParticles: number;
+  frames: FrameInfo[];
+}
+
+export interface RunDetail extends RunSummary {
+  spec: unknown;
+  output: RunOutputBody | null;
+}
+
+/** Payload of the `progress` server-sent event and of BullMQ job progress. */
+export interface RunProgress {
+  percent: number; // 0..100
+  step: number;
+  totalSteps: number;
+  time_Myr: number;
+  energyDrift: number | null;
+}
+
+/** Server-sent event names on GET /api/runs/:id/events. */
+export type RunEventName = 'state' | 'progress' | 'end';

@@ -1,0 +1,24 @@
+import { z } from 'zod';
+
+// Body of POST /api/runs. The spec itself is checked by the shared run-spec
+// schema (so its errors name fields like "spec.model.n"); `pairLaw` asks for a
+// second run with the same initial conditions under another force law.
+export const submitRunBodySchema = z
+  .object({
+    name: z.string().trim().min(1, 'name must not be empty').max(120, 'name is at most 120 characters').optional(),
+    spec: z.unknown(),
+    pairLaw: z.unknown().optional(),
+  })
+  .strict();
+export type SubmitRunBody = z.infer<typeof submitRunBodySchema>;
+
+export const listRunsQuerySchema = z
+  .object({
+    status: z.enum(['queued', 'running', 'finished', 'failed', 'cancelled']).optional(),
+    law: z.string().max(40).optional(),
+    cohort: z.coerce.number().int().positive().optional(),
+    pair: z.uuid().optional(),
+    limit: z.coerce.number().int().min(1).max(200).default(50),
+  })
+  .strict();
+export type ListRunsQuery = z.infer<typeof listRunsQuerySchema>;

@@ -1,0 +1,2 @@
+import { z } from 'zod';
+test('ts-jest runs', () => { expect(z.number().parse(1)).toBe(1); });
