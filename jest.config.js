@@ -16,6 +16,7 @@ module.exports = {
       testEnvironment: 'node',
       roots: ['<rootDir>/tests'],
       testMatch: ['<rootDir>/tests/{engine,server,worker}/**/*.test.ts'],
+      setupFiles: ['<rootDir>/tests/support/env.ts'],
       transform: { '^.+\\.ts$': tsJest },
       moduleFileExtensions: ['ts', 'js', 'json'],
     },

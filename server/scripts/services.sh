@@ -91,3 +91,34 @@ redis_stop() {
   local port="$1"
   redis-cli -h 127.0.0.1 -p "$port" shutdown >/dev/null 2>&1 || true
 }
+
+# Installs npm dependencies when node_modules is missing or older than the lock file.
+ensure_node_modules() {
+  if [ ! -f node_modules/.package-lock.json ] || [ package-lock.json -nt node_modules/.package-lock.json ]; then
+    echo "[infall] installing npm dependencies (npm ci)"
+    npm ci --no-audit --no-fund --loglevel=error
+  fi
+}
+
+# Exports the web app when the build is missing or any of its sources is newer.
+build_web_if_stale() {
+  local out="${INFALL_WEB_DIR:-dist}"
+  local srcs=(app components hooks constants shared assets app.json package-lock.json)
+  local present=()
+  for s in "${srcs[@]}"; do [ -e "$s" ] && present+=("$s"); done
+  if [ -f "$out/index.html" ] && [ -z "$(find "${present[@]}" -newer "$out/index.html" -print -quit)" ]; then return 0; fi
+  echo "[infall] building the web app into $out/ (takes under a minute the first time)"
+  EXPO_OFFLINE=1 EXPO_NO_TELEMETRY=1 CI=1 npx expo export --platform web --output-dir "$out" >"${INFALL_DATA_DIR:-.data}/web-build.log" 2>&1 \
+    || { echo "[infall] web build failed, see ${INFALL_DATA_DIR:-.data}/web-build.log" >&2; return 1; }
+}
+
+# Waits until a URL answers 200, up to N seconds.
+wait_for_url() {
+  local url="$1" secs="${2:-60}"
+  for _ in $(seq $((secs * 5))); do
+    curl -fsS -o /dev/null "$url" 2>/dev/null && return 0
+    sleep 0.2
+  done
+  echo "[infall] $url did not answer within ${secs}s" >&2
+  return 1
+}

@@ -1,0 +1,96 @@
+// The worker path of a run: queue -> BullMQ worker -> piscina thread -> engine -> PostgreSQL.
+import { Worker, QueueEvents } from 'bullmq';
+import { openTestStack, uniqueLogin, type TestStack } from '../support/stack';
+import { config } from '../../server/config';
+import { redisConnection, type RunJobData } from '../../server/queue';
+import { User, Run, RunOutput, RunSnapshot } from '../../server/db/entities';
+import { submitRuns, snapshotBytes } from '../../server/services/runs';
+import { decodeSnapshots } from '../../shared/api/snapshots';
+import { defaultRunSpec } from '../../shared/spec';
+import { RunPool } from '../../worker/pool';
+import { runProcessor } from '../../worker/processor';
+
+jest.setTimeout(60_000);
+
+let stack: TestStack;
+let pool: RunPool;
+let worker: Worker<RunJobData>;
+let events: QueueEvents;
+let user: User;
+
+beforeAll(async () => {
+  stack = await openTestStack();
+  pool = new RunPool(1);
+  events = new QueueEvents(config.queueName, { connection: redisConnection, lastEventId: '0-0' });
+  await events.waitUntilReady();
+  worker = new Worker<RunJobData>(config.queueName, runProcessor({ orm: stack.orm, pool }), { connection: redisConnection });
+  const em = stack.orm.em.fork();
+  const login = uniqueLogin('worker');
+  user = em.create(User, { providerId: login, login, name: 'Worker Test', role: 'researcher' });
+  await em.flush();
+});
+
+afterAll(async () => {
+  await worker.close();
+  await events.close();
+  await pool.close();
+  await stack.queue.obliterate({ force: true });
+  await stack.close();
+});
+
+function waitForEnd(runId: string): Promise<void> {
+  return new Promise((resolve) => {
+    const done = ({ jobId }: { jobId: string }) => jobId === runId && resolve();
+    events.on('completed', done);
+    events.on('failed', done);
+  });
+}
+
+test('a submitted run is integrated in a pool thread and lands whole in PostgreSQL', async () => {
+  const spec = { ...defaultRunSpec(), snapshotEvery: 10 };
+  const progress: number[] = [];
+  const em = stack.orm.em.fork();
+  const [summary] = await submitRuns(em, stack.queue, user, { name: 'worker path', spec });
+  events.on('progress', ({ jobId, data }) => {
+    if (jobId === summary.id) progress.push((data as { percent: number }).percent);
+  });
+  await waitForEnd(summary.id);
+
+  const check = stack.orm.em.fork();
+  const run = await check.findOneOrFail(Run, { id: summary.id });
+  expect(run.status).toBe('finished');
+  expect(run.progress).toBe(1);
+  expect(run.startedAt).toBeInstanceOf(Date);
+  expect(run.finishedAt!.getTime()).toBeGreaterThanOrEqual(run.startedAt!.getTime());
+
+  const output = await check.findOneOrFail(RunOutput, { run: summary.id });
+  expect((output.diagnostics as unknown[]).length).toBeGreaterThan(1);
+  const frames = await check.count(RunSnapshot, { run: summary.id });
+  expect(frames).toBeGreaterThan(1);
+
+  // Frames read back through the wire format hold finite positions of every particle kept.
+  const decoded = decodeSnapshots(await snapshotBytes(check, run));
+  expect(decoded).toHaveLength(frames);
+  expect(decoded[0].positions.length).toBe(output.snapshotParticles * 3);
+  expect(decoded.every((f) => f.positions.every(Number.isFinite))).toBe(true);
+
+  // Progress reached the queue's event stream and climbed to 100 %.
+  expect(progress.length).toBeGreaterThan(0);
+  expect(Math.max(...progress)).toBe(100);
+});
+
+test('a cancel request stops a running run and marks it cancelled', async () => {
+  const spec = { ...defaultRunSpec(), duration_Myr: defaultRunSpec().duration_Myr * 200 };
+  const em = stack.orm.em.fork();
+  const [summary] = await submitRuns(em, stack.queue, user, { name: 'to cancel', spec });
+  const started = new Promise<void>((resolve) =>
+    events.on('progress', ({ jobId }) => jobId === summary.id && resolve()),
+  );
+  const ended = waitForEnd(summary.id);
+  await started;
+  await stack.orm.em.fork().nativeUpdate(Run, { id: summary.id }, { cancelRequested: true });
+  await ended;
+  const run = await stack.orm.em.fork().findOneOrFail(Run, { id: summary.id });
+  expect(run.status).toBe('cancelled');
+  expect(run.progress).toBeLessThan(1);
+});

@@ -1,0 +1,33 @@
+// The worker process: takes runs off the BullMQ queue and hands each to a pool thread.
+import { Worker } from 'bullmq';
+import { config } from '../server/config';
+import { openOrm } from '../server/db/orm';
+import { redisConnection, type RunJobData } from '../server/queue';
+import { RunPool } from './pool';
+import { runProcessor } from './processor';
+
+async function main() {
+  const orm = await openOrm();
+  const pool = new RunPool(config.workerThreads);
+  const worker = new Worker<RunJobData>(config.queueName, runProcessor({ orm, pool }), {
+    connection: redisConnection,
+    concurrency: config.workerThreads,
+  });
+  worker.on('failed', (job, err) => console.error(`[worker] job ${job?.id} failed: ${err.message}`));
+  await worker.waitUntilReady();
+  console.log(`[worker] taking runs from "${config.queueName}" with ${config.workerThreads} thread(s)`);
+
+  const stop = async () => {
+    await worker.close();
+    await pool.close();
+    await orm.close();
+    process.exit(0);
+  };
+  process.once('SIGINT', stop);
+  process.once('SIGTERM', stop);
+}
+
+main().catch((err) => {
+  console.error('[worker] could not start:', err);
+  process.exit(1);
+});

@@ -1,0 +1,55 @@
+import type { Job } from 'bullmq';
+import type { Orm } from '../server/db/orm';
+import type { RunJobData } from '../server/queue';
+import type { RunProgress } from '../shared/api/contract';
+import { markRunning, markCancelled, recordProgress, isCancelRequested, storeResult, markFailed } from '../server/services/runResults';
+import type { RunPool } from './pool';
+
+const PROGRESS_DB_EVERY_MS = 1000; // the database gets coarse progress; live events get every update
+const CANCEL_POLL_MS = 500;
+
+export interface ProcessorDeps {
+  orm: Orm;
+  pool: RunPool;
+  onEnded?: (runId: string) => Promise<void>;
+}
+
+/** Carries one queued run from the database through a pool thread and back. */
+export function runProcessor({ orm, pool, onEnded }: ProcessorDeps) {
+  return async (job: Job<RunJobData>): Promise<{ status: string }> => {
+    const { runId } = job.data;
+    const em = orm.em.fork();
+    const run = await markRunning(em, runId);
+    if (!run) return { status: 'skipped' };
+    if (run.cancelRequested) {
+      await markCancelled(em, runId);
+      return { status: 'cancelled' };
+    }
+
+    let lastDbWrite = 0;
+    const handle = pool.start(run.spec, (p: RunProgress) => {
+      void job.updateProgress(p);
+      const now = Date.now();
+      if (now - lastDbWrite >= PROGRESS_DB_EVERY_MS) {
+        lastDbWrite = now;
+        void recordProgress(orm.em.fork(), runId, p.percent / 100).catch(() => undefined);
+      }
+    });
+    const poll = setInterval(() => {
+      void isCancelRequested(orm.em.fork(), runId).then((yes) => yes && handle.cancel(), () => undefined);
+    }, CANCEL_POLL_MS);
+
+    try {
+      const result = await handle.result;
+      await storeResult(orm.em.fork(), runId, result);
+      return { status: result.cancelled ? 'cancelled' : 'finished' };
+    } catch (err) {
+      const reason = err instanceof Error ? err.message : String(err);
+      await markFailed(orm.em.fork(), runId, `The engine stopped with an error: ${reason}`);
+      return { status: 'failed' };
+    } finally {
+      clearInterval(poll);
+      if (onEnded) await onEnded(runId).catch((e) => console.error('[worker] after-run hook failed', e));
+    }
+  };
+}
