@@ -1,0 +1,5 @@
+import { RunsBoard } from '../../components/RunsBoard';
+
+export default function RunsScreen() {
+  return <RunsBoard />;
+}

@@ -1,0 +1,21 @@
+import { View } from 'react-native';
+import { Redirect, useLocalSearchParams } from 'expo-router';
+import { SignInCard } from '../components/SignInCard';
+import { ErrorState, Loading } from '../components/States';
+import { colors, space } from '../constants/theme';
+import { useSession } from '../hooks/session';
+
+// Only same-site paths are followed after sign-in.
+const safeNext = (next: unknown) => (typeof next === 'string' && next.startsWith('/') && !next.startsWith('//') && next !== '/sign-in' ? next : '/');
+
+export default function SignIn() {
+  const { next } = useLocalSearchParams<{ next?: string }>();
+  const session = useSession();
+  const target = safeNext(next);
+  if (session.data) return <Redirect href={target as '/'} />;
+  return (
+    <View style={{ flex: 1, alignItems: 'center', justifyContent: 'center', padding: space.lg, backgroundColor: colors.background }}>
+      {session.isPending ? <Loading what="Checking your session" /> : session.isError ? <ErrorState error={session.error} title="Infall is unreachable" onRetry={() => session.refetch()} /> : <SignInCard next={target} />}
+    </View>
+  );
+}

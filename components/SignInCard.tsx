@@ -1,0 +1,34 @@
+import { StyleSheet, View } from 'react-native';
+import { colors, radius, space } from '../constants/theme';
+import { signInUrl } from '../hooks/api';
+import { Button } from './Button';
+import { Mark } from './icons';
+import { Txt } from './Txt';
+
+/** The welcome and the one way in: through the group's sign-in provider. */
+export function SignInCard({ next }: { next: string }) {
+  const go = () => {
+    if (typeof window !== 'undefined') window.location.assign(signInUrl(next));
+  };
+  return (
+    <View style={styles.card} role="main">
+      <Mark size={56} />
+      <Txt variant="display" role="heading">
+        infall
+      </Txt>
+      <Txt variant="body" style={styles.center}>
+        Run small N-body systems under two force laws from the same initial conditions, then compare energy conservation, structure and rotation curves.
+      </Txt>
+      <Button label="Sign in" onPress={go} accessibilityHint="Opens your group's sign-in page" style={styles.button} testID="sign-in" />
+      <Txt variant="caption" style={styles.center}>
+        You will come back here once signed in. Scripts can use a personal API token from your account page instead.
+      </Txt>
+    </View>
+  );
+}
+
+const styles = StyleSheet.create({
+  card: { width: '100%', maxWidth: 440, alignItems: 'center', gap: space.lg, padding: space.xl, borderRadius: radius.lg, backgroundColor: colors.surface, borderWidth: 1, borderColor: colors.border },
+  center: { textAlign: 'center' },
+  button: { alignSelf: 'stretch' },
+});

@@ -1,0 +1,70 @@
+import type { ReactNode } from 'react';
+import { ActivityIndicator, StyleSheet, View } from 'react-native';
+import { colors, radius, space } from '../constants/theme';
+import { ApiError } from '../hooks/api';
+import { Button } from './Button';
+import { Txt } from './Txt';
+
+/** A spinner with words, announced to screen readers. */
+export function Loading({ what = 'Loading' }: { what?: string }) {
+  return (
+    <View style={styles.box} role="progressbar" accessibilityLabel={what} aria-busy>
+      <ActivityIndicator color={colors.accent} />
+      <Txt variant="small">{what}…</Txt>
+    </View>
+  );
+}
+
+export function Empty({ title, hint, action }: { title: string; hint?: string; action?: ReactNode }) {
+  return (
+    <View style={[styles.box, styles.framed]} role="note" accessibilityLabel={`${title}. ${hint ?? ''}`}>
+      <Txt variant="heading">{title}</Txt>
+      {hint ? (
+        <Txt variant="small" style={styles.center}>
+          {hint}
+        </Txt>
+      ) : null}
+      {action}
+    </View>
+  );
+}
+
+export function describeError(error: unknown): string {
+  if (error instanceof ApiError) return error.message;
+  if (error instanceof Error) return error.message;
+  return 'Something went wrong.';
+}
+
+/** An error with its message and, when it can help, a retry. */
+export function ErrorState({ error, title = 'That did not work', onRetry }: { error: unknown; title?: string; onRetry?: () => void }) {
+  const message = describeError(error);
+  return (
+    <View style={[styles.box, styles.framed, styles.error]} role="alert" accessibilityLabel={`${title}: ${message}`}>
+      <Txt variant="heading" color={colors.danger}>
+        {title}
+      </Txt>
+      <Txt variant="small" style={styles.center}>
+        {message}
+      </Txt>
+      {onRetry ? <Button label="Try again" tone="secondary" small onPress={onRetry} /> : null}
+    </View>
+  );
+}
+
+/** An inline message under a form or action. */
+export function Notice({ tone, children }: { tone: 'warning' | 'danger' | 'info' | 'ok'; children: ReactNode }) {
+  const color = tone === 'warning' ? colors.warning : tone === 'danger' ? colors.danger : tone === 'ok' ? colors.ok : colors.link;
+  return (
+    <View style={[styles.notice, { borderLeftColor: color }]} role={tone === 'danger' ? 'alert' : 'status'}>
+      {typeof children === 'string' ? <Txt variant="small" color={colors.text}>{children}</Txt> : children}
+    </View>
+  );
+}
+
+const styles = StyleSheet.create({
+  box: { alignItems: 'center', justifyContent: 'center', gap: space.sm, paddingVertical: space.xl, paddingHorizontal: space.lg },
+  framed: { borderWidth: 1, borderStyle: 'dashed', borderColor: colors.border, borderRadius: radius.lg },
+  error: { borderStyle: 'solid', borderColor: colors.danger },
+  center: { textAlign: 'center', maxWidth: 520 },
+  notice: { borderLeftWidth: 3, backgroundColor: colors.surfaceRaised, paddingVertical: space.sm, paddingHorizontal: space.md, borderRadius: radius.sm, gap: space.xs },
+});

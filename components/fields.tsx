@@ -1,0 +1,172 @@
+import { useEffect, useState, type ReactNode } from 'react';
+import { Pressable, StyleSheet, TextInput, View } from 'react-native';
+import { colors, fonts, radius, space, type as sizes } from '../constants/theme';
+import { formatValue } from './format';
+import { Txt } from './Txt';
+
+function FieldFrame({ label, hint, error, children, nativeID }: { label: string; hint?: string; error?: string; children: ReactNode; nativeID?: string }) {
+  return (
+    <View style={styles.field}>
+      <Txt variant="label" nativeID={nativeID}>
+        {label}
+      </Txt>
+      {children}
+      {error ? (
+        <Txt variant="caption" color={colors.danger} role="alert">
+          {error}
+        </Txt>
+      ) : hint ? (
+        <Txt variant="caption">{hint}</Txt>
+      ) : null}
+    </View>
+  );
+}
+
+export interface NumberFieldProps {
+  label: string;
+  value: number | undefined;
+  onChange: (v: number | undefined) => void;
+  unit?: string;
+  min?: number;
+  max?: number;
+  integer?: boolean;
+  hint?: string;
+  error?: string;
+  testID?: string;
+}
+
+export function rangeText(min?: number, max?: number, unit?: string): string {
+  const u = unit ? ` ${unit}` : '';
+  if (min !== undefined && max !== undefined) return `${formatValue(min, 4)} – ${formatValue(max, 4)}${u}`;
+  if (min !== undefined) return `≥ ${formatValue(min, 4)}${u}`;
+  if (max !== undefined) return `≤ ${formatValue(max, 4)}${u}`;
+  return '';
+}
+
+/** A number with its unit and allowed range; range errors show at once, the schema has the last word. */
+export function NumberField({ label, value, onChange, unit, min, max, integer, hint, error, testID }: NumberFieldProps) {
+  const [text, setText] = useState(value === undefined ? '' : String(value));
+  useEffect(() => {
+    // Follow outside changes (a preset, a clone) without fighting the user's typing.
+    setText((t) => (Number(t) === value && t.trim() !== '' ? t : value === undefined ? '' : String(value)));
+  }, [value]);
+  const range = rangeText(min, max, unit);
+  let local: string | undefined;
+  const n = Number(text);
+  if (text.trim() === '') local = 'Required';
+  else if (!Number.isFinite(n)) local = 'Not a number';
+  else if (integer && !Number.isInteger(n)) local = 'Whole numbers only';
+  else if ((min !== undefined && n < min) || (max !== undefined && n > max)) local = `Allowed: ${range}`;
+  const shown = error ?? local;
+  return (
+    <FieldFrame label={label} hint={[hint, range && `Range ${range}`].filter(Boolean).join(' · ')} error={shown}>
+      <View style={[styles.inputRow, shown ? styles.inputError : null]}>
+        <TextInput
+          value={text}
+          onChangeText={(t) => {
+            setText(t);
+            const v = Number(t);
+            onChange(t.trim() === '' || !Number.isFinite(v) ? undefined : v);
+          }}
+          inputMode="decimal"
+          keyboardType="decimal-pad"
+          accessibilityLabel={unit ? `${label} in ${unit}` : label}
+          accessibilityHint={range ? `Allowed range ${range}` : undefined}
+          aria-invalid={Boolean(shown)}
+          style={styles.input}
+          testID={testID}
+        />
+        {unit ? (
+          <Txt style={styles.unit} color={colors.textMuted}>
+            {unit}
+          </Txt>
+        ) : null}
+      </View>
+    </FieldFrame>
+  );
+}
+
+export function TextField({ label, value, onChange, placeholder, hint, error, testID }: { label: string; value: string; onChange: (v: string) => void; placeholder?: string; hint?: string; error?: string; testID?: string }) {
+  return (
+    <FieldFrame label={label} hint={hint} error={error}>
+      <View style={[styles.inputRow, error ? styles.inputError : null]}>
+        <TextInput value={value} onChangeText={onChange} placeholder={placeholder} placeholderTextColor={colors.textFaint} accessibilityLabel={label} style={styles.input} testID={testID} />
+      </View>
+    </FieldFrame>
+  );
+}
+
+export interface Choice<T extends string | number> {
+  value: T;
+  label: string;
+  /** A line under the chips describing the chosen option. */
+  note?: string;
+}
+
+/** A row of chips, one chosen (a radio group). */
+export function ChoiceChips<T extends string | number>({ label, value, choices, onChange, hint, compact }: { label?: string; value: T; choices: Choice<T>[]; onChange: (v: T) => void; hint?: string; compact?: boolean }) {
+  const chosen = choices.find((c) => c.value === value);
+  const chips = (
+    <View style={styles.chips} role="radiogroup" accessibilityLabel={label}>
+      {choices.map((c) => {
+        const on = c.value === value;
+        return (
+          <Pressable
+            key={String(c.value)}
+            role="radio"
+            accessibilityState={{ checked: on }}
+            aria-checked={on}
+            accessibilityLabel={c.label}
+            onPress={() => onChange(c.value)}
+            style={({ pressed }) => [styles.chip, compact && styles.chipCompact, on && styles.chipOn, pressed && styles.chipPressed]}
+          >
+            <Txt style={styles.chipText} color={on ? colors.accentText : colors.text}>
+              {c.label}
+            </Txt>
+          </Pressable>
+        );
+      })}
+    </View>
+  );
+  if (!label) return chips;
+  return (
+    <FieldFrame label={label} hint={chosen?.note ?? hint}>
+      {chips}
+    </FieldFrame>
+  );
+}
+
+/** An on/off switch with its words beside it. */
+export function Toggle({ label, value, onChange, hint }: { label: string; value: boolean; onChange: (v: boolean) => void; hint?: string }) {
+  return (
+    <Pressable role="switch" accessibilityState={{ checked: value }} aria-checked={value} accessibilityLabel={label} onPress={() => onChange(!value)} style={styles.toggleRow}>
+      <View style={[styles.track, value && styles.trackOn]}>
+        <View style={[styles.knob, value && styles.knobOn]} />
+      </View>
+      <View style={styles.toggleText}>
+        <Txt variant="body">{label}</Txt>
+        {hint ? <Txt variant="caption">{hint}</Txt> : null}
+      </View>
+    </Pressable>
+  );
+}
+
+const styles = StyleSheet.create({
+  field: { gap: space.xs, minWidth: 150, flexGrow: 1, flexBasis: 150 },
+  inputRow: { flexDirection: 'row', alignItems: 'center', backgroundColor: colors.surfaceRaised, borderColor: colors.border, borderWidth: 1, borderRadius: radius.md, minHeight: 44 },
+  inputError: { borderColor: colors.danger },
+  input: { flex: 1, minWidth: 0, color: colors.text, fontFamily: fonts.mono, fontSize: sizes.body, paddingHorizontal: space.md, paddingVertical: space.sm, outlineStyle: 'none' } as object,
+  unit: { fontFamily: fonts.mono, fontSize: sizes.small, paddingRight: space.md },
+  chips: { flexDirection: 'row', flexWrap: 'wrap', gap: space.sm },
+  chip: { borderWidth: 1, borderColor: colors.borderStrong, borderRadius: radius.pill, paddingHorizontal: space.md, minHeight: 36, justifyContent: 'center', backgroundColor: colors.surfaceRaised },
+  chipCompact: { minHeight: 30, paddingHorizontal: space.sm },
+  chipOn: { backgroundColor: colors.accent, borderColor: colors.accent },
+  chipPressed: { opacity: 0.8 },
+  chipText: { fontFamily: fonts.bodySemi, fontSize: sizes.small },
+  toggleRow: { flexDirection: 'row', alignItems: 'center', gap: space.md, minHeight: 44 },
+  track: { width: 42, height: 24, borderRadius: 12, backgroundColor: colors.surfaceRaised, borderWidth: 1, borderColor: colors.borderStrong, padding: 2 },
+  trackOn: { backgroundColor: colors.accent, borderColor: colors.accent },
+  knob: { width: 18, height: 18, borderRadius: 9, backgroundColor: colors.textMuted },
+  knobOn: { backgroundColor: colors.accentText, transform: [{ translateX: 18 }] },
+  toggleText: { flex: 1, gap: 2 },
+});

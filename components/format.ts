@@ -1,0 +1,65 @@
+// How numbers, counts and ages read across the app.
+
+/** Short number for read-outs: 3 significant digits, powers of ten when far from 1. */
+export function formatValue(v: number | null | undefined, digits = 3): string {
+  if (v === null || v === undefined || !Number.isFinite(v)) return '—';
+  if (v === 0) return '0';
+  const a = Math.abs(v);
+  if (a >= 1e5 || a < 1e-3) return v.toExponential(digits - 1).replace('e+', 'e');
+  return String(Number(v.toPrecision(digits)));
+}
+
+/** Whole counts with thin grouping: 5 000, 1 200 000. */
+export function formatCount(n: number): string {
+  return Math.round(n).toString().replace(/\B(?=(\d{3})+(?!\d))/g, '\u2009');
+}
+
+/** Pair interactions in words people can compare: 3.2 M, 1.5 G. */
+export function formatInteractions(n: number): string {
+  const units: [number, string][] = [
+    [1e12, 'T'],
+    [1e9, 'G'],
+    [1e6, 'M'],
+    [1e3, 'k'],
+  ];
+  for (const [size, sym] of units) if (Math.abs(n) >= size) return `${Number((n / size).toPrecision(3))} ${sym}`;
+  return String(Math.round(n));
+}
+
+export function formatAge(iso: string, now = Date.now()): string {
+  const s = Math.max(0, Math.round((now - Date.parse(iso)) / 1000));
+  if (s < 60) return 'just now';
+  const m = Math.round(s / 60);
+  if (m < 60) return `${m} min ago`;
+  const h = Math.round(m / 60);
+  if (h < 36) return `${h} h ago`;
+  const d = Math.round(h / 24);
+  if (d < 60) return `${d} days ago`;
+  return new Date(iso).toISOString().slice(0, 10);
+}
+
+export function formatDuration(ms: number): string {
+  const s = Math.round(ms / 1000);
+  if (s < 90) return `${s} s`;
+  const m = Math.round(s / 60);
+  return m < 90 ? `${m} min` : `${(m / 60).toFixed(1)} h`;
+}
+
+/** Model kinds as people say them. */
+export const MODEL_LABELS: Record<string, string> = {
+  kepler: 'Kepler pair',
+  plummer: 'Plummer sphere',
+  hernquist: 'Hernquist sphere',
+  disk: 'Exponential disk',
+  encounter: 'Encounter',
+  table: 'Uploaded particles',
+};
+
+/** Short law names for lists and tags; the engine's lawInfo gives the full label. */
+export const LAW_LABELS: Record<string, string> = {
+  newton: 'Newton',
+  halo: 'Newton + halo',
+  mond: 'MOND',
+  emergent: 'Emergent',
+  yukawa: 'Yukawa',
+};

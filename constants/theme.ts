@@ -1,0 +1,78 @@
+// Infall's own look: "Deep Field" — a near-black blue ground, bone-white text,
+// one warm accent (the glow of gas falling in) and a cool one for the second law.
+// Every colour used on screen comes from here, so the look changes in one place.
+
+export const palette = {
+  abyss: '#05070E', // page ground
+  hull: '#0C1120', // cards, panels
+  deck: '#141B2F', // raised controls, inputs
+  seam: '#24304D', // borders, grid lines
+  seamBright: '#3A4A72',
+  bone: '#ECEFF6', // primary text
+  dust: '#98A2BE', // secondary text
+  ash: '#626C88', // tertiary text, disabled
+  infall: '#F4A259', // primary accent (buttons, the first law of a pair)
+  infallDeep: '#B8692B',
+  drift: '#63D2C6', // secondary accent (links, the second law of a pair)
+  bloom: '#7EDC8E', // good / finished
+  flare: '#F2667A', // errors / failed
+  corona: '#F3D465', // warnings
+  veil: 'rgba(5, 7, 14, 0.72)',
+} as const;
+
+export const colors = {
+  background: palette.abyss,
+  surface: palette.hull,
+  surfaceRaised: palette.deck,
+  border: palette.seam,
+  borderStrong: palette.seamBright,
+  text: palette.bone,
+  textMuted: palette.dust,
+  textFaint: palette.ash,
+  accent: palette.infall,
+  accentPressed: palette.infallDeep,
+  accentText: palette.abyss,
+  link: palette.drift,
+  ok: palette.bloom,
+  danger: palette.flare,
+  warning: palette.corona,
+  overlay: palette.veil,
+} as const;
+
+// One colour per force law, so a law reads the same on every plot and badge.
+const LAW_COLORS: Record<string, string> = {
+  newton: '#9FB7FF',
+  halo: '#C59BFF',
+  mond: palette.infall,
+  emergent: palette.drift,
+  yukawa: '#F28DC0',
+};
+
+export function lawColor(kind: string): string {
+  return LAW_COLORS[kind] ?? palette.dust;
+}
+
+/** Colours for the n-th series of a plot that isn't keyed by law. */
+export const seriesColors = [palette.infall, palette.drift, '#9FB7FF', '#F28DC0', palette.corona, palette.bloom, '#C59BFF'];
+
+export const fonts = {
+  body: 'SpaceGrotesk_400Regular',
+  bodySemi: 'SpaceGrotesk_600SemiBold',
+  heading: 'SpaceGrotesk_700Bold',
+  mono: 'IBMPlexMono_400Regular',
+  monoMedium: 'IBMPlexMono_500Medium',
+} as const;
+
+export const space = { xs: 4, sm: 8, md: 12, lg: 16, xl: 24, xxl: 32 } as const;
+export const radius = { sm: 6, md: 10, lg: 16, pill: 999 } as const;
+export const type = {
+  caption: 12,
+  small: 13,
+  body: 15,
+  lead: 17,
+  title: 22,
+  display: 28,
+} as const;
+
+/** Width from which screens use two panes. */
+export const WIDE_BREAKPOINT = 1024;
