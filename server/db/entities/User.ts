@@ -1,7 +1,7 @@
 import { defineEntity, p, type InferEntity } from '@mikro-orm/core';
+import { ROLES, type Role } from '../../../shared/api/accounts';
 
-export const ROLES = ['student', 'instructor', 'researcher', 'admin'] as const;
-export type Role = (typeof ROLES)[number];
+export { ROLES, type Role };
 
 export const User = defineEntity({
   name: 'User',
@@ -16,6 +16,7 @@ export const User = defineEntity({
     role: p.enum([...ROLES]).default('student'),
     notifyOnFinish: p.boolean().default(false),
     createdAt: p.datetime().onCreate(() => new Date()),
+    lastSignInAt: p.datetime().nullable(),
   },
 });
 export type User = InferEntity<typeof User>;

@@ -2,6 +2,13 @@ import { User } from './User';
 import { Run } from './Run';
 import { RunOutput } from './RunOutput';
 import { RunSnapshot } from './RunSnapshot';
+import { Session } from './Session';
+import { ApiToken } from './ApiToken';
+import { Cohort } from './Cohort';
+import { CohortMember } from './CohortMember';
+import { CohortTemplate } from './CohortTemplate';
+import { Allocation } from './Allocation';
+import { UsageEntry } from './UsageEntry';
 
-export { User, Run, RunOutput, RunSnapshot };
-export const entities = [User, Run, RunOutput, RunSnapshot];
+export { User, Run, RunOutput, RunSnapshot, Session, ApiToken, Cohort, CohortMember, CohortTemplate, Allocation, UsageEntry };
+export const entities = [User, Run, RunOutput, RunSnapshot, Session, ApiToken, Cohort, CohortMember, CohortTemplate, Allocation, UsageEntry];

@@ -1,0 +1,190 @@
+import { z } from 'zod';
+
+// Accounts, tokens, cohorts, quotas and templates: request bodies the app and
+// the server both check, and the shapes the server answers with.
+
+export const ROLES = ['student', 'instructor', 'researcher', 'admin'] as const;
+export type Role = (typeof ROLES)[number];
+
+export interface AccountUser {
+  id: number;
+  login: string;
+  name: string;
+  role: Role;
+  email: string | null;
+}
+
+/** GET /api/auth/me. csrfToken is null when the caller used a personal API token. */
+export interface MeResponse {
+  user: AccountUser;
+  csrfToken: string | null;
+}
+
+export interface QuotaLimits {
+  maxParticles: number;
+  maxSteps: number;
+  maxConcurrentRuns: number;
+  /** Daily compute budget in pair interactions (N^2 x steps for direct sum). */
+  dailyInteractions: number;
+}
+
+/** GET /api/account/usage: what the new-run form needs to show a cost before submitting. */
+export interface AccountUsage {
+  limits: QuotaLimits;
+  used: { interactionsToday: number; activeRuns: number };
+  remaining: { interactionsToday: number; concurrentRuns: number };
+  /** UTC day the budget counts, and when the next one starts. */
+  day: string;
+  resetsAt: string;
+}
+
+export interface AccountSettings {
+  user: AccountUser;
+  notifyOnFinish: boolean;
+}
+
+/** details of a QUOTA_EXCEEDED error. */
+export interface QuotaRefusal {
+  limit: keyof QuotaLimits;
+  max: number;
+  needed: number;
+  remaining: number;
+}
+
+export interface TokenSummary {
+  id: number;
+  name: string;
+  /** The first characters of the token, enough to recognise it. */
+  prefix: string;
+  createdAt: string;
+  lastUsedAt: string | null;
+}
+
+/** POST /api/tokens: the only answer that ever contains the secret. */
+export interface CreatedToken {
+  token: TokenSummary;
+  secret: string;
+}
+
+export interface CohortSummary {
+  id: number;
+  name: string;
+  instructor: { id: number; login: string; name: string };
+  quota: QuotaLimits;
+  memberCount: number;
+  /** Only for the cohort's instructor and admins. */
+  enrolmentCode?: string;
+  createdAt: string;
+}
+
+export interface CohortMemberUsage {
+  user: AccountUser;
+  joinedAt: string;
+  usage: AccountUsage;
+}
+
+export interface TemplateSummary {
+  id: number;
+  cohortId: number;
+  cohortName: string;
+  name: string;
+  description: string;
+  modelKind: string;
+  lawKind: string;
+  pairLawKind: string | null;
+  createdAt: string;
+}
+
+/** GET /api/templates/:id: spec and pairLaw are what the new-run form is filled with to clone it. */
+export interface TemplateDetail extends TemplateSummary {
+  spec: unknown;
+  pairLaw: unknown | null;
+}
+
+export interface AdminUser extends AccountUser {
+  createdAt: string;
+  lastSignInAt: string | null;
+  /** Per-user grants that override role and cohort quotas; null fields are not overridden. */
+  allocation: { [K in keyof QuotaLimits]: number | null };
+  limits: QuotaLimits;
+}
+
+// Ceilings on what any quota may be set to, so a typo can't grant unbounded compute.
+export const LIMIT_CEILINGS: QuotaLimits = {
+  maxParticles: 1_000_000,
+  maxSteps: 10_000_000,
+  maxConcurrentRuns: 64,
+  dailyInteractions: 1e15,
+};
+
+const limitField = (key: keyof QuotaLimits) => z.number().int(`${key} must be a whole number`).min(1, `${key} must be at least 1`).max(LIMIT_CEILINGS[key], `${key} is at most ${LIMIT_CEILINGS[key]}`);
+
+export const quotaLimitsSchema = z
+  .object({
+    maxParticles: limitField('maxParticles'),
+    maxSteps: limitField('maxSteps'),
+    maxConcurrentRuns: limitField('maxConcurrentRuns'),
+    dailyInteractions: limitField('dailyInteractions'),
+  })
+  .strict();
+
+const name = (max: number) => z.string().trim().min(1, 'name must not be empty').max(max, `name is at most ${max} characters`);
+
+export const updateAccountBodySchema = z.object({ notifyOnFinish: z.boolean() }).strict();
+export type UpdateAccountBody = z.infer<typeof updateAccountBodySchema>;
+
+export const createTokenBodySchema = z.object({ name: name(60) }).strict();
+export type CreateTokenBody = z.infer<typeof createTokenBodySchema>;
+
+export const createCohortBodySchema = z.object({ name: name(100), quota: quotaLimitsSchema.optional() }).strict();
+export type CreateCohortBody = z.infer<typeof createCohortBodySchema>;
+
+// Codes are shown as XXXX-XXXX; people may type them in lower case or with spaces.
+export const enrolmentCodeSchema = z
+  .string()
+  .max(40)
+  .transform((s) => s.toUpperCase().replace(/[\s-]/g, ''))
+  .pipe(z.string().regex(/^[A-Z0-9]{8}$/, 'an enrolment code has 8 letters or digits, like ABCD-2345'))
+  .transform((s) => `${s.slice(0, 4)}-${s.slice(4)}`);
+
+export const joinCohortBodySchema = z.object({ code: enrolmentCodeSchema }).strict();
+export type JoinCohortBody = z.infer<typeof joinCohortBodySchema>;
+
+export const inviteBodySchema = z
+  .object({ emails: z.array(z.email('not an e-mail address').max(254)).min(1, 'give at least one address').max(50, 'at most 50 addresses at a time') })
+  .strict();
+export type InviteBody = z.infer<typeof inviteBodySchema>;
+
+/** A template is a run submission kept for students to clone: the same spec and optional pairLaw. */
+export const publishTemplateBodySchema = z
+  .object({
+    name: name(120),
+    description: z.string().trim().max(2000, 'description is at most 2000 characters').default(''),
+    spec: z.unknown(),
+    pairLaw: z.unknown().optional(),
+  })
+  .strict();
+export type PublishTemplateBody = z.infer<typeof publishTemplateBodySchema>;
+
+export const grantRoleBodySchema = z.object({ role: z.enum(ROLES) }).strict();
+export type GrantRoleBody = z.infer<typeof grantRoleBodySchema>;
+
+// null clears an override; a missing key leaves it as it is.
+export const allocationBodySchema = z
+  .object({
+    maxParticles: limitField('maxParticles').nullable().optional(),
+    maxSteps: limitField('maxSteps').nullable().optional(),
+    maxConcurrentRuns: limitField('maxConcurrentRuns').nullable().optional(),
+    dailyInteractions: limitField('dailyInteractions').nullable().optional(),
+  })
+  .strict();
+export type AllocationBody = z.infer<typeof allocationBodySchema>;
+
+export const adminUsersQuerySchema = z
+  .object({
+    q: z.string().trim().max(60).optional(),
+    role: z.enum(ROLES).optional(),
+    limit: z.coerce.number().int().min(1).max(200).default(50),
+  })
+  .strict();
+export type AdminUsersQuery = z.infer<typeof adminUsersQuerySchema>;
