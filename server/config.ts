@@ -29,6 +29,29 @@ export const config = {
   webDir: env.INFALL_WEB_DIR ?? 'dist',
   sessionSecret: env.INFALL_SESSION_SECRET ?? '',
   production: env.NODE_ENV === 'production',
+  auth: authConfig(),
+  mail: {
+    smtpHost: env.INFALL_SMTP_HOST ?? host,
+    smtpPort: int('INFALL_SMTP_PORT', 2525),
+    outboxPort: int('INFALL_OUTBOX_PORT', 8092),
+    from: env.INFALL_MAIL_FROM ?? 'Infall <noreply@infall.localhost>',
+  },
 };
+
+// The OAuth 2 provider. Defaults point at the local fake (server/fakes/oauth-provider.ts).
+function authConfig() {
+  const fakePort = int('INFALL_OAUTH_PORT', 8091);
+  const fake = `http://${host}:${fakePort}`;
+  return {
+    fakePort,
+    clientId: env.INFALL_OAUTH_CLIENT_ID ?? 'infall-local',
+    clientSecret: env.INFALL_OAUTH_CLIENT_SECRET ?? 'infall-local-not-a-secret',
+    authorizeUrl: env.INFALL_OAUTH_AUTHORIZE_URL ?? `${fake}/authorize`,
+    tokenUrl: env.INFALL_OAUTH_TOKEN_URL ?? `${fake}/token`,
+    userUrl: env.INFALL_OAUTH_USER_URL ?? `${fake}/user`,
+    // Logins made admin at sign-in, so a real provider's first admin needs no SQL.
+    adminLogins: (env.INFALL_ADMIN_LOGINS ?? '').split(',').map((s) => s.trim()).filter(Boolean),
+  };
+}
 
 export type Config = typeof config;

@@ -1,19 +1,62 @@
 import type { EntityManager } from '@mikro-orm/postgresql';
 import { ApiError } from '../errors';
-import { Run, type User } from '../db/entities';
-import type { RunSpec } from '../../shared/spec';
+import { UsageEntry, type User } from '../db/entities';
+import { particleCount, stepCount, type RunSpec } from '../../shared/spec';
+import type { QuotaLimits, QuotaRefusal } from '../../shared/api/accounts';
+import { activeRuns, budgetDay, effectiveLimits, interactionsOn, lockAllocation } from './quotas';
+import { afterCommit } from './after-commit';
+import { sendQuotaWarning } from './notifications';
 
-const MAX_ACTIVE_RUNS = 4;
+export const WARN_FRACTION = 0.8;
+
+const LABEL: Record<keyof QuotaLimits, string> = {
+  maxParticles: 'particles per run',
+  maxSteps: 'steps per run',
+  maxConcurrentRuns: 'concurrent runs',
+  dailyInteractions: 'daily budget (pair interactions)',
+};
+
+// 403 when the run can never fit the limit, 429 when it would fit later.
+function refuse(r: QuotaRefusal, status: 403 | 429): ApiError {
+  const tail = status === 429 ? (r.limit === 'dailyInteractions' ? '; the budget resets at 00:00 UTC' : '; wait for a run to end or cancel one') : '';
+  return new ApiError('QUOTA_EXCEEDED', `${LABEL[r.limit]}: limit ${r.max}, this submission needs ${r.needed}, ${r.remaining} left${tail}`, { status, details: r });
+}
 
 /**
- * Decides inside the submission transaction whether these runs may start.
+ * Decides inside the submission transaction whether these runs may start, and charges
+ * the ledger. The user's allocation row stays locked until the transaction ends, so
+ * parallel submissions are decided one after another against committed usage.
  * Throws QUOTA_EXCEEDED naming the limit, the need and what is left.
  */
-export async function admitRuns(em: EntityManager, user: User, specs: RunSpec[], _costs: number[]): Promise<void> {
-  const active = await em.count(Run, { owner: user.id, status: { $in: ['queued', 'running'] } });
-  if (active + specs.length > MAX_ACTIVE_RUNS) {
-    throw new ApiError('QUOTA_EXCEEDED', `concurrent runs: limit ${MAX_ACTIVE_RUNS}, this submission needs ${specs.length}, ${Math.max(0, MAX_ACTIVE_RUNS - active)} left`, {
-      details: { limit: 'concurrentRuns', max: MAX_ACTIVE_RUNS, needed: specs.length, remaining: Math.max(0, MAX_ACTIVE_RUNS - active) },
-    });
+export async function admitRuns(em: EntityManager, user: User, specs: RunSpec[], costs: number[]): Promise<void> {
+  const allocation = await lockAllocation(em, user.id);
+  const limits = await effectiveLimits(em, user);
+
+  for (const spec of specs) {
+    const n = particleCount(spec);
+    if (n > limits.maxParticles) throw refuse({ limit: 'maxParticles', max: limits.maxParticles, needed: n, remaining: limits.maxParticles }, 403);
+    const steps = stepCount(spec);
+    if (steps > limits.maxSteps) throw refuse({ limit: 'maxSteps', max: limits.maxSteps, needed: steps, remaining: limits.maxSteps }, 403);
+  }
+
+  const active = await activeRuns(em, user.id);
+  const slots = Math.max(0, limits.maxConcurrentRuns - active);
+  if (specs.length > slots) {
+    throw refuse({ limit: 'maxConcurrentRuns', max: limits.maxConcurrentRuns, needed: specs.length, remaining: slots }, specs.length > limits.maxConcurrentRuns ? 403 : 429);
+  }
+
+  const day = budgetDay();
+  const used = await interactionsOn(em, user.id, day);
+  const needed = costs.reduce((sum, c) => sum + Math.ceil(c), 0);
+  const left = Math.max(0, limits.dailyInteractions - used);
+  if (needed > left) {
+    throw refuse({ limit: 'dailyInteractions', max: limits.dailyInteractions, needed, remaining: left }, needed > limits.dailyInteractions ? 403 : 429);
+  }
+
+  em.create(UsageEntry, { user: user.id, day, interactions: needed, runs: specs.length });
+  if (used + needed >= WARN_FRACTION * limits.dailyInteractions && allocation.warnedOn !== day) {
+    allocation.warnedOn = day;
+    const usedNow = used + needed;
+    afterCommit(em, () => sendQuotaWarning(user, { used: usedNow, max: limits.dailyInteractions, day }));
   }
 }

@@ -1,0 +1,51 @@
+import { Router, type Express, type RequestHandler } from 'express';
+import { RequestContext } from '@mikro-orm/core';
+import type { EntityManager } from '@mikro-orm/postgresql';
+import type { Deps } from '../app';
+import { ApiError } from '../errors';
+import { userForToken } from '../services/tokens';
+import { installAfterCommit } from '../services/after-commit';
+import { createPassport } from './passport';
+import { sessionMiddleware } from './session';
+import { csrfGuard } from './csrf';
+import { authRouter } from '../routes/auth';
+import { accountRouter } from '../routes/account';
+import { tokensRouter } from '../routes/tokens';
+import { cohortsRouter } from '../routes/cohorts';
+import { templatesRouter } from '../routes/templates';
+import { adminRouter } from '../routes/admin';
+
+// A request is authenticated either by "Authorization: Bearer <personal token>" or
+// by the session cookie, never both: with the header present the session is not read.
+const tokenAuth: RequestHandler = async (req, _res, next) => {
+  const [scheme, secret] = (req.get('authorization') ?? '').split(' ');
+  if (scheme?.toLowerCase() !== 'bearer' || !secret) throw new ApiError('UNAUTHENTICATED', 'Authorization must be "Bearer <personal API token>"');
+  const user = await userForToken(RequestContext.getEntityManager() as EntityManager, secret.trim());
+  if (!user) throw new ApiError('UNAUTHENTICATED', 'That API token is unknown or has been revoked');
+  req.user = user;
+  req.authVia = 'token';
+  next();
+};
+
+/**
+ * Sign-in, sessions, tokens, CSRF and the account-side routes, mounted on the API
+ * router before the run routes so every one of them sees req.user.
+ */
+export function mountAuth(_app: Express, api: Router, deps: Deps): void {
+  installAfterCommit(deps.orm);
+  const auth = createPassport();
+  const sessionChain = Router();
+  sessionChain.use(sessionMiddleware(), auth.initialize(), auth.session(), (req, _res, next) => {
+    if (req.user) req.authVia = 'session';
+    next();
+  });
+  api.use((req, res, next) => (req.get('authorization') !== undefined ? tokenAuth(req, res, next) : sessionChain(req, res, next)));
+  api.use(csrfGuard);
+
+  api.use('/auth', authRouter(auth));
+  api.use('/account', accountRouter());
+  api.use('/tokens', tokensRouter());
+  api.use('/cohorts', cohortsRouter());
+  api.use('/templates', templatesRouter());
+  api.use('/admin', adminRouter());
+}

@@ -1,0 +1,56 @@
+import { Router, type Request } from 'express';
+import type { PassportStatic } from 'passport';
+import { ApiError } from '../errors';
+import { requireUser } from '../auth/guards';
+import { csrfTokenFor } from '../auth/csrf';
+import { SESSION_COOKIE } from '../auth/session';
+import { STRATEGY } from '../auth/passport';
+import { toAccountUser } from '../services/users';
+import type { MeResponse } from '../../shared/api/accounts';
+
+/** Only same-site relative paths: "/runs/1" yes; "//evil.example", "https://…", "/\\x" no. */
+export function safeNext(raw: unknown): string {
+  if (typeof raw !== 'string' || raw.length > 500) return '/';
+  if (!raw.startsWith('/') || raw.startsWith('//') || raw.startsWith('/\\') || /[\u0000-\u001f\\]/.test(raw)) return '/';
+  return raw;
+}
+
+function needSession(req: Request): void {
+  if (!req.session) throw new ApiError('BAD_REQUEST', 'Sign-in happens in a browser; requests with an API token need none');
+}
+
+export function authRouter(auth: PassportStatic): Router {
+  const r = Router();
+
+  r.get('/me', requireUser, (req, res) => {
+    const body: MeResponse = { user: toAccountUser(req.user!), csrfToken: req.authVia === 'session' ? csrfTokenFor(req) : null };
+    res.set('Cache-Control', 'no-store').json(body);
+  });
+
+  r.get('/signin', (req, res, next) => {
+    needSession(req);
+    auth.authenticate(STRATEGY, { state: { next: safeNext(req.query.next) } } as object)(req, res, next);
+  });
+
+  // Failures come back to the app's front page with a reason it can show.
+  r.get('/callback', (req, res, next) => {
+    needSession(req);
+    auth.authenticate(STRATEGY, (err: unknown, user: Express.User | false, info?: { state?: { next?: unknown } }) => {
+      if (err) {
+        console.error('[auth] sign-in failed', err);
+        return res.redirect(302, '/?signin_error=provider');
+      }
+      if (!user) return res.redirect(302, '/?signin_error=denied');
+      const to = safeNext(info?.state?.next);
+      req.logIn(user, (loginErr) => (loginErr ? next(loginErr) : res.redirect(302, to)));
+    })(req, res, next);
+  });
+
+  r.post('/signout', async (req, res) => {
+    if (req.session) await new Promise<void>((resolve, reject) => req.session.destroy((e) => (e ? reject(e) : resolve())));
+    res.clearCookie(SESSION_COOKIE, { path: '/' });
+    res.status(204).end();
+  });
+
+  return r;
+}

@@ -1,0 +1,87 @@
+import type { EntityManager } from '@mikro-orm/postgresql';
+import { Allocation, Cohort, CohortMember, Run, type User } from '../db/entities';
+import type { AccountUsage, QuotaLimits, Role } from '../../shared/api/accounts';
+
+// Quotas come from three places, most specific first: an admin's per-user grant,
+// then (for students) the most generous of their cohorts' quotas, then the role.
+// The numbers are our own choice for a small shared machine, not from any source.
+export const ROLE_LIMITS: Record<Role, QuotaLimits> = {
+  student: { maxParticles: 2_000, maxSteps: 5_000, maxConcurrentRuns: 2, dailyInteractions: 5e10 },
+  instructor: { maxParticles: 10_000, maxSteps: 20_000, maxConcurrentRuns: 4, dailyInteractions: 1e12 },
+  researcher: { maxParticles: 50_000, maxSteps: 100_000, maxConcurrentRuns: 8, dailyInteractions: 2e13 },
+  admin: { maxParticles: 100_000, maxSteps: 200_000, maxConcurrentRuns: 16, dailyInteractions: 1e14 },
+};
+
+/** An instructor can give a cohort at most what instructors have themselves. */
+export const COHORT_CEILING = ROLE_LIMITS.instructor;
+
+export const LIMIT_KEYS = ['maxParticles', 'maxSteps', 'maxConcurrentRuns', 'dailyInteractions'] as const satisfies readonly (keyof QuotaLimits)[];
+
+export const ACTIVE_STATUSES = ['queued', 'running'] as const;
+
+/** The UTC calendar day the daily budget is counted in, as YYYY-MM-DD. */
+export function budgetDay(now = new Date()): string {
+  return now.toISOString().slice(0, 10);
+}
+
+function nextDayStart(day: string): Date {
+  const d = new Date(`${day}T00:00:00.000Z`);
+  d.setUTCDate(d.getUTCDate() + 1);
+  return d;
+}
+
+export function cohortLimits(c: Cohort): QuotaLimits {
+  return { maxParticles: c.maxParticles, maxSteps: c.maxSteps, maxConcurrentRuns: c.maxConcurrentRuns, dailyInteractions: c.dailyInteractions };
+}
+
+function limitsFrom(pick: (k: keyof QuotaLimits) => number): QuotaLimits {
+  return { maxParticles: pick('maxParticles'), maxSteps: pick('maxSteps'), maxConcurrentRuns: pick('maxConcurrentRuns'), dailyInteractions: pick('dailyInteractions') };
+}
+
+export async function effectiveLimits(em: EntityManager, user: User): Promise<QuotaLimits> {
+  let base = ROLE_LIMITS[user.role as Role];
+  if (user.role === 'student') {
+    const memberships = await em.find(CohortMember, { user: user.id }, { populate: ['cohort'] });
+    if (memberships.length) {
+      const quotas = memberships.map((m) => cohortLimits(m.cohort as Cohort));
+      base = limitsFrom((k) => Math.max(...quotas.map((q) => q[k])));
+    }
+  }
+  const grant = await em.findOne(Allocation, { user: user.id });
+  if (!grant) return base;
+  return limitsFrom((k) => grant[k] ?? base[k]);
+}
+
+export async function interactionsOn(em: EntityManager, userId: number, day: string): Promise<number> {
+  const [row] = await em.execute<{ used: string }[]>('select coalesce(sum(interactions), 0)::text as used from usage_ledger where user_id = ? and day = ?', [userId, day]);
+  return Number(row.used);
+}
+
+export async function activeRuns(em: EntityManager, userId: number): Promise<number> {
+  return em.count(Run, { owner: userId, status: { $in: [...ACTIVE_STATUSES] } });
+}
+
+export async function accountUsage(em: EntityManager, user: User): Promise<AccountUsage> {
+  const day = budgetDay();
+  const [limits, interactionsToday, active] = await Promise.all([effectiveLimits(em, user), interactionsOn(em, user.id, day), activeRuns(em, user.id)]);
+  return {
+    limits,
+    used: { interactionsToday, activeRuns: active },
+    remaining: {
+      interactionsToday: Math.max(0, limits.dailyInteractions - interactionsToday),
+      concurrentRuns: Math.max(0, limits.maxConcurrentRuns - active),
+    },
+    day,
+    resetsAt: nextDayStart(day).toISOString(),
+  };
+}
+
+/**
+ * Takes the user's allocation row FOR UPDATE, creating it first if need be. Held until
+ * the surrounding transaction ends, it makes one user's admissions run one at a time.
+ */
+export async function lockAllocation(em: EntityManager, userId: number): Promise<Allocation> {
+  await em.execute('insert into allocations (user_id) values (?) on conflict do nothing', [userId]);
+  const [row] = await em.execute<Record<string, unknown>[]>('select * from allocations where user_id = ? for update', [userId]);
+  return em.map(Allocation, row);
+}
