@@ -32,15 +32,15 @@ export function authRouter(auth: PassportStatic): Router {
     auth.authenticate(STRATEGY, { state: { next: safeNext(req.query.next) } } as object)(req, res, next);
   });
 
-  // Failures come back to the app's front page with a reason it can show.
+  // Failures come back to the app's sign-in page with a reason it can show.
   r.get('/callback', (req, res, next) => {
     needSession(req);
     auth.authenticate(STRATEGY, (err: unknown, user: Express.User | false, info?: { state?: { next?: unknown } }) => {
       if (err) {
         console.error('[auth] sign-in failed', err);
-        return res.redirect(302, '/?signin_error=provider');
+        return res.redirect(302, '/sign-in?error=provider');
       }
-      if (!user) return res.redirect(302, '/?signin_error=denied');
+      if (!user) return res.redirect(302, '/sign-in?error=denied');
       const to = safeNext(info?.state?.next);
       req.logIn(user, (loginErr) => (loginErr ? next(loginErr) : res.redirect(302, to)));
     })(req, res, next);

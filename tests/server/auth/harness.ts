@@ -5,6 +5,10 @@ import type { EntityManager } from '@mikro-orm/postgresql';
 import { config } from '../../../server/config';
 import { migrate, type Orm } from '../../../server/db/orm';
 import { seedAccounts, type SeededAccounts } from '../../../server/db/seed-accounts';
+import { User } from '../../../server/db/entities';
+import { createToken } from '../../../server/services/tokens';
+import { uniqueLogin } from '../../support/stack';
+import type { Role } from '../../../shared/api/accounts';
 import { openTestStack, type TestStack } from '../../support/stack';
 import { startAuthFakes, type AuthFakes } from '../../support/auth';
 
@@ -39,4 +43,14 @@ export async function openAuthStack(basePort: number): Promise<AuthStack> {
       await fakes.close();
     },
   };
+}
+
+/** A fresh user of the given role with a personal API token, for tests that don't need a browser. */
+export async function userWithToken(s: AuthStack, role: Role = 'student', prefix = 'quota'): Promise<{ user: User; auth: { Authorization: string } }> {
+  const em = s.em();
+  const login = uniqueLogin(prefix);
+  const user = em.create(User, { providerId: `test:${login}`, login, name: `Test ${prefix}`, email: `${login}@infall.example`, role });
+  await em.flush();
+  const { secret } = await createToken(em, user, 'test');
+  return { user, auth: { Authorization: `Bearer ${secret}` } };
 }

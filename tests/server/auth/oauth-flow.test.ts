@@ -81,7 +81,7 @@ describe('sign-in through the OAuth provider', () => {
     await toProvider(victim, '/');
     // The attacker's code, replayed into the victim's browser (login CSRF).
     const done = await victim.get(await pick(params, { login: 'rafael-okoye' })).expect(302);
-    expect(done.headers.location).toBe('/?signin_error=denied');
+    expect(done.headers.location).toBe('/sign-in?error=denied');
     await victim.get('/api/auth/me').expect(401);
   });
 
@@ -89,7 +89,7 @@ describe('sign-in through the OAuth provider', () => {
     const agent = request.agent(s.app);
     const { params } = await toProvider(agent, '/');
     const done = await agent.get(await pick(params, { cancel: '1' })).expect(302);
-    expect(done.headers.location).toBe('/?signin_error=denied');
+    expect(done.headers.location).toBe('/sign-in?error=denied');
     await agent.get('/api/auth/me').expect(401);
   });
 
@@ -101,7 +101,7 @@ describe('sign-in through the OAuth provider', () => {
     const thief = request.agent(s.app);
     const theirs = await toProvider(thief, '/');
     const stolen = callback.replace(/state=[^&]+/, `state=${theirs.params.state}`);
-    expect((await thief.get(stolen).expect(302)).headers.location).toBe('/?signin_error=provider');
+    expect((await thief.get(stolen).expect(302)).headers.location).toBe('/sign-in?error=provider');
     await thief.get('/api/auth/me').expect(401);
   });
 
