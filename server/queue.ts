@@ -34,7 +34,7 @@ export class RunSignals {
       if (data && typeof data === 'object') this.hub.emit(jobId, { kind: 'progress', progress: data as RunProgress });
     });
     for (const name of ['completed', 'failed'] as const) {
-      this.events.on(name, ({ jobId }) => this.hub.emit(jobId, { kind: 'end' }));
+      this.events.on(name, ({ jobId }: { jobId: string }) => this.hub.emit(jobId, { kind: 'end' }));
     }
   }
 

@@ -27,7 +27,8 @@ cleanup() {
   [ "$started_pg" = 1 ] && pg_stop "$INFALL_DATA_DIR/pg"
   echo "[infall] stopped; data kept in $INFALL_DATA_DIR/"
 }
-trap cleanup INT TERM EXIT
+trap 'cleanup; exit 130' INT TERM
+trap cleanup EXIT
 
 redis-cli -h 127.0.0.1 -p "$INFALL_REDIS_PORT" ping >/dev/null 2>&1 || started_redis=1
 redis_start "$INFALL_DATA_DIR/redis" "$INFALL_REDIS_PORT"

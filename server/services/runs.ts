@@ -17,6 +17,15 @@ function firstIssue(issues: { path: string; message: string }[], prefix: string)
   return new ApiError('INVALID_SPEC', `${field}: ${first.message}`, { field, details: issues.map((i) => ({ ...i, path: i.path ? `${prefix}.${i.path}` : prefix })) });
 }
 
+// A disk's velocities come from the circular speed of a law; a pair keeps the
+// first run's law for both, so the two runs start from identical particles.
+function pinEquilibrium(spec: RunSpec): RunSpec {
+  const pin = <S extends RunSpec['model']>(m: S): S => (m.kind === 'disk' && !m.equilibriumLaw ? { ...m, equilibriumLaw: spec.law } : m);
+  const m = spec.model;
+  if (m.kind === 'encounter') return { ...spec, model: { ...m, primary: pin(m.primary), secondary: pin(m.secondary) } };
+  return { ...spec, model: pin(m) };
+}
+
 /** Validates a submission into one spec, or two sharing initial conditions. */
 export function specsFromBody(body: unknown): { name: string; specs: RunSpec[] } {
   const parsed = submitRunBodySchema.safeParse(body);
@@ -29,7 +38,8 @@ export function specsFromBody(body: unknown): { name: string; specs: RunSpec[] }
   if (!spec.ok) throw firstIssue(spec.issues, 'spec');
   const specs = [spec.spec];
   if (parsed.data.pairLaw !== undefined) {
-    const twin = parseRunSpec({ ...spec.spec, law: parsed.data.pairLaw });
+    specs[0] = pinEquilibrium(spec.spec);
+    const twin = parseRunSpec({ ...specs[0], law: parsed.data.pairLaw });
     if (!twin.ok) throw firstIssue(twin.issues.map((i) => ({ ...i, path: i.path.replace(/^law\.?/, '') })), 'pairLaw');
     if (JSON.stringify(twin.spec.law) === JSON.stringify(spec.spec.law)) {
       throw new ApiError('BAD_REQUEST', 'pairLaw: the pair must use a different force law from spec.law', { field: 'pairLaw' });

@@ -20,7 +20,7 @@ export const Run = defineEntity({
     // Two runs with the same initial conditions under two laws share a pair id.
     pairId: p.uuid().nullable().index(),
     status: p.enum([...RUN_STATUSES]).default('queued').index(),
-    progress: p.double().default(0),
+    progress: p.double().$type<number>().default(0),
     error: p.text().nullable(),
     cancelRequested: p.boolean().default(false),
     createdAt: p.datetime().onCreate(() => new Date()),

@@ -10,7 +10,7 @@ export const RunSnapshot = defineEntity({
     run: () => p.manyToOne(Run).primary().deleteRule('cascade'),
     frame: p.integer().primary(),
     step: p.integer(),
-    timeMyr: p.double(),
+    timeMyr: p.double().$type<number>(),
     positions: p.blob(),
   },
 });
