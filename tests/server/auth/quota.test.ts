@@ -25,7 +25,7 @@ async function ledger(userId: number) {
   return { interactions: rows.reduce((a, r) => a + r.interactions, 0), runs: await s.em().count(Run, { owner: userId }) };
 }
 
-const submit = (auth: object, body: object) => request(s.app).post('/api/runs').set(auth).send(body);
+const submit = (auth: Record<string, string>, body: object) => request(s.app).post('/api/runs').set(auth).send(body);
 
 describe('quota refusals name the limit, the need and what is left', () => {
   test('particles and steps beyond the role quota are refused with 403, and nothing is charged', async () => {

@@ -1,0 +1,91 @@
+import request from 'supertest';
+import { openAuthStack, userWithToken, type AuthStack } from './harness';
+import { signIn } from '../../support/auth';
+import { Run, User } from '../../../server/db/entities';
+import { notifyRunEnded } from '../../../server/services/notifications';
+import { defaultRunSpec } from '../../../shared/spec';
+
+let s: AuthStack;
+beforeAll(async () => {
+  s = await openAuthStack(55523);
+});
+afterAll(async () => {
+  await s.close();
+});
+
+async function runOf(user: User, status: 'finished' | 'failed' | 'running', error: string | null = null): Promise<Run> {
+  const em = s.em();
+  const spec = defaultRunSpec();
+  const run = em.create(Run, { id: crypto.randomUUID(), owner: user.id, name: 'Invented disk test', spec, modelKind: 'plummer', lawKind: 'newton', particles: 500, steps: 200, costInteractions: 5e7, status, error });
+  await em.flush();
+  return run;
+}
+
+describe('mail through the local sink', () => {
+  test('an opted-in owner gets a plain-text and an HTML part when a run finishes', async () => {
+    const { user, auth } = await userWithToken(s, 'researcher', 'mail');
+    await request(s.app).patch('/api/account').set(auth).send({ notifyOnFinish: true }).expect(200);
+    const run = await runOf(user, 'finished');
+    expect(await notifyRunEnded(s.em(), run.id)).toBe('sent');
+
+    // Read back through the outbox URL, as a developer would.
+    const outbox = await request(s.fakes.sink.outboxUrl.replace(/\/messages$/, '')).get('/messages').expect(200);
+    const mail = outbox.body.messages.find((m: { to: string[] }) => m.to.includes(user.email!));
+    expect(mail.subject).toBe('Run finished: Invented disk test');
+    expect(mail.from).toBe('noreply@infall.localhost');
+    expect(mail.text).toContain('has finished');
+    expect(mail.text).toContain(`/runs/${run.id}`);
+    expect(mail.html).toContain(`href="http://127.0.0.1:8080/runs/${run.id}"`);
+    expect(mail.html).toMatch(/<h1[^>]*>Run finished: Invented disk test<\/h1>/);
+  });
+
+  test('a failure says why; nothing is sent to those who did not opt in, or for runs still going', async () => {
+    const { user } = await userWithToken(s, 'researcher', 'mail');
+    const failed = await runOf(user, 'failed', 'energy <blew up>');
+    expect(await notifyRunEnded(s.em(), failed.id)).toBe('skipped');
+
+    const em = s.em();
+    await em.nativeUpdate(User, { id: user.id }, { notifyOnFinish: true });
+    expect(await notifyRunEnded(s.em(), (await runOf(user, 'running')).id)).toBe('skipped');
+    expect(await notifyRunEnded(s.em(), failed.id)).toBe('sent');
+    const mail = await s.fakes.sink.waitFor((m) => m.to.includes(user.email!));
+    expect(mail.subject).toBe('Run failed: Invented disk test');
+    expect(mail.text).toContain('failed: energy <blew up>.');
+    expect(mail.html).toContain('energy &#60;blew up&#62;'); // escaped, never markup
+    expect(s.fakes.sink.messages().filter((m) => m.to.includes(user.email!))).toHaveLength(1);
+  });
+
+  test('a mail relay that is down does not make notifyRunEnded throw', async () => {
+    const { user } = await userWithToken(s, 'researcher', 'mail');
+    await s.em().nativeUpdate(User, { id: user.id }, { notifyOnFinish: true });
+    const run = await runOf(user, 'finished');
+    const { config } = await import('../../../server/config');
+    const port = config.mail.smtpPort;
+    config.mail.smtpPort = 1; // nothing listens there
+    const quiet = jest.spyOn(console, 'error').mockImplementation(() => undefined);
+    try {
+      expect(await notifyRunEnded(s.em(), run.id)).toBe('failed');
+    } finally {
+      config.mail.smtpPort = port;
+      quiet.mockRestore();
+    }
+  });
+
+  test('an instructor invites students by mail with the enrolment code', async () => {
+    const agent = request.agent(s.app);
+    const { csrfToken } = await signIn(agent, 'ilse-varga');
+    const { cohort } = s.seeded;
+    const res = await agent
+      .post(`/api/cohorts/${cohort.id}/invitations`)
+      .set('X-CSRF-Token', csrfToken)
+      .send({ emails: ['new.student@infall.example', 'NEW.student@infall.example', 'other@infall.example'] })
+      .expect(202);
+    expect(res.body.sent).toBe(2);
+    const mail = await s.fakes.sink.waitFor((m) => m.to.includes('new.student@infall.example'));
+    expect(mail.subject).toBe(`Join ${cohort.name} on Infall`);
+    expect(mail.text).toContain(cohort.enrolmentCode);
+    expect(mail.html).toContain(`code=${cohort.enrolmentCode}`);
+    expect(mail.to).toEqual(['new.student@infall.example']); // one message each
+    await agent.post(`/api/cohorts/${cohort.id}/invitations`).set('X-CSRF-Token', csrfToken).send({ emails: ['not an address'] }).expect(400);
+  });
+});
