@@ -80,7 +80,7 @@ test('a submitted run is integrated in a pool thread and lands whole in PostgreS
 });
 
 test('a cancel request stops a running run and marks it cancelled', async () => {
-  const spec = { ...defaultRunSpec(), duration_Myr: defaultRunSpec().duration_Myr * 200 };
+  const spec = { ...defaultRunSpec(), duration_Myr: defaultRunSpec().duration_Myr * 200, snapshotEvery: 400 };
   const em = stack.orm.em.fork();
   const [summary] = await submitRuns(em, stack.queue, user, { name: 'to cancel', spec });
   const started = new Promise<void>((resolve) =>
