@@ -36,7 +36,9 @@ let s: AuthStack;
 let fx: Fixtures;
 let studentId: number;
 const agents = {} as Record<Role, { agent: Agent; csrf: string }>;
-const logins: Record<Role, string> = { student: '', instructor: 'ilse-varga', researcher: 'teodora-vance', admin: 'rafael-okoye' };
+// Fresh people for every run, so reruns on one database don't pile up quota use.
+const logins = Object.fromEntries(ROLES.map((r) => [r, uniqueLogin(`matrix-${r}`)])) as Record<Role, string>;
+const ids = {} as Record<Role, number>;
 
 async function queuedRunOfStudent(): Promise<string> {
   const em = s.em();
@@ -47,7 +49,7 @@ async function queuedRunOfStudent(): Promise<string> {
 
 async function templateOfCohort(): Promise<number> {
   const em = s.em();
-  const t = em.create(CohortTemplate, { cohort: fx.cohort, name: 'matrix template', spec: defaultRunSpec(), pairLaw: null, createdBy: s.seeded.users['ilse-varga'].id });
+  const t = em.create(CohortTemplate, { cohort: fx.cohort, name: 'matrix template', spec: defaultRunSpec(), pairLaw: null, createdBy: ids.instructor });
   await em.flush();
   return t.id;
 }
@@ -111,15 +113,17 @@ let currentCode = '';
 
 beforeAll(async () => {
   s = await openAuthStack(55517);
-  // A student and a cohort of the matrix's own, so other test files' counts stay put.
-  logins.student = uniqueLogin('matrix-student');
+  const em = s.em();
   for (const role of ROLES) {
     const agent = request.agent(s.app);
     agents[role] = { agent, csrf: (await signIn(agent, logins[role])).csrfToken };
+    // Roles are read on every request, so granting one after sign-in takes effect at once.
+    await em.nativeUpdate(User, { login: logins[role] }, { role });
+    ids[role] = (await em.findOneOrFail(User, { login: logins[role] })).id;
   }
-  const em = s.em();
-  studentId = (await em.findOneOrFail(User, { login: logins.student })).id;
-  const cohort = await createCohort(em, s.seeded.users['ilse-varga'], 'Matrix lab (invented)');
+  studentId = ids.student;
+  // A cohort of the matrix's own, so other test files' counts stay put.
+  const cohort = await createCohort(em, await em.findOneOrFail(User, { id: ids.instructor }), 'Matrix lab (invented)');
   em.create(CohortMember, { cohort: cohort.id, user: studentId });
   const target = em.create(User, { providerId: `test:${uniqueLogin('matrix-target')}`, login: uniqueLogin('matrix-target'), name: 'Matrix target' });
   await em.flush();
@@ -167,7 +171,7 @@ describe('what the statuses mean in the data', () => {
     expect(await ids('admin')).toContain(fx.run);
     expect(await ids('researcher')).not.toContain(fx.run);
     const mine = ((await agents.researcher.agent.get('/api/runs?limit=200').expect(200)).body.runs as { owner: { login: string } }[]).map((r) => r.owner.login);
-    expect(new Set(mine)).toEqual(new Set(['teodora-vance']));
+    expect(new Set(mine)).toEqual(new Set([logins.researcher]));
   });
 
   test('an admin grant changes what the user may run; an admin cannot drop their own role', async () => {

@@ -101,7 +101,10 @@ describe('sign-in through the OAuth provider', () => {
     const thief = request.agent(s.app);
     const theirs = await toProvider(thief, '/');
     const stolen = callback.replace(/state=[^&]+/, `state=${theirs.params.state}`);
+    const logged = jest.spyOn(console, 'error').mockImplementation(() => undefined);
     expect((await thief.get(stolen).expect(302)).headers.location).toBe('/sign-in?error=provider');
+    expect(logged).toHaveBeenCalledWith('[auth] sign-in failed', expect.objectContaining({ message: 'code_verifier does not match' }));
+    logged.mockRestore();
     await thief.get('/api/auth/me').expect(401);
   });
 
