@@ -29,6 +29,8 @@ export function authRouter(auth: PassportStatic): Router {
 
   r.get('/signin', (req, res, next) => {
     needSession(req);
+    // passport-oauth2 keeps an object state in its session store and hands it back to
+    // the callback; its types only know string states.
     auth.authenticate(STRATEGY, { state: { next: safeNext(req.query.next) } } as object)(req, res, next);
   });
 
