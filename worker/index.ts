@@ -5,11 +5,12 @@ import { openOrm } from '../server/db/orm';
 import { redisConnection, type RunJobData } from '../server/queue';
 import { RunPool } from './pool';
 import { runProcessor } from './processor';
+import { notifyRunEnded } from '../server/services/notifications';
 
 async function main() {
   const orm = await openOrm();
   const pool = new RunPool(config.workerThreads);
-  const worker = new Worker<RunJobData>(config.queueName, runProcessor({ orm, pool }), {
+  const worker = new Worker<RunJobData>(config.queueName, runProcessor({ orm, pool, onEnded: (runId) => notifyRunEnded(orm.em.fork(), runId).then(() => undefined) }), {
     connection: redisConnection,
     concurrency: config.workerThreads,
   });
