@@ -46,9 +46,7 @@ npx jest --selectProjects node app --ci "$@" || status=$?
 if [ "$status" -eq 0 ] && [ -z "${INFALL_SKIP_E2E:-}" ]; then
   build_web_if_stale
   node --import tsx server/scripts/prepare.ts
-  node --import tsx server/fakes/main.ts >"$tmp/fakes.log" 2>&1 & pids+=($!)
-  node --import tsx server/index.ts >"$tmp/server.log" 2>&1 & pids+=($!)
-  node --import tsx worker/index.ts >"$tmp/worker.log" 2>&1 & pids+=($!)
+  start_stack_processes "$tmp"
   if wait_for_url "$INFALL_URL/api/health" 90; then
     npx jest --selectProjects e2e --ci --runInBand || status=$?
   else

@@ -122,3 +122,21 @@ wait_for_url() {
   echo "[infall] $url did not answer within ${secs}s" >&2
   return 1
 }
+
+# Starts the fakes, the server and a worker in the background, appending their
+# process ids to the caller's `pids` array. With a folder, their output goes to logs there.
+start_stack_processes() {
+  local logdir="${1:-}"
+  local name
+  for name in fakes server worker; do
+    local entry="server/fakes/main.ts"
+    [ "$name" = server ] && entry="server/index.ts"
+    [ "$name" = worker ] && entry="worker/index.ts"
+    if [ -n "$logdir" ]; then
+      node --import tsx "$entry" >"$logdir/$name.log" 2>&1 &
+    else
+      node --import tsx "$entry" &
+    fi
+    pids+=($!)
+  done
+}

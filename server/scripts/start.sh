@@ -38,9 +38,7 @@ pg_start "$INFALL_DATA_DIR/pg" "$INFALL_PG_PORT"
 node --import tsx server/scripts/prepare.ts
 build_web_if_stale
 
-node --import tsx server/fakes/main.ts & pids+=($!)
-node --import tsx server/index.ts & pids+=($!)
-node --import tsx worker/index.ts & pids+=($!)
+start_stack_processes
 
 wait_for_url "http://127.0.0.1:$INFALL_PORT/api/health" 90
 node --import tsx server/scripts/banner.ts
