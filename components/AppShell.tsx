@@ -33,11 +33,12 @@ export function AppShell({ user, children }: { user: SessionUser; children: Reac
   const items = navFor(user);
   const signOut = useSignOut();
 
+  // Children of <Link asChild> get their style merged as a plain object, so styles are flattened.
   const links = items.map((item) => {
     const on = item.match(path);
     return (
       <Link key={item.label} href={item.href} asChild>
-        <Pressable role="link" accessibilityLabel={item.label} aria-current={on ? 'page' : undefined} style={[wide ? styles.topLink : styles.tab, on && (wide ? styles.topLinkOn : styles.tabOn)]}>
+        <Pressable role="link" accessibilityLabel={item.label} aria-current={on ? 'page' : undefined} style={StyleSheet.flatten([wide ? styles.topLink : styles.tab, on && (wide ? styles.topLinkOn : styles.tabOn)])}>
           <Icon name={item.icon} size={wide ? 18 : 22} color={on ? colors.accent : colors.textMuted} />
           <Txt style={wide ? styles.topLinkText : styles.tabText} color={on ? colors.text : colors.textMuted}>
             {item.label}

@@ -1,4 +1,5 @@
 import { ActivityIndicator, Pressable, StyleSheet, View, type ViewStyle } from 'react-native';
+import { Link, type Href } from 'expo-router';
 import { colors, fonts, radius, space, type as sizes } from '../constants/theme';
 import { Txt } from './Txt';
 
@@ -15,11 +16,31 @@ export interface ButtonProps {
   style?: ViewStyle;
   small?: boolean;
   testID?: string;
+  /** Makes it a link that looks like a button (a real anchor on the web). */
+  href?: Href;
 }
 
-export function Button({ label, onPress, tone = 'primary', disabled, busy, accessibilityLabel, accessibilityHint, style, small, testID }: ButtonProps) {
+export function Button({ label, onPress, tone = 'primary', disabled, busy, accessibilityLabel, accessibilityHint, style, small, testID, href }: ButtonProps) {
   const off = disabled || busy;
   const textColor = tone === 'primary' ? colors.accentText : tone === 'danger' ? colors.danger : tone === 'quiet' ? colors.link : colors.text;
+  const content = (
+    <View style={styles.row}>
+      {busy ? <ActivityIndicator size="small" color={textColor} /> : null}
+      <Txt style={[styles.text, small && styles.smallText]} color={textColor}>
+        {label}
+      </Txt>
+    </View>
+  );
+  if (href) {
+    // <Link asChild> merges its child's style as a plain object, so the style is flattened here.
+    return (
+      <Link href={href} asChild>
+        <Pressable role="link" accessibilityLabel={accessibilityLabel ?? label} accessibilityHint={accessibilityHint} testID={testID} style={StyleSheet.flatten([styles.base, small && styles.small, styles[tone], style])}>
+          {content}
+        </Pressable>
+      </Link>
+    );
+  }
   return (
     <Pressable
       role="button"
@@ -38,12 +59,7 @@ export function Button({ label, onPress, tone = 'primary', disabled, busy, acces
         style,
       ]}
     >
-      <View style={styles.row}>
-        {busy ? <ActivityIndicator size="small" color={textColor} /> : null}
-        <Txt style={[styles.text, small && styles.smallText]} color={textColor}>
-          {label}
-        </Txt>
-      </View>
+      {content}
     </Pressable>
   );
 }

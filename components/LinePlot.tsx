@@ -26,6 +26,8 @@ export interface LinePlotProps {
   /** Fixed ranges; otherwise taken from the data. */
   xDomain?: [number, number];
   yDomain?: [number, number];
+  /** Start a linear y axis at zero (speeds, radii). */
+  yFromZero?: boolean;
   /** A vertical guide, e.g. the time of the frame on screen. */
   markerX?: number;
   /** Spoken summary of what the plot shows. */
@@ -57,7 +59,7 @@ function extent(series: PlotSeries[], axis: 'x' | 'y', log: boolean): [number, n
 }
 
 /** A line plot with axes, units, ticks and a legend; linear or log on either axis. */
-export function LinePlot({ series, xLabel, yLabel, xLog = false, yLog = false, height = 220, xDomain, yDomain, markerX, accessibilityLabel, emptyText, testID }: LinePlotProps) {
+export function LinePlot({ series, xLabel, yLabel, xLog = false, yLog = false, height = 220, xDomain, yDomain, yFromZero = false, markerX, accessibilityLabel, emptyText, testID }: LinePlotProps) {
   const [width, setWidth] = useState(320);
   const onLayout = (e: LayoutChangeEvent) => {
     const w = Math.round(e.nativeEvent.layout.width);
@@ -69,7 +71,7 @@ export function LinePlot({ series, xLabel, yLabel, xLog = false, yLog = false, h
     const [yl, yh] = yDomain ?? extent(series, 'y', yLog);
     if (!Number.isFinite(xl) || !Number.isFinite(yl)) return null;
     const xd = xDomain ?? niceDomain(xl, xh, xLog);
-    const yd = yDomain ?? niceDomain(yl, yh, yLog);
+    const yd = yDomain ?? niceDomain(yFromZero && !yLog ? Math.min(0, yl) : yl, yh, yLog);
     const x = makeScale(xd, [M.left, width - M.right], xLog);
     const y = makeScale(yd, [height - M.bottom, M.top], yLog);
     const paths = series.map((s) => {
@@ -90,7 +92,7 @@ export function LinePlot({ series, xLabel, yLabel, xLog = false, yLog = false, h
     const xt = x.ticks(width < 400 ? 4 : 6);
     const yt = y.ticks(5);
     return { x, y, paths, xt, yt };
-  }, [series, xLog, yLog, xDomain, yDomain, width, height]);
+  }, [series, xLog, yLog, xDomain, yDomain, yFromZero, width, height]);
 
   return (
     <View style={styles.wrap} testID={testID}>
@@ -105,7 +107,7 @@ export function LinePlot({ series, xLabel, yLabel, xLog = false, yLog = false, h
                 <G key={`y${t}`}>
                   <Line x1={M.left} x2={width - M.right} y1={plot.y(t)} y2={plot.y(t)} stroke={colors.border} strokeWidth={1} />
                   <SvgText x={M.left - 6} y={plot.y(t) + 4} fill={colors.textMuted} fontSize={10} fontFamily={fonts.mono} textAnchor="end">
-                    {formatTick(t, plot.yt)}
+                    {formatTick(t, plot.yt, yLog)}
                   </SvgText>
                 </G>
               ))}
@@ -113,7 +115,7 @@ export function LinePlot({ series, xLabel, yLabel, xLog = false, yLog = false, h
                 <G key={`x${t}`}>
                   <Line x1={plot.x(t)} x2={plot.x(t)} y1={height - M.bottom} y2={height - M.bottom + 4} stroke={colors.borderStrong} strokeWidth={1} />
                   <SvgText x={plot.x(t)} y={height - M.bottom + 16} fill={colors.textMuted} fontSize={10} fontFamily={fonts.mono} textAnchor="middle">
-                    {formatTick(t, plot.xt)}
+                    {formatTick(t, plot.xt, xLog)}
                   </SvgText>
                 </G>
               ))}

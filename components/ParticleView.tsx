@@ -4,7 +4,6 @@ import Svg, { Line, Path, Rect, Text as SvgText } from 'react-native-svg';
 import type { SnapshotFrame } from '../shared/api/snapshots';
 import { colors, fonts } from '../constants/theme';
 import { locateFrame, usePlayheadValue, type Playhead } from '../hooks/playback';
-import { Txt } from './Txt';
 
 export type Projection = 'xy' | 'xz' | 'yz';
 const AXES: Record<Projection, [number, number]> = { xy: [0, 1], xz: [0, 2], yz: [1, 2] };
@@ -141,7 +140,6 @@ export function ParticleView({ frames, playhead, projection, color, label, maxSi
           </SvgText>
         </Svg>
       </View>
-      {n === 0 ? <Txt variant="small">This run stored no snapshots.</Txt> : null}
     </View>
   );
 }

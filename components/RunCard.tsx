@@ -24,7 +24,7 @@ export function RunCard({ run, showOwner }: { run: RunSummary; showOwner?: boole
       <Pressable
         role="link"
         accessibilityLabel={`${run.name}: ${model} under ${law}, ${formatCount(run.particles)} particles, ${statusLabel(run.status)}`}
-        style={({ pressed }) => [styles.card, { borderLeftColor: lawColor(run.lawKind) }, pressed && styles.pressed]}
+        style={StyleSheet.flatten([styles.card, { borderLeftColor: lawColor(run.lawKind) }])}
         testID={`run-${run.id}`}
       >
         <View style={styles.top}>
@@ -57,7 +57,6 @@ export function RunCard({ run, showOwner }: { run: RunSummary; showOwner?: boole
 
 const styles = StyleSheet.create({
   card: { backgroundColor: colors.surface, borderWidth: 1, borderColor: colors.border, borderLeftWidth: 3, borderRadius: radius.md, padding: space.md, gap: space.sm },
-  pressed: { backgroundColor: colors.surfaceRaised },
   top: { flexDirection: 'row', justifyContent: 'space-between', alignItems: 'flex-start', gap: space.sm },
   name: { flex: 1 },
   meta: { flexDirection: 'row', flexWrap: 'wrap', alignItems: 'center', gap: space.md },

@@ -1,6 +1,5 @@
 import { useState } from 'react';
 import { StyleSheet, View, useWindowDimensions } from 'react-native';
-import { Link } from 'expo-router';
 import { RUN_STATUSES, type RunStatus } from '../shared/api/contract';
 import { space, WIDE_BREAKPOINT } from '../constants/theme';
 import { useRuns, type RunFilters } from '../hooks/runs';
@@ -42,9 +41,7 @@ export function RunsBoard({ cohortChoices = [] }: RunsBoardProps) {
       onRefresh={() => runs.refetch()}
       refreshing={runs.isRefetching}
       actions={
-        <Link href="/runs/new" asChild>
-          <Button label="Launch a run" accessibilityHint="Opens the new-run form" />
-        </Link>
+        <Button href="/runs/new" label="Launch a run" accessibilityHint="Opens the new-run form" />
       }
     >
       <View style={styles.filters} role="group" accessibilityLabel="Filters">
@@ -64,9 +61,7 @@ export function RunsBoard({ cohortChoices = [] }: RunsBoardProps) {
             title="No runs yet"
             hint="Set up a model, pick a force law (or two), and launch. Small runs finish in seconds."
             action={
-              <Link href="/runs/new" asChild>
-                <Button label="Launch your first run" />
-              </Link>
+              <Button href="/runs/new" label="Launch your first run" />
             }
           />
         )

@@ -1,7 +1,7 @@
-import { useEffect, useState, type ReactNode } from 'react';
+import { Children, Fragment, isValidElement, useEffect, useState, type ReactElement, type ReactNode } from 'react';
 import { Pressable, StyleSheet, TextInput, View } from 'react-native';
 import { colors, fonts, radius, space, type as sizes } from '../constants/theme';
-import { formatValue } from './format';
+import { formatBound, formatInput } from './format';
 import { Txt } from './Txt';
 
 function FieldFrame({ label, hint, error, children, nativeID }: { label: string; hint?: string; error?: string; children: ReactNode; nativeID?: string }) {
@@ -29,37 +29,42 @@ export interface NumberFieldProps {
   unit?: string;
   min?: number;
   max?: number;
+  /** The minimum itself is not allowed (e.g. a mass must be > 0). */
+  exclusiveMin?: boolean;
   integer?: boolean;
+  /** Empty means "use the default". */
+  optional?: boolean;
   hint?: string;
   error?: string;
   testID?: string;
 }
 
-export function rangeText(min?: number, max?: number, unit?: string): string {
+export function rangeText(min?: number, max?: number, unit?: string, exclusiveMin = false): string {
   const u = unit ? ` ${unit}` : '';
-  if (min !== undefined && max !== undefined) return `${formatValue(min, 4)} – ${formatValue(max, 4)}${u}`;
-  if (min !== undefined) return `≥ ${formatValue(min, 4)}${u}`;
-  if (max !== undefined) return `≤ ${formatValue(max, 4)}${u}`;
+  if (exclusiveMin && min !== undefined) return max !== undefined ? `> ${formatBound(min)} and ≤ ${formatBound(max)}${u}` : `> ${formatBound(min)}${u}`;
+  if (min !== undefined && max !== undefined) return `${formatBound(min)} – ${formatBound(max)}${u}`;
+  if (min !== undefined) return `≥ ${formatBound(min)}${u}`;
+  if (max !== undefined) return `≤ ${formatBound(max)}${u}`;
   return '';
 }
 
 /** A number with its unit and allowed range; range errors show at once, the schema has the last word. */
-export function NumberField({ label, value, onChange, unit, min, max, integer, hint, error, testID }: NumberFieldProps) {
-  const [text, setText] = useState(value === undefined ? '' : String(value));
+export function NumberField({ label, value, onChange, unit, min, max, exclusiveMin, integer, optional, hint, error, testID }: NumberFieldProps) {
+  const [text, setText] = useState(formatInput(value));
   useEffect(() => {
     // Follow outside changes (a preset, a clone) without fighting the user's typing.
-    setText((t) => (Number(t) === value && t.trim() !== '' ? t : value === undefined ? '' : String(value)));
+    setText((t) => (Number(t) === value && t.trim() !== '' ? t : formatInput(value)));
   }, [value]);
-  const range = rangeText(min, max, unit);
+  const range = rangeText(min, max, unit, exclusiveMin);
   let local: string | undefined;
   const n = Number(text);
-  if (text.trim() === '') local = 'Required';
+  if (text.trim() === '') local = optional ? undefined : 'Required';
   else if (!Number.isFinite(n)) local = 'Not a number';
   else if (integer && !Number.isInteger(n)) local = 'Whole numbers only';
-  else if ((min !== undefined && n < min) || (max !== undefined && n > max)) local = `Allowed: ${range}`;
-  const shown = error ?? local;
+  else if ((min !== undefined && (exclusiveMin ? n <= min : n < min)) || (max !== undefined && n > max)) local = `Allowed: ${range}`;
+  const shown = local ?? error;
   return (
-    <FieldFrame label={label} hint={[hint, range && `Range ${range}`].filter(Boolean).join(' · ')} error={shown}>
+    <FieldFrame label={label} hint={[hint, range && `Range ${range}`, optional && 'empty = default'].filter(Boolean).join(' · ')} error={shown}>
       <View style={[styles.inputRow, shown ? styles.inputError : null]}>
         <TextInput
           value={text}
@@ -101,6 +106,23 @@ export interface Choice<T extends string | number> {
   label: string;
   /** A line under the chips describing the chosen option. */
   note?: string;
+}
+
+function flatten(children: ReactNode): ReactNode[] {
+  return Children.toArray(children).flatMap((c) => (isValidElement(c) && c.type === Fragment ? flatten((c as ReactElement<{ children?: ReactNode }>).props.children) : [c]));
+}
+
+/** Fields side by side, wrapping to one per line on narrow screens. */
+export function FieldRow({ children }: { children: ReactNode }) {
+  return (
+    <View style={styles.row}>
+      {flatten(children).map((child, i) => (
+        <View key={i} style={styles.cell}>
+          {child}
+        </View>
+      ))}
+    </View>
+  );
 }
 
 /** A row of chips, one chosen (a radio group). */
@@ -152,7 +174,9 @@ export function Toggle({ label, value, onChange, hint }: { label: string; value:
 }
 
 const styles = StyleSheet.create({
-  field: { gap: space.xs, minWidth: 150, flexGrow: 1, flexBasis: 150 },
+  field: { gap: space.xs },
+  row: { flexDirection: 'row', flexWrap: 'wrap', gap: space.md },
+  cell: { flexGrow: 1, flexShrink: 1, flexBasis: 150, minWidth: 140 },
   inputRow: { flexDirection: 'row', alignItems: 'center', backgroundColor: colors.surfaceRaised, borderColor: colors.border, borderWidth: 1, borderRadius: radius.md, minHeight: 44 },
   inputError: { borderColor: colors.danger },
   input: { flex: 1, minWidth: 0, color: colors.text, fontFamily: fonts.mono, fontSize: sizes.body, paddingHorizontal: space.md, paddingVertical: space.sm, outlineStyle: 'none' } as object,

@@ -9,6 +9,26 @@ export function formatValue(v: number | null | undefined, digits = 3): string {
   return String(Number(v.toPrecision(digits)));
 }
 
+function trimmedExponent(v: number): string {
+  const [m, e] = v.toExponential(6).split('e');
+  return `${Number(m)}e${Number(e)}`;
+}
+
+/** A range limit: 100 000, 1e15, 1.2e-10, 0.5. */
+export function formatBound(v: number): string {
+  const a = Math.abs(v);
+  if (Number.isInteger(v) && a < 1e9) return formatCount(v);
+  if (a >= 1e5 || (a > 0 && a < 1e-3)) return trimmedExponent(v);
+  return String(v);
+}
+
+/** A number as it is typed: large and tiny ones in e-notation so they stay readable. */
+export function formatInput(v: number | undefined): string {
+  if (v === undefined || !Number.isFinite(v)) return '';
+  const a = Math.abs(v);
+  return a >= 1e6 || (a > 0 && a < 1e-3) ? trimmedExponent(v) : String(v);
+}
+
 /** Whole counts with thin grouping: 5 000, 1 200 000. */
 export function formatCount(n: number): string {
   return Math.round(n).toString().replace(/\B(?=(\d{3})+(?!\d))/g, '\u2009');

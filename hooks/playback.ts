@@ -152,3 +152,9 @@ export function locateFrame(times: readonly number[], t: number): { index: numbe
   const gap = times[lo + 1] - times[lo];
   return { index: lo, fraction: gap > 0 ? (t - times[lo]) / gap : 0 };
 }
+
+/** The time of the snapshot on screen; changes once per snapshot, not once per animation frame. */
+export function useFrameTime(ph: Playhead, times: readonly number[]): number | undefined {
+  const index = usePlayheadValue(ph, (p) => locateFrame(times, p.time).index);
+  return times.length ? times[index] : undefined;
+}

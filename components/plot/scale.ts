@@ -50,7 +50,8 @@ export function niceDomain(lo: number, hi: number, log: boolean): [number, numbe
     return [lo - pad, hi + pad];
   }
   const step = niceStep(hi - lo, 5);
-  return [Math.floor(lo / step) * step, Math.ceil(hi / step) * step];
+  // The tolerance keeps 200.0000001 from widening the axis to 250.
+  return [Math.floor(lo / step + 1e-6) * step, Math.ceil(hi / step - 1e-6) * step];
 }
 
 export function makeScale(domain: [number, number], range: [number, number], log = false): Scale {
@@ -66,11 +67,12 @@ export function makeScale(domain: [number, number], range: [number, number], log
   return s;
 }
 
-/** Tick labels: plain numbers when they read well, otherwise powers of ten. */
-export function formatTick(v: number, ticks: number[]): string {
+/** Tick labels: plain numbers when they read well, otherwise powers of ten (all of a log axis alike). */
+export function formatTick(v: number, ticks: number[], log = false): string {
   if (v === 0) return '0';
   const biggest = Math.max(...ticks.map(Math.abs));
-  if (biggest >= 1e5 || biggest < 1e-3) {
+  const smallest = Math.min(...ticks.map(Math.abs));
+  if (biggest >= 1e5 || biggest < 1e-3 || (log && (smallest < 1e-2 || biggest >= 1e4))) {
     const [m, e] = v.toExponential(2).split('e');
     const mant = String(Number(m));
     return mant === '1' ? `1e${Number(e)}` : mant === '-1' ? `-1e${Number(e)}` : `${mant}e${Number(e)}`;

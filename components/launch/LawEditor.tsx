@@ -1,0 +1,74 @@
+import { View } from 'react-native';
+import type { LawSpec } from '../../shared/spec';
+import { lawInfo } from '../../shared/engine';
+import { space } from '../../constants/theme';
+import { LAW_PRESETS, type Path } from '../../hooks/runDraft';
+import { enumOptions } from '../../hooks/specSchema';
+import { ChoiceChips, FieldRow } from '../fields';
+import { LAW_LABELS } from '../format';
+import { Txt } from '../Txt';
+import { SpecNumber } from './SpecField';
+import { styles as formStyles } from './formStyles';
+
+const INTERPOLATION_LABELS: Record<string, string> = { simple: 'simple ν', standard: 'standard ν', rar: 'RAR ν' };
+const PROFILE_LABELS: Record<string, string> = { nfw: 'NFW', 'cored-isothermal': 'cored isothermal' };
+
+export interface LawEditorProps {
+  label: string;
+  law: LawSpec;
+  onChange: (law: LawSpec) => void;
+  issues: Record<string, string>;
+  /** Key prefix of this law's problems in `issues`: "law." or "pairLaw.". */
+  issuePrefix: string;
+  /** A law kind that may not be picked (the other law of a pair). */
+  exclude?: string;
+  testID?: string;
+}
+
+/** Picks a force law and its parameters, with what the law conserves and where it holds. */
+export function LawEditor({ label, law, onChange, issues, issuePrefix, exclude, testID }: LawEditorProps) {
+  const holder = { law };
+  const setParam = (path: Path, v: unknown) => onChange({ ...law, [path[path.length - 1]]: v } as LawSpec);
+  let info: ReturnType<typeof lawInfo> | null = null;
+  try {
+    info = lawInfo(law);
+  } catch {
+    info = null; // parameters half-typed; the fields show what is wrong
+  }
+  const kinds = Object.keys(LAW_PRESETS).filter((k) => k !== exclude || k === law.kind);
+  const num = (key: string) => <SpecNumber key={key} draft={holder} path={['law', key]} onChange={setParam} issues={issues} issueKey={`${issuePrefix}${key}`} />;
+  return (
+    <View style={formStyles.group} testID={testID}>
+      <ChoiceChips label={label} value={law.kind} onChange={(k) => onChange(LAW_PRESETS[k])} choices={kinds.map((k) => ({ value: k, label: LAW_LABELS[k] ?? k }))} />
+      {law.kind === 'halo' ? (
+        <>
+          <ChoiceChips label="Halo profile" value={law.profile} onChange={(p) => onChange({ ...law, profile: p as typeof law.profile })} choices={enumOptions(['law', 'profile'], holder).map((p) => ({ value: p, label: PROFILE_LABELS[p] ?? p }))} />
+          <FieldRow>
+            {num('scale_kpc')}
+            {num('density_Msun_kpc3')}
+          </FieldRow>
+        </>
+      ) : law.kind === 'mond' ? (
+        <>
+          <ChoiceChips label="Interpolating function" value={law.interpolation} onChange={(p) => onChange({ ...law, interpolation: p as typeof law.interpolation })} choices={enumOptions(['law', 'interpolation'], holder).map((p) => ({ value: p, label: INTERPOLATION_LABELS[p] ?? p }))} />
+          <FieldRow>{num('a0_m_s2')}</FieldRow>
+        </>
+      ) : law.kind === 'emergent' ? (
+        <FieldRow>{num('H0_km_s_Mpc')}</FieldRow>
+      ) : law.kind === 'yukawa' ? (
+        <FieldRow>
+          {num('alpha')}
+          {num('lambda_kpc')}
+        </FieldRow>
+      ) : null}
+      {info ? (
+        <View style={{ gap: space.xs }}>
+          <Txt variant="caption">
+            {info.label}: energy {info.hasPotential ? (info.conservesEnergy ? 'conserved' : 'not conserved') : 'not defined'}, momentum {info.conservesMomentum ? 'conserved' : 'not conserved'}.
+          </Txt>
+          <Txt variant="caption">Valid: {info.validity}</Txt>
+        </View>
+      ) : null}
+    </View>
+  );
+}

@@ -1,0 +1,49 @@
+import { View } from 'react-native';
+import { colors, lawColor, space } from '../../constants/theme';
+import type { Preview } from '../../hooks/runDraft';
+import { LAW_LABELS } from '../format';
+import { LinePlot, type PlotSeries } from '../LinePlot';
+import { Panel } from '../Panel';
+import { Notice } from '../States';
+import { Txt } from '../Txt';
+import { EngineWarnings, TimescaleFacts } from '../run/RunFacts';
+
+/** The analytic rotation curve of the chosen model under the chosen law(s) and Newton. */
+export function CurvePreview({ preview, isKepler }: { preview: Preview | null; isKepler: boolean }) {
+  const series: PlotSeries[] =
+    preview?.curves?.curves.map((c) => ({ id: c.law, label: c.label, color: c.law === 'newton' ? colors.textMuted : lawColor(c.law), x: preview.curves!.radii_kpc, y: c.v_km_s, dashed: c.law === 'newton' })) ?? [];
+  return (
+    <Panel title="Rotation curve preview" note="Circular speed √(R g) of the initial mass model, analytic, before any particles move.">
+      {isKepler ? (
+        <Txt variant="small">A Kepler pair has no extended mass model, so there is no rotation curve to preview.</Txt>
+      ) : preview?.curvesError ? (
+        <Notice tone="info">{`No preview for this model: ${preview.curvesError}`}</Notice>
+      ) : (
+        <LinePlot series={series} xLabel="radius R [kpc]" yLabel="circular speed [km/s]" yFromZero accessibilityLabel={`Analytic rotation curves under ${series.map((s) => s.label).join(', ')}`} emptyText="Fix the highlighted fields to see the preview" testID="plot-preview" />
+      )}
+    </Panel>
+  );
+}
+
+/** Timescales and the engine's warnings (timestep, softening, relaxation) before submitting. */
+export function ChecksPreview({ preview }: { preview: Preview | null }) {
+  return (
+    <Panel title="Engine checks" note="Computed from the initial particles this spec draws; nothing has run yet.">
+      {!preview ? (
+        <Txt variant="small">Fix the highlighted fields to run the checks.</Txt>
+      ) : preview.checksError ? (
+        <Notice tone="info">{`The checks could not run for this model: ${preview.checksError}`}</Notice>
+      ) : (
+        <View style={{ gap: space.md }}>
+          <TimescaleFacts t={preview.checks[0].timescales} />
+          {preview.checks.map((c) => (
+            <View key={c.law} style={{ gap: space.sm }}>
+              {preview.checks.length > 1 ? <Txt variant="label">Under {LAW_LABELS[c.law] ?? c.law}</Txt> : null}
+              <EngineWarnings warnings={c.warnings} />
+            </View>
+          ))}
+        </View>
+      )}
+    </Panel>
+  );
+}

@@ -1,0 +1,102 @@
+import { useMemo, useState } from 'react';
+import { StyleSheet, View, useWindowDimensions } from 'react-native';
+import { seriesColors, space, WIDE_BREAKPOINT } from '../../constants/theme';
+import { diagnosticColumns, magnitude, type RunOutputView } from '../../hooks/runOutput';
+import { ChoiceChips } from '../fields';
+import { LinePlot, type PlotSeries } from '../LinePlot';
+import { Panel } from '../Panel';
+
+export interface PlottedRun {
+  id: string;
+  label: string;
+  color: string;
+  out: RunOutputView;
+}
+
+type DriftScale = 'log' | 'signed';
+
+/** Energy, momentum, structure and virial plots for one run, or several overlaid. */
+export function DiagnosticsPlots({ runs, markerTime, columns }: { runs: PlottedRun[]; markerTime?: number; columns?: 1 | 2 }) {
+  const [driftScale, setDriftScale] = useState<DriftScale>('log');
+  const { width } = useWindowDimensions();
+  const twoUp = (columns ?? (width >= WIDE_BREAKPOINT ? 2 : 1)) === 2;
+  const single = runs.length === 1;
+
+  const data = useMemo(() => runs.map((r) => ({ run: r, c: diagnosticColumns(r.out.diagnostics) })), [runs]);
+  const withEnergy = data.filter((d) => d.run.out.law.hasPotential);
+
+  const energy: PlotSeries[] = withEnergy.map(({ run, c }) => ({
+    id: run.id,
+    label: single ? 'ΔE / E₀' : run.label,
+    color: run.color,
+    x: c.time_Myr,
+    y: driftScale === 'log' ? magnitude(c.energyDrift) : c.energyDrift,
+  }));
+
+  const momentum: PlotSeries[] = data.flatMap(({ run, c }) => [
+    { id: `${run.id}-p`, label: single ? 'momentum |ΔP| / Σm|v|' : `${run.label} · momentum`, color: single ? seriesColors[0] : run.color, x: c.time_Myr, y: c.momentumDrift },
+    { id: `${run.id}-l`, label: single ? 'angular momentum |ΔL| / Σm|r×v|' : `${run.label} · angular momentum`, color: single ? seriesColors[1] : run.color, x: c.time_Myr, y: c.angularMomentumDrift, dashed: true },
+  ]);
+
+  const radii: PlotSeries[] = data.flatMap(({ run, c }) =>
+    (['r10_kpc', 'r50_kpc', 'r90_kpc'] as const).map((key, k) => ({
+      id: `${run.id}-${key}`,
+      label: single ? `${[10, 50, 90][k]}% mass` : `${run.label} · ${[10, 50, 90][k]}%`,
+      color: single ? seriesColors[k] : run.color,
+      x: c.time_Myr,
+      y: c[key],
+      dashed: !single && key !== 'r50_kpc',
+    })),
+  );
+
+  const virial: PlotSeries[] = data.map(({ run, c }) => {
+    const own = run.out.law.hasPotential;
+    return {
+      id: `${run.id}-v`,
+      label: `${single ? '' : `${run.label} · `}${own ? '2K / |W|' : '2K / |Σ m r·a| (Clausius)'}`,
+      color: run.color,
+      x: c.time_Myr,
+      y: own ? c.virialRatio : c.clausiusVirialRatio,
+    };
+  });
+
+  const noEnergy = runs.filter((r) => !r.out.law.hasPotential).map((r) => r.out.law.label);
+
+  return (
+    <View style={[styles.grid, twoUp && styles.gridWide]}>
+      <Panel
+        style={twoUp ? styles.half : undefined}
+        title="Energy drift"
+        note={noEnergy.length ? `${noEnergy.join(', ')}: no potential, so no energy to track.` : 'Relative change of total energy since t = 0.'}
+        right={energy.length === 0 ? undefined : <ChoiceChips compact value={driftScale} onChange={setDriftScale} choices={[{ value: 'log', label: 'log |ΔE/E₀|' }, { value: 'signed', label: 'signed' }]} />}
+      >
+        {energy.length === 0 ? null : (
+          <LinePlot
+            series={energy}
+            xLabel="time [Myr]"
+            yLabel={driftScale === 'log' ? '|ΔE / E₀| (log scale)' : 'ΔE / E₀'}
+            yLog={driftScale === 'log'}
+            markerX={markerTime}
+            accessibilityLabel={`Energy drift against time for ${runs.map((r) => r.label).join(' and ')}`}
+            testID="plot-energy"
+          />
+        )}
+      </Panel>
+      <Panel style={twoUp ? styles.half : undefined} title="Momentum drift" note="Change of total linear (solid) and angular (dashed) momentum, relative to their t = 0 scale.">
+        <LinePlot series={momentum} xLabel="time [Myr]" yLabel="relative drift (log scale)" yLog markerX={markerTime} accessibilityLabel="Momentum and angular momentum drift against time" testID="plot-momentum" />
+      </Panel>
+      <Panel style={twoUp ? styles.half : undefined} title="Lagrangian radii" note="Radii about the centre of mass holding 10, 50 and 90% of the mass.">
+        <LinePlot series={radii} xLabel="time [Myr]" yLabel="radius [kpc]" yFromZero markerX={markerTime} accessibilityLabel="Lagrangian radii against time" testID="plot-radii" />
+      </Panel>
+      <Panel style={twoUp ? styles.half : undefined} title="Virial ratio" note="1 in equilibrium; above 1 the system expands, below it contracts.">
+        <LinePlot series={virial} xLabel="time [Myr]" yLabel="virial ratio" markerX={markerTime} accessibilityLabel="Virial ratio against time" testID="plot-virial" />
+      </Panel>
+    </View>
+  );
+}
+
+const styles = StyleSheet.create({
+  grid: { gap: space.lg },
+  gridWide: { flexDirection: 'row', flexWrap: 'wrap' },
+  half: { flexBasis: '48%', flexGrow: 1, minWidth: 300 },
+});

@@ -1,0 +1,44 @@
+import type { FrameInfo, RunDetail } from '../shared/api/contract';
+import type { AnalyticCurves, DiagnosticSample, EngineWarning, LawInfo, RotationCurve, RunSummary as EngineSummary, Timescales } from '../shared/engine';
+import type { RunSpec } from '../shared/spec';
+
+/** A run's stored output with the engine's types put back on (the API ships it as JSON). */
+export interface RunOutputView {
+  law: LawInfo;
+  timescales: Timescales;
+  warnings: EngineWarning[];
+  diagnostics: DiagnosticSample[];
+  rotationCurves: { initial: RotationCurve; final: RotationCurve; analytic: AnalyticCurves };
+  summary: EngineSummary;
+  snapshotParticles: number;
+  frames: FrameInfo[];
+}
+
+export function readOutput(run: RunDetail | undefined): RunOutputView | null {
+  if (!run?.output) return null;
+  return run.output as unknown as RunOutputView;
+}
+
+export const specOf = (run: RunDetail | undefined): RunSpec | null => (run?.spec as RunSpec | undefined) ?? null;
+
+/** Diagnostics as columns for plotting and export. */
+export function diagnosticColumns(rows: DiagnosticSample[]) {
+  return {
+    time_Myr: rows.map((r) => r.time_Myr),
+    step: rows.map((r) => r.step),
+    kineticEnergy: rows.map((r) => r.kineticEnergy),
+    potentialEnergy: rows.map((r) => r.potentialEnergy),
+    totalEnergy: rows.map((r) => r.totalEnergy),
+    energyDrift: rows.map((r) => r.energyDrift),
+    momentumDrift: rows.map((r) => r.momentumDrift),
+    angularMomentumDrift: rows.map((r) => r.angularMomentumDrift),
+    virialRatio: rows.map((r) => r.virialRatio),
+    clausiusVirialRatio: rows.map((r) => r.clausiusVirialRatio),
+    r10_kpc: rows.map((r) => r.lagrangianRadii_kpc.r10),
+    r50_kpc: rows.map((r) => r.lagrangianRadii_kpc.r50),
+    r90_kpc: rows.map((r) => r.lagrangianRadii_kpc.r90),
+  };
+}
+
+/** |x| for log plots of drifts, keeping gaps. */
+export const magnitude = (xs: (number | null)[]) => xs.map((x) => (x === null ? null : Math.abs(x)));
