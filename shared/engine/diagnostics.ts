@@ -1,0 +1,152 @@
+import type { ForceLaw } from './laws/types';
+import { centreOfMass, type ParticleState } from './state';
+
+export interface Vector3 {
+  x: number;
+  y: number;
+  z: number;
+}
+
+/**
+ * One diagnostic output. Energies are Msun (km/s)^2, momentum Msun km/s,
+ * angular momentum Msun kpc km/s (about the origin, which is the initial
+ * centre of mass). Null marks a quantity the law does not define.
+ */
+export interface DiagnosticSample {
+  step: number;
+  time_Myr: number;
+  kineticEnergy: number;
+  potentialEnergy: number | null;
+  totalEnergy: number | null;
+  /** (E - E0) / |E0|. */
+  energyDrift: number | null;
+  momentum: Vector3;
+  /** |P - P0| divided by sum m|v| at t = 0 (P0 is near zero, so it cannot be the scale). */
+  momentumDrift: number;
+  angularMomentum: Vector3;
+  /** |L - L0| divided by sum m|r x v| at t = 0. */
+  angularMomentumDrift: number;
+  /** 2K / |W|; null without a potential. */
+  virialRatio: number | null;
+  /** 2K / |sum m (r - r_cm) . a|: the Clausius virial, defined for every law (equals W for unsoftened Newton). */
+  clausiusVirialRatio: number;
+  /** Radii about the centre of mass holding 10, 50 and 90% of the mass. */
+  lagrangianRadii_kpc: { r10: number; r50: number; r90: number };
+  /** Only for disk models: Toomre Q in radial bins of the disk plane. */
+  toomreQ: ToomreProfile | null;
+}
+
+export interface ToomreProfile {
+  radius_kpc: number[];
+  q: (number | null)[];
+}
+
+/** Values at t = 0 that drifts are measured against. */
+export interface DriftReference {
+  energy: number | null;
+  momentum: Vector3;
+  momentumScale: number;
+  angularMomentum: Vector3;
+  angularMomentumScale: number;
+}
+
+interface Moments {
+  kinetic: number;
+  momentum: Vector3;
+  angularMomentum: Vector3;
+  momentumScale: number;
+  angularMomentumScale: number;
+}
+
+function moments(p: ParticleState): Moments {
+  let K = 0, px = 0, py = 0, pz = 0, lx = 0, ly = 0, lz = 0, pScale = 0, lScale = 0;
+  for (let i = 0; i < p.n; i++) {
+    const m = p.m[i];
+    const x = p.x[i], y = p.y[i], z = p.z[i], vx = p.vx[i], vy = p.vy[i], vz = p.vz[i];
+    const v2 = vx * vx + vy * vy + vz * vz;
+    K += 0.5 * m * v2;
+    px += m * vx; py += m * vy; pz += m * vz;
+    const cx = y * vz - z * vy, cy = z * vx - x * vz, cz = x * vy - y * vx;
+    lx += m * cx; ly += m * cy; lz += m * cz;
+    pScale += m * Math.sqrt(v2);
+    lScale += m * Math.sqrt(cx * cx + cy * cy + cz * cz);
+  }
+  return {
+    kinetic: K,
+    momentum: { x: px, y: py, z: pz },
+    angularMomentum: { x: lx, y: ly, z: lz },
+    momentumScale: pScale,
+    angularMomentumScale: lScale,
+  };
+}
+
+const distance = (a: Vector3, b: Vector3): number => Math.hypot(a.x - b.x, a.y - b.y, a.z - b.z);
+
+/** Radii about the centre of mass enclosing the given mass fractions, kpc. */
+export function lagrangianRadii(p: ParticleState, fractions: readonly number[]): number[] {
+  const c = centreOfMass(p);
+  const r = new Float64Array(p.n);
+  for (let i = 0; i < p.n; i++) r[i] = Math.hypot(p.x[i] - c.x, p.y[i] - c.y, p.z[i] - c.z);
+  const order = Uint32Array.from({ length: p.n }, (_, i) => i).sort((a, b) => r[a] - r[b]);
+  let M = 0;
+  for (let i = 0; i < p.n; i++) M += p.m[i];
+  const out: number[] = [];
+  let cumulative = 0, k = 0;
+  for (const f of fractions) {
+    while (k < p.n && cumulative + p.m[order[k]] < f * M) cumulative += p.m[order[k++]];
+    out.push(r[order[Math.min(k, p.n - 1)]]);
+  }
+  return out;
+}
+
+/** Clausius virial sum m (r - r_cm) . a; uses the accelerations held in the state. */
+function clausiusVirial(p: ParticleState): number {
+  const c = centreOfMass(p);
+  let v = 0;
+  for (let i = 0; i < p.n; i++) v += p.m[i] * ((p.x[i] - c.x) * p.ax[i] + (p.y[i] - c.y) * p.ay[i] + (p.z[i] - c.z) * p.az[i]);
+  return v;
+}
+
+/**
+ * Measures one sample. `p` must hold accelerations at its current positions
+ * (the integrators keep that true). Without a
+ * reference this is the first sample and becomes the reference.
+ */
+export function sampleDiagnostics(
+  p: ParticleState,
+  law: ForceLaw,
+  step: number,
+  time_Myr: number,
+  reference: DriftReference | null,
+  toomre: ((p: ParticleState) => ToomreProfile) | null,
+): { sample: DiagnosticSample; reference: DriftReference } {
+  const mo = moments(p);
+  const W = law.potentialEnergy ? law.potentialEnergy(p) : null;
+  const E = W === null ? null : mo.kinetic + W;
+  const ref: DriftReference = reference ?? {
+    energy: E,
+    momentum: mo.momentum,
+    momentumScale: mo.momentumScale,
+    angularMomentum: mo.angularMomentum,
+    angularMomentumScale: mo.angularMomentumScale,
+  };
+  const [r10, r50, r90] = lagrangianRadii(p, [0.1, 0.5, 0.9]);
+  const vir = clausiusVirial(p);
+  const sample: DiagnosticSample = {
+    step,
+    time_Myr,
+    kineticEnergy: mo.kinetic,
+    potentialEnergy: W,
+    totalEnergy: E,
+    energyDrift: E === null || ref.energy === null ? null : (E - ref.energy) / Math.abs(ref.energy),
+    momentum: mo.momentum,
+    momentumDrift: ref.momentumScale > 0 ? distance(mo.momentum, ref.momentum) / ref.momentumScale : 0,
+    angularMomentum: mo.angularMomentum,
+    angularMomentumDrift: ref.angularMomentumScale > 0 ? distance(mo.angularMomentum, ref.angularMomentum) / ref.angularMomentumScale : 0,
+    virialRatio: W === null || W === 0 ? null : (2 * mo.kinetic) / Math.abs(W),
+    clausiusVirialRatio: vir === 0 ? 0 : (2 * mo.kinetic) / Math.abs(vir),
+    lagrangianRadii_kpc: { r10, r50, r90 },
+    toomreQ: toomre ? toomre(p) : null,
+  };
+  return { sample, reference: ref };
+}

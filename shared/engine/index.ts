@@ -1,0 +1,28 @@
+// Public surface of the Infall engine. Pure TypeScript over typed arrays: no
+// Node-only or DOM APIs, so it runs in the worker, in threads and in the browser.
+import type { RunSpec } from '../spec/runSpec';
+import { buildInitialConditions } from './models';
+import { timescalesFor, type EngineWarning, type Timescales } from './timescales';
+
+export { runSimulation, RESULT_UNITS } from './run';
+export type { RunHooks, RunProgress, RunResult, RunSummary, Snapshot, QuantityMeaning } from './run';
+export { analyticCurves, CURVE_BINS } from './analytic';
+export type { AnalyticCurves, AnalyticCurveOptions } from './analytic';
+export { lawInfo, LAW_MODULES, lawSchema } from './laws/registry';
+export type { LawInfo, ForceLaw, LawModule } from './laws/types';
+export type { DiagnosticSample, ToomreProfile, Vector3 } from './diagnostics';
+export type { RotationCurve } from './rotationCurves';
+export { measureRotationCurve } from './rotationCurves';
+export type { EngineWarning, Timescales } from './timescales';
+export { Simulation } from './simulation';
+export type { SimulationState } from './simulation';
+export { buildInitialConditions, massModelFor } from './models';
+export type { Component, InitialConditions } from './models';
+export { directFieldRange, directPotentialRange, makeSolver } from './solvers';
+export type { FieldSolver, PairKernel } from './solvers';
+export * as units from './units';
+
+/** Timescales and warnings for a spec, computed from its initial particles without running. */
+export function precheck(spec: RunSpec): { timescales: Timescales; warnings: EngineWarning[] } {
+  return timescalesFor(spec, buildInitialConditions(spec));
+}

@@ -1,0 +1,85 @@
+import { z } from 'zod';
+import { newtonKernel } from '../solvers/types';
+import { G } from '../units';
+import { pairPotentialEnergy, scratchFor } from './pairwise';
+import { defineLaw, type LawInfo } from './types';
+
+const schema = z
+  .object({
+    kind: z.literal('halo'),
+    profile: z
+      .enum(['nfw', 'cored-isothermal'])
+      .describe('nfw: rho = rho0 / (x (1+x)^2) (Navarro, Frenk & White 1996); cored-isothermal: rho = rho0 / (1 + x^2); x = r / scale'),
+    scale_kpc: z.number().positive().max(1000).describe('NFW scale radius or isothermal core radius'),
+    density_Msun_kpc3: z.number().positive().max(1e12).describe('characteristic density rho0'),
+  })
+  .describe('Newtonian gravity plus a static spherical dark halo fixed at the origin');
+
+type HaloParams = z.infer<typeof schema>;
+
+/** Halo mass inside r, Msun. */
+export function haloEnclosedMass(p: HaloParams, r: number): number {
+  const x = r / p.scale_kpc;
+  const m0 = 4 * Math.PI * p.density_Msun_kpc3 * p.scale_kpc ** 3;
+  if (p.profile === 'nfw') return m0 * (Math.log1p(x) - x / (1 + x));
+  return m0 * (x - Math.atan(x));
+}
+
+/** Halo potential, (km/s)^2. NFW is zero at infinity; the isothermal one (divergent there) is zero at the centre. */
+export function haloPotential(p: HaloParams, r: number): number {
+  const x = r / p.scale_kpc;
+  const k = 4 * Math.PI * G * p.density_Msun_kpc3 * p.scale_kpc ** 2;
+  if (p.profile === 'nfw') return x === 0 ? -k : (-k * Math.log1p(x)) / x;
+  if (x < 1e-4) return (k * x * x) / 6; // series of the form below, which cancels badly near 0
+  return k * (Math.atan(x) / x - 1 + 0.5 * Math.log1p(x * x));
+}
+
+/** Magnitude of the halo's pull toward the origin, (km/s)^2/kpc. */
+export function haloAcceleration(p: HaloParams, r: number): number {
+  return r === 0 ? 0 : (G * haloEnclosedMass(p, r)) / (r * r);
+}
+
+const info = (p: HaloParams): LawInfo => ({
+  kind: 'halo',
+  label: p.profile === 'nfw' ? 'Newtonian + NFW halo' : 'Newtonian + cored isothermal halo',
+  conservesEnergy: true,
+  conservesMomentum: false,
+  conservesAngularMomentum: true,
+  hasPotential: true,
+  validity: 'A rigid halo that does not respond to the particles: fine for a settled galaxy, not for mergers that would heat or move the halo.',
+  notes: 'The halo is an external field fixed at the origin, so total momentum is not conserved; energy and angular momentum about the origin are.',
+});
+
+export const haloLaw = defineLaw({
+  kind: 'halo',
+  schema,
+  info,
+  create(params, { solver, softening_kpc }) {
+    const kernel = newtonKernel(softening_kpc);
+    const scratch = scratchFor();
+    return {
+      info: info(params),
+      accelerations(sources, targets, out) {
+        solver.field(sources, targets, kernel, out);
+        for (let i = 0; i < targets.x.length; i++) {
+          const x = targets.x[i], y = targets.y[i], z = targets.z[i];
+          const r = Math.sqrt(x * x + y * y + z * z);
+          if (r === 0) continue;
+          const g = haloAcceleration(params, r) / r;
+          out.ax[i] -= g * x;
+          out.ay[i] -= g * y;
+          out.az[i] -= g * z;
+        }
+      },
+      potentialEnergy(sources) {
+        let w = pairPotentialEnergy(solver, kernel, sources, scratch);
+        for (let i = 0; i < sources.m.length; i++) {
+          const r = Math.hypot(sources.x[i], sources.y[i], sources.z[i]);
+          w += sources.m[i] * haloPotential(params, r);
+        }
+        return w;
+      },
+    };
+  },
+  modelAcceleration: (params, model, R) => model.newtonAccel(R) + haloAcceleration(params, R),
+});

@@ -1,0 +1,83 @@
+import { z } from 'zod';
+import { newtonKernel } from '../solvers/types';
+import { accelFromSI } from '../units';
+import { defineLaw, type LawInfo } from './types';
+
+const schema = z
+  .object({
+    kind: z.literal('mond'),
+    interpolation: z
+      .enum(['simple', 'standard', 'rar'])
+      .default('simple')
+      .describe('simple (Famaey & Binney 2005), standard (Milgrom 1983), rar: the radial-acceleration-relation fit (McGaugh, Lelli & Schombert 2016)'),
+    a0_m_s2: z
+      .number()
+      .min(1e-12)
+      .max(1e-8)
+      .default(1.2e-10)
+      .describe('acceleration scale; 1.2e-10 m/s^2 as in Begeman, Broeils & Sanders 1991'),
+  })
+  .describe('MOND, algebraic form: a = nu(|g_N|/a0) g_N on each particle');
+
+type MondParams = z.infer<typeof schema>;
+
+/** nu(y) with y = |g_N| / a0 > 0: the boost of the Newtonian field. */
+export function mondNu(interpolation: MondParams['interpolation'], y: number): number {
+  switch (interpolation) {
+    case 'simple':
+      return 0.5 + Math.sqrt(0.25 + 1 / y);
+    case 'standard':
+      return Math.sqrt(0.5 + 0.5 * Math.sqrt(1 + 4 / (y * y)));
+    case 'rar':
+      return 1 / -Math.expm1(-Math.sqrt(y));
+  }
+}
+
+/** |g| from |g_N|, both (km/s)^2/kpc. */
+export function mondAcceleration(p: MondParams, gN: number): number {
+  if (gN <= 0) return 0;
+  const a0 = accelFromSI(p.a0_m_s2);
+  return mondNu(p.interpolation, gN / a0) * gN;
+}
+
+const LABELS: Record<MondParams['interpolation'], string> = {
+  simple: 'MOND (simple nu)',
+  standard: 'MOND (standard nu)',
+  rar: 'MOND (RAR nu)',
+};
+
+const info = (p: MondParams): LawInfo => ({
+  kind: 'mond',
+  label: LABELS[p.interpolation],
+  conservesEnergy: false,
+  conservesMomentum: false,
+  conservesAngularMomentum: false,
+  hasPotential: false,
+  validity:
+    'The algebraic form is exact only for symmetric (spherical, cylindrical, planar) configurations; elsewhere it approximates the field equations (QUMOND, Milgrom 2010), which this engine does not solve.',
+  notes: 'No pairwise potential: energy and momentum are not conserved and their drift measures the law, not the integrator.',
+});
+
+export const mondLaw = defineLaw({
+  kind: 'mond',
+  schema,
+  info,
+  create(params, { solver, softening_kpc }) {
+    const kernel = newtonKernel(softening_kpc);
+    return {
+      info: info(params),
+      accelerations(sources, targets, out) {
+        solver.field(sources, targets, kernel, out);
+        for (let i = 0; i < targets.x.length; i++) {
+          const gN = Math.hypot(out.ax[i], out.ay[i], out.az[i]);
+          if (gN === 0) continue;
+          const boost = mondAcceleration(params, gN) / gN;
+          out.ax[i] *= boost;
+          out.ay[i] *= boost;
+          out.az[i] *= boost;
+        }
+      },
+    };
+  },
+  modelAcceleration: (params, model, R) => mondAcceleration(params, model.newtonAccel(R)),
+});

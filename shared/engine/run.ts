@@ -1,0 +1,189 @@
+import type { RunSpec } from '../spec/runSpec';
+import { particleCount } from '../spec/runSpec';
+import { analyticCurves, CURVE_BINS, type AnalyticCurves } from './analytic';
+import { sampleDiagnostics, type DiagnosticSample, type DriftReference } from './diagnostics';
+import type { LawInfo } from './laws/types';
+import type { Component } from './models';
+import { measureRotationCurve, type RotationCurve } from './rotationCurves';
+import { Simulation } from './simulation';
+import { timescalesFor, type EngineWarning, type Timescales } from './timescales';
+
+export interface RunProgress {
+  step: number;
+  totalSteps: number;
+  percent: number;
+  time_Myr: number;
+  /** Latest relative energy drift; null before the first sample after t = 0 or without a potential. */
+  energyDrift: number | null;
+}
+
+export interface RunHooks {
+  onProgress?(p: RunProgress): void;
+  shouldCancel?(): boolean;
+  /** Upper bound on particles stored per snapshot (default 5000). */
+  maxSnapshotParticles?: number;
+  /** Also store velocities in snapshots (default false). */
+  snapshotVelocities?: boolean;
+}
+
+export interface Snapshot {
+  step: number;
+  time_Myr: number;
+  /** x, y, z interleaved, kpc, for the particles listed in RunResult.snapshotParticles. */
+  positions: Float32Array;
+  /** vx, vy, vz interleaved, km/s, when requested. */
+  velocities?: Float32Array;
+}
+
+/** How to read each conserved quantity of this run. */
+export type QuantityMeaning = 'conserved' | 'not-conserved' | 'undefined';
+
+export interface RunSummary {
+  particleCount: number;
+  totalSteps: number;
+  stepsCompleted: number;
+  forceEvaluations: number;
+  finalTime_Myr: number;
+  /** Final and largest absolute relative energy drift; null without a potential. */
+  finalEnergyDrift: number | null;
+  maxAbsEnergyDrift: number | null;
+  finalMomentumDrift: number;
+  finalAngularMomentumDrift: number;
+  /** What the law says about each quantity, so a drift can be read as integrator error or as physics. */
+  quantities: { energy: QuantityMeaning; momentum: QuantityMeaning; angularMomentum: QuantityMeaning };
+}
+
+export interface RunResult {
+  cancelled: boolean;
+  law: LawInfo;
+  timescales: Timescales;
+  warnings: EngineWarning[];
+  components: Component[];
+  diagnostics: DiagnosticSample[];
+  /** Particle indices stored in every snapshot, in order. */
+  snapshotParticles: number[];
+  snapshots: Snapshot[];
+  rotationCurves: { initial: RotationCurve; final: RotationCurve; analytic: AnalyticCurves };
+  summary: RunSummary;
+  /** Units of the unnamed numbers above. */
+  units: { energy: string; momentum: string; angularMomentum: string };
+}
+
+export const RESULT_UNITS = {
+  energy: 'Msun (km/s)^2',
+  momentum: 'Msun km/s',
+  angularMomentum: 'Msun kpc km/s',
+} as const;
+
+/** Default samples when the spec does not say: about 200 (common practice for a smooth drift plot). */
+const DEFAULT_DIAGNOSTIC_SAMPLES = 200;
+
+/** An evenly spread subset of indices, the same for every snapshot. */
+function snapshotSubset(n: number, max: number): Uint32Array {
+  if (n <= max) return Uint32Array.from({ length: n }, (_, i) => i);
+  return Uint32Array.from({ length: max }, (_, k) => Math.floor((k * n) / max));
+}
+
+/** Runs a spec to completion (or cancellation). Synchronous and pure: same spec, same result, bit for bit. */
+export function runSimulation(spec: RunSpec, hooks: RunHooks = {}): RunResult {
+  const sim = new Simulation(spec);
+  const { timescales, warnings } = timescalesFor(spec, sim.initial);
+  const total = sim.totalSteps;
+  const diagEvery = spec.diagnosticsEvery ?? Math.max(1, Math.ceil(total / DEFAULT_DIAGNOSTIC_SAMPLES));
+  const progressEvery = Math.max(1, Math.floor(total / 100));
+  const subset = snapshotSubset(sim.particles.n, hooks.maxSnapshotParticles ?? 5000);
+  const curveRadius = sim.initial.massModel.extent_kpc;
+  const info = sim.law.info;
+
+  const diagnostics: DiagnosticSample[] = [];
+  const snapshots: Snapshot[] = [];
+  let reference: DriftReference | null = null;
+  let latestDrift: number | null = null;
+
+  const diagnose = () => {
+    const out = sampleDiagnostics(sim.particles, sim.law, sim.state.step, sim.time_Myr, reference, null);
+    reference = out.reference;
+    diagnostics.push(out.sample);
+    latestDrift = out.sample.energyDrift;
+  };
+  const snapshot = () => {
+    const p = sim.particles;
+    const positions = new Float32Array(3 * subset.length);
+    const velocities = hooks.snapshotVelocities ? new Float32Array(3 * subset.length) : undefined;
+    subset.forEach((i, k) => {
+      positions[3 * k] = p.x[i]; positions[3 * k + 1] = p.y[i]; positions[3 * k + 2] = p.z[i];
+      if (velocities) {
+        velocities[3 * k] = p.vx[i]; velocities[3 * k + 1] = p.vy[i]; velocities[3 * k + 2] = p.vz[i];
+      }
+    });
+    snapshots.push({ step: sim.state.step, time_Myr: sim.time_Myr, positions, ...(velocities ? { velocities } : {}) });
+  };
+  const report = () =>
+    hooks.onProgress?.({
+      step: sim.state.step,
+      totalSteps: total,
+      percent: (100 * sim.state.step) / total,
+      time_Myr: sim.time_Myr,
+      energyDrift: latestDrift,
+    });
+
+  const initialCurve = measureRotationCurve(sim.particles, sim.law, curveRadius, CURVE_BINS, 0, 0);
+  diagnose();
+  snapshot();
+  report();
+
+  let cancelled = false;
+  while (!sim.done) {
+    if (hooks.shouldCancel?.()) {
+      cancelled = true;
+      break;
+    }
+    sim.advance();
+    const step = sim.state.step;
+    const last = sim.done;
+    const diagNow = step % diagEvery === 0 || last;
+    if (diagNow) diagnose();
+    if (step % spec.snapshotEvery === 0 || last) snapshot();
+    if (diagNow || step % progressEvery === 0) report();
+  }
+  // A cancelled run still ends with a sample and a frame of where it stopped.
+  if (cancelled && diagnostics[diagnostics.length - 1].step !== sim.state.step) {
+    diagnose();
+    snapshot();
+    report();
+  }
+
+  const finalCurve = measureRotationCurve(sim.particles, sim.law, curveRadius, CURVE_BINS, sim.state.step, sim.time_Myr);
+  const last = diagnostics[diagnostics.length - 1];
+  const drifts = diagnostics.map((d) => d.energyDrift).filter((d): d is number => d !== null);
+  const meaning = (conserved: boolean, defined = true): QuantityMeaning => (!defined ? 'undefined' : conserved ? 'conserved' : 'not-conserved');
+
+  return {
+    cancelled,
+    law: info,
+    timescales,
+    warnings,
+    components: sim.initial.components,
+    diagnostics,
+    snapshotParticles: Array.from(subset),
+    snapshots,
+    rotationCurves: { initial: initialCurve, final: finalCurve, analytic: analyticCurves(spec) },
+    summary: {
+      particleCount: particleCount(spec),
+      totalSteps: total,
+      stepsCompleted: sim.state.step,
+      forceEvaluations: sim.forceEvaluations,
+      finalTime_Myr: sim.time_Myr,
+      finalEnergyDrift: last.energyDrift,
+      maxAbsEnergyDrift: drifts.length ? Math.max(...drifts.map(Math.abs)) : null,
+      finalMomentumDrift: last.momentumDrift,
+      finalAngularMomentumDrift: last.angularMomentumDrift,
+      quantities: {
+        energy: meaning(info.conservesEnergy, info.hasPotential),
+        momentum: meaning(info.conservesMomentum),
+        angularMomentum: meaning(info.conservesAngularMomentum),
+      },
+    },
+    units: { ...RESULT_UNITS },
+  };
+}

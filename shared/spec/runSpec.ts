@@ -1,0 +1,257 @@
+import { z } from 'zod';
+import { lawSchema } from '../engine/laws/registry';
+
+/**
+ * The run spec: one versioned document that fully determines a run. The same
+ * spec (seed included) gives bit-identical results. Units sit in field names:
+ * kpc, km/s, Msun, Myr at the interface.
+ */
+export const RUN_SPEC_VERSION = 1 as const;
+
+/** Hard limits: the engine refuses anything beyond them. */
+export const LIMITS = {
+  maxParticles: 100_000,
+  maxSteps: 200_000,
+  maxTableRows: 20_000,
+  /** Snapshots and diagnostic samples are kept in memory and shipped to the browser. */
+  maxSnapshots: 1_000,
+  maxDiagnostics: 2_000,
+} as const;
+
+const count = z.number().int().min(2).max(LIMITS.maxParticles).describe('number of particles');
+const mass = z.number().positive().max(1e15);
+const length = z.number().positive().max(1e4);
+const truncation = length.optional().describe('no particle is placed beyond this radius; defaults per model');
+
+const plummerSchema = z
+  .object({
+    kind: z.literal('plummer'),
+    n: count,
+    mass_Msun: mass,
+    scale_kpc: length.describe('Plummer radius a'),
+    truncationRadius_kpc: truncation,
+  })
+  .describe('Plummer sphere, sampled as Aarseth, Henon & Wielen (1974)');
+
+const hernquistSchema = z
+  .object({
+    kind: z.literal('hernquist'),
+    n: count,
+    mass_Msun: mass,
+    scale_kpc: length.describe('Hernquist scale radius a'),
+    truncationRadius_kpc: truncation,
+  })
+  .describe('Hernquist (1990) sphere with its isotropic distribution function');
+
+const diskSchema = z
+  .object({
+    kind: z.literal('disk'),
+    n: count.describe('number of particles, disk and bulge together'),
+    mass_Msun: mass.describe('disk mass'),
+    scaleLength_kpc: length.describe('exponential scale length R_d'),
+    scaleHeight_kpc: length.describe('sech^2 scale height z0: rho ~ sech^2(z / z0)'),
+    toomreQ: z.number().min(0.5).max(10).default(1.5).describe('Toomre (1964) stability parameter setting the radial dispersion'),
+    truncationRadius_kpc: truncation,
+    bulge: z
+      .object({ mass_Msun: mass, scale_kpc: length.describe('Hernquist scale radius of the bulge') })
+      .optional()
+      .describe('optional Hernquist bulge; particles are shared out in proportion to mass'),
+    equilibriumLaw: lawSchema
+      .optional()
+      .describe('law whose circular speed sets the disk velocities; defaults to the run\'s law (set it to compare laws from identical initial conditions)'),
+  })
+  .describe('Exponential disk (Freeman 1970) with sech^2 vertical profile');
+
+const systemSchema = z.discriminatedUnion('kind', [plummerSchema, hernquistSchema, diskSchema]);
+
+const encounterSchema = z
+  .object({
+    kind: z.literal('encounter'),
+    primary: systemSchema,
+    secondary: systemSchema,
+    pericentre_kpc: length.describe('pericentre of the parabolic point-mass orbit'),
+    initialSeparation_kpc: length.describe('starting distance between the two centres'),
+    primaryTilt_deg: z.number().min(-180).max(180).default(0).describe('rotation of the primary about the x axis (orbit in the x-y plane)'),
+    secondaryTilt_deg: z.number().min(-180).max(180).default(0),
+  })
+  .describe('Two systems approaching on a parabolic orbit');
+
+const keplerSchema = z
+  .object({
+    kind: z.literal('kepler'),
+    mass1_Msun: mass,
+    mass2_Msun: mass,
+    semiMajorAxis_kpc: length,
+    eccentricity: z.number().min(0).max(0.99).default(0),
+  })
+  .describe('Two bodies on a Kepler orbit, starting at pericentre');
+
+const coordinate = z.number().min(-1e5).max(1e5);
+const speed = z.number().min(-1e5).max(1e5);
+const tableSchema = z
+  .object({
+    kind: z.literal('table'),
+    particles: z
+      .array(
+        z.object({
+          x_kpc: coordinate, y_kpc: coordinate, z_kpc: coordinate,
+          vx_km_s: speed, vy_km_s: speed, vz_km_s: speed,
+          mass_Msun: mass,
+        }),
+      )
+      .min(2)
+      .max(LIMITS.maxTableRows),
+    recentre: z.boolean().default(true).describe('move the particles into their centre-of-mass frame'),
+  })
+  .describe('Uploaded particles');
+
+export const modelSchema = z.discriminatedUnion('kind', [
+  keplerSchema,
+  plummerSchema,
+  hernquistSchema,
+  diskSchema,
+  encounterSchema,
+  tableSchema,
+]);
+
+export const solverSchema = z.discriminatedUnion('kind', [
+  z.object({ kind: z.literal('direct') }).describe('direct pairwise sum'),
+  z
+    .object({ kind: z.literal('tree'), theta: z.number().min(0.1).max(1.5).default(0.6).describe('opening angle') })
+    .describe('Barnes & Hut (1986) octree'),
+]);
+
+export const integratorSchema = z
+  .enum(['leapfrog', 'yoshida4', 'rk4'])
+  .describe('leapfrog kick-drift-kick; fourth-order symplectic (Yoshida 1990); classical RK4 (not symplectic)');
+
+export const runSpecSchema = z
+  .object({
+    version: z.literal(RUN_SPEC_VERSION),
+    name: z.string().max(200).optional(),
+    model: modelSchema,
+    law: lawSchema,
+    integrator: integratorSchema.default('leapfrog'),
+    solver: solverSchema.default({ kind: 'direct' }),
+    timestep_Myr: z.number().positive().max(1e4),
+    duration_Myr: z.number().positive().max(1e6),
+    softening_kpc: z.number().min(0).max(100).describe('Plummer softening length eps'),
+    snapshotEvery: z.number().int().min(1).describe('steps between snapshots'),
+    diagnosticsEvery: z.number().int().min(1).optional().describe('steps between diagnostic samples; default gives about 200'),
+    seed: z.number().int().min(0).max(4_294_967_295).default(1),
+  })
+  .superRefine((spec, ctx) => {
+    const steps = stepsFor(spec.duration_Myr, spec.timestep_Myr);
+    if (!Number.isFinite(steps)) return; // the fields themselves are already reported
+    if (steps > LIMITS.maxSteps) {
+      ctx.addIssue({
+        code: 'custom',
+        path: ['duration_Myr'],
+        message: `duration_Myr / timestep_Myr gives ${steps} steps; at most ${LIMITS.maxSteps} are allowed`,
+      });
+    }
+    if (Number.isInteger(spec.snapshotEvery) && Math.floor(steps / spec.snapshotEvery) + 1 > LIMITS.maxSnapshots) {
+      ctx.addIssue({
+        code: 'custom',
+        path: ['snapshotEvery'],
+        message: `snapshotEvery ${spec.snapshotEvery} gives more than ${LIMITS.maxSnapshots} snapshots over ${steps} steps; use at least ${Math.ceil(steps / (LIMITS.maxSnapshots - 1))}`,
+      });
+    }
+    if (spec.diagnosticsEvery !== undefined && Math.floor(steps / spec.diagnosticsEvery) + 1 > LIMITS.maxDiagnostics) {
+      ctx.addIssue({
+        code: 'custom',
+        path: ['diagnosticsEvery'],
+        message: `diagnosticsEvery ${spec.diagnosticsEvery} gives more than ${LIMITS.maxDiagnostics} samples; use at least ${Math.ceil(steps / (LIMITS.maxDiagnostics - 1))}`,
+      });
+    }
+    const m = spec.model;
+    if (m?.kind === 'encounter' && m.primary && m.secondary) {
+      if (m.primary.n + m.secondary.n > LIMITS.maxParticles) {
+        ctx.addIssue({ code: 'custom', path: ['model', 'secondary', 'n'], message: `primary.n + secondary.n must be at most ${LIMITS.maxParticles}` });
+      }
+      if (m.initialSeparation_kpc < m.pericentre_kpc) {
+        ctx.addIssue({ code: 'custom', path: ['model', 'initialSeparation_kpc'], message: 'initialSeparation_kpc must be at least pericentre_kpc' });
+      }
+    }
+  });
+
+export type RunSpec = z.infer<typeof runSpecSchema>;
+/** What a client may send: defaults not yet filled in. */
+export type RunSpecInput = z.input<typeof runSpecSchema>;
+export type ModelSpec = RunSpec['model'];
+export type SystemSpec = z.infer<typeof systemSchema>;
+export type DiskSpec = z.infer<typeof diskSchema>;
+export type SolverSpec = RunSpec['solver'];
+export type IntegratorKind = RunSpec['integrator'];
+export type { LawSpec, LawKind } from '../engine/laws/registry';
+
+export type SpecIssue = { path: string; message: string };
+
+export function parseRunSpec(input: unknown): { ok: true; spec: RunSpec } | { ok: false; issues: SpecIssue[] } {
+  const result = runSpecSchema.safeParse(input);
+  if (result.success) return { ok: true, spec: result.data };
+  return {
+    ok: false,
+    issues: result.error.issues.map((i) => ({ path: i.path.map(String).join('.') || '(spec)', message: i.message })),
+  };
+}
+
+// A hair of tolerance so 100 / 0.1 counts as 1000 steps, not 1001.
+const stepsFor = (duration_Myr: number, timestep_Myr: number): number =>
+  Math.max(1, Math.ceil(duration_Myr / timestep_Myr - 1e-9));
+
+/** Steps the run takes; the last one ends at stepCount * timestep_Myr (at or just past duration_Myr). */
+export const stepCount = (spec: RunSpec): number => stepsFor(spec.duration_Myr, spec.timestep_Myr);
+
+export function particleCount(spec: RunSpec): number {
+  const m = spec.model;
+  switch (m.kind) {
+    case 'kepler':
+      return 2;
+    case 'table':
+      return m.particles.length;
+    case 'encounter':
+      return m.primary.n + m.secondary.n;
+    default:
+      return m.n;
+  }
+}
+
+/** Force evaluations per step: leapfrog 1, Yoshida's scheme 3 (one per sub-step), RK4 4. */
+export const FORCE_EVALUATIONS_PER_STEP: Record<IntegratorKind, number> = { leapfrog: 1, yoshida4: 3, rk4: 4 };
+
+/**
+ * Quota cost in pair interactions. Direct sum: every target visits every
+ * source, N^2 per force evaluation. Tree: our own estimate of
+ * N * 24 * log2(N) per evaluation at theta 0.6 (a typical count of accepted
+ * nodes and leaf pairs per target), scaled by (0.6 / theta)^2 since the
+ * number of accepted nodes grows roughly as theta^-2; it is never more than
+ * the direct cost. Both multiply by evaluations per step and steps.
+ */
+export function estimateInteractions(spec: RunSpec): number {
+  const n = particleCount(spec);
+  const perEval =
+    spec.solver.kind === 'direct'
+      ? n * n
+      : Math.min(n * n, n * 24 * Math.log2(Math.max(2, n)) * (0.6 / spec.solver.theta) ** 2);
+  return Math.round(perEval * FORCE_EVALUATIONS_PER_STEP[spec.integrator] * stepCount(spec));
+}
+
+/** A small valid run: a 500-particle Plummer sphere under Newton for about 5 crossing times. */
+export function defaultRunSpec(): RunSpec {
+  const parsed = parseRunSpec({
+    version: RUN_SPEC_VERSION,
+    name: 'Plummer sphere (invented example)',
+    model: { kind: 'plummer', n: 500, mass_Msun: 1e10, scale_kpc: 1 },
+    law: { kind: 'newton' },
+    integrator: 'leapfrog',
+    solver: { kind: 'direct' },
+    timestep_Myr: 0.5,
+    duration_Myr: 100,
+    softening_kpc: 0.05,
+    snapshotEvery: 10,
+    seed: 1,
+  });
+  if (!parsed.ok) throw new Error(`default spec is invalid: ${JSON.stringify(parsed.issues)}`);
+  return parsed.spec;
+}

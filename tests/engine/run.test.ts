@@ -1,0 +1,71 @@
+import { defaultRunSpec, parseRunSpec, type RunSpec } from '../../shared/spec';
+import { lawInfo, precheck, runSimulation, type RunProgress } from '../../shared/engine';
+
+function spec(overrides: Record<string, unknown>): RunSpec {
+  const r = parseRunSpec({ ...defaultRunSpec(), ...overrides });
+  if (!r.ok) throw new Error(JSON.stringify(r.issues));
+  return r.spec;
+}
+
+const small = () => spec({ model: { kind: 'plummer', n: 200, mass_Msun: 1e10, scale_kpc: 1 }, timestep_Myr: 0.25, duration_Myr: 10, snapshotEvery: 8 });
+
+describe('runSimulation', () => {
+  test('the same spec and seed give bit-identical diagnostics and snapshots; another seed does not', () => {
+    const a = runSimulation(small());
+    const b = runSimulation(small());
+    expect(JSON.stringify(a.diagnostics)).toBe(JSON.stringify(b.diagnostics));
+    expect(a.snapshots.length).toBe(b.snapshots.length);
+    a.snapshots.forEach((s, k) => expect(Buffer.from(s.positions.buffer).equals(Buffer.from(b.snapshots[k].positions.buffer))).toBe(true));
+    const c = runSimulation({ ...small(), seed: 2 });
+    expect(c.diagnostics[0].kineticEnergy).not.toBe(a.diagnostics[0].kineticEnergy);
+  });
+
+  test('progress is reported at least every 1% and the result is JSON apart from the snapshot arrays', () => {
+    const seen: RunProgress[] = [];
+    const r = runSimulation(small(), { onProgress: (p) => seen.push(p) });
+    const steps = r.summary.totalSteps;
+    for (let k = 1; k < seen.length; k++) expect(seen[k].step - seen[k - 1].step).toBeLessThanOrEqual(Math.max(1, Math.floor(steps / 100)));
+    expect(seen[seen.length - 1].percent).toBe(100);
+    const { snapshots, ...rest } = r;
+    expect(JSON.parse(JSON.stringify(rest))).toEqual(rest);
+    expect(snapshots[0].positions).toBeInstanceOf(Float32Array);
+  });
+
+  test('snapshots hold the same subset of at most maxSnapshotParticles particles', () => {
+    const r = runSimulation(small(), { maxSnapshotParticles: 50, snapshotVelocities: true });
+    expect(r.snapshotParticles).toHaveLength(50);
+    for (const s of r.snapshots) {
+      expect(s.positions).toHaveLength(150);
+      expect(s.velocities).toHaveLength(150);
+    }
+    expect(r.snapshots.map((s) => s.step)).toEqual([0, 8, 16, 24, 32, 40]);
+  });
+
+  test('cancellation stops early and returns what exists', () => {
+    let calls = 0;
+    const r = runSimulation(small(), { shouldCancel: () => ++calls > 5 });
+    expect(r.cancelled).toBe(true);
+    expect(r.summary.stepsCompleted).toBe(5);
+    expect(r.diagnostics[r.diagnostics.length - 1].step).toBe(5);
+  });
+
+  test('Newtonian energy drift of a Plummer sphere stays small with leapfrog (bounded error is the symplectic property; 1e-3 is our tolerance for this step size)', () => {
+    const r = runSimulation(small());
+    expect(r.summary.quantities.energy).toBe('conserved');
+    expect(r.summary.maxAbsEnergyDrift!).toBeLessThan(1e-3);
+    expect(r.summary.finalMomentumDrift).toBeLessThan(1e-12);
+  });
+
+  test('precheck reports crossing and relaxation time N/(8 ln N) t_cross (Binney & Tremaine 2008, eq. 1.38)', () => {
+    const { timescales } = precheck(small());
+    expect(timescales.relaxationTime_Myr!).toBeCloseTo((200 / (8 * Math.log(200))) * timescales.crossingTime_Myr, 6);
+  });
+
+  test('law info says which laws conserve what', () => {
+    expect(lawInfo({ kind: 'newton' }).conservesEnergy).toBe(true);
+    const mond = lawInfo({ kind: 'mond', interpolation: 'simple', a0_m_s2: 1.2e-10 });
+    expect(mond.conservesEnergy).toBe(false);
+    expect(mond.conservesMomentum).toBe(false);
+    expect(mond.hasPotential).toBe(false);
+  });
+});
