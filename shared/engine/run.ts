@@ -6,7 +6,9 @@ import type { LawInfo } from './laws/types';
 import type { Component } from './models';
 import { measureRotationCurve, type RotationCurve } from './rotationCurves';
 import { Simulation } from './simulation';
+import type { ParticleState } from './state';
 import { timescalesFor, type EngineWarning, type Timescales } from './timescales';
+import { toomreProfile } from './toomre';
 
 export interface RunProgress {
   step: number;
@@ -78,6 +80,10 @@ export const RESULT_UNITS = {
 /** Default samples when the spec does not say: about 200 (common practice for a smooth drift plot). */
 const DEFAULT_DIAGNOSTIC_SAMPLES = 200;
 
+/** Toomre Q is profiled in this many bins out to this many scale lengths (where the disk has particles enough). */
+const TOOMRE_BINS = 10;
+const TOOMRE_RANGE_SCALE_LENGTHS = 4;
+
 /** An evenly spread subset of indices, the same for every snapshot. */
 function snapshotSubset(n: number, max: number): Uint32Array {
   if (n <= max) return Uint32Array.from({ length: n }, (_, i) => i);
@@ -100,8 +106,15 @@ export function runSimulation(spec: RunSpec, hooks: RunHooks = {}): RunResult {
   let reference: DriftReference | null = null;
   let latestDrift: number | null = null;
 
+  const diskPart = spec.model.kind === 'disk' ? sim.initial.components.find((c) => c.label === 'disk') : undefined;
+  const diskModel = spec.model.kind === 'disk' ? spec.model : null;
+  const toomre =
+    diskPart && diskModel
+      ? (p: ParticleState) => toomreProfile(p, sim.law, diskPart, TOOMRE_RANGE_SCALE_LENGTHS * diskModel.scaleLength_kpc, TOOMRE_BINS)
+      : null;
+
   const diagnose = () => {
-    const out = sampleDiagnostics(sim.particles, sim.law, sim.state.step, sim.time_Myr, reference, null);
+    const out = sampleDiagnostics(sim.particles, sim.law, sim.state.step, sim.time_Myr, reference, toomre);
     reference = out.reference;
     diagnostics.push(out.sample);
     latestDrift = out.sample.energyDrift;

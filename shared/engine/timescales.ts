@@ -127,6 +127,7 @@ export function timescalesFor(spec: RunSpec, ic: InitialConditions): { timescale
       source: info.notes,
     });
   }
+  warnings.push(...modelAndMethodNotes(spec, n));
   const steps = stepCount(spec);
   return {
     timescales: {
@@ -142,4 +143,65 @@ export function timescalesFor(spec: RunSpec, ic: InitialConditions): { timescale
     },
     warnings,
   };
+}
+
+/** Below this many particles the tree saves nothing over the exact sum (common practice, confirmed by this engine's timings). */
+const TREE_WORTHWHILE_N = 2000;
+
+/** Notes on the pairing of model, law and method that the numbers above cannot show. */
+function modelAndMethodNotes(spec: RunSpec, n: number): EngineWarning[] {
+  const notes: EngineWarning[] = [];
+  const m = spec.model;
+  const flattened = m.kind === 'disk' || m.kind === 'encounter';
+  if (spec.law.kind === 'emergent' && (flattened || m.kind === 'table')) {
+    notes.push({
+      code: 'outside-validity',
+      severity: flattened ? 'warning' : 'info',
+      message: flattened
+        ? 'emergent gravity is derived for quasi-static spherical systems; for a disk or an encounter the apparent dark mass from the spherically averaged profile is only an illustration'
+        : 'emergent gravity is derived for quasi-static spherical systems; check that the uploaded system is roughly spherical',
+      source: 'Verlinde 2016',
+    });
+  }
+  if (spec.law.kind === 'mond' && flattened) {
+    notes.push({
+      code: 'algebraic-mond-approximate',
+      severity: 'info',
+      message: 'algebraic MOND is exact only for symmetric configurations; for disks and encounters it approximates the field equations (QUMOND, Milgrom 2010)',
+      source: 'Milgrom 2010',
+    });
+  }
+  if (spec.law.kind === 'halo' && m.kind === 'encounter') {
+    notes.push({
+      code: 'halo-fixed-at-origin',
+      severity: 'warning',
+      message: 'the static halo sits at the origin (the initial centre of mass); both systems move through it, and neither carries a halo of its own',
+      source: 'this engine',
+    });
+  }
+  if (m.kind === 'disk' && m.equilibriumLaw && m.equilibriumLaw.kind !== spec.law.kind) {
+    notes.push({
+      code: 'disk-set-up-for-another-law',
+      severity: 'info',
+      message: `disk velocities balance ${lawInfo(m.equilibriumLaw).label}, not the run's law, so runs under both laws start from identical particles`,
+      source: 'this engine',
+    });
+  }
+  if (spec.solver.kind === 'tree' && n < TREE_WORTHWHILE_N) {
+    notes.push({
+      code: 'tree-not-needed',
+      severity: 'info',
+      message: `with ${n} particles the direct sum is exact and about as fast as the tree`,
+      source: 'common practice',
+    });
+  }
+  if (spec.integrator === 'rk4') {
+    notes.push({
+      code: 'rk4-secular-drift',
+      severity: 'info',
+      message: 'RK4 is not symplectic: its energy error grows steadily with time instead of staying bounded as leapfrog\'s does',
+      source: 'Hairer, Lubich & Wanner 2006, Geometric Numerical Integration (from memory)',
+    });
+  }
+  return notes;
 }

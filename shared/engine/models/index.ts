@@ -1,34 +1,104 @@
-import type { RunSpec } from '../../spec/runSpec';
+import type { RunSpec, SystemSpec } from '../../spec/runSpec';
 import { seedRng, type RngState } from '../rng';
-import { allocateParticles, shiftToCentreOfMassFrame } from '../state';
-import { plummerModel, samplePlummer } from './plummer';
+import { allocateParticles, shiftToCentreOfMassFrame, type ParticleState } from '../state';
+import { diskGalaxyModel, sampleDiskGalaxy } from './disk';
+import { placeOnOrbit, tiltAboutX } from './encounter';
+import { hernquistModel, sampleHernquist } from './hernquist';
+import { keplerModel, placeKeplerPair } from './kepler';
 import type { MassModel } from './massModel';
-import type { InitialConditions } from './types';
+import { plummerModel, samplePlummer } from './plummer';
+import { tableModel, tableParticles } from './table';
+import type { Component, InitialConditions } from './types';
 
 export type { Component, InitialConditions } from './types';
+export type { MassModel } from './massModel';
 
-/** The analytic mass model a spec's particles are drawn from, without drawing them (cheap enough for previews). */
-export function massModelFor(spec: RunSpec): MassModel {
-  const model = spec.model;
-  switch (model.kind) {
+function systemModel(s: SystemSpec, softening_kpc: number): MassModel {
+  switch (s.kind) {
     case 'plummer':
-      return plummerModel(model);
-    default:
-      throw new Error(`model "${model.kind}" is not available yet`);
+      return plummerModel(s);
+    case 'hernquist':
+      return hernquistModel(s);
+    case 'disk':
+      return diskGalaxyModel(s, softening_kpc);
   }
 }
 
-/** Builds the initial particles of a spec from its seed; returns the RNG for whatever draws come later. */
+const systemMass = (s: SystemSpec): number => s.mass_Msun + (s.kind === 'disk' && s.bulge ? s.bulge.mass_Msun : 0);
+
+/** Samples one system into out[start..start+n), centred on its own centre of mass. */
+function sampleSystem(s: SystemSpec, spec: RunSpec, rng: RngState, out: ParticleState, start: number, label: string): Component[] {
+  let parts: Component[];
+  switch (s.kind) {
+    case 'plummer':
+      samplePlummer(s, rng, out, start, s.n);
+      parts = [{ label: 'Plummer sphere', start, count: s.n }];
+      break;
+    case 'hernquist':
+      sampleHernquist(s, rng, out, start, s.n);
+      parts = [{ label: 'Hernquist sphere', start, count: s.n }];
+      break;
+    case 'disk':
+      parts = sampleDiskGalaxy(s, spec.law, spec.softening_kpc, rng, out, start);
+      break;
+  }
+  // Centre this system alone: a view of the subarrays is a particle set of its own.
+  const view = (a: Float64Array) => a.subarray(start, start + s.n);
+  shiftToCentreOfMassFrame({
+    n: s.n, x: view(out.x), y: view(out.y), z: view(out.z), vx: view(out.vx), vy: view(out.vy), vz: view(out.vz),
+    m: view(out.m), ax: view(out.ax), ay: view(out.ay), az: view(out.az),
+  });
+  return label ? parts.map((c) => ({ ...c, label: `${label} ${c.label}` })) : parts;
+}
+
+/**
+ * The analytic mass model a spec's particles are drawn from, without drawing
+ * them (cheap enough for previews). An encounter is represented by its
+ * primary; an uploaded table by its own spherically averaged profile.
+ */
+export function massModelFor(spec: RunSpec): MassModel {
+  const model = spec.model;
+  switch (model.kind) {
+    case 'kepler':
+      return keplerModel(model);
+    case 'encounter':
+      return systemModel(model.primary, spec.softening_kpc);
+    case 'table':
+      return tableModel(model);
+    default:
+      return systemModel(model, spec.softening_kpc);
+  }
+}
+
+/** Builds the initial particles of a spec from its seed, drawing from `rng` (which later draws continue). */
 export function buildInitialConditions(spec: RunSpec, rng: RngState = seedRng(spec.seed)): InitialConditions {
   const model = spec.model;
   switch (model.kind) {
-    case 'plummer': {
-      const particles = allocateParticles(model.n);
-      samplePlummer(model, rng, particles, 0, model.n);
-      shiftToCentreOfMassFrame(particles);
-      return { particles, massModel: massModelFor(spec), components: [{ label: 'Plummer sphere', start: 0, count: model.n }] };
+    case 'kepler': {
+      const particles = allocateParticles(2);
+      placeKeplerPair(model, particles);
+      return { particles, massModel: massModelFor(spec), components: [{ label: 'body 1', start: 0, count: 1 }, { label: 'body 2', start: 1, count: 1 }] };
     }
-    default:
-      throw new Error(`model "${model.kind}" is not available yet`);
+    case 'table': {
+      const particles = tableParticles(model);
+      return { particles, massModel: massModelFor(spec), components: [{ label: 'uploaded', start: 0, count: particles.n }] };
+    }
+    case 'encounter': {
+      const n1 = model.primary.n;
+      const particles = allocateParticles(n1 + model.secondary.n);
+      const components = [
+        ...sampleSystem(model.primary, spec, rng, particles, 0, 'primary'),
+        ...sampleSystem(model.secondary, spec, rng, particles, n1, 'secondary'),
+      ];
+      tiltAboutX(particles, 0, n1, model.primaryTilt_deg);
+      tiltAboutX(particles, n1, model.secondary.n, model.secondaryTilt_deg);
+      placeOnOrbit(particles, model, n1, systemMass(model.primary), systemMass(model.secondary));
+      return { particles, massModel: massModelFor(spec), components };
+    }
+    default: {
+      const particles = allocateParticles(model.n);
+      const components = sampleSystem(model, spec, rng, particles, 0, '');
+      return { particles, massModel: massModelFor(spec), components };
+    }
   }
 }

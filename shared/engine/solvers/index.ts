@@ -1,15 +1,18 @@
 import type { SolverSpec } from '../../spec/runSpec';
 import { directSolver } from './direct';
+import { treeSolver } from './tree';
 import type { FieldSolver } from './types';
 
 export type { FieldSolver, PairKernel } from './types';
 export { directFieldRange, directPotentialRange } from './direct';
+export { buildOctree, treeFieldRange, treePotentialRange } from './tree';
+export type { Octree } from './tree';
 
 export function makeSolver(spec: SolverSpec): FieldSolver {
   switch (spec.kind) {
     case 'direct':
       return directSolver;
-    default:
-      throw new Error(`solver "${spec.kind}" is not available yet`);
+    case 'tree':
+      return treeSolver(spec.theta);
   }
 }

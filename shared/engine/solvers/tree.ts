@@ -1,0 +1,190 @@
+import type { Accelerations, Points, Sources } from '../state';
+import { G } from '../units';
+import { sumPotential, sumPull } from './pair';
+import type { FieldSolver, PairKernel } from './types';
+
+/** Particles per leaf before it splits (common practice: small buckets beat single-particle leaves). */
+const LEAF_SIZE = 8;
+/** Beyond this depth coincident particles share a leaf rather than splitting forever. */
+const MAX_DEPTH = 48;
+
+/**
+ * Barnes & Hut (1986) octree over the sources: cubic cells split into eight,
+ * each holding its mass and centre of mass (monopole). Built by partitioning
+ * an index array, so the same sources always give the same tree.
+ */
+export interface Octree {
+  nodes: number;
+  centreX: Float64Array; centreY: Float64Array; centreZ: Float64Array;
+  halfSize: Float64Array;
+  mass: Float64Array;
+  comX: Float64Array; comY: Float64Array; comZ: Float64Array;
+  /** First child node, or -1 for a leaf; children are stored consecutively. */
+  firstChild: Int32Array;
+  childCount: Uint8Array;
+  /** A leaf's particles are order[leafStart .. leafStart + leafCount). */
+  leafStart: Int32Array;
+  leafCount: Int32Array;
+  order: Uint32Array;
+}
+
+export function buildOctree(src: Sources): Octree {
+  const n = src.m.length;
+  let cap = Math.max(16, 2 * Math.ceil(n / LEAF_SIZE) + 16);
+  const fa = () => new Float64Array(cap);
+  let t: Octree = {
+    nodes: 0,
+    centreX: fa(), centreY: fa(), centreZ: fa(), halfSize: fa(), mass: fa(), comX: fa(), comY: fa(), comZ: fa(),
+    firstChild: new Int32Array(cap), childCount: new Uint8Array(cap), leafStart: new Int32Array(cap), leafCount: new Int32Array(cap),
+    order: Uint32Array.from({ length: n }, (_, i) => i),
+  };
+  const grow = () => {
+    cap *= 2;
+    const g = <T extends Float64Array | Int32Array | Uint8Array>(a: T): T => {
+      const b = new (a.constructor as { new (k: number): T })(cap);
+      b.set(a);
+      return b;
+    };
+    t = { ...t, centreX: g(t.centreX), centreY: g(t.centreY), centreZ: g(t.centreZ), halfSize: g(t.halfSize), mass: g(t.mass),
+      comX: g(t.comX), comY: g(t.comY), comZ: g(t.comZ), firstChild: g(t.firstChild), childCount: g(t.childCount),
+      leafStart: g(t.leafStart), leafCount: g(t.leafCount) };
+  };
+  const alloc = (cx: number, cy: number, cz: number, half: number): number => {
+    if (t.nodes === cap) grow();
+    const k = t.nodes++;
+    t.centreX[k] = cx; t.centreY[k] = cy; t.centreZ[k] = cz; t.halfSize[k] = half;
+    return k;
+  };
+
+  let minX = Infinity, minY = Infinity, minZ = Infinity, maxX = -Infinity, maxY = -Infinity, maxZ = -Infinity;
+  for (let i = 0; i < n; i++) {
+    minX = Math.min(minX, src.x[i]); maxX = Math.max(maxX, src.x[i]);
+    minY = Math.min(minY, src.y[i]); maxY = Math.max(maxY, src.y[i]);
+    minZ = Math.min(minZ, src.z[i]); maxZ = Math.max(maxZ, src.z[i]);
+  }
+  const half = 0.5 * Math.max(maxX - minX, maxY - minY, maxZ - minZ) * (1 + 1e-9) || 1e-9;
+  const root = alloc(0.5 * (minX + maxX), 0.5 * (minY + maxY), 0.5 * (minZ + maxZ), half);
+
+  const scratch = new Uint32Array(n);
+  const octantOf = new Uint8Array(n);
+  const split = (node: number, start: number, end: number, depth: number): void => {
+    let M = 0, mx = 0, my = 0, mz = 0;
+    for (let s = start; s < end; s++) {
+      const i = t.order[s], m = src.m[i];
+      M += m; mx += m * src.x[i]; my += m * src.y[i]; mz += m * src.z[i];
+    }
+    t.mass[node] = M;
+    t.comX[node] = mx / M; t.comY[node] = my / M; t.comZ[node] = mz / M;
+    if (end - start <= LEAF_SIZE || depth >= MAX_DEPTH) {
+      t.firstChild[node] = -1;
+      t.leafStart[node] = start;
+      t.leafCount[node] = end - start;
+      return;
+    }
+    const cx = t.centreX[node], cy = t.centreY[node], cz = t.centreZ[node], h = 0.5 * t.halfSize[node];
+    const counts = [0, 0, 0, 0, 0, 0, 0, 0];
+    for (let s = start; s < end; s++) {
+      const i = t.order[s];
+      const o = (src.x[i] >= cx ? 1 : 0) | (src.y[i] >= cy ? 2 : 0) | (src.z[i] >= cz ? 4 : 0);
+      octantOf[s] = o;
+      counts[o]++;
+    }
+    // Stable counting sort of this range by octant.
+    const offset = [0, 0, 0, 0, 0, 0, 0, 0];
+    for (let o = 1; o < 8; o++) offset[o] = offset[o - 1] + counts[o - 1];
+    for (let s = start; s < end; s++) scratch[start + offset[octantOf[s]]++] = t.order[s];
+    t.order.set(scratch.subarray(start, end), start);
+    const children: [number, number, number][] = [];
+    let first = -1, at = start;
+    for (let o = 0; o < 8; o++) {
+      if (counts[o] === 0) continue;
+      const child = alloc(cx + (o & 1 ? h : -h), cy + (o & 2 ? h : -h), cz + (o & 4 ? h : -h), h);
+      if (first < 0) first = child;
+      children.push([child, at, at + counts[o]]);
+      at += counts[o];
+    }
+    t.firstChild[node] = first;
+    t.childCount[node] = children.length;
+    for (const [child, s, e] of children) split(child, s, e, depth + 1);
+  };
+  split(root, 0, n, 0);
+  return t;
+}
+
+/**
+ * Collects, for one target, the point masses the walk interacts with:
+ * accepted cells as their monopoles, particles of leaves that must be opened.
+ * A cell is accepted when size < theta * distance to its centre of mass and
+ * the target lies outside it (the second condition is a common-practice guard
+ * against targets sitting inside large, lopsided cells).
+ */
+class InteractionList {
+  x = new Float64Array(256); y = new Float64Array(256); z = new Float64Array(256); m = new Float64Array(256);
+  count = 0;
+  private stack = new Int32Array(8 * MAX_DEPTH + 8);
+
+  private push(x: number, y: number, z: number, m: number): void {
+    if (this.count === this.x.length) {
+      const g = (a: Float64Array) => { const b = new Float64Array(2 * a.length); b.set(a); return b; };
+      this.x = g(this.x); this.y = g(this.y); this.z = g(this.z); this.m = g(this.m);
+    }
+    const k = this.count++;
+    this.x[k] = x; this.y[k] = y; this.z[k] = z; this.m[k] = m;
+  }
+
+  collect(t: Octree, src: Sources, theta2: number, xi: number, yi: number, zi: number): void {
+    this.count = 0;
+    const stack = this.stack;
+    let top = 0;
+    stack[top++] = 0;
+    while (top > 0) {
+      const node = stack[--top];
+      const dx = t.comX[node] - xi, dy = t.comY[node] - yi, dz = t.comZ[node] - zi;
+      const size = 2 * t.halfSize[node];
+      const h = t.halfSize[node];
+      const outside = Math.abs(xi - t.centreX[node]) > h || Math.abs(yi - t.centreY[node]) > h || Math.abs(zi - t.centreZ[node]) > h;
+      if (outside && size * size < theta2 * (dx * dx + dy * dy + dz * dz)) {
+        this.push(t.comX[node], t.comY[node], t.comZ[node], t.mass[node]);
+      } else if (t.firstChild[node] < 0) {
+        for (let s = t.leafStart[node], e = s + t.leafCount[node]; s < e; s++) {
+          const i = t.order[s];
+          this.push(src.x[i], src.y[i], src.z[i], src.m[i]);
+        }
+      } else {
+        for (let c = 0; c < t.childCount[node]; c++) stack[top++] = t.firstChild[node] + c;
+      }
+    }
+  }
+}
+
+/** Tree field at targets iStart..iEnd-1; each target's result depends only on the tree and itself, so ranges can be split across threads. */
+export function treeFieldRange(
+  tree: Octree, sources: Sources, targets: Points, kernel: PairKernel, theta: number, iStart: number, iEnd: number, out: Accelerations,
+): void {
+  const list = new InteractionList();
+  const acc = new Float64Array(3);
+  for (let i = iStart; i < iEnd; i++) {
+    list.collect(tree, sources, theta * theta, targets.x[i], targets.y[i], targets.z[i]);
+    acc.fill(0);
+    sumPull(list.x, list.y, list.z, list.m, list.count, targets.x[i], targets.y[i], targets.z[i], kernel, acc);
+    out.ax[i] = G * acc[0]; out.ay[i] = G * acc[1]; out.az[i] = G * acc[2];
+  }
+}
+
+export function treePotentialRange(
+  tree: Octree, sources: Sources, targets: Points, kernel: PairKernel, theta: number, iStart: number, iEnd: number, out: Float64Array,
+): void {
+  const list = new InteractionList();
+  for (let i = iStart; i < iEnd; i++) {
+    list.collect(tree, sources, theta * theta, targets.x[i], targets.y[i], targets.z[i]);
+    out[i] = -G * sumPotential(list.x, list.y, list.z, list.m, list.count, targets.x[i], targets.y[i], targets.z[i], kernel);
+  }
+}
+
+export function treeSolver(theta: number): FieldSolver {
+  return {
+    kind: 'tree',
+    field: (sources, targets, kernel, out) => treeFieldRange(buildOctree(sources), sources, targets, kernel, theta, 0, targets.x.length, out),
+    potential: (sources, targets, kernel, out) => treePotentialRange(buildOctree(sources), sources, targets, kernel, theta, 0, targets.x.length, out),
+  };
+}
