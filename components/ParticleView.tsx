@@ -4,9 +4,9 @@ import Svg, { Line, Path, Rect, Text as SvgText } from 'react-native-svg';
 import type { SnapshotFrame } from '../shared/api/snapshots';
 import { colors, fonts } from '../constants/theme';
 import { locateFrame, usePlayheadValue, type Playhead } from '../hooks/playback';
+import { dotSize, frameWindow, particlePath, PATH_UNITS_PER_PX, scaleBarLength, type Framing, type Projection } from './particles';
 
-export type Projection = 'xy' | 'xz' | 'yz';
-const AXES: Record<Projection, [number, number]> = { xy: [0, 1], xz: [0, 2], yz: [1, 2] };
+export type { Projection } from './particles';
 
 export interface ParticleViewProps {
   frames: SnapshotFrame[];
@@ -18,84 +18,6 @@ export interface ParticleViewProps {
   maxSize?: number;
 }
 
-interface Framing {
-  cx: number;
-  cy: number;
-  /** Half the side of the square shown, kpc. */
-  half: number;
-}
-
-function percentile(values: Float64Array, q: number): number {
-  const sorted = Float64Array.from(values).sort();
-  return sorted[Math.min(sorted.length - 1, Math.floor(q * sorted.length))] ?? 0;
-}
-
-/**
- * A fixed window for the whole run so motion reads as motion: centred on the first
- * snapshot's median, wide enough for 99% of particles in the first, middle and last
- * snapshots (a few escapers would otherwise shrink everything to a dot).
- */
-export function frameWindow(frames: SnapshotFrame[], projection: Projection): Framing {
-  if (!frames.length || frames[0].positions.length === 0) return { cx: 0, cy: 0, half: 1 };
-  const [a, b] = AXES[projection];
-  const first = frames[0].positions;
-  const n = first.length / 3;
-  const xs = new Float64Array(n);
-  const ys = new Float64Array(n);
-  for (let i = 0; i < n; i++) {
-    xs[i] = first[3 * i + a];
-    ys[i] = first[3 * i + b];
-  }
-  const cx = percentile(xs, 0.5);
-  const cy = percentile(ys, 0.5);
-  const picks = [frames[0], frames[frames.length >> 1], frames[frames.length - 1]];
-  const reach = new Float64Array(n * picks.length);
-  picks.forEach((f, k) => {
-    for (let i = 0; i < n; i++) reach[k * n + i] = Math.max(Math.abs(f.positions[3 * i + a] - cx), Math.abs(f.positions[3 * i + b] - cy));
-  });
-  const half = percentile(reach, 0.99) * 1.1;
-  return { cx, cy, half: half > 0 ? half : 1 };
-}
-
-/** A length for the scale bar: 1, 2 or 5 times a power of ten, about a fifth of the view. */
-export function scaleBarLength(half_kpc: number): number {
-  const target = (2 * half_kpc) / 5;
-  const p = 10 ** Math.floor(Math.log10(target));
-  const m = target / p;
-  return p * (m >= 5 ? 5 : m >= 2 ? 2 : 1);
-}
-
-/**
- * Every particle as a tiny square in one SVG path: one element per frame instead of
- * thousands keeps 5,000 particles well above 30 frames per second on the web.
- */
-export function particlePath(positions: Float32Array, next: Float32Array | null, fraction: number, projection: Projection, win: Framing, size: number, dot: number): string {
-  const [a, b] = AXES[projection];
-  const s = size / (2 * win.half);
-  const mid = size / 2;
-  const n = positions.length / 3;
-  const parts: string[] = new Array(n);
-  let k = 0;
-  const blend = next !== null && fraction > 0;
-  for (let i = 0; i < n; i++) {
-    let u = positions[3 * i + a];
-    let v = positions[3 * i + b];
-    if (blend) {
-      u += (next![3 * i + a] - u) * fraction;
-      v += (next![3 * i + b] - v) * fraction;
-    }
-    const px = mid + (u - win.cx) * s;
-    const py = mid - (v - win.cy) * s;
-    if (px < 0 || py < 0 || px > size || py > size) continue;
-    parts[k++] = `M${px.toFixed(1)} ${py.toFixed(1)}h${dot}v${dot}h-${dot}z`;
-  }
-  parts.length = k;
-  return parts.join('');
-}
-
-function dotSize(n: number): number {
-  return n <= 16 ? 6 : n <= 300 ? 3 : n <= 2500 ? 2 : 1.5;
-}
 
 /** The moving part, re-rendered on each playhead tick while the frame around it stays still. */
 const Cloud = memo(function Cloud({ frames, times, playhead, projection, win, size, color }: { frames: SnapshotFrame[]; times: number[]; playhead: Playhead; projection: Projection; win: Framing; size: number; color: string }) {
@@ -105,7 +27,7 @@ const Cloud = memo(function Cloud({ frames, times, playhead, projection, win, si
   const frame = frames[index];
   const next = blend && index + 1 < frames.length ? frames[index + 1].positions : null;
   const d = frame ? particlePath(frame.positions, next, fraction, projection, win, size, dotSize(frame.positions.length / 3)) : '';
-  return <Path d={d} fill={color} fillOpacity={0.85} testID="particle-cloud" />;
+  return <Path d={d} transform={`scale(${1 / PATH_UNITS_PER_PX})`} fill={color} fillOpacity={0.85} testID="particle-cloud" />;
 });
 
 export function ParticleView({ frames, playhead, projection, color, label, maxSize = 520 }: ParticleViewProps) {

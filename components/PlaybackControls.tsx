@@ -7,6 +7,8 @@ import { ChoiceChips, Toggle } from './fields';
 import type { Projection } from './ParticleView';
 import { Txt } from './Txt';
 
+const STEPS = 150;
+
 export interface PlaybackControlsProps {
   playhead: Playhead;
   times: number[];
@@ -16,7 +18,9 @@ export interface PlaybackControlsProps {
 
 /** Play, pause, step, scrub, speed, projection and blending for one or more particle views. */
 export function PlaybackControls({ playhead, times, projection, onProjection }: PlaybackControlsProps) {
-  const time = usePlayheadValue(playhead, (p) => p.time);
+  // While playing, the controls follow in 1/150 steps of the run rather than every animation
+  // frame, so they cost little while the particles move; paused, they show the exact time.
+  const time = usePlayheadValue(playhead, (p) => (p.playing && p.end > p.start ? p.start + Math.floor(((p.time - p.start) / (p.end - p.start)) * STEPS) * ((p.end - p.start) / STEPS) : p.time));
   const playing = usePlayheadValue(playhead, (p) => p.playing);
   const speed = usePlayheadValue(playhead, (p) => p.speed);
   const blend = usePlayheadValue(playhead, (p) => p.blend);
