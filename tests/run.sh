@@ -21,6 +21,8 @@ export INFALL_OAUTH_PORT="${INFALL_TEST_OAUTH_PORT:-58091}"
 export INFALL_SMTP_PORT="${INFALL_TEST_SMTP_PORT:-58025}"
 export INFALL_OUTBOX_PORT="${INFALL_TEST_OUTBOX_PORT:-58092}"
 export INFALL_PG_FSYNC=off
+# A fresh session secret per test run; none is ever committed.
+export INFALL_SESSION_SECRET="$(head -c 32 /dev/urandom | base64 | tr -d '=+/')"
 export INFALL_WEB_DIR="${INFALL_TEST_WEB_DIR:-dist}"
 export INFALL_URL="http://127.0.0.1:$INFALL_PORT"
 

@@ -4,6 +4,7 @@ import { signIn } from '../../support/auth';
 import { Run, User } from '../../../server/db/entities';
 import { notifyRunEnded } from '../../../server/services/notifications';
 import { defaultRunSpec } from '../../../shared/spec';
+import { config } from '../../../server/config';
 
 let s: AuthStack;
 beforeAll(async () => {
@@ -35,7 +36,7 @@ describe('mail through the local sink', () => {
     expect(mail.from).toBe('noreply@infall.localhost');
     expect(mail.text).toContain('has finished');
     expect(mail.text).toContain(`/runs/${run.id}`);
-    expect(mail.html).toContain(`href="http://127.0.0.1:8080/runs/${run.id}"`);
+    expect(mail.html).toContain(`href="${config.publicUrl}/runs/${run.id}"`);
     expect(mail.html).toMatch(/<h1[^>]*>Run finished: Invented disk test<\/h1>/);
   });
 
@@ -59,7 +60,6 @@ describe('mail through the local sink', () => {
     const { user } = await userWithToken(s, 'researcher', 'mail');
     await s.em().nativeUpdate(User, { id: user.id }, { notifyOnFinish: true });
     const run = await runOf(user, 'finished');
-    const { config } = await import('../../../server/config');
     const port = config.mail.smtpPort;
     config.mail.smtpPort = 1; // nothing listens there
     const quiet = jest.spyOn(console, 'error').mockImplementation(() => undefined);
