@@ -3,8 +3,9 @@ import { config } from './config';
 import { openOrm } from './db/orm';
 import { openRunQueue, RunSignals } from './queue';
 import { createApp } from './app';
+import { runProcess } from './process';
 
-async function main() {
+runProcess('server', async () => {
   const orm = await openOrm();
   const queue = openRunQueue();
   const signals = new RunSignals();
@@ -13,17 +14,9 @@ async function main() {
   const server = app.listen(config.port, config.host, () => {
     console.log(`[server] listening on ${config.publicUrl}`);
   });
-  const stop = async () => {
+  return async () => {
     server.close();
     server.closeAllConnections();
     await Promise.allSettled([signals.close(), queue.close(), orm.close()]);
-    process.exit(0);
   };
-  process.once('SIGINT', stop);
-  process.once('SIGTERM', stop);
-}
-
-main().catch((err) => {
-  console.error('[server] could not start:', err);
-  process.exit(1);
 });

@@ -6,8 +6,9 @@ import { redisConnection, type RunJobData } from '../server/queue';
 import { RunPool } from './pool';
 import { runProcessor } from './processor';
 import { notifyRunEnded } from '../server/services/notifications';
+import { runProcess } from '../server/process';
 
-async function main() {
+runProcess('worker', async () => {
   const orm = await openOrm();
   const pool = new RunPool(config.workerThreads);
   const worker = new Worker<RunJobData>(config.queueName, runProcessor({ orm, pool, onEnded: (runId) => notifyRunEnded(orm.em.fork(), runId).then(() => undefined) }), {
@@ -18,17 +19,9 @@ async function main() {
   await worker.waitUntilReady();
   console.log(`[worker] taking runs from "${config.queueName}" with ${config.workerThreads} thread(s)`);
 
-  const stop = async () => {
+  return async () => {
     await worker.close();
     await pool.close();
     await orm.close();
-    process.exit(0);
   };
-  process.once('SIGINT', stop);
-  process.once('SIGTERM', stop);
-}
-
-main().catch((err) => {
-  console.error('[worker] could not start:', err);
-  process.exit(1);
 });

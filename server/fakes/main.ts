@@ -2,21 +2,12 @@
 import { config } from '../config';
 import { startFakeProvider } from './oauth-provider';
 import { startMailSink } from './mail-sink';
+import { runProcess } from '../process';
 
-async function main() {
+runProcess('fakes', async () => {
   const provider = await startFakeProvider({ port: config.auth.fakePort });
   const sink = await startMailSink({ smtpPort: config.mail.smtpPort, httpPort: config.mail.outboxPort });
   console.log(`[fakes] sign-in provider on ${provider.url}/authorize`);
   console.log(`[fakes] mail sink: SMTP on 127.0.0.1:${sink.smtpPort}, outbox at ${sink.outboxUrl}`);
-  const stop = async () => {
-    await Promise.allSettled([provider.close(), sink.close()]);
-    process.exit(0);
-  };
-  process.once('SIGINT', stop);
-  process.once('SIGTERM', stop);
-}
-
-main().catch((err) => {
-  console.error('[fakes] could not start:', err);
-  process.exit(1);
+  return () => Promise.allSettled([provider.close(), sink.close()]);
 });

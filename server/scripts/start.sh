@@ -10,6 +10,11 @@ export INFALL_PORT="${INFALL_PORT:-8080}"
 export INFALL_PG_PORT="${INFALL_PG_PORT:-54329}"
 export INFALL_REDIS_PORT="${INFALL_REDIS_PORT:-63799}"
 mkdir -p "$INFALL_DATA_DIR"
+# Development keeps one random session secret in the data folder, so sign-ins survive a restart.
+if [ -z "${INFALL_SESSION_SECRET:-}" ]; then
+  [ -s "$INFALL_DATA_DIR/session-secret" ] || (umask 077 && head -c 32 /dev/urandom | base64 | tr -d '=+/' >"$INFALL_DATA_DIR/session-secret")
+  export INFALL_SESSION_SECRET="$(cat "$INFALL_DATA_DIR/session-secret")"
+fi
 
 ensure_system_packages
 ensure_node_modules
