@@ -1,6 +1,10 @@
 import type { ForceLaw } from './laws/types';
 import { centreOfMass, type ParticleState } from './state';
 
+// Module-local aliases: inside a vm context (Jest, sandboxes) every global
+// lookup of Math is slow enough to dominate a hot loop.
+const { sqrt, hypot } = Math;
+
 export interface Vector3 {
   x: number;
   y: number;
@@ -68,8 +72,8 @@ function moments(p: ParticleState): Moments {
     px += m * vx; py += m * vy; pz += m * vz;
     const cx = y * vz - z * vy, cy = z * vx - x * vz, cz = x * vy - y * vx;
     lx += m * cx; ly += m * cy; lz += m * cz;
-    pScale += m * Math.sqrt(v2);
-    lScale += m * Math.sqrt(cx * cx + cy * cy + cz * cz);
+    pScale += m * sqrt(v2);
+    lScale += m * sqrt(cx * cx + cy * cy + cz * cz);
   }
   return {
     kinetic: K,
@@ -80,13 +84,13 @@ function moments(p: ParticleState): Moments {
   };
 }
 
-const distance = (a: Vector3, b: Vector3): number => Math.hypot(a.x - b.x, a.y - b.y, a.z - b.z);
+const distance = (a: Vector3, b: Vector3): number => hypot(a.x - b.x, a.y - b.y, a.z - b.z);
 
 /** Radii about the centre of mass enclosing the given mass fractions, kpc. */
 export function lagrangianRadii(p: ParticleState, fractions: readonly number[]): number[] {
   const c = centreOfMass(p);
   const r = new Float64Array(p.n);
-  for (let i = 0; i < p.n; i++) r[i] = Math.hypot(p.x[i] - c.x, p.y[i] - c.y, p.z[i] - c.z);
+  for (let i = 0; i < p.n; i++) r[i] = hypot(p.x[i] - c.x, p.y[i] - c.y, p.z[i] - c.z);
   const order = Uint32Array.from({ length: p.n }, (_, i) => i).sort((a, b) => r[a] - r[b]);
   let M = 0;
   for (let i = 0; i < p.n; i++) M += p.m[i];

@@ -1,5 +1,9 @@
 import type { Sources } from './state';
 
+// Module-local aliases: inside a vm context (Jest, sandboxes) every global
+// lookup of Math is slow enough to dominate a hot loop.
+const { hypot, floor, sqrt, max, min } = Math;
+
 /**
  * Spherically averaged mass profile of a particle set about a centre: the
  * particles sorted by radius are grouped into shells of equal count and the
@@ -16,12 +20,12 @@ export interface RadialMassProfile {
 }
 
 /** Shell count: about sqrt(N) particles per shell, at most 64 shells (common practice for noisy profiles). */
-const shellCount = (n: number): number => Math.max(1, Math.min(64, Math.floor(Math.sqrt(n))));
+const shellCount = (n: number): number => max(1, min(64, floor(sqrt(n))));
 
 export function radialProfile(sources: Sources, cx: number, cy: number, cz: number): RadialMassProfile {
   const n = sources.m.length;
   const r = new Float64Array(n);
-  for (let i = 0; i < n; i++) r[i] = Math.hypot(sources.x[i] - cx, sources.y[i] - cy, sources.z[i] - cz);
+  for (let i = 0; i < n; i++) r[i] = hypot(sources.x[i] - cx, sources.y[i] - cy, sources.z[i] - cz);
   const order = Uint32Array.from({ length: n }, (_, i) => i).sort((a, b) => r[a] - r[b]);
   const shells = shellCount(n);
   const edges = new Float64Array(shells + 1);
@@ -30,7 +34,7 @@ export function radialProfile(sources: Sources, cx: number, cy: number, cz: numb
   let k = 1;
   for (let s = 0; s < n; s++) {
     cumulative += sources.m[order[s]];
-    if (s === Math.floor((k * n) / shells) - 1) {
+    if (s === floor((k * n) / shells) - 1) {
       edges[k] = r[order[s]];
       mass[k] = cumulative;
       k++;

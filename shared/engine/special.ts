@@ -4,6 +4,10 @@
 // about 2e-7 relative; coefficients from memory, checked in the tests against
 // an independent Bessel package). Scaling keeps I_n K_n finite at large x.
 
+// Module-local aliases: inside a vm context (Jest, sandboxes) every global
+// lookup of Math is slow enough to dominate a hot loop.
+const { exp, log, sqrt } = Math;
+
 const poly = (t: number, c: readonly number[]): number => {
   let s = 0;
   for (let k = c.length - 1; k >= 0; k--) s = s * t + c[k];
@@ -21,30 +25,30 @@ const K1_LARGE = [1.25331414, 0.23498619, -0.0365562, 0.01504268, -0.00780353, 0
 
 /** e^-x I0(x), x >= 0. */
 export function i0e(x: number): number {
-  if (x <= 3.75) return poly((x / 3.75) ** 2, I0_SMALL) * Math.exp(-x);
-  return poly(3.75 / x, I0_LARGE) / Math.sqrt(x);
+  if (x <= 3.75) return poly((x / 3.75) ** 2, I0_SMALL) * exp(-x);
+  return poly(3.75 / x, I0_LARGE) / sqrt(x);
 }
 
 /** e^-x I1(x), x >= 0. */
 export function i1e(x: number): number {
-  if (x <= 3.75) return x * poly((x / 3.75) ** 2, I1_SMALL) * Math.exp(-x);
-  return poly(3.75 / x, I1_LARGE) / Math.sqrt(x);
+  if (x <= 3.75) return x * poly((x / 3.75) ** 2, I1_SMALL) * exp(-x);
+  return poly(3.75 / x, I1_LARGE) / sqrt(x);
 }
 
 /** e^x K0(x), x > 0. */
 export function k0e(x: number): number {
   if (x <= 2) {
     const h = x / 2;
-    return (-Math.log(h) * i0e(x) * Math.exp(x) + poly(h * h, K0_SMALL)) * Math.exp(x);
+    return (-log(h) * i0e(x) * exp(x) + poly(h * h, K0_SMALL)) * exp(x);
   }
-  return poly(2 / x, K0_LARGE) / Math.sqrt(x);
+  return poly(2 / x, K0_LARGE) / sqrt(x);
 }
 
 /** e^x K1(x), x > 0. */
 export function k1e(x: number): number {
   if (x <= 2) {
     const h = x / 2;
-    return ((x * Math.log(h) * i1e(x) * Math.exp(x) + poly(h * h, K1_SMALL)) / x) * Math.exp(x);
+    return ((x * log(h) * i1e(x) * exp(x) + poly(h * h, K1_SMALL)) / x) * exp(x);
   }
-  return poly(2 / x, K1_LARGE) / Math.sqrt(x);
+  return poly(2 / x, K1_LARGE) / sqrt(x);
 }

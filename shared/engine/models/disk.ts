@@ -9,6 +9,10 @@ import { hernquistModel, sampleHernquistRadius } from './hernquist';
 import { combinedModel, type MassModel } from './massModel';
 import type { Component } from './types';
 
+// Module-local aliases: inside a vm context (Jest, sandboxes) every global
+// lookup of Math is slow enough to dominate a hot loop.
+const { cos, sqrt, exp, log, PI } = Math;
+
 /** Default cut at 10 scale lengths, which holds 99.95% of an exponential disk's mass (common practice). */
 const DEFAULT_TRUNCATION_SCALE_LENGTHS = 10;
 /** Toomre (1964): Q = sigma_R kappa / (3.36 G Sigma) for a stellar disk. */
@@ -17,7 +21,7 @@ export const TOOMRE_STELLAR = 3.36;
 export const diskTruncation = (d: DiskSpec): number => d.truncationRadius_kpc ?? DEFAULT_TRUNCATION_SCALE_LENGTHS * d.scaleLength_kpc;
 
 export const diskSurfaceDensity = (d: DiskSpec, R: number): number =>
-  (d.mass_Msun / (2 * Math.PI * d.scaleLength_kpc ** 2)) * Math.exp(-R / d.scaleLength_kpc);
+  (d.mass_Msun / (2 * Math.PI * d.scaleLength_kpc ** 2)) * exp(-R / d.scaleLength_kpc);
 
 /** Composite Simpson rule over [0, 1] with an even number of intervals. */
 function simpson01(f: (t: number) => number, intervals: number): number {
@@ -37,12 +41,12 @@ function diskScreenedPull(d: DiskSpec, smoothing2: number, R: number, lambda: nu
   const ringPull = (s: number): number => {
     // Azimuth phi = pi u^2 clusters nodes at the near side of the ring; the far half mirrors it.
     const ring = simpson01((u) => {
-      const phi = Math.PI * u * u;
-      const c = Math.cos(phi);
+      const phi = PI * u * u;
+      const c = cos(phi);
       const S2 = R * R + s * s - 2 * R * s * c + smoothing2;
-      const S = Math.sqrt(S2);
+      const S = sqrt(S2);
       const x = S / lambda;
-      return ((R - s * c) * Math.exp(-x) * (1 + x)) / (S2 * S) * 2 * Math.PI * u;
+      return ((R - s * c) * exp(-x) * (1 + x)) / (S2 * S) * 2 * PI * u;
     }, 64);
     return 2 * ring * diskSurfaceDensity(d, s) * s;
   };
@@ -59,17 +63,17 @@ export function freemanDiskModel(d: DiskSpec, softening_kpc: number): MassModel 
   // The ring sum is costly, so each lambda gets one table over ln R, interpolated after.
   const tables = new Map<number, { lnR: Float64Array; g: Float64Array }>();
   const Rt = diskTruncation(d);
-  const lo = Math.log(1e-3 * Rd), hi = Math.log(2 * Rt);
+  const lo = log(1e-3 * Rd), hi = log(2 * Rt);
   const NODES = 96;
   const screened = (R: number, lambda: number): number => {
     if (R === 0) return 0;
     let t = tables.get(lambda);
     if (!t) {
       const lnR = Float64Array.from({ length: NODES }, (_, k) => lo + ((hi - lo) * k) / (NODES - 1));
-      t = { lnR, g: lnR.map((l) => diskScreenedPull(d, smoothing2, Math.exp(l), lambda)) };
+      t = { lnR, g: lnR.map((l) => diskScreenedPull(d, smoothing2, exp(l), lambda)) };
       tables.set(lambda, t);
     }
-    return interpolate(t.lnR, t.g, Math.log(R));
+    return interpolate(t.lnR, t.g, log(R));
   };
   return {
     totalMass_Msun: M,
@@ -80,8 +84,8 @@ export function freemanDiskModel(d: DiskSpec, softening_kpc: number): MassModel 
       return 2 * Math.PI * G * sigma0 * y * (i0e(y) * k0e(y) - i1e(y) * k1e(y));
     },
     screenedAccel: screened,
-    enclosedMass: (R) => M * (1 - (1 + R / Rd) * Math.exp(-R / Rd)),
-    enclosedMassSlope: (R) => ((M * R) / (Rd * Rd)) * Math.exp(-R / Rd),
+    enclosedMass: (R) => M * (1 - (1 + R / Rd) * exp(-R / Rd)),
+    enclosedMassSlope: (R) => ((M * R) / (Rd * Rd)) * exp(-R / Rd),
   };
 }
 
@@ -120,10 +124,10 @@ export function diskParticleSplit(d: DiskSpec): { disk: number; bulge: number } 
 
 /** Inverse of the exponential disk's cumulative mass 1 - (1 + x) e^-x, by Newton's method. */
 function exponentialRadius(F: number): number {
-  let x = F < 0.5 ? Math.sqrt(2 * F) : -Math.log(1 - F) + 1; // asymptotic starting points
+  let x = F < 0.5 ? sqrt(2 * F) : -log(1 - F) + 1; // asymptotic starting points
   for (let it = 0; it < 50; it++) {
-    const err = 1 - (1 + x) * Math.exp(-x) - F;
-    const slope = x * Math.exp(-x);
+    const err = 1 - (1 + x) * exp(-x) - F;
+    const slope = x * exp(-x);
     const step = err / Math.max(slope, 1e-300);
     x = Math.max(x - step, 0.5 * x);
     if (Math.abs(step) < 1e-14 * Math.max(1, x)) break;
@@ -140,32 +144,32 @@ function exponentialRadius(F: number): number {
 function diskKinematics(d: DiskSpec, law: LawSpec, model: MassModel) {
   const Rd = d.scaleLength_kpc;
   const NODES = 256;
-  const lo = Math.log(1e-3 * Rd), hi = Math.log(diskTruncation(d));
+  const lo = log(1e-3 * Rd), hi = log(diskTruncation(d));
   const lnR = Float64Array.from({ length: NODES }, (_, k) => lo + ((hi - lo) * k) / (NODES - 1));
   const vc2 = (R: number) => R * modelAcceleration(law, model, R);
   const sigmaR = new Float64Array(NODES), sigmaPhi = new Float64Array(NODES), vPhi = new Float64Array(NODES);
   const kappa2 = new Float64Array(NODES), omega2 = new Float64Array(NODES), lnSS = new Float64Array(NODES);
   lnR.forEach((l, k) => {
-    const R = Math.exp(l);
+    const R = exp(l);
     const h = 1e-4 * R;
     const v2 = vc2(R);
     // kappa^2 = R^-3 d(R^4 Omega^2)/dR = 2 vc^2 / R^2 + (1/R) d(vc^2)/dR
     kappa2[k] = Math.max(0, (2 * v2) / (R * R) + (vc2(R + h) - vc2(R - h)) / (2 * h * R));
     omega2[k] = v2 / (R * R);
     const sigma = diskSurfaceDensity(d, R);
-    sigmaR[k] = kappa2[k] > 0 ? (d.toomreQ * TOOMRE_STELLAR * G * sigma) / Math.sqrt(kappa2[k]) : 0;
-    lnSS[k] = Math.log(sigma * sigmaR[k] ** 2 + 1e-300);
+    sigmaR[k] = kappa2[k] > 0 ? (d.toomreQ * TOOMRE_STELLAR * G * sigma) / sqrt(kappa2[k]) : 0;
+    lnSS[k] = log(sigma * sigmaR[k] ** 2 + 1e-300);
   });
   for (let k = 0; k < NODES; k++) {
     const a = Math.max(0, k - 1), b = Math.min(NODES - 1, k + 1);
     const slope = (lnSS[b] - lnSS[a]) / (lnR[b] - lnR[a]);
     const ratio = omega2[k] > 0 ? kappa2[k] / (4 * omega2[k]) : 1;
-    sigmaPhi[k] = sigmaR[k] * Math.sqrt(ratio);
-    const v2 = omega2[k] * Math.exp(2 * lnR[k]);
-    vPhi[k] = Math.sqrt(Math.max(0, v2 + sigmaR[k] ** 2 * (1 - ratio + slope)));
+    sigmaPhi[k] = sigmaR[k] * sqrt(ratio);
+    const v2 = omega2[k] * exp(2 * lnR[k]);
+    vPhi[k] = sqrt(Math.max(0, v2 + sigmaR[k] ** 2 * (1 - ratio + slope)));
   }
   return (R: number) => {
-    const l = Math.log(Math.max(R, 1e-300));
+    const l = log(Math.max(R, 1e-300));
     return { vPhi: interpolate(lnR, vPhi, l), sigmaR: interpolate(lnR, sigmaR, l), sigmaPhi: interpolate(lnR, sigmaPhi, l) };
   };
 }
@@ -179,20 +183,20 @@ function diskKinematics(d: DiskSpec, law: LawSpec, model: MassModel) {
 function bulgeDispersion(scale: number, law: LawSpec, model: MassModel): (r: number) => number {
   const NODES = 256;
   // rho g falls at least as r^-5 under every law here, so 1e4 scale radii stand in for infinity.
-  const lo = Math.log(1e-3 * scale), hi = Math.log(1e4 * scale);
+  const lo = log(1e-3 * scale), hi = log(1e4 * scale);
   const lnR = Float64Array.from({ length: NODES }, (_, k) => lo + ((hi - lo) * k) / (NODES - 1));
   const rho = (r: number) => 1 / (r * (r + scale) ** 3); // Hernquist shape; the normalisation cancels
   const integrand = lnR.map((l) => {
-    const r = Math.exp(l);
+    const r = exp(l);
     return rho(r) * modelAcceleration(law, model, r) * r; // d r = r d ln r
   });
   const sigma = new Float64Array(NODES);
   let integral = 0;
   for (let k = NODES - 2; k >= 0; k--) {
     integral += 0.5 * (integrand[k] + integrand[k + 1]) * (lnR[k + 1] - lnR[k]);
-    sigma[k] = Math.sqrt(integral / rho(Math.exp(lnR[k])));
+    sigma[k] = sqrt(integral / rho(exp(lnR[k])));
   }
-  return (r) => interpolate(lnR, sigma, Math.log(Math.max(r, 1e-300)));
+  return (r) => interpolate(lnR, sigma, log(Math.max(r, 1e-300)));
 }
 
 /**
@@ -212,17 +216,17 @@ export function sampleDiskGalaxy(
   const split = diskParticleSplit(d);
   const kin = diskKinematics(d, law, model);
   const Rd = d.scaleLength_kpc, z0 = d.scaleHeight_kpc;
-  const Fmax = 1 - (1 + diskTruncation(d) / Rd) * Math.exp(-diskTruncation(d) / Rd);
+  const Fmax = 1 - (1 + diskTruncation(d) / Rd) * exp(-diskTruncation(d) / Rd);
   const mDisk = d.mass_Msun / split.disk;
   for (let i = start; i < start + split.disk; i++) {
     const R = Rd * exponentialRadius(uniformOpen(rng) * Fmax);
     const phi = 2 * Math.PI * uniform(rng);
     const z = z0 * Math.atanh(2 * uniformOpen(rng) - 1); // inverse of the sech^2 cumulative
     const k = kin(R);
-    const sigmaZ = Math.sqrt(Math.PI * G * diskSurfaceDensity(d, R) * z0); // isothermal sheet (Spitzer 1942)
+    const sigmaZ = sqrt(Math.PI * G * diskSurfaceDensity(d, R) * z0); // isothermal sheet (Spitzer 1942)
     const vR = k.sigmaR * normal(rng);
     const vT = k.vPhi + k.sigmaPhi * normal(rng);
-    const c = Math.cos(phi), s = Math.sin(phi);
+    const c = cos(phi), s = Math.sin(phi);
     out.x[i] = R * c; out.y[i] = R * s; out.z[i] = z;
     out.vx[i] = vR * c - vT * s; out.vy[i] = vR * s + vT * c; out.vz[i] = sigmaZ * normal(rng);
     out.m[i] = mDisk;

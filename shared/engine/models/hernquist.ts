@@ -4,6 +4,10 @@ import type { ParticleState } from '../state';
 import { G } from '../units';
 import { sphericalModel, type MassModel } from './massModel';
 
+// Module-local aliases: inside a vm context (Jest, sandboxes) every global
+// lookup of Math is slow enough to dominate a hot loop.
+const { asin, sqrt } = Math;
+
 export interface HernquistParams {
   mass_Msun: number;
   scale_kpc: number;
@@ -14,7 +18,7 @@ export interface HernquistParams {
 const DEFAULT_MASS_FRACTION = 0.99;
 
 const massFraction = (r: number, a: number): number => (r / (r + a)) ** 2;
-const radiusOfFraction = (X: number, a: number): number => (a * Math.sqrt(X)) / (1 - Math.sqrt(X));
+const radiusOfFraction = (X: number, a: number): number => (a * sqrt(X)) / (1 - sqrt(X));
 
 export function hernquistTruncation(p: HernquistParams): number {
   return p.truncationRadius_kpc ?? radiusOfFraction(DEFAULT_MASS_FRACTION, p.scale_kpc);
@@ -49,7 +53,7 @@ export function sampleHernquistRadius(p: HernquistParams, rng: RngState): number
 function hernquistDF(q: number): number {
   const q2 = q * q;
   const s = 1 - q2;
-  return (3 * Math.asin(q) + q * Math.sqrt(s) * (1 - 2 * q2) * (8 * q2 * q2 - 8 * q2 - 3)) / s ** 2.5;
+  return (3 * asin(q) + q * sqrt(s) * (1 - 2 * q2) * (8 * q2 * q2 - 8 * q2 - 3)) / s ** 2.5;
 }
 
 /**
@@ -59,16 +63,16 @@ function hernquistDF(q: number): number {
  */
 export function sampleHernquist(p: HernquistParams, rng: RngState, out: ParticleState, start: number, count: number): void {
   const a = p.scale_kpc;
-  const vg = Math.sqrt((G * p.mass_Msun) / a);
+  const vg = sqrt((G * p.mass_Msun) / a);
   const m = p.mass_Msun / count;
   for (let i = start; i < start + count; i++) {
     const r = sampleHernquistRadius(p, rng);
     // Dimensionless: psi = -Phi a / (G M), speed w = v / vg, q^2 = psi - w^2 / 2.
     const psi = a / (r + a);
-    const wEsc = Math.sqrt(2 * psi);
+    const wEsc = sqrt(2 * psi);
     const density = (w: number) => {
       const q2 = psi - 0.5 * w * w;
-      return q2 <= 0 ? 0 : w * w * hernquistDF(Math.sqrt(q2));
+      return q2 <= 0 ? 0 : w * w * hernquistDF(sqrt(q2));
     };
     const bound = 1.1 * peakOf(density, wEsc);
     let w = 0;
@@ -91,7 +95,7 @@ function peakOf(f: (x: number) => number, top: number): number {
   let best = 0;
   for (let k = 1; k < scan; k++) if (f((k * top) / scan) > f((best * top) / scan)) best = k;
   let lo = (Math.max(0, best - 1) * top) / scan, hi = (Math.min(scan, best + 1) * top) / scan;
-  const g = (Math.sqrt(5) - 1) / 2;
+  const g = (sqrt(5) - 1) / 2;
   for (let it = 0; it < 40; it++) {
     const x1 = hi - g * (hi - lo), x2 = lo + g * (hi - lo);
     if (f(x1) < f(x2)) lo = x1;

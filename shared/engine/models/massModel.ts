@@ -1,5 +1,9 @@
 import { G } from '../units';
 
+// Module-local aliases: inside a vm context (Jest, sandboxes) every global
+// lookup of Math is slow enough to dominate a hot loop.
+const { exp, log } = Math;
+
 /**
  * A static, centred mass model: what the analytic rotation curves and the
  * disk's equilibrium velocities are computed from. Accelerations point to the
@@ -22,7 +26,7 @@ export function pointMassModel(mass_Msun: number, extent_kpc: number): MassModel
     totalMass_Msun: mass_Msun,
     extent_kpc,
     newtonAccel: (R) => (R === 0 ? 0 : (G * mass_Msun) / (R * R)),
-    screenedAccel: (R, lambda) => (R === 0 ? 0 : ((G * mass_Msun) / (R * R)) * Math.exp(-R / lambda) * (1 + R / lambda)),
+    screenedAccel: (R, lambda) => (R === 0 ? 0 : ((G * mass_Msun) / (R * R)) * exp(-R / lambda) * (1 + R / lambda)),
     enclosedMass: () => mass_Msun,
     enclosedMassSlope: () => 0,
   };
@@ -31,26 +35,28 @@ export function pointMassModel(mass_Msun: number, extent_kpc: number): MassModel
 /**
  * Inward pull at radius r of a thin shell of unit mass and radius s under the
  * screened pair force, divided by G. Obtained by differentiating the shell's
- * Yukawa potential -lambda/(2 r s) (e^(-|r-s|/lambda) - e^(-(r+s)/lambda)).
+ * Yukawa potential -lambda/(2 r s) (e^(-|r-s|/lambda) - e^(-(r+s)/lambda)),
+ * separately for shells inside r and outside it (the pull jumps at s = r).
  */
-function shellScreenedPull(r: number, s: number, lambda: number): number {
-  if (s <= r) {
-    const a = Math.exp((s - r) / lambda) - Math.exp(-(s + r) / lambda);
-    return ((lambda / (2 * s)) * a * (1 + r / lambda)) / (r * r);
-  }
-  // Inside the shell the pull is outward (negative here).
+function pullOfInnerShell(r: number, s: number, lambda: number): number {
+  const a = exp((s - r) / lambda) - exp(-(s + r) / lambda);
+  return ((lambda / (2 * s)) * a * (1 + r / lambda)) / (r * r);
+}
+
+/** A shell outside r pulls outward (negative here); the series avoids cancellation when r is much less than lambda. */
+function pullOfOuterShell(r: number, s: number, lambda: number): number {
   const u = r / lambda;
-  if (u < 1e-2) return -(Math.exp(-s / lambda) / (s * r)) * (u * u / 3 + (u * u * u * u) / 30);
-  const A = Math.exp((r - s) / lambda), B = Math.exp(-(r + s) / lambda);
+  if (u < 1e-2) return -(exp(-s / lambda) / (s * r)) * (u * u / 3 + (u * u * u * u) / 30);
+  const A = exp((r - s) / lambda), B = exp(-(r + s) / lambda);
   return -((A + B) / r - (lambda * (A - B)) / (r * r)) / (2 * s);
 }
 
 /** Composite Simpson rule in ln s over [a, b] with an even number of intervals. */
 function simpsonLog(f: (s: number) => number, a: number, b: number, intervals: number): number {
-  const la = Math.log(a), h = (Math.log(b) - la) / intervals;
+  const la = log(a), h = (log(b) - la) / intervals;
   let sum = 0;
   for (let k = 0; k <= intervals; k++) {
-    const s = Math.exp(la + k * h);
+    const s = exp(la + k * h);
     const w = k === 0 || k === intervals ? 1 : k % 2 === 1 ? 4 : 2;
     sum += w * f(s) * s;
   }
@@ -79,10 +85,9 @@ export function sphericalModel(p: SphericalProfile): MassModel {
     newtonAccel: (R) => (R === 0 ? 0 : (G * p.enclosedMass(R)) / (R * R)),
     screenedAccel(R, lambda) {
       if (R === 0) return 0;
-      const integrand = (s: number) => p.enclosedMassSlope(s) * shellScreenedPull(R, s, lambda);
       const rOut = p.outerRadius_kpc;
-      let total = simpsonLog(integrand, inner, Math.min(R, rOut), 256);
-      if (R < rOut) total += simpsonLog(integrand, R, rOut, 256);
+      let total = simpsonLog((s) => p.enclosedMassSlope(s) * pullOfInnerShell(R, s, lambda), inner, Math.min(R, rOut), 256);
+      if (R < rOut) total += simpsonLog((s) => p.enclosedMassSlope(s) * pullOfOuterShell(R, s, lambda), R, rOut, 256);
       return G * total;
     },
   };

@@ -1,5 +1,9 @@
 import type { PairKernel } from './types';
 
+// Module-local aliases: inside a vm context (Jest, sandboxes) every global
+// lookup of Math is slow enough to dominate a hot loop.
+const { sqrt, exp } = Math;
+
 // The pair interaction, summed over a list of point sources. Direct sum
 // passes all particles; the tree passes the nodes and particles its walk
 // accepted. Force and potential are separate loops because V8 keeps each
@@ -18,12 +22,12 @@ export function sumPull(
     const r2 = dx * dx + dy * dy + dz * dz;
     if (r2 === 0) continue; // a particle does not act on itself
     const s2 = r2 + eps2;
-    const inv = 1 / Math.sqrt(s2);
+    const inv = 1 / sqrt(s2);
     let f = m[j] * inv * inv * inv;
     if (alpha !== 0) {
       // -d/ds of (1 + alpha e^(-s/lambda))/s, relative to the Newtonian 1/s^2.
       const u = (s2 * inv) / lambda;
-      f *= 1 + alpha * Math.exp(-u) * (1 + u);
+      f *= 1 + alpha * exp(-u) * (1 + u);
     }
     sx += f * dx; sy += f * dy; sz += f * dz;
   }
@@ -41,8 +45,8 @@ export function sumPotential(
     const dx = x[j] - xi, dy = y[j] - yi, dz = z[j] - zi;
     const r2 = dx * dx + dy * dy + dz * dz;
     if (r2 === 0) continue;
-    const s = Math.sqrt(r2 + eps2);
-    sp += alpha === 0 ? m[j] / s : (m[j] / s) * (1 + alpha * Math.exp(-s / lambda));
+    const s = sqrt(r2 + eps2);
+    sp += alpha === 0 ? m[j] / s : (m[j] / s) * (1 + alpha * exp(-s / lambda));
   }
   return sp;
 }

@@ -3,6 +3,10 @@ import { G } from '../units';
 import { sumPotential, sumPull } from './pair';
 import type { FieldSolver, PairKernel } from './types';
 
+// Module-local aliases: inside a vm context (Jest, sandboxes) every global
+// lookup of Math is slow enough to dominate a hot loop.
+const { abs, min, max } = Math;
+
 /** Particles per leaf before it splits (common practice: small buckets beat single-particle leaves). */
 const LEAF_SIZE = 8;
 /** Beyond this depth coincident particles share a leaf rather than splitting forever. */
@@ -30,7 +34,7 @@ export interface Octree {
 
 export function buildOctree(src: Sources): Octree {
   const n = src.m.length;
-  let cap = Math.max(16, 2 * Math.ceil(n / LEAF_SIZE) + 16);
+  let cap = max(16, 2 * Math.ceil(n / LEAF_SIZE) + 16);
   const fa = () => new Float64Array(cap);
   let t: Octree = {
     nodes: 0,
@@ -58,11 +62,11 @@ export function buildOctree(src: Sources): Octree {
 
   let minX = Infinity, minY = Infinity, minZ = Infinity, maxX = -Infinity, maxY = -Infinity, maxZ = -Infinity;
   for (let i = 0; i < n; i++) {
-    minX = Math.min(minX, src.x[i]); maxX = Math.max(maxX, src.x[i]);
-    minY = Math.min(minY, src.y[i]); maxY = Math.max(maxY, src.y[i]);
-    minZ = Math.min(minZ, src.z[i]); maxZ = Math.max(maxZ, src.z[i]);
+    minX = min(minX, src.x[i]); maxX = max(maxX, src.x[i]);
+    minY = min(minY, src.y[i]); maxY = max(maxY, src.y[i]);
+    minZ = min(minZ, src.z[i]); maxZ = max(maxZ, src.z[i]);
   }
-  const half = 0.5 * Math.max(maxX - minX, maxY - minY, maxZ - minZ) * (1 + 1e-9) || 1e-9;
+  const half = 0.5 * max(maxX - minX, maxY - minY, maxZ - minZ) * (1 + 1e-9) || 1e-9;
   const root = alloc(0.5 * (minX + maxX), 0.5 * (minY + maxY), 0.5 * (minZ + maxZ), half);
 
   const scratch = new Uint32Array(n);
@@ -142,7 +146,7 @@ class InteractionList {
       const dx = t.comX[node] - xi, dy = t.comY[node] - yi, dz = t.comZ[node] - zi;
       const size = 2 * t.halfSize[node];
       const h = t.halfSize[node];
-      const outside = Math.abs(xi - t.centreX[node]) > h || Math.abs(yi - t.centreY[node]) > h || Math.abs(zi - t.centreZ[node]) > h;
+      const outside = abs(xi - t.centreX[node]) > h || abs(yi - t.centreY[node]) > h || abs(zi - t.centreZ[node]) > h;
       if (outside && size * size < theta2 * (dx * dx + dy * dy + dz * dz)) {
         this.push(t.comX[node], t.comY[node], t.comZ[node], t.mass[node]);
       } else if (t.firstChild[node] < 0) {
