@@ -31,7 +31,7 @@ export function Button({ label, onPress, tone = 'primary', disabled, busy, acces
       </Txt>
     </View>
   );
-  if (href) {
+  if (href && !off) {
     // <Link asChild> merges its child's style as a plain object, so the style is flattened here.
     return (
       <Link href={href} asChild>

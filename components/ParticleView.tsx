@@ -4,7 +4,7 @@ import Svg, { Line, Path, Rect, Text as SvgText } from 'react-native-svg';
 import type { SnapshotFrame } from '../shared/api/snapshots';
 import { colors, fonts } from '../constants/theme';
 import { locateFrame, usePlayheadValue, type Playhead } from '../hooks/playback';
-import { dotSize, frameWindow, particlePath, PATH_UNITS_PER_PX, scaleBarLength, type Framing, type Projection } from './particles';
+import { dotSize, frameWindow, particlePath, scaleBarLength, type Framing, type Projection } from './particles';
 
 export type { Projection } from './particles';
 
@@ -27,7 +27,7 @@ const Cloud = memo(function Cloud({ frames, times, playhead, projection, win, si
   const frame = frames[index];
   const next = blend && index + 1 < frames.length ? frames[index + 1].positions : null;
   const d = frame ? particlePath(frame.positions, next, fraction, projection, win, size, dotSize(frame.positions.length / 3)) : '';
-  return <Path d={d} transform={`scale(${1 / PATH_UNITS_PER_PX})`} fill={color} fillOpacity={0.85} testID="particle-cloud" />;
+  return <Path d={d} fill={color} fillOpacity={0.85} testID="particle-cloud" />;
 });
 
 export function ParticleView({ frames, playhead, projection, color, label, maxSize = 520 }: ParticleViewProps) {

@@ -3,6 +3,7 @@ import { StyleSheet, View, useWindowDimensions } from 'react-native';
 import { RUN_STATUSES, type RunStatus } from '../shared/api/contract';
 import { space, WIDE_BREAKPOINT } from '../constants/theme';
 import { useRuns, type RunFilters } from '../hooks/runs';
+import { useCohorts } from '../hooks/cohorts';
 import { useSession, isStaff } from '../hooks/session';
 import { Button } from './Button';
 import { ChoiceChips } from './fields';
@@ -14,12 +15,8 @@ import { statusLabel } from './StatusBadge';
 
 const ANY = 'any';
 
-export interface RunsBoardProps {
-  cohortChoices?: { value: number; label: string }[];
-}
-
 /** The runs list with its filters; pull to refresh on phones. */
-export function RunsBoard({ cohortChoices = [] }: RunsBoardProps) {
+export function RunsBoard() {
   const [status, setStatus] = useState<RunStatus | typeof ANY>(ANY);
   const [law, setLaw] = useState<string>(ANY);
   const [cohort, setCohort] = useState<number | 0>(0);
@@ -30,6 +27,8 @@ export function RunsBoard({ cohortChoices = [] }: RunsBoardProps) {
   };
   const runs = useRuns(filters);
   const session = useSession();
+  const cohorts = useCohorts(isStaff(session.data));
+  const cohortChoices = (cohorts.data ?? []).map((c) => ({ value: c.id, label: c.name }));
   const { width } = useWindowDimensions();
   const columns = width >= WIDE_BREAKPOINT ? 2 : 1;
   const filtered = filters.status || filters.law || filters.cohort;

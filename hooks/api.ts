@@ -24,7 +24,7 @@ export function setCsrfToken(token: string | null): void {
   csrfToken = token;
 }
 
-type Method = 'GET' | 'POST' | 'PATCH' | 'DELETE';
+type Method = 'GET' | 'POST' | 'PUT' | 'PATCH' | 'DELETE';
 interface RequestOptions {
   method?: Method;
   body?: unknown;

@@ -87,10 +87,10 @@ function issueMap(issues: { path: PropertyKey[]; message: string }[], prefix = '
 }
 
 /** The new-run form's state: a draft spec checked by the shared schema on every change, its preview and cost. */
-export function useRunDraft(initial?: RunSpecInput) {
+export function useRunDraft(initial?: RunSpecInput, initialPairLaw?: LawSpec | null, initialName = '') {
   const [draft, setDraft] = useState<Draft>(() => (initial ?? defaultRunSpec()) as unknown as Draft);
-  const [name, setName] = useState('');
-  const [pairLaw, setPairLawState] = useState<LawSpec | null>(null);
+  const [name, setName] = useState(initialName);
+  const [pairLaw, setPairLawState] = useState<LawSpec | null>(initialPairLaw ?? null);
   const [serverIssue, setServerIssue] = useState<{ field: string; message: string } | null>(null);
 
   const set = useCallback((path: Path, value: unknown) => {

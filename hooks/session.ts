@@ -1,18 +1,8 @@
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
+import type { AccountUser, MeResponse } from '../shared/api/accounts';
 import { api, ApiError, setCsrfToken } from './api';
 
-export type Role = 'student' | 'instructor' | 'researcher' | 'admin' | string;
-export interface SessionUser {
-  id: number;
-  login: string;
-  name: string;
-  role: Role;
-  email: string | null;
-}
-interface MeResponse {
-  user: SessionUser;
-  csrfToken: string;
-}
+export type SessionUser = AccountUser;
 
 export const sessionKey = ['session'] as const;
 

@@ -32,10 +32,18 @@ function quotaMessage(e: ApiError): string {
   return `${e.message} (limit: ${d.limit}; needed ${formatCount(d.needed)}, ${formatCount(d.remaining ?? 0)} left of ${formatCount(d.max ?? 0)})`;
 }
 
-/** The new-run form with its live preview, checks and cost; `initial` comes from a clone or a template. */
-export function LaunchForm({ initial, origin }: { initial?: RunSpecInput; origin?: string }) {
+export interface LaunchStart {
+  spec: RunSpecInput;
+  pairLaw?: LawSpec | null;
+  name?: string;
+  /** Where the starting point came from, shown under the title. */
+  origin: string;
+}
+
+/** The new-run form with its live preview, checks and cost; `start` comes from a clone or a template. */
+export function LaunchForm({ start }: { start?: LaunchStart }) {
   const router = useRouter();
-  const form = useRunDraft(initial);
+  const form = useRunDraft(start?.spec, start?.pairLaw, start?.name);
   const submit = useSubmitRun();
   const { width } = useWindowDimensions();
   const wide = width >= WIDE_BREAKPOINT;
@@ -130,7 +138,7 @@ export function LaunchForm({ initial, origin }: { initial?: RunSpecInput; origin
   );
 
   return (
-    <Screen title="Launch a run" subtitle={origin ?? 'Choose the initial conditions, the force law (or two), and how to integrate. Everything is checked against the same schema the server uses.'}>
+    <Screen title="Launch a run" subtitle={start?.origin ?? 'Choose the initial conditions, the force law (or two), and how to integrate. Everything is checked against the same schema the server uses.'}>
       {wide ? (
         <View style={styles.columns}>
           <View style={{ flex: 6 }}>{formColumn}</View>

@@ -2,6 +2,7 @@ import { useLocalSearchParams } from 'expo-router';
 import { LaunchScreen } from '../../../components/launch/LaunchScreen';
 
 export default function NewRunScreen() {
-  const { from } = useLocalSearchParams<{ from?: string }>();
-  return <LaunchScreen from={typeof from === 'string' ? from : undefined} />;
+  const { from, template } = useLocalSearchParams<{ from?: string; template?: string }>();
+  const t = Number(template);
+  return <LaunchScreen from={typeof from === 'string' ? from : undefined} template={Number.isInteger(t) && t > 0 ? t : undefined} />;
 }

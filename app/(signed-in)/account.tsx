@@ -1,0 +1,5 @@
+import { AccountView } from '../../components/account/AccountView';
+
+export default function AccountScreen() {
+  return <AccountView />;
+}

@@ -1,0 +1,15 @@
+import { AdminView } from '../../components/admin/AdminView';
+import { Screen } from '../../components/Screen';
+import { Empty } from '../../components/States';
+import { isAdmin, useSession } from '../../hooks/session';
+
+export default function AdminScreen() {
+  const session = useSession();
+  if (!isAdmin(session.data))
+    return (
+      <Screen title="Admin">
+        <Empty title="Admins only" hint="This page grants roles and allocations; ask an admin if you need more compute." />
+      </Screen>
+    );
+  return <AdminView />;
+}

@@ -1,0 +1,5 @@
+import { CohortsView } from '../../../components/cohorts/CohortsView';
+
+export default function CohortsScreen() {
+  return <CohortsView />;
+}

@@ -1,0 +1,65 @@
+import { useState } from 'react';
+import { StyleSheet, View } from 'react-native';
+import { colors, space } from '../../constants/theme';
+import { useCohorts, useCreateCohort } from '../../hooks/cohorts';
+import { isStaff, useSession } from '../../hooks/session';
+import { Button } from '../Button';
+import { TextField } from '../fields';
+import { formatCount, formatInteractions } from '../format';
+import { Panel } from '../Panel';
+import { Screen } from '../Screen';
+import { describeError, Empty, ErrorState, Loading, Notice } from '../States';
+import { Txt } from '../Txt';
+
+/** The cohorts an instructor runs (all of them, for an admin), and a new one. */
+export function CohortsView() {
+  const cohorts = useCohorts();
+  const create = useCreateCohort();
+  const [name, setName] = useState('');
+  const staff = isStaff(useSession().data);
+  return (
+    <Screen title="Cohorts" subtitle="Your classes: who is enrolled, what they may spend, what they start from.">
+      {staff ? (
+        <Panel title="New cohort" note="It starts with the default student quota; change it on the cohort's page.">
+          <View style={styles.inline}>
+            <View style={{ flex: 1, minWidth: 220 }}>
+              <TextField label="Name" value={name} onChange={setName} placeholder="e.g. Galactic dynamics, spring (invented)" testID="cohort-name" />
+            </View>
+            <Button label="Create" disabled={!name.trim()} busy={create.isPending} onPress={() => create.mutate({ name: name.trim() }, { onSuccess: () => setName('') })} />
+          </View>
+          {create.isError ? <Notice tone="danger">{describeError(create.error)}</Notice> : null}
+        </Panel>
+      ) : null}
+      {cohorts.isPending ? (
+        <Loading what="Loading cohorts" />
+      ) : cohorts.isError ? (
+        <ErrorState error={cohorts.error} title="Could not load cohorts" onRetry={() => cohorts.refetch()} />
+      ) : cohorts.data.length === 0 ? (
+        <Empty title="No cohorts yet" hint="Create one above, then share its enrolment code with your students." />
+      ) : (
+        <View role="list" style={{ gap: space.md }}>
+          {cohorts.data.map((c) => (
+            <View key={c.id} role="listitem" style={styles.card}>
+              <View style={{ flex: 1, gap: 4 }}>
+                <Txt variant="heading">{c.name}</Txt>
+                <Txt variant="caption">
+                  {c.memberCount} students · {c.instructor.name}
+                  {c.enrolmentCode ? ` · code ${c.enrolmentCode}` : ''}
+                </Txt>
+                <Txt variant="caption">
+                  Quota: {formatCount(c.quota.maxParticles)} particles, {formatCount(c.quota.maxSteps)} steps, {c.quota.maxConcurrentRuns} at a time, {formatInteractions(c.quota.dailyInteractions)} interactions a day
+                </Txt>
+              </View>
+              <Button small label="Open" href={{ pathname: '/cohorts/[id]', params: { id: String(c.id) } }} accessibilityLabel={`Open cohort ${c.name}`} />
+            </View>
+          ))}
+        </View>
+      )}
+    </Screen>
+  );
+}
+
+const styles = StyleSheet.create({
+  inline: { flexDirection: 'row', alignItems: 'flex-end', gap: space.md, flexWrap: 'wrap' },
+  card: { flexDirection: 'row', alignItems: 'center', gap: space.md, padding: space.md, borderWidth: 1, borderColor: colors.border, borderRadius: 10, backgroundColor: colors.surface, flexWrap: 'wrap' },
+});

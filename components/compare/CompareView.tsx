@@ -1,0 +1,194 @@
+import { useMemo, useState } from 'react';
+import { StyleSheet, View, useWindowDimensions } from 'react-native';
+import type { RunDetail } from '../../shared/api/contract';
+import { colors, lawColor, space, WIDE_BREAKPOINT } from '../../constants/theme';
+import { usePlayhead, useFrameTime } from '../../hooks/playback';
+import { useRunEvents } from '../../hooks/runEvents';
+import { readOutput, specOf, type RunOutputView } from '../../hooks/runOutput';
+import { lawInfo } from '../../shared/engine';
+import { isFinal, useRun, useRuns, useSnapshots } from '../../hooks/runs';
+import { Button } from '../Button';
+import { LAW_LABELS } from '../format';
+import { Panel } from '../Panel';
+import { ParticleView, type Projection } from '../ParticleView';
+import { PlaybackControls } from '../PlaybackControls';
+import { Screen } from '../Screen';
+import { Empty, ErrorState, Loading } from '../States';
+import { LawTag, StatusBadge } from '../StatusBadge';
+import { Txt } from '../Txt';
+import { DiagnosticsPlots, type PlottedRun } from '../run/DiagnosticsPlots';
+import { LawNotes, ModelCaution } from '../run/LawNotes';
+import { LiveProgress } from '../run/LiveProgress';
+import { RotationCurvePlot } from '../run/RotationCurvePlot';
+import { ComparePicker } from './ComparePicker';
+import { describeDifferences } from './differences';
+
+// Each side in its law's colour; two runs of the same law kind fall back to the second accent.
+function sideColor(run: RunDetail, other: RunDetail): string {
+  return run.lawKind === other.lawKind ? colors.link : lawColor(run.lawKind);
+}
+
+function Live({ run }: { run: RunDetail }) {
+  const stream = useRunEvents(run.id, !isFinal(run.status));
+  const spec = specOf(run);
+  return <LiveProgress run={run} stream={stream} hasPotential={spec ? lawInfo(spec.law).hasPotential : true} />;
+}
+
+/** Both animations on one playhead, then the overlaid curves and diagnostics that follow it. */
+function SyncedPlayers({ runs, plotted }: { runs: { run: RunDetail; out: RunOutputView }[]; plotted: PlottedRun[] }) {
+  const a = useSnapshots(runs[0].run.id, true);
+  const b = useSnapshots(runs[1].run.id, true);
+  const { width } = useWindowDimensions();
+  const wide = width >= WIDE_BREAKPOINT;
+  const [projection, setProjection] = useState<Projection>('xy');
+  const framesA = useMemo(() => a.data ?? [], [a.data]);
+  const framesB = useMemo(() => b.data ?? [], [b.data]);
+  // One playhead over the longer of the two runs' snapshot times drives both views.
+  const times = useMemo(() => {
+    const ta = framesA.map((f) => f.time_Myr);
+    const tb = framesB.map((f) => f.time_Myr);
+    return (ta[ta.length - 1] ?? 0) >= (tb[tb.length - 1] ?? 0) ? ta : tb;
+  }, [framesA, framesB]);
+  const playhead = usePlayhead(times);
+  const failed = a.error ?? b.error;
+  const ready = !a.isPending && !b.isPending && !failed;
+  return (
+    <>
+      <Panel title="Snapshots in step" note="One playhead drives both runs, matched by simulated time.">
+        {a.isPending || b.isPending ? (
+          <Loading what="Loading snapshots" />
+        ) : failed ? (
+          <ErrorState error={failed} title="Could not load snapshots" onRetry={() => (a.error ? a.refetch() : b.refetch())} />
+        ) : (
+          <>
+            <View style={[styles.players, wide && styles.playersWide]}>
+              {[framesA, framesB].map((frames, k) => (
+                <View key={runs[k].run.id} style={[styles.player, wide && styles.half]}>
+                  <LawTag kind={runs[k].run.lawKind} label={runs[k].out.law.label} />
+                  <ParticleView frames={frames} playhead={playhead} projection={projection} color={plotted[k].color} label={runs[k].run.name} maxSize={wide ? 560 : 520} />
+                </View>
+              ))}
+            </View>
+            <PlaybackControls playhead={playhead} times={times} projection={projection} onProjection={setProjection} />
+          </>
+        )}
+      </Panel>
+      <RotationCurvePlot runs={plotted} />
+      {ready ? <PlotsAtPlayhead plotted={plotted} playhead={playhead} times={times} /> : <DiagnosticsPlots runs={plotted} />}
+    </>
+  );
+}
+
+function PlotsAtPlayhead({ plotted, playhead, times }: { plotted: PlottedRun[]; playhead: ReturnType<typeof usePlayhead>; times: number[] }) {
+  const t = useFrameTime(playhead, times);
+  return <DiagnosticsPlots runs={plotted} markerTime={t} />;
+}
+
+function ComparePair({ a, b }: { a: RunDetail; b: RunDetail }) {
+  const { width } = useWindowDimensions();
+  const wide = width >= WIDE_BREAKPOINT;
+  const outA = readOutput(a);
+  const outB = readOutput(b);
+  const tints = [sideColor(a, b), sideColor(b, a)];
+  // Short law names, unless both runs use the same kind (then the full labels tell them apart).
+  const same = a.lawKind === b.lawKind;
+  const labelA = same && outA ? outA.law.label : (LAW_LABELS[a.lawKind] ?? a.lawKind);
+  const labelB = same && outB ? outB.law.label : (LAW_LABELS[b.lawKind] ?? b.lawKind);
+  const done = outA && outB;
+  const sameIC = a.pairId !== null && a.pairId === b.pairId;
+  const plotted: PlottedRun[] = done ? [{ id: a.id, label: labelA, color: tints[0], out: outA }, { id: b.id, label: labelB, color: tints[1], out: outB }] : [];
+
+  return (
+    <Screen wide title="Side by side" subtitle={`${a.name}  ·  ${b.name}`} actions={<Button small tone="secondary" label="Pick other runs" href="/compare" />}>
+      <View style={styles.tags}>
+        {[a, b].map((r) => (
+          <View key={r.id} style={styles.tagRow}>
+            <StatusBadge status={r.status} percent={r.progress * 100} />
+            <Button small tone="quiet" label={`Open ${r.name}`} href={{ pathname: '/runs/[id]', params: { id: r.id } }} />
+          </View>
+        ))}
+      </View>
+      <ModelCaution />
+      <Txt variant="small">{sameIC ? 'Same initial particles (same spec and seed), two force laws: differences below come from the laws, up to integration error.' : 'These runs were not launched as a pair, so their initial conditions may differ as well as their laws.'}</Txt>
+      {[a, b].some((r) => !isFinal(r.status)) ? (
+        <View style={[styles.players, wide && styles.playersWide]}>
+          {[a, b].map((r) => (
+            <View key={r.id} style={wide ? styles.half : undefined}>
+              {isFinal(r.status) ? <Panel title={r.name}><StatusBadge status={r.status} /></Panel> : <Live run={r} />}
+            </View>
+          ))}
+        </View>
+      ) : null}
+      {done ? (
+        <>
+          <Panel title="How they differ" accessibilityLabel="Summary of differences">
+            {describeDifferences({ label: labelA, out: outA }, { label: labelB, out: outB }).map((line) => (
+              <Txt key={line} variant="body">
+                • {line}
+              </Txt>
+            ))}
+          </Panel>
+          <SyncedPlayers runs={[{ run: a, out: outA }, { run: b, out: outB }]} plotted={plotted} />
+          <View style={[styles.players, wide && styles.playersWide]}>
+            <View style={wide ? styles.half : undefined}><LawNotes info={outA.law} /></View>
+            <View style={wide ? styles.half : undefined}><LawNotes info={outB.law} /></View>
+          </View>
+        </>
+      ) : [a, b].every((r) => isFinal(r.status)) ? (
+        <Empty title="Nothing to compare yet" hint="One of these runs ended without output (failed or stopped early)." />
+      ) : (
+        <Txt variant="small">The comparison appears when both runs have finished.</Txt>
+      )}
+    </Screen>
+  );
+}
+
+function CompareIds({ ids }: { ids: [string, string] }) {
+  const a = useRun(ids[0]);
+  const b = useRun(ids[1]);
+  if (a.isPending || b.isPending) return <Loading what="Loading both runs" />;
+  const failed = a.error ?? b.error;
+  if (failed)
+    return (
+      <Screen title="Side by side">
+        <ErrorState error={failed} title="Could not load the runs" onRetry={() => (a.error ? a.refetch() : b.refetch())} />
+      </Screen>
+    );
+  return <ComparePair a={a.data!} b={b.data!} />;
+}
+
+function ComparePairId({ pair }: { pair: string }) {
+  const runs = useRuns({ pair });
+  if (runs.isPending) return <Loading what="Loading the pair" />;
+  if (runs.isError)
+    return (
+      <Screen title="Side by side">
+        <ErrorState error={runs.error} title="Could not load the pair" onRetry={() => runs.refetch()} />
+      </Screen>
+    );
+  if (runs.data.length < 2)
+    return (
+      <Screen title="Side by side">
+        <Empty title="This pair is not complete" hint="A pair has two runs; this one has fewer that you can see." action={<Button label="Pick runs to compare" href="/compare" />} />
+      </Screen>
+    );
+  // Oldest first, so the first law of the submission stays on the left.
+  const [first, second] = [...runs.data].sort((x, y) => x.createdAt.localeCompare(y.createdAt) || x.name.localeCompare(y.name));
+  return <CompareIds ids={[first.id, second.id]} />;
+}
+
+/** The compare page: a pair by its id, two runs by theirs, or a picker. */
+export function CompareView({ pair, a, b }: { pair?: string; a?: string; b?: string }) {
+  if (a && b) return <CompareIds ids={[a, b]} />;
+  if (pair) return <ComparePairId pair={pair} />;
+  return <ComparePicker />;
+}
+
+const styles = StyleSheet.create({
+  tags: { gap: space.xs },
+  tagRow: { flexDirection: 'row', alignItems: 'center', gap: space.sm, flexWrap: 'wrap' },
+  players: { gap: space.lg },
+  playersWide: { flexDirection: 'row', alignItems: 'flex-start' },
+  player: { gap: space.sm, alignItems: 'center' },
+  half: { flex: 1, minWidth: 0 },
+});
