@@ -21,7 +21,7 @@ export function Panel({ title, note, right, children, style, accessibilityLabel 
         <View style={styles.head}>
           <View style={styles.titles}>
             {title ? (
-              <Txt variant="label" role="heading">
+              <Txt variant="label" role="heading" aria-level={2}>
                 {title}
               </Txt>
             ) : null}

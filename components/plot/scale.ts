@@ -32,7 +32,7 @@ export function logTicks(lo: number, hi: number): number[] {
   const every = decades > 8 ? Math.ceil(decades / 6) : 1;
   const out: number[] = [];
   for (let e = a; e <= b; e += every) for (const m of mult) {
-    const v = m * 10 ** e;
+    const v = Number(`${m}e${e}`); // exact: 1 * 10 ** -5 is 9.999999999999999e-6
     if (v >= lo * (1 - 1e-9) && v <= hi * (1 + 1e-9)) out.push(v);
   }
   return out;

@@ -1,0 +1,90 @@
+import { LaunchForm } from '../../components/launch/LaunchForm';
+import { setCsrfToken } from '../../hooks/api';
+import { mockApi } from './support/api';
+import { navigation, resetNavigation } from './support/expoRouter';
+import { press, render, settle, type } from './support/render';
+
+jest.mock('expo-router', () => require('./support/expoRouter'));
+
+const usage = {
+  limits: { maxParticles: 2000, maxSteps: 10000, maxConcurrentRuns: 2, dailyInteractions: 1e10 },
+  used: { interactionsToday: 0, activeRuns: 0 },
+  remaining: { interactionsToday: 1e10, concurrentRuns: 2 },
+  day: '2026-12-01',
+  resetsAt: '2026-12-02T00:00:00.000Z',
+};
+
+beforeEach(() => {
+  resetNavigation();
+  setCsrfToken('csrf-abc');
+});
+
+const field = (container: HTMLElement, key: string) => container.querySelector(`[data-testid="field-${key}"]`) as HTMLInputElement;
+
+describe('the new-run form', () => {
+  it('shows the cost against the budget and refuses what the quota would refuse', async () => {
+    mockApi({ 'GET /api/account/usage': { body: usage } });
+    const { container, view } = render(<LaunchForm />);
+    await settle();
+    expect(view.getByTestId('cost-total').textContent).toContain('N = 500');
+    type(field(container, 'model.n'), '5000');
+    await settle();
+    expect(view.getByText(/Would be refused: 5 000 particles is over your limit of 2 000/)).toBeTruthy();
+  });
+
+  it('flags a value outside the schema range at its field and disables launching', async () => {
+    mockApi({ 'GET /api/account/usage': { body: usage } });
+    const { container, view } = render(<LaunchForm />);
+    await settle();
+    type(field(container, 'model.n'), '1');
+    await settle();
+    expect(view.getByText('Allowed: 2 – 100 000')).toBeTruthy();
+    expect(view.getByTestId('launch').getAttribute('aria-disabled')).toBe('true');
+  });
+
+  it('submits a pair with the CSRF token and opens the compare page', async () => {
+    const calls = mockApi({
+      'GET /api/account/usage': { body: usage },
+      'POST /api/runs': (call) => ({ status: 201, body: { runs: [{ id: 'r1', pairId: 'p1' }, { id: 'r2', pairId: 'p1' }].map((r) => ({ ...r, body: call.body })) } }),
+    });
+    const { view } = render(<LaunchForm />);
+    await settle();
+    press(view.getByRole('switch', { name: 'Run as a pair under a second law' }));
+    await settle();
+    const second = view.getByTestId('law-second');
+    press(second.querySelector('[aria-label="Emergent"]')!);
+    await settle();
+    press(view.getByTestId('launch'));
+    await settle();
+    const post = calls.find((c) => c.method === 'POST')!;
+    expect(post.headers['X-CSRF-Token']).toBe('csrf-abc');
+    expect(post.body).toMatchObject({ spec: { model: { kind: 'plummer', n: 500 }, law: { kind: 'newton' } }, pairLaw: { kind: 'emergent' } });
+    expect(navigation.replaced).toEqual([{ pathname: '/compare', params: { pair: 'p1' } }]);
+  });
+
+  it('shows the field the server names in an INVALID_SPEC error', async () => {
+    mockApi({
+      'GET /api/account/usage': { body: usage },
+      'POST /api/runs': { status: 400, body: { error: { code: 'INVALID_SPEC', message: 'spec.softening_kpc: too large for this model', field: 'spec.softening_kpc' } } },
+    });
+    const { container, view } = render(<LaunchForm />);
+    await settle();
+    press(view.getByTestId('launch'));
+    await settle();
+    expect(view.getAllByText('spec.softening_kpc: too large for this model').length).toBeGreaterThan(0);
+    expect(field(container, 'softening_kpc').getAttribute('aria-invalid')).toBe('true');
+  });
+
+  it('gives disks of a pair one law for their velocities', async () => {
+    const calls = mockApi({ 'GET /api/account/usage': { body: usage }, 'POST /api/runs': { status: 201, body: { runs: [{ id: 'r1', pairId: null }] } } });
+    const { view } = render(<LaunchForm />);
+    await settle();
+    press(view.getByRole('radio', { name: 'Exponential disk' }));
+    press(view.getByRole('switch', { name: 'Run as a pair under a second law' }));
+    await settle();
+    press(view.getByTestId('launch'));
+    await settle();
+    const post = calls.find((c) => c.method === 'POST')!;
+    expect(post.body).toMatchObject({ spec: { model: { kind: 'disk', equilibriumLaw: { kind: 'newton' } } }, pairLaw: { kind: 'mond' } });
+  });
+});
