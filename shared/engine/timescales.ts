@@ -123,8 +123,8 @@ export function timescalesFor(spec: RunSpec, ic: InitialConditions): { timescale
     warnings.push({
       code: 'law-without-potential',
       severity: 'info',
-      message: `${info.label} has no potential: energy is not reported and momentum is not conserved`,
-      source: info.notes,
+      message: `${info.label} has no potential: energy is not reported and momentum is not conserved. ${info.notes}`,
+      source: 'the law itself (no pairwise potential)',
     });
   }
   warnings.push(...modelAndMethodNotes(spec, n));

@@ -224,9 +224,9 @@ export const FORCE_EVALUATIONS_PER_STEP: Record<IntegratorKind, number> = { leap
  * Quota cost in pair interactions. Direct sum: every target visits every
  * source, N^2 per force evaluation. Tree: our own estimate,
  * N * 48 * log2(N) * (0.6 / theta)^2 per evaluation, calibrated on this
- * engine's walk (Plummer spheres and disks of 1e3-2e4 particles accept
- * 20-65 cells and leaf particles per log2 N at theta 0.6, and the count grows
- * as about theta^-2); never more than the direct cost. Both are multiplied by
+ * engine's walk (Plummer spheres and disks of 1e3-2e4 particles interact
+ * with 25-75 cells and leaf particles per log2 N at theta 0.6, and the count
+ * grows roughly as theta^-2); never more than the direct cost. Both are multiplied by
  * force evaluations per step and by steps.
  */
 export function estimateInteractions(spec: RunSpec): number {
@@ -247,7 +247,7 @@ export function defaultRunSpec(): RunSpec {
     law: { kind: 'newton' },
     integrator: 'leapfrog',
     solver: { kind: 'direct' },
-    timestep_Myr: 0.25,
+    timestep_Myr: 0.2,
     duration_Myr: 50,
     softening_kpc: 0.05,
     snapshotEvery: 10,

@@ -1,6 +1,6 @@
 import { buildInitialConditions, runSimulation } from '../../shared/engine';
 import { directFieldRange, directPotentialRange } from '../../shared/engine/solvers/direct';
-import { buildOctree, treeSolver } from '../../shared/engine/solvers/tree';
+import { buildOctree, treeFieldRange, treeSolver, treeWorkUnits } from '../../shared/engine/solvers/tree';
 import { newtonKernel } from '../../shared/engine/solvers/types';
 import { allocateAccelerations, allocateParticles } from '../../shared/engine/state';
 import { quantile, specWith } from './helpers';
@@ -24,6 +24,26 @@ describe('Barnes & Hut (1986) tree', () => {
     const e = forceErrors(0.5);
     expect(quantile(e, 0.5)).toBeLessThan(3e-3);
     expect(quantile(e, 0.99)).toBeLessThan(2e-2);
+  });
+
+  test('probes (targets that are not the sources) walk one by one and are as accurate', () => {
+    const probes = { x: p.x.slice(), y: p.y.slice(), z: p.z.slice() };
+    const out = allocateAccelerations(N);
+    treeSolver(0.5).field(p, probes, kernel, out);
+    const e = Array.from({ length: N }, (_, i) => Math.hypot(out.ax[i] - exact.ax[i], out.ay[i] - exact.ay[i], out.az[i] - exact.az[i]) / Math.hypot(exact.ax[i], exact.ay[i], exact.az[i]));
+    expect(quantile(e, 0.5)).toBeLessThan(3e-3);
+  });
+
+  test('the self-field split into ranges of leaves (as threads would) equals one call bit for bit', () => {
+    const tree = buildOctree(p);
+    const units = treeWorkUnits(tree, p, p);
+    const whole = allocateAccelerations(N), parts = allocateAccelerations(N);
+    treeFieldRange(tree, p, p, kernel, 0.5, 0, units, whole);
+    const cut = Math.floor(units / 3);
+    treeFieldRange(tree, p, p, kernel, 0.5, 0, cut, parts);
+    treeFieldRange(tree, p, p, kernel, 0.5, cut, units, parts);
+    expect(Buffer.from(whole.ax.buffer).equals(Buffer.from(parts.ax.buffer))).toBe(true);
+    expect(Buffer.from(whole.az.buffer).equals(Buffer.from(parts.az.buffer))).toBe(true);
   });
 
   test('the error shrinks as theta shrinks', () => {

@@ -115,12 +115,20 @@ export function buildOctree(src: Sources): Octree {
   return t;
 }
 
+/** An axis-aligned box of targets that share one interaction list: one leaf's particles, or a single probe. */
+interface TargetBox {
+  minX: number; minY: number; minZ: number;
+  maxX: number; maxY: number; maxZ: number;
+}
+
 /**
- * Collects, for one target, the point masses the walk interacts with:
- * accepted cells as their monopoles, particles of leaves that must be opened.
- * A cell is accepted when size < theta * distance to its centre of mass and
- * the target lies outside it (the second condition is a common-practice guard
- * against targets sitting inside large, lopsided cells).
+ * Collects the point masses a group of targets interacts with: accepted cells
+ * as their monopoles, particles of leaves that must be opened. A cell is
+ * accepted when size < theta * (distance from its centre of mass to the
+ * nearest point of the target box) and it does not overlap the box (the
+ * second condition is a common-practice guard against targets inside large,
+ * lopsided cells). Sharing the walk among a leaf's particles is the grouping
+ * of Barnes (1990); for a single point it is the 1986 criterion.
  */
 class InteractionList {
   x = new Float64Array(256); y = new Float64Array(256); z = new Float64Array(256); m = new Float64Array(256);
@@ -136,19 +144,21 @@ class InteractionList {
     this.x[k] = x; this.y[k] = y; this.z[k] = z; this.m[k] = m;
   }
 
-  collect(t: Octree, src: Sources, theta2: number, xi: number, yi: number, zi: number): void {
+  collect(t: Octree, src: Sources, theta2: number, b: TargetBox): void {
     this.count = 0;
     const stack = this.stack;
     let top = 0;
     stack[top++] = 0;
     while (top > 0) {
       const node = stack[--top];
-      const dx = t.comX[node] - xi, dy = t.comY[node] - yi, dz = t.comZ[node] - zi;
-      const size = 2 * t.halfSize[node];
       const h = t.halfSize[node];
-      const outside = abs(xi - t.centreX[node]) > h || abs(yi - t.centreY[node]) > h || abs(zi - t.centreZ[node]) > h;
-      if (outside && size * size < theta2 * (dx * dx + dy * dy + dz * dz)) {
-        this.push(t.comX[node], t.comY[node], t.comZ[node], t.mass[node]);
+      const cx = t.centreX[node], cy = t.centreY[node], cz = t.centreZ[node];
+      const apart = b.minX > cx + h || b.maxX < cx - h || b.minY > cy + h || b.maxY < cy - h || b.minZ > cz + h || b.maxZ < cz - h;
+      // Distance from the centre of mass to the nearest point of the box.
+      const gx = t.comX[node], gy = t.comY[node], gz = t.comZ[node];
+      const dx = max(b.minX - gx, 0, gx - b.maxX), dy = max(b.minY - gy, 0, gy - b.maxY), dz = max(b.minZ - gz, 0, gz - b.maxZ);
+      if (apart && 4 * h * h < theta2 * (dx * dx + dy * dy + dz * dz)) {
+        this.push(gx, gy, gz, t.mass[node]);
       } else if (t.firstChild[node] < 0) {
         for (let s = t.leafStart[node], e = s + t.leafCount[node]; s < e; s++) {
           const i = t.order[s];
@@ -161,34 +171,92 @@ class InteractionList {
   }
 }
 
-/** Tree field at targets iStart..iEnd-1; each target's result depends only on the tree and itself, so ranges can be split across threads. */
+const pointBox = (x: number, y: number, z: number): TargetBox => ({ minX: x, minY: y, minZ: z, maxX: x, maxY: y, maxZ: z });
+
+function leafBox(t: Octree, src: Points, leaf: number): TargetBox {
+  const b = { minX: Infinity, minY: Infinity, minZ: Infinity, maxX: -Infinity, maxY: -Infinity, maxZ: -Infinity };
+  for (let s = t.leafStart[leaf], e = s + t.leafCount[leaf]; s < e; s++) {
+    const i = t.order[s];
+    b.minX = min(b.minX, src.x[i]); b.maxX = max(b.maxX, src.x[i]);
+    b.minY = min(b.minY, src.y[i]); b.maxY = max(b.maxY, src.y[i]);
+    b.minZ = min(b.minZ, src.z[i]); b.maxZ = max(b.maxZ, src.z[i]);
+  }
+  return b;
+}
+
+/** Leaf nodes in build order: the unit a self-field walk is shared over and split across threads by. */
+export function treeLeaves(t: Octree): Int32Array {
+  const leaves: number[] = [];
+  for (let k = 0; k < t.nodes; k++) if (t.firstChild[k] < 0) leaves.push(k);
+  return Int32Array.from(leaves);
+}
+
+/**
+ * Calls `each(targetIndex, list)` for every target a range of the work
+ * covers. Self-fields (targets are the sources) walk once per leaf, over
+ * leaves[iStart..iEnd); other targets (probes) walk one by one over
+ * iStart..iEnd. Either way each target's list depends only on the tree and
+ * its group, so splitting ranges across threads gives identical results.
+ */
+function forEachTarget(
+  tree: Octree, sources: Sources, targets: Points, theta: number, iStart: number, iEnd: number,
+  each: (i: number, list: InteractionList) => void,
+): void {
+  const list = new InteractionList();
+  const theta2 = theta * theta;
+  if (targets === sources) {
+    const leaves = treeLeaves(tree);
+    for (let k = iStart; k < iEnd; k++) {
+      const leaf = leaves[k];
+      list.collect(tree, sources, theta2, leafBox(tree, sources, leaf));
+      for (let s = tree.leafStart[leaf], e = s + tree.leafCount[leaf]; s < e; s++) each(tree.order[s], list);
+    }
+  } else {
+    for (let i = iStart; i < iEnd; i++) {
+      list.collect(tree, sources, theta2, pointBox(targets.x[i], targets.y[i], targets.z[i]));
+      each(i, list);
+    }
+  }
+}
+
+/** How many work units treeFieldRange / treePotentialRange split over: leaves for a self-field, targets otherwise. */
+export const treeWorkUnits = (tree: Octree, sources: Sources, targets: Points): number =>
+  targets === sources ? treeLeaves(tree).length : targets.x.length;
+
+/** Tree field for work units iStart..iEnd (see treeWorkUnits). */
 export function treeFieldRange(
   tree: Octree, sources: Sources, targets: Points, kernel: PairKernel, theta: number, iStart: number, iEnd: number, out: Accelerations,
 ): void {
-  const list = new InteractionList();
   const acc = new Float64Array(3);
-  for (let i = iStart; i < iEnd; i++) {
-    list.collect(tree, sources, theta * theta, targets.x[i], targets.y[i], targets.z[i]);
+  forEachTarget(tree, sources, targets, theta, iStart, iEnd, (i, list) => {
     acc.fill(0);
     sumPull(list.x, list.y, list.z, list.m, list.count, targets.x[i], targets.y[i], targets.z[i], kernel, acc);
     out.ax[i] = G * acc[0]; out.ay[i] = G * acc[1]; out.az[i] = G * acc[2];
-  }
+  });
 }
 
 export function treePotentialRange(
   tree: Octree, sources: Sources, targets: Points, kernel: PairKernel, theta: number, iStart: number, iEnd: number, out: Float64Array,
 ): void {
-  const list = new InteractionList();
-  for (let i = iStart; i < iEnd; i++) {
-    list.collect(tree, sources, theta * theta, targets.x[i], targets.y[i], targets.z[i]);
+  forEachTarget(tree, sources, targets, theta, iStart, iEnd, (i, list) => {
     out[i] = -G * sumPotential(list.x, list.y, list.z, list.m, list.count, targets.x[i], targets.y[i], targets.z[i], kernel);
-  }
+  });
 }
 
 export function treeSolver(theta: number): FieldSolver {
+  const whole = (sources: Sources, targets: Points) => {
+    const tree = buildOctree(sources);
+    return { tree, units: treeWorkUnits(tree, sources, targets) };
+  };
   return {
     kind: 'tree',
-    field: (sources, targets, kernel, out) => treeFieldRange(buildOctree(sources), sources, targets, kernel, theta, 0, targets.x.length, out),
-    potential: (sources, targets, kernel, out) => treePotentialRange(buildOctree(sources), sources, targets, kernel, theta, 0, targets.x.length, out),
+    field(sources, targets, kernel, out) {
+      const { tree, units } = whole(sources, targets);
+      treeFieldRange(tree, sources, targets, kernel, theta, 0, units, out);
+    },
+    potential(sources, targets, kernel, out) {
+      const { tree, units } = whole(sources, targets);
+      treePotentialRange(tree, sources, targets, kernel, theta, 0, units, out);
+    },
   };
 }

@@ -1,0 +1,60 @@
+import { spawnSync } from 'node:child_process';
+import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+
+const root = join(__dirname, '..', '..');
+const sim = (...args: string[]) =>
+  spawnSync(process.execPath, [require.resolve('tsx/cli'), join(root, 'shared/engine/cli.ts'), ...args], { cwd: root, encoding: 'utf8' });
+
+const dir = mkdtempSync(join(tmpdir(), 'infall-cli-'));
+const write = (name: string, value: unknown) => {
+  const path = join(dir, name);
+  writeFileSync(path, JSON.stringify(value));
+  return path;
+};
+const good = write('good.json', {
+  version: 1,
+  model: { kind: 'plummer', n: 60, mass_Msun: 1e10, scale_kpc: 1 },
+  law: { kind: 'mond' },
+  timestep_Myr: 0.5,
+  duration_Myr: 5,
+  softening_kpc: 0.1,
+  snapshotEvery: 2,
+});
+
+describe('sim command line', () => {
+  test('run: progress on stderr, summary JSON on stdout, full result in --out', () => {
+    const out = join(dir, 'result.json');
+    const r = sim('run', good, '--out', out);
+    expect(r.status).toBe(0);
+    expect(r.stderr).toMatch(/step 10\/10 \(100%\)/);
+    const summary = JSON.parse(r.stdout);
+    expect(summary.summary.stepsCompleted).toBe(10);
+    expect(summary.law.kind).toBe('mond');
+    const full = JSON.parse(readFileSync(out, 'utf8'));
+    expect(full.snapshots[0].positions).toHaveLength(3 * 60);
+    expect(full.diagnostics.length).toBeGreaterThan(2);
+  });
+
+  test('curve: analytic curves under the law and Newton', () => {
+    const r = sim('curve', good);
+    expect(r.status).toBe(0);
+    expect(JSON.parse(r.stdout).curves.map((c: { law: string }) => c.law)).toEqual(['mond', 'newton']);
+  });
+
+  test('schema: the JSON Schema of the spec', () => {
+    const r = sim('schema');
+    expect(r.status).toBe(0);
+    const schema = JSON.parse(r.stdout);
+    expect(schema.properties.version.const).toBe(1);
+    expect(schema.required).toEqual(expect.arrayContaining(['model', 'law', 'timestep_Myr']));
+  });
+
+  test('a bad spec exits 2 naming the field', () => {
+    const bad = write('bad.json', { ...JSON.parse(readFileSync(good, 'utf8')), model: { kind: 'plummer', n: 1, mass_Msun: 1e10, scale_kpc: 1 } });
+    const r = sim('run', bad);
+    expect(r.status).toBe(2);
+    expect(r.stderr).toMatch(/^model\.n: /m);
+  });
+});
