@@ -15,7 +15,7 @@ export interface RunProgress {
   totalSteps: number;
   percent: number;
   time_Myr: number;
-  /** Latest relative energy drift; null before the first sample after t = 0 or without a potential. */
+  /** Relative energy drift at the latest diagnostic sample (0 at the start); null when the law has no potential. */
   energyDrift: number | null;
 }
 

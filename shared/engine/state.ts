@@ -37,10 +37,6 @@ export function allocateAccelerations(n: number): Accelerations {
   return { ax: new Float64Array(n), ay: new Float64Array(n), az: new Float64Array(n) };
 }
 
-export function pointsFrom(xs: ArrayLike<number>, ys: ArrayLike<number>, zs: ArrayLike<number>): Points {
-  return { x: Float64Array.from(xs), y: Float64Array.from(ys), z: Float64Array.from(zs) };
-}
-
 export function totalMass(m: Float64Array): number {
   let s = 0;
   for (let i = 0; i < m.length; i++) s += m[i];

@@ -28,4 +28,3 @@ export const C_KM_S = 299_792.458;
 export const myrToInternal = (t_Myr: number): number => t_Myr / TIME_UNIT_MYR;
 export const internalToMyr = (t: number): number => t * TIME_UNIT_MYR;
 export const accelFromSI = (a_m_s2: number): number => a_m_s2 / ACCEL_UNIT_M_S2;
-export const accelToSI = (a: number): number => a * ACCEL_UNIT_M_S2;
