@@ -9,6 +9,8 @@ import { lawInfo } from '../../shared/engine';
 import { isFinal, useRun, useRuns, useSnapshots } from '../../hooks/runs';
 import { Button } from '../Button';
 import { LAW_LABELS } from '../format';
+
+const LAW_ORDER = Object.keys(LAW_LABELS);
 import { Panel } from '../Panel';
 import { ParticleView, type Projection } from '../ParticleView';
 import { PlaybackControls } from '../PlaybackControls';
@@ -172,8 +174,10 @@ function ComparePairId({ pair }: { pair: string }) {
         <Empty title="This pair is not complete" hint="A pair has two runs; this one has fewer that you can see." action={<Button label="Pick runs to compare" href="/compare" />} />
       </Screen>
     );
-  // Oldest first, so the first law of the submission stays on the left.
-  const [first, second] = [...runs.data].sort((x, y) => x.createdAt.localeCompare(y.createdAt) || x.name.localeCompare(y.name));
+  // Both runs of a pair are created together, so the order is Infall's: the more standard law
+  // (Newton, then Newton + halo, then the modified laws) on the left.
+  const rank = (kind: string) => LAW_ORDER.indexOf(kind) + 1 || LAW_ORDER.length + 1;
+  const [first, second] = [...runs.data].sort((x, y) => rank(x.lawKind) - rank(y.lawKind) || x.name.localeCompare(y.name));
   return <CompareIds ids={[first.id, second.id]} />;
 }
 

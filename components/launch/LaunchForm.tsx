@@ -123,7 +123,7 @@ export function LaunchForm({ start }: { start?: LaunchStart }) {
   const sideColumn = (
     <View style={styles.column}>
       <CurvePreview preview={form.preview} isKepler={(draft.model as { kind: string }).kind === 'kepler'} />
-      <ChecksPreview preview={form.preview} />
+      <ChecksPreview preview={form.preview} timestep={typeof draft.timestep_Myr === 'number' ? draft.timestep_Myr : undefined} onTimestep={(dt) => set(['timestep_Myr'], dt)} />
       <CostPanel cost={form.cost} />
       <View style={styles.submit}>
         {problems ? (

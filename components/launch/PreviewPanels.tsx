@@ -1,7 +1,8 @@
 import { View } from 'react-native';
 import { colors, lawColor, space } from '../../constants/theme';
 import type { Preview } from '../../hooks/runDraft';
-import { LAW_LABELS } from '../format';
+import { Button } from '../Button';
+import { formatValue, LAW_LABELS } from '../format';
 import { LinePlot, type PlotSeries } from '../LinePlot';
 import { Panel } from '../Panel';
 import { Notice } from '../States';
@@ -25,8 +26,15 @@ export function CurvePreview({ preview, isKepler }: { preview: Preview | null; i
   );
 }
 
+/** A timestep at or below the suggestion, rounded down to two significant digits. */
+export function roundedTimestep(suggested: number): number {
+  const p = 10 ** (Math.floor(Math.log10(suggested)) - 1);
+  return Math.floor(suggested / p) * p;
+}
+
 /** Timescales and the engine's warnings (timestep, softening, relaxation) before submitting. */
-export function ChecksPreview({ preview }: { preview: Preview | null }) {
+export function ChecksPreview({ preview, timestep, onTimestep }: { preview: Preview | null; timestep?: number; onTimestep: (dt: number) => void }) {
+  const suggested = preview?.checks.length ? roundedTimestep(Math.min(...preview.checks.map((c) => c.timescales.suggestedTimestep_Myr))) : null;
   return (
     <Panel title="Engine checks" note="Computed from the initial particles this spec draws; nothing has run yet.">
       {!preview ? (
@@ -36,6 +44,9 @@ export function ChecksPreview({ preview }: { preview: Preview | null }) {
       ) : (
         <View style={{ gap: space.md }}>
           <TimescaleFacts t={preview.checks[0].timescales} />
+          {suggested !== null && timestep !== undefined && timestep > suggested ? (
+            <Button small tone="secondary" label={`Use the suggested timestep, ${formatValue(suggested)} Myr`} onPress={() => onTimestep(Number(suggested.toPrecision(2)))} style={{ alignSelf: 'flex-start' }} testID="use-suggested-timestep" />
+          ) : null}
           {preview.checks.map((c) => (
             <View key={c.law} style={{ gap: space.sm }}>
               {preview.checks.length > 1 ? <Txt variant="label">Under {LAW_LABELS[c.law] ?? c.law}</Txt> : null}

@@ -32,6 +32,23 @@ describe('the new-run form', () => {
     expect(view.getByText(/Would be refused: 5 000 particles is over your limit of 2 000/)).toBeTruthy();
   });
 
+  it('offers the engine\'s suggested timestep when the chosen one is too coarse', async () => {
+    mockApi({ 'GET /api/account/usage': { body: usage } });
+    const { container, view } = render(<LaunchForm />);
+    await settle();
+    expect(view.queryByTestId('use-suggested-timestep')).toBeNull();
+    type(field(container, 'timestep_Myr'), '2');
+    await settle();
+    const offer = view.getByTestId('use-suggested-timestep');
+    expect(offer.textContent).toMatch(/^Use the suggested timestep, 0\.\d+ Myr$/);
+    press(offer);
+    await settle();
+    const dt = Number(field(container, 'timestep_Myr').value);
+    expect(dt).toBeLessThan(2);
+    expect(offer.textContent).toContain(String(dt));
+    expect(view.queryByTestId('use-suggested-timestep')).toBeNull();
+  });
+
   it('flags a value outside the schema range at its field and disables launching', async () => {
     mockApi({ 'GET /api/account/usage': { body: usage } });
     const { container, view } = render(<LaunchForm />);
