@@ -21,6 +21,7 @@ import { Txt } from '../Txt';
 import { DiagnosticsPlots, type PlottedRun } from '../run/DiagnosticsPlots';
 import { LawNotes, ModelCaution } from '../run/LawNotes';
 import { LiveProgress } from '../run/LiveProgress';
+import { RotationAtPlayhead } from '../run/RotationAtPlayhead';
 import { RotationCurvePlot } from '../run/RotationCurvePlot';
 import { ComparePicker } from './ComparePicker';
 import { describeDifferences } from './differences';
@@ -75,7 +76,19 @@ function SyncedPlayers({ runs, plotted }: { runs: { run: RunDetail; out: RunOutp
           </>
         )}
       </Panel>
-      <RotationCurvePlot runs={plotted} />
+      {ready ? (
+        <RotationAtPlayhead
+          runs={plotted}
+          sources={[
+            { id: runs[0].run.id, spec: specOf(runs[0].run), frames: framesA, radii_kpc: runs[0].out.rotationCurves.final.radii_kpc },
+            { id: runs[1].run.id, spec: specOf(runs[1].run), frames: framesB, radii_kpc: runs[1].out.rotationCurves.final.radii_kpc },
+          ]}
+          playhead={playhead}
+          times={times}
+        />
+      ) : (
+        <RotationCurvePlot runs={plotted} />
+      )}
       {ready ? <PlotsAtPlayhead plotted={plotted} playhead={playhead} times={times} /> : <DiagnosticsPlots runs={plotted} />}
     </>
   );

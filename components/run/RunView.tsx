@@ -21,7 +21,7 @@ import { Txt } from '../Txt';
 import { DiagnosticsPlots, type PlottedRun } from './DiagnosticsPlots';
 import { LawNotes, ModelCaution } from './LawNotes';
 import { LiveProgress } from './LiveProgress';
-import { RotationCurvePlot } from './RotationCurvePlot';
+import { RotationAtPlayhead } from './RotationAtPlayhead';
 import { RunFacts } from './RunFacts';
 import { SnapshotPlayer } from './SnapshotPlayer';
 
@@ -92,6 +92,7 @@ export function RunView({ id }: { id: string }) {
   const plotted: PlottedRun[] = out ? [{ id: r.id, label: r.name, color, out }] : [];
 
   const player = out ? <SnapshotPlayer playback={playback} color={color} label={r.name} /> : null;
+  const curves = out ? <RotationAtPlayhead runs={plotted} sources={[{ id: r.id, spec, frames: playback.frames, radii_kpc: out.rotationCurves.final.radii_kpc }]} playhead={playback.playhead} times={playback.times} /> : null;
   const notes = info ? <LawNotes info={info} /> : null;
 
   return (
@@ -126,14 +127,14 @@ export function RunView({ id }: { id: string }) {
             </View>
             <View style={styles.right}>
               <RunFacts out={out} />
-              <RotationCurvePlot runs={plotted} />
+              {curves}
             </View>
           </View>
         ) : (
           <>
             {player}
             <RunFacts out={out} />
-            <RotationCurvePlot runs={plotted} />
+            {curves}
             {notes}
           </>
         )

@@ -64,6 +64,14 @@ test('a running run follows its event stream, then shows its results when it end
   expect(view.getByText('Domain of validity')).toBeTruthy();
   expect(view.getByText(/Numerical model\./)).toBeTruthy();
   expect(view.getByTestId('playhead-readout').textContent).toBe('t = 0.0 Myr · 1/3');
+
+  // The rotation curve follows the snapshot on screen, measured from the law's field.
+  expect(view.getByRole('radio', { name: 'this snapshot' }).getAttribute('aria-checked')).toBe('true');
+  expect(view.getByText(/^At t = 0 Myr, from the law's field/)).toBeTruthy();
+  press(view.getByLabelText('Next snapshot'));
+  expect(view.getByText(/^At t = 5 Myr, from the law's field/)).toBeTruthy();
+  press(view.getByRole('radio', { name: 'end' }));
+  expect(view.getByText(/^Measured in the plane z = z_cm at t = 10 Myr/)).toBeTruthy();
 });
 
 test('a run that is not there says so', async () => {
