@@ -39,10 +39,10 @@ const SCENARIO = {
     name: 'Kestrel disk, long settle (invented)',
     spec: { ...base, model: { ...kestrelDisk, n: 4000 }, law: kestrelHalo, timestep_Myr: 0.5, duration_Myr: 2000, softening_kpc: 0.2, snapshotEvery: 40 },
   },
-  // Two particles placed at one point with no softening: the force is undefined,
-  // and the engine refuses to go on. Shows how a failed run reads.
+  // Two particles 1e-150 kpc apart with no softening: the force overflows double
+  // precision and the engine stops with its reason. Shows how a failed run reads.
   broken: {
-    name: 'Coincident pair, no softening (invented)',
+    name: 'Unsoftened close pair (invented)',
     spec: {
       ...base,
       model: {
@@ -50,7 +50,7 @@ const SCENARIO = {
         recentre: false,
         particles: [
           { x_kpc: 0, y_kpc: 0, z_kpc: 0, vx_km_s: 0, vy_km_s: 0, vz_km_s: 0, mass_Msun: 1e9 },
-          { x_kpc: 0, y_kpc: 0, z_kpc: 0, vx_km_s: 0, vy_km_s: 0, vz_km_s: 0, mass_Msun: 1e9 },
+          { x_kpc: 1e-150, y_kpc: 0, z_kpc: 0, vx_km_s: 0, vy_km_s: 0, vz_km_s: 0, mass_Msun: 1e9 },
         ],
       },
       law: { kind: 'newton' },

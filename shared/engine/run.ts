@@ -6,7 +6,7 @@ import type { LawInfo } from './laws/types';
 import type { Component } from './models';
 import { measureRotationCurve, type RotationCurve } from './rotationCurves';
 import { Simulation } from './simulation';
-import type { ParticleState } from './state';
+import { firstNonFinite, type ParticleState } from './state';
 import { timescalesFor, type EngineWarning, type Timescales } from './timescales';
 import { toomreProfile } from './toomre';
 
@@ -153,6 +153,13 @@ export function runSimulation(spec: RunSpec, hooks: RunHooks = {}): RunResult {
     }
     sim.advance();
     const step = sim.state.step;
+    const broken = firstNonFinite(sim.particles);
+    if (broken >= 0) {
+      throw new Error(
+        `particle ${broken} left finite numbers at step ${step} (t = ${sim.time_Myr.toPrecision(4)} Myr): ` +
+          'a close pair met with too little softening or too long a timestep; raise softening_kpc or lower timestep_Myr',
+      );
+    }
     const last = sim.done;
     const diagNow = step % diagEvery === 0 || last;
     if (diagNow) diagnose();

@@ -73,3 +73,12 @@ export function cloneParticles(p: ParticleState): ParticleState {
     ax: p.ax.slice(), ay: p.ay.slice(), az: p.az.slice(),
   };
 }
+
+/** Index of the first particle whose position or velocity is not finite, or -1. */
+export function firstNonFinite(p: ParticleState): number {
+  for (let i = 0; i < p.n; i++) {
+    // x - x is NaN exactly when x is NaN or infinite: one test for both.
+    if (p.x[i] - p.x[i] + p.y[i] - p.y[i] + p.z[i] - p.z[i] + p.vx[i] - p.vx[i] + p.vy[i] - p.vy[i] + p.vz[i] - p.vz[i] !== 0) return i;
+  }
+  return -1;
+}

@@ -69,3 +69,21 @@ describe('runSimulation', () => {
     expect(mond.hasPotential).toBe(false);
   });
 });
+
+describe('a run whose numbers blow up', () => {
+  // Common practice: an unsoftened pair 1e-150 kpc apart overflows the 1/r^2 force to
+  // infinity in double precision; the engine must stop and say why, not store NaNs.
+  test('stops with an error naming the particle, the step and the remedy', () => {
+    const at = (x: number) => ({ x_kpc: x, y_kpc: 0, z_kpc: 0, vx_km_s: 0, vy_km_s: 0, vz_km_s: 0, mass_Msun: 1e9 });
+    const parsed = parseRunSpec({
+      ...defaultRunSpec(),
+      model: { kind: 'table', recentre: false, particles: [at(0), at(1e-150)] },
+      softening_kpc: 0,
+      timestep_Myr: 1,
+      duration_Myr: 5,
+      snapshotEvery: 1,
+    });
+    if (!parsed.ok) throw new Error(JSON.stringify(parsed.issues));
+    expect(() => runSimulation(parsed.spec)).toThrow(/particle \d left finite numbers at step \d+.*softening_kpc/);
+  });
+});
