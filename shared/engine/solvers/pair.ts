@@ -4,11 +4,14 @@ import type { PairKernel } from './types';
 // lookup of Math is slow enough to dominate a hot loop.
 const { sqrt, exp } = Math;
 
-// The pair interaction, summed over a list of point sources. Direct sum
-// passes all particles; the tree passes the nodes and particles its walk
-// accepted. Force and potential are separate loops because V8 keeps each
-// tight and monomorphic that way. With s^2 = r^2 + eps^2 the potential of
-// mass m per unit mass is -G m (1 + alpha e^(-s/lambda)) / s.
+// The pair interaction, summed over a list of point sources at one target.
+// Direct sum passes all particles (for the targets its paired loop leaves
+// over); the tree passes the particles, and for a Yukawa kernel the cells,
+// its walk gathered. The arithmetic is written out in each loop with the
+// kernel's constants read once, and Newton and Yukawa have loops of their own,
+// so each compiles to a tight loop with no calls and no branch on the law.
+// With s^2 = r^2 + eps^2 the potential of mass m per unit mass is
+// -G m (1 + alpha e^(-s/lambda)) / s.
 
 /** Adds the pull at (xi, yi, zi), still to be multiplied by G, into acc[0..2]. Coincident points are skipped. */
 export function sumPull(
@@ -17,19 +20,27 @@ export function sumPull(
 ): void {
   const eps2 = k.softening2_kpc2, alpha = k.yukawaAlpha, lambda = k.yukawaLambda_kpc;
   let sx = 0, sy = 0, sz = 0;
-  for (let j = 0; j < count; j++) {
-    const dx = x[j] - xi, dy = y[j] - yi, dz = z[j] - zi;
-    const r2 = dx * dx + dy * dy + dz * dz;
-    if (r2 === 0) continue; // a particle does not act on itself
-    const s2 = r2 + eps2;
-    const inv = 1 / sqrt(s2);
-    let f = m[j] * inv * inv * inv;
-    if (alpha !== 0) {
+  if (alpha === 0) {
+    for (let j = 0; j < count; j++) {
+      const dx = x[j] - xi, dy = y[j] - yi, dz = z[j] - zi;
+      const r2 = dx * dx + dy * dy + dz * dz;
+      if (r2 === 0) continue; // a particle does not act on itself
+      const inv = 1 / sqrt(r2 + eps2);
+      const f = m[j] * inv * inv * inv;
+      sx += f * dx; sy += f * dy; sz += f * dz;
+    }
+  } else {
+    for (let j = 0; j < count; j++) {
+      const dx = x[j] - xi, dy = y[j] - yi, dz = z[j] - zi;
+      const r2 = dx * dx + dy * dy + dz * dz;
+      if (r2 === 0) continue;
+      const s2 = r2 + eps2;
+      const inv = 1 / sqrt(s2);
       // -d/ds of (1 + alpha e^(-s/lambda))/s, relative to the Newtonian 1/s^2.
       const u = (s2 * inv) / lambda;
-      f *= 1 + alpha * exp(-u) * (1 + u);
+      const f = m[j] * inv * inv * inv * (1 + alpha * exp(-u) * (1 + u));
+      sx += f * dx; sy += f * dy; sz += f * dz;
     }
-    sx += f * dx; sy += f * dy; sz += f * dz;
   }
   acc[0] += sx; acc[1] += sy; acc[2] += sz;
 }
@@ -41,12 +52,21 @@ export function sumPotential(
 ): number {
   const eps2 = k.softening2_kpc2, alpha = k.yukawaAlpha, lambda = k.yukawaLambda_kpc;
   let sp = 0;
-  for (let j = 0; j < count; j++) {
-    const dx = x[j] - xi, dy = y[j] - yi, dz = z[j] - zi;
-    const r2 = dx * dx + dy * dy + dz * dz;
-    if (r2 === 0) continue;
-    const s = sqrt(r2 + eps2);
-    sp += alpha === 0 ? m[j] / s : (m[j] / s) * (1 + alpha * exp(-s / lambda));
+  if (alpha === 0) {
+    for (let j = 0; j < count; j++) {
+      const dx = x[j] - xi, dy = y[j] - yi, dz = z[j] - zi;
+      const r2 = dx * dx + dy * dy + dz * dz;
+      if (r2 === 0) continue;
+      sp += m[j] / sqrt(r2 + eps2);
+    }
+  } else {
+    for (let j = 0; j < count; j++) {
+      const dx = x[j] - xi, dy = y[j] - yi, dz = z[j] - zi;
+      const r2 = dx * dx + dy * dy + dz * dz;
+      if (r2 === 0) continue;
+      const s = sqrt(r2 + eps2);
+      sp += (m[j] / s) * (1 + alpha * exp(-s / lambda));
+    }
   }
   return sp;
 }
