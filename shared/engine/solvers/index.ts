@@ -5,7 +5,7 @@ import type { FieldSolver } from './types';
 
 export type { FieldSolver, PairKernel } from './types';
 export { directFieldRange, directPotentialRange } from './direct';
-export { buildOctree, treeFieldRange, treeLeaves, treePotentialRange, treeWorkUnits } from './tree';
+export { buildOctree, treeFieldRange, treeGroups, treePotentialRange, treeWorkUnits } from './tree';
 export type { Octree } from './tree';
 
 export function makeSolver(spec: SolverSpec): FieldSolver {

@@ -5,232 +5,336 @@ import type { FieldSolver, PairKernel } from './types';
 
 // Module-local aliases: inside a vm context (Jest, sandboxes) every global
 // lookup of Math is slow enough to dominate a hot loop.
-const { abs, min, max } = Math;
+const { min, max, sqrt } = Math;
 
 /** Particles per leaf before it splits (common practice: small buckets beat single-particle leaves). */
 const LEAF_SIZE = 8;
+/**
+ * Particles sharing one walk of a self-field. Larger groups walk less often
+ * but open more cells near them; 32 was fastest in the bench for 1e3-1e5
+ * particles (our own measurement).
+ */
+const GROUP_SIZE = 32;
 /** Beyond this depth coincident particles share a leaf rather than splitting forever. */
 const MAX_DEPTH = 48;
 
 /**
  * Barnes & Hut (1986) octree over the sources: cubic cells split into eight,
- * each holding its mass and centre of mass (monopole). Built by partitioning
- * an index array, so the same sources always give the same tree.
+ * each holding its mass, centre of mass and second moments about it (for the
+ * quadrupole term). Built by partitioning an index array, so the same sources
+ * always give the same tree. Each cell's numbers sit together (CELL doubles in
+ * `cells`, LINK integers in `links`), so a walk that visits a cell touches one
+ * or two cache lines rather than one per quantity; this is what makes walks
+ * over large trees fast. The particles are copied in tree order, so a leaf's
+ * particles are one contiguous run the pair loop sums directly.
  */
 export interface Octree {
   nodes: number;
-  centreX: Float64Array; centreY: Float64Array; centreZ: Float64Array;
-  halfSize: Float64Array;
-  mass: Float64Array;
-  comX: Float64Array; comY: Float64Array; comZ: Float64Array;
-  /** First child node, or -1 for a leaf; children are stored consecutively. */
-  firstChild: Int32Array;
-  childCount: Uint8Array;
-  /** A leaf's particles are order[leafStart .. leafStart + leafCount). */
-  leafStart: Int32Array;
-  leafCount: Int32Array;
+  /** Per cell: centre of mass x, y, z (kpc); half size h; (2h)^2; geometric centre x, y, z; mass (Msun); second moments xx, yy, zz, xy, xz, yz about the centre of mass (Msun kpc^2). */
+  cells: Float64Array;
+  /** Per cell: first child (-1 for a leaf; children are consecutive), child count, first particle slot, particle count. */
+  links: Int32Array;
+  /** Tree-order slot to source index. */
   order: Uint32Array;
+  /** Source positions and masses in tree order: a leaf's particles are slots [start, start + count). */
+  sorted: Sources;
+  /**
+   * Target groups of a self-field, as (first slot, count) pairs in build order: the largest
+   * cells of at most GROUP_SIZE particles (or a deeper leaf holding more). One walk serves a
+   * whole group, and groups are the unit a self-field is split across threads by.
+   */
+  groups: Int32Array;
 }
+
+/** Layout of one cell in Octree.cells and Octree.links. */
+export const CELL = 16;
+const COM_X = 0, COM_Y = 1, COM_Z = 2, HALF = 3, SIZE2 = 4, CENTRE_X = 5, CENTRE_Y = 6, CENTRE_Z = 7, MASS = 8;
+const IXX = 9, IYY = 10, IZZ = 11, IXY = 12, IXZ = 13, IYZ = 14;
+export const LINK = 4;
+const FIRST_CHILD = 0, CHILD_COUNT = 1, LEAF_START = 2, LEAF_COUNT = 3;
 
 export function buildOctree(src: Sources): Octree {
   const n = src.m.length;
-  let cap = max(16, 2 * Math.ceil(n / LEAF_SIZE) + 16);
-  const fa = () => new Float64Array(cap);
-  let t: Octree = {
-    nodes: 0,
-    centreX: fa(), centreY: fa(), centreZ: fa(), halfSize: fa(), mass: fa(), comX: fa(), comY: fa(), comZ: fa(),
-    firstChild: new Int32Array(cap), childCount: new Uint8Array(cap), leafStart: new Int32Array(cap), leafCount: new Int32Array(cap),
-    order: Uint32Array.from({ length: n }, (_, i) => i),
-  };
-  const grow = () => {
-    cap *= 2;
-    const g = <T extends Float64Array | Int32Array | Uint8Array>(a: T): T => {
-      const b = new (a.constructor as { new (k: number): T })(cap);
-      b.set(a);
-      return b;
-    };
-    t = { ...t, centreX: g(t.centreX), centreY: g(t.centreY), centreZ: g(t.centreZ), halfSize: g(t.halfSize), mass: g(t.mass),
-      comX: g(t.comX), comY: g(t.comY), comZ: g(t.comZ), firstChild: g(t.firstChild), childCount: g(t.childCount),
-      leafStart: g(t.leafStart), leafCount: g(t.leafCount) };
-  };
+  const { x, y, z, m } = src;
+  // Cells grow as plain number arrays (V8 keeps them unboxed) and become typed arrays at the end.
+  const cells: number[] = [];
+  const links: number[] = [];
+  const order = Uint32Array.from({ length: n }, (_, i) => i);
   const alloc = (cx: number, cy: number, cz: number, half: number): number => {
-    if (t.nodes === cap) grow();
-    const k = t.nodes++;
-    t.centreX[k] = cx; t.centreY[k] = cy; t.centreZ[k] = cz; t.halfSize[k] = half;
+    const k = links.length / LINK;
+    for (let q = 0; q < CELL; q++) cells.push(0);
+    links.push(-1, 0, 0, 0);
+    const c = k * CELL;
+    cells[c + HALF] = half; cells[c + SIZE2] = 4 * half * half;
+    cells[c + CENTRE_X] = cx; cells[c + CENTRE_Y] = cy; cells[c + CENTRE_Z] = cz;
     return k;
   };
 
   let minX = Infinity, minY = Infinity, minZ = Infinity, maxX = -Infinity, maxY = -Infinity, maxZ = -Infinity;
   for (let i = 0; i < n; i++) {
-    minX = min(minX, src.x[i]); maxX = max(maxX, src.x[i]);
-    minY = min(minY, src.y[i]); maxY = max(maxY, src.y[i]);
-    minZ = min(minZ, src.z[i]); maxZ = max(maxZ, src.z[i]);
+    minX = min(minX, x[i]); maxX = max(maxX, x[i]);
+    minY = min(minY, y[i]); maxY = max(maxY, y[i]);
+    minZ = min(minZ, z[i]); maxZ = max(maxZ, z[i]);
   }
   const half = 0.5 * max(maxX - minX, maxY - minY, maxZ - minZ) * (1 + 1e-9) || 1e-9;
   const root = alloc(0.5 * (minX + maxX), 0.5 * (minY + maxY), 0.5 * (minZ + maxZ), half);
 
   const scratch = new Uint32Array(n);
   const octantOf = new Uint8Array(n);
-  const split = (node: number, start: number, end: number, depth: number): void => {
+  const counts = new Int32Array(8 * (MAX_DEPTH + 1));
+  const groups: number[] = [];
+  const split = (node: number, start: number, end: number, depth: number, grouped: boolean): void => {
     let M = 0, mx = 0, my = 0, mz = 0;
     for (let s = start; s < end; s++) {
-      const i = t.order[s], m = src.m[i];
-      M += m; mx += m * src.x[i]; my += m * src.y[i]; mz += m * src.z[i];
+      const i = order[s], mi = m[i];
+      M += mi; mx += mi * x[i]; my += mi * y[i]; mz += mi * z[i];
     }
-    t.mass[node] = M;
-    t.comX[node] = mx / M; t.comY[node] = my / M; t.comZ[node] = mz / M;
-    if (end - start <= LEAF_SIZE || depth >= MAX_DEPTH) {
-      t.firstChild[node] = -1;
-      t.leafStart[node] = start;
-      t.leafCount[node] = end - start;
+    const cx0 = mx / M, cy0 = my / M, cz0 = mz / M;
+    let xx = 0, yy = 0, zz = 0, xy = 0, xz = 0, yz = 0;
+    for (let s = start; s < end; s++) {
+      const i = order[s], mi = m[i];
+      const dx = x[i] - cx0, dy = y[i] - cy0, dz = z[i] - cz0;
+      xx += mi * dx * dx; yy += mi * dy * dy; zz += mi * dz * dz; xy += mi * dx * dy; xz += mi * dx * dz; yz += mi * dy * dz;
+    }
+    const c = node * CELL, l = node * LINK;
+    cells[c + MASS] = M;
+    cells[c + COM_X] = cx0; cells[c + COM_Y] = cy0; cells[c + COM_Z] = cz0;
+    cells[c + IXX] = xx; cells[c + IYY] = yy; cells[c + IZZ] = zz; cells[c + IXY] = xy; cells[c + IXZ] = xz; cells[c + IYZ] = yz;
+    const leaf = end - start <= LEAF_SIZE || depth >= MAX_DEPTH;
+    if (!grouped && (end - start <= GROUP_SIZE || leaf)) {
+      groups.push(start, end - start);
+      grouped = true;
+    }
+    if (leaf) {
+      links[l + LEAF_START] = start;
+      links[l + LEAF_COUNT] = end - start;
       return;
     }
-    const cx = t.centreX[node], cy = t.centreY[node], cz = t.centreZ[node], h = 0.5 * t.halfSize[node];
-    const counts = [0, 0, 0, 0, 0, 0, 0, 0];
+    const cx = cells[c + CENTRE_X], cy = cells[c + CENTRE_Y], cz = cells[c + CENTRE_Z], h = 0.5 * cells[c + HALF];
+    // This depth's eight counters: the recursion below reuses deeper ones only.
+    const c0 = 8 * depth;
+    counts.fill(0, c0, c0 + 8);
     for (let s = start; s < end; s++) {
-      const i = t.order[s];
-      const o = (src.x[i] >= cx ? 1 : 0) | (src.y[i] >= cy ? 2 : 0) | (src.z[i] >= cz ? 4 : 0);
+      const i = order[s];
+      const o = (x[i] >= cx ? 1 : 0) | (y[i] >= cy ? 2 : 0) | (z[i] >= cz ? 4 : 0);
       octantOf[s] = o;
-      counts[o]++;
+      counts[c0 + o]++;
     }
     // Stable counting sort of this range by octant.
     const offset = [0, 0, 0, 0, 0, 0, 0, 0];
-    for (let o = 1; o < 8; o++) offset[o] = offset[o - 1] + counts[o - 1];
-    for (let s = start; s < end; s++) scratch[start + offset[octantOf[s]]++] = t.order[s];
-    t.order.set(scratch.subarray(start, end), start);
-    const children: [number, number, number][] = [];
-    let first = -1, at = start;
+    for (let o = 1; o < 8; o++) offset[o] = offset[o - 1] + counts[c0 + o - 1];
+    for (let s = start; s < end; s++) scratch[start + offset[octantOf[s]]++] = order[s];
+    order.set(scratch.subarray(start, end), start);
+    let first = -1, kids = 0;
     for (let o = 0; o < 8; o++) {
-      if (counts[o] === 0) continue;
+      if (counts[c0 + o] === 0) continue;
       const child = alloc(cx + (o & 1 ? h : -h), cy + (o & 2 ? h : -h), cz + (o & 4 ? h : -h), h);
       if (first < 0) first = child;
-      children.push([child, at, at + counts[o]]);
-      at += counts[o];
+      kids++;
     }
-    t.firstChild[node] = first;
-    t.childCount[node] = children.length;
-    for (const [child, s, e] of children) split(child, s, e, depth + 1);
+    links[l + FIRST_CHILD] = first;
+    links[l + CHILD_COUNT] = kids;
+    for (let o = 0, at = start, child = first; o < 8; o++) {
+      const k = counts[c0 + o];
+      if (k === 0) continue;
+      split(child++, at, at + k, depth + 1, grouped);
+      at += k;
+    }
   };
-  split(root, 0, n, 0);
-  return t;
+  split(root, 0, n, 0, false);
+  const sorted: Sources = { x: new Float64Array(n), y: new Float64Array(n), z: new Float64Array(n), m: new Float64Array(n) };
+  for (let s = 0; s < n; s++) {
+    const i = order[s];
+    sorted.x[s] = x[i]; sorted.y[s] = y[i]; sorted.z[s] = z[i]; sorted.m[s] = m[i];
+  }
+  return { nodes: links.length / LINK, cells: Float64Array.from(cells), links: Int32Array.from(links), order, sorted, groups: Int32Array.from(groups) };
 }
 
-/** An axis-aligned box of targets that share one interaction list: one leaf's particles, or a single probe. */
-interface TargetBox {
-  minX: number; minY: number; minZ: number;
-  maxX: number; maxY: number; maxZ: number;
+const list = (): Float64Array => new Float64Array(256);
+
+/** Grows a list array to hold at least `need` entries, keeping its contents. */
+function room(a: Float64Array, need: number): Float64Array {
+  if (need <= a.length) return a;
+  const b = new Float64Array(max(need, 2 * a.length));
+  b.set(a);
+  return b;
 }
 
 /**
- * Collects the point masses a group of targets interacts with: accepted cells
- * as their monopoles, particles of leaves that must be opened. A cell is
- * accepted when size < theta * (distance from its centre of mass to the
- * nearest point of the target box) and it does not overlap the box (the
- * second condition is a common-practice guard against targets inside large,
- * lopsided cells). Sharing the walk among a leaf's particles is the grouping
- * of Barnes (1990); for a single point it is the 1986 criterion.
+ * What a group of targets interacts with, gathered by one walk: accepted
+ * cells with their moments, and the particles of leaves that had to be
+ * opened. A cell is accepted when size < theta * (distance from its centre
+ * of mass to the nearest point of the target box) and it does not overlap
+ * the box (the second condition is a common-practice guard against targets
+ * inside large, lopsided cells). Sharing the walk among a leaf's particles is
+ * the grouping of Barnes (1990); for a single point it is the 1986 criterion.
+ * A Yukawa kernel's multipole expansion is another than Newton's, so there
+ * accepted cells join the particles as point masses (monopoles).
  */
 class InteractionList {
-  x = new Float64Array(256); y = new Float64Array(256); z = new Float64Array(256); m = new Float64Array(256);
-  count = 0;
+  // Particles (and Yukawa monopoles): summed by the pair loop.
+  px = list(); py = list(); pz = list(); pm = list();
+  particles = 0;
+  // Cells: centre of mass, mass, second moments, contiguous for the per-target loop.
+  cx = list(); cy = list(); cz = list(); cm = list();
+  cxx = list(); cyy = list(); czz = list(); cxy = list(); cxz = list(); cyz = list();
+  cellCount = 0;
   private stack = new Int32Array(8 * MAX_DEPTH + 8);
 
-  private push(x: number, y: number, z: number, m: number): void {
-    if (this.count === this.x.length) {
-      const g = (a: Float64Array) => { const b = new Float64Array(2 * a.length); b.set(a); return b; };
-      this.x = g(this.x); this.y = g(this.y); this.z = g(this.z); this.m = g(this.m);
+  private pushParticles(sx: Float64Array, sy: Float64Array, sz: Float64Array, sm: Float64Array, from: number, count: number): void {
+    const need = this.particles + count;
+    if (need > this.px.length) {
+      this.px = room(this.px, need); this.py = room(this.py, need); this.pz = room(this.pz, need); this.pm = room(this.pm, need);
     }
-    const k = this.count++;
-    this.x[k] = x; this.y[k] = y; this.z[k] = z; this.m[k] = m;
+    const k = this.particles;
+    this.px.set(sx.subarray(from, from + count), k); this.py.set(sy.subarray(from, from + count), k);
+    this.pz.set(sz.subarray(from, from + count), k); this.pm.set(sm.subarray(from, from + count), k);
+    this.particles = need;
   }
 
-  collect(t: Octree, src: Sources, theta2: number, b: TargetBox): void {
-    this.count = 0;
+  private pushPoint(x: number, y: number, z: number, m: number): void {
+    const k = this.particles++;
+    if (k === this.px.length) {
+      this.px = room(this.px, k + 1); this.py = room(this.py, k + 1); this.pz = room(this.pz, k + 1); this.pm = room(this.pm, k + 1);
+    }
+    this.px[k] = x; this.py[k] = y; this.pz[k] = z; this.pm[k] = m;
+  }
+
+  private pushCell(cells: Float64Array, c: number): void {
+    const k = this.cellCount++;
+    if (k === this.cx.length) {
+      const need = k + 1;
+      this.cx = room(this.cx, need); this.cy = room(this.cy, need); this.cz = room(this.cz, need); this.cm = room(this.cm, need);
+      this.cxx = room(this.cxx, need); this.cyy = room(this.cyy, need); this.czz = room(this.czz, need);
+      this.cxy = room(this.cxy, need); this.cxz = room(this.cxz, need); this.cyz = room(this.cyz, need);
+    }
+    this.cx[k] = cells[c + COM_X]; this.cy[k] = cells[c + COM_Y]; this.cz[k] = cells[c + COM_Z]; this.cm[k] = cells[c + MASS];
+    this.cxx[k] = cells[c + IXX]; this.cyy[k] = cells[c + IYY]; this.czz[k] = cells[c + IZZ];
+    this.cxy[k] = cells[c + IXY]; this.cxz[k] = cells[c + IXZ]; this.cyz[k] = cells[c + IYZ];
+  }
+
+  collect(t: Octree, theta2: number, multipoles: boolean, minX: number, minY: number, minZ: number, maxX: number, maxY: number, maxZ: number): void {
+    this.particles = 0;
+    this.cellCount = 0;
+    const { cells, links } = t;
+    const { x: sx, y: sy, z: sz, m: sm } = t.sorted;
     const stack = this.stack;
     let top = 0;
     stack[top++] = 0;
     while (top > 0) {
       const node = stack[--top];
-      const h = t.halfSize[node];
-      const cx = t.centreX[node], cy = t.centreY[node], cz = t.centreZ[node];
-      const apart = b.minX > cx + h || b.maxX < cx - h || b.minY > cy + h || b.maxY < cy - h || b.minZ > cz + h || b.maxZ < cz - h;
+      const c = node * CELL;
+      const h = cells[c + HALF];
+      const ox = cells[c + CENTRE_X], oy = cells[c + CENTRE_Y], oz = cells[c + CENTRE_Z];
+      const apart = minX > ox + h || maxX < ox - h || minY > oy + h || maxY < oy - h || minZ > oz + h || maxZ < oz - h;
       // Distance from the centre of mass to the nearest point of the box.
-      const gx = t.comX[node], gy = t.comY[node], gz = t.comZ[node];
-      const dx = max(b.minX - gx, 0, gx - b.maxX), dy = max(b.minY - gy, 0, gy - b.maxY), dz = max(b.minZ - gz, 0, gz - b.maxZ);
-      if (apart && 4 * h * h < theta2 * (dx * dx + dy * dy + dz * dz)) {
-        this.push(gx, gy, gz, t.mass[node]);
-      } else if (t.firstChild[node] < 0) {
-        for (let s = t.leafStart[node], e = s + t.leafCount[node]; s < e; s++) {
-          const i = t.order[s];
-          this.push(src.x[i], src.y[i], src.z[i], src.m[i]);
-        }
+      const gx = cells[c + COM_X], gy = cells[c + COM_Y], gz = cells[c + COM_Z];
+      const dx = max(minX - gx, 0, gx - maxX), dy = max(minY - gy, 0, gy - maxY), dz = max(minZ - gz, 0, gz - maxZ);
+      const l = node * LINK;
+      if (apart && cells[c + SIZE2] < theta2 * (dx * dx + dy * dy + dz * dz)) {
+        if (multipoles) this.pushCell(cells, c);
+        else this.pushPoint(gx, gy, gz, cells[c + MASS]);
+      } else if (links[l + FIRST_CHILD] < 0) {
+        this.pushParticles(sx, sy, sz, sm, links[l + LEAF_START], links[l + LEAF_COUNT]);
       } else {
-        for (let c = 0; c < t.childCount[node]; c++) stack[top++] = t.firstChild[node] + c;
+        for (let q = links[l + FIRST_CHILD] + links[l + CHILD_COUNT] - 1; q >= links[l + FIRST_CHILD]; q--) stack[top++] = q;
       }
     }
   }
-}
 
-const pointBox = (x: number, y: number, z: number): TargetBox => ({ minX: x, minY: y, minZ: z, maxX: x, maxY: y, maxZ: z });
-
-function leafBox(t: Octree, src: Points, leaf: number): TargetBox {
-  const b = { minX: Infinity, minY: Infinity, minZ: Infinity, maxX: -Infinity, maxY: -Infinity, maxZ: -Infinity };
-  for (let s = t.leafStart[leaf], e = s + t.leafCount[leaf]; s < e; s++) {
-    const i = t.order[s];
-    b.minX = min(b.minX, src.x[i]); b.maxX = max(b.maxX, src.x[i]);
-    b.minY = min(b.minY, src.y[i]); b.maxY = max(b.maxY, src.y[i]);
-    b.minZ = min(b.minZ, src.z[i]); b.maxZ = max(b.maxZ, src.z[i]);
+  /**
+   * Pull of the gathered cells at (xi, yi, zi), still to be multiplied by G, added into acc[0..2].
+   * With d = com - target, s^2 = d^2 + eps^2 and I the second moments about the com,
+   * the softened sum_j m_j / s_j expands to M/s + (3/2) d.I.d / s^5 - (1/2) tr(I) / s^3;
+   * the pull is its gradient with respect to the target.
+   */
+  cellPull(xi: number, yi: number, zi: number, eps2: number, acc: Float64Array): void {
+    const { cx, cy, cz, cm, cxx, cyy, czz, cxy, cxz, cyz } = this;
+    let sx = 0, sy = 0, sz = 0;
+    for (let k = 0, n = this.cellCount; k < n; k++) {
+      const dx = cx[k] - xi, dy = cy[k] - yi, dz = cz[k] - zi;
+      const inv = 1 / sqrt(dx * dx + dy * dy + dz * dz + eps2);
+      const inv2 = inv * inv, inv3 = inv2 * inv, inv5 = inv3 * inv2;
+      const Ixx = cxx[k], Iyy = cyy[k], Izz = czz[k], Ixy = cxy[k], Ixz = cxz[k], Iyz = cyz[k];
+      const Idx = Ixx * dx + Ixy * dy + Ixz * dz, Idy = Ixy * dx + Iyy * dy + Iyz * dz, Idz = Ixz * dx + Iyz * dy + Izz * dz;
+      const radial = cm[k] * inv3 + 7.5 * (dx * Idx + dy * Idy + dz * Idz) * inv5 * inv2 - 1.5 * (Ixx + Iyy + Izz) * inv5;
+      const q = 3 * inv5;
+      sx += radial * dx - q * Idx; sy += radial * dy - q * Idy; sz += radial * dz - q * Idz;
+    }
+    acc[0] += sx; acc[1] += sy; acc[2] += sz;
   }
-  return b;
+
+  /** The expansion above summed over the gathered cells; the potential is -G times it. */
+  cellPotential(xi: number, yi: number, zi: number, eps2: number): number {
+    const { cx, cy, cz, cm, cxx, cyy, czz, cxy, cxz, cyz } = this;
+    let sp = 0;
+    for (let k = 0, n = this.cellCount; k < n; k++) {
+      const dx = cx[k] - xi, dy = cy[k] - yi, dz = cz[k] - zi;
+      const inv = 1 / sqrt(dx * dx + dy * dy + dz * dz + eps2);
+      const inv2 = inv * inv, inv3 = inv2 * inv;
+      const Ixx = cxx[k], Iyy = cyy[k], Izz = czz[k], Ixy = cxy[k], Ixz = cxz[k], Iyz = cyz[k];
+      const dId = dx * (Ixx * dx + Ixy * dy + Ixz * dz) + dy * (Ixy * dx + Iyy * dy + Iyz * dz) + dz * (Ixz * dx + Iyz * dy + Izz * dz);
+      sp += cm[k] * inv + 1.5 * dId * inv3 * inv2 - 0.5 * (Ixx + Iyy + Izz) * inv3;
+    }
+    return sp;
+  }
 }
 
-/** Leaf nodes in build order: the unit a self-field walk is shared over and split across threads by. */
-export function treeLeaves(t: Octree): Int32Array {
-  const leaves: number[] = [];
-  for (let k = 0; k < t.nodes; k++) if (t.firstChild[k] < 0) leaves.push(k);
-  return Int32Array.from(leaves);
-}
+/** Target groups of a self-field (see Octree.groups): how many there are. */
+export const treeGroups = (t: Octree): number => t.groups.length / 2;
 
 /**
  * Calls `each(targetIndex, list)` for every target a range of the work
- * covers. Self-fields (targets are the sources) walk once per leaf, over
- * leaves[iStart..iEnd); other targets (probes) walk one by one over
+ * covers. Self-fields (targets are the sources) walk once per group, over
+ * groups iStart..iEnd-1; other targets (probes) walk one by one over
  * iStart..iEnd. Either way each target's list depends only on the tree and
  * its group, so splitting ranges across threads gives identical results.
  */
 function forEachTarget(
-  tree: Octree, sources: Sources, targets: Points, theta: number, iStart: number, iEnd: number,
+  tree: Octree, sources: Sources, targets: Points, kernel: PairKernel, theta: number, iStart: number, iEnd: number,
   each: (i: number, list: InteractionList) => void,
 ): void {
   const list = new InteractionList();
   const theta2 = theta * theta;
+  const multipoles = kernel.yukawaAlpha === 0;
   if (targets === sources) {
-    const leaves = treeLeaves(tree);
+    const { order, groups } = tree;
+    const { x, y, z } = tree.sorted;
     for (let k = iStart; k < iEnd; k++) {
-      const leaf = leaves[k];
-      list.collect(tree, sources, theta2, leafBox(tree, sources, leaf));
-      for (let s = tree.leafStart[leaf], e = s + tree.leafCount[leaf]; s < e; s++) each(tree.order[s], list);
+      const s = groups[2 * k], e = s + groups[2 * k + 1];
+      let minX = Infinity, minY = Infinity, minZ = Infinity, maxX = -Infinity, maxY = -Infinity, maxZ = -Infinity;
+      for (let q = s; q < e; q++) {
+        minX = min(minX, x[q]); maxX = max(maxX, x[q]);
+        minY = min(minY, y[q]); maxY = max(maxY, y[q]);
+        minZ = min(minZ, z[q]); maxZ = max(maxZ, z[q]);
+      }
+      list.collect(tree, theta2, multipoles, minX, minY, minZ, maxX, maxY, maxZ);
+      for (let q = s; q < e; q++) each(order[q], list);
     }
   } else {
     for (let i = iStart; i < iEnd; i++) {
-      list.collect(tree, sources, theta2, pointBox(targets.x[i], targets.y[i], targets.z[i]));
+      const xi = targets.x[i], yi = targets.y[i], zi = targets.z[i];
+      list.collect(tree, theta2, multipoles, xi, yi, zi, xi, yi, zi);
       each(i, list);
     }
   }
 }
 
-/** How many work units treeFieldRange / treePotentialRange split over: leaves for a self-field, targets otherwise. */
+/** How many work units treeFieldRange / treePotentialRange split over: groups for a self-field, targets otherwise. */
 export const treeWorkUnits = (tree: Octree, sources: Sources, targets: Points): number =>
-  targets === sources ? treeLeaves(tree).length : targets.x.length;
+  targets === sources ? treeGroups(tree) : targets.x.length;
 
 /** Tree field for work units iStart..iEnd (see treeWorkUnits). */
 export function treeFieldRange(
   tree: Octree, sources: Sources, targets: Points, kernel: PairKernel, theta: number, iStart: number, iEnd: number, out: Accelerations,
 ): void {
   const acc = new Float64Array(3);
-  forEachTarget(tree, sources, targets, theta, iStart, iEnd, (i, list) => {
-    acc.fill(0);
-    sumPull(list.x, list.y, list.z, list.m, list.count, targets.x[i], targets.y[i], targets.z[i], kernel, acc);
+  const eps2 = kernel.softening2_kpc2;
+  forEachTarget(tree, sources, targets, kernel, theta, iStart, iEnd, (i, list) => {
+    const xi = targets.x[i], yi = targets.y[i], zi = targets.z[i];
+    acc[0] = 0; acc[1] = 0; acc[2] = 0;
+    sumPull(list.px, list.py, list.pz, list.pm, list.particles, xi, yi, zi, kernel, acc);
+    list.cellPull(xi, yi, zi, eps2, acc);
     out.ax[i] = G * acc[0]; out.ay[i] = G * acc[1]; out.az[i] = G * acc[2];
   });
 }
@@ -238,8 +342,10 @@ export function treeFieldRange(
 export function treePotentialRange(
   tree: Octree, sources: Sources, targets: Points, kernel: PairKernel, theta: number, iStart: number, iEnd: number, out: Float64Array,
 ): void {
-  forEachTarget(tree, sources, targets, theta, iStart, iEnd, (i, list) => {
-    out[i] = -G * sumPotential(list.x, list.y, list.z, list.m, list.count, targets.x[i], targets.y[i], targets.z[i], kernel);
+  const eps2 = kernel.softening2_kpc2;
+  forEachTarget(tree, sources, targets, kernel, theta, iStart, iEnd, (i, list) => {
+    const xi = targets.x[i], yi = targets.y[i], zi = targets.z[i];
+    out[i] = -G * (sumPotential(list.px, list.py, list.pz, list.pm, list.particles, xi, yi, zi, kernel) + list.cellPotential(xi, yi, zi, eps2));
   });
 }
 
