@@ -6,6 +6,7 @@ import type { LawInfo } from './laws/types';
 import type { Component } from './models';
 import { measureRotationCurve, type RotationCurve } from './rotationCurves';
 import { Simulation } from './simulation';
+import type { FieldSolver } from './solvers';
 import { firstNonFinite, type ParticleState } from './state';
 import { timescalesFor, type EngineWarning, type Timescales } from './timescales';
 import { toomreProfile } from './toomre';
@@ -26,6 +27,12 @@ export interface RunHooks {
   maxSnapshotParticles?: number;
   /** Also store velocities in snapshots (default false). */
   snapshotVelocities?: boolean;
+  /**
+   * Computes the forces in place of the solver the spec names, e.g. the
+   * worker's direct sum split across threads. It must give the same numbers
+   * as that solver, so results stay a function of the spec alone.
+   */
+  solver?: FieldSolver;
 }
 
 export interface Snapshot {
@@ -92,7 +99,7 @@ function snapshotSubset(n: number, max: number): Uint32Array {
 
 /** Runs a spec to completion (or cancellation). Synchronous and pure: same spec, same result, bit for bit. */
 export function runSimulation(spec: RunSpec, hooks: RunHooks = {}): RunResult {
-  const sim = new Simulation(spec);
+  const sim = new Simulation(spec, undefined, hooks.solver);
   const { timescales, warnings } = timescalesFor(spec, sim.initial);
   const total = sim.totalSteps;
   const diagEvery = spec.diagnosticsEvery ?? Math.max(1, Math.ceil(total / DEFAULT_DIAGNOSTIC_SAMPLES));

@@ -5,7 +5,7 @@ import { createLaw } from './laws/registry';
 import type { ForceLaw } from './laws/types';
 import { buildInitialConditions, type InitialConditions } from './models';
 import { seedRng, type RngState } from './rng';
-import { makeSolver } from './solvers';
+import { makeSolver, type FieldSolver } from './solvers';
 import { cloneParticles, type ParticleState } from './state';
 import { internalToMyr, myrToInternal } from './units';
 
@@ -30,12 +30,13 @@ export class Simulation {
   private readonly dt: number;
   forceEvaluations = 0;
 
-  constructor(spec: RunSpec, state?: SimulationState) {
+  /** `solver` replaces the one the spec names (see RunHooks.solver). */
+  constructor(spec: RunSpec, state?: SimulationState, solver: FieldSolver = makeSolver(spec.solver)) {
     this.spec = spec;
     // Initial conditions always come from a fresh generator, so a resumed run knows its t = 0 too.
     const icRng = seedRng(spec.seed);
     this.initial = buildInitialConditions(spec, icRng);
-    this.law = createLaw(spec.law, { solver: makeSolver(spec.solver), softening_kpc: spec.softening_kpc });
+    this.law = createLaw(spec.law, { solver, softening_kpc: spec.softening_kpc });
     this.totalSteps = stepCount(spec);
     this.dt = myrToInternal(spec.timestep_Myr);
     this.integrator = makeIntegrator(spec.integrator, this.initial.particles.n);
