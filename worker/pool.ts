@@ -2,39 +2,96 @@ import path from 'node:path';
 import { MessageChannel } from 'node:worker_threads';
 import { Piscina } from 'piscina';
 import type { RunResult } from '../shared/engine';
-import type { RunSpec } from '../shared/spec';
+import { particleCount, type RunSpec } from '../shared/spec';
 import type { RunProgress } from '../shared/api/contract';
+import { createSharedField, dismissHelper, stopSharedField, type SharedField } from './sharedField';
 
 export interface RunHandle {
   result: Promise<RunResult>;
   cancel(): void;
+  /** Target chunks computed by helper threads, once they have all left; 0 when the run was not split. */
+  helped: Promise<number>;
 }
 
-/** A pool of threads, each integrating one run at a time. */
+/**
+ * Direct-sum runs from this size are split across free threads. Below it a
+ * force evaluation takes well under a millisecond, where waking helpers and
+ * copying positions would eat most of the gain (our own choice, from the bench).
+ */
+export const SPLIT_MIN_PARTICLES = 1500;
+
+/** The rule for splitting one run: direct sum (tree walks are not split), and large enough to pay. */
+export const splits = (spec: RunSpec): boolean => spec.solver.kind === 'direct' && particleCount(spec) >= SPLIT_MIN_PARTICLES;
+
+/**
+ * A pool of threads, each integrating one run at a time. A large direct-sum
+ * run that starts while threads are free also gets those threads as helpers
+ * for its force sum (see sharedField.ts); a run that arrives when every thread
+ * is taken gets one back from a helper, so splitting never makes a run wait.
+ */
 export class RunPool {
   private readonly pool: Piscina;
+  /** Tasks handed to piscina and not yet settled: runs and helpers. */
+  private busy = 0;
+  /** Split runs with their helpers still wanted. */
+  private readonly lent = new Map<SharedField, number>();
 
-  constructor(threads: number) {
+  constructor(private readonly threads: number) {
     this.pool = new Piscina({
       filename: path.join(__dirname, 'task.ts'),
       minThreads: 1,
       maxThreads: threads,
+      // Threads beyond the first stay a while, so the next split run finds its helpers warm.
+      idleTimeout: 60_000,
       // The .ts task file needs the tsx loader in threads started outside tsx (e.g. Jest).
       execArgv: process.execArgv.some((a) => a.includes('tsx')) ? process.execArgv : ['--import', 'tsx'],
     });
   }
 
   start(spec: RunSpec, onProgress: (p: RunProgress) => void): RunHandle {
+    if (this.busy >= this.threads) this.reclaimThread();
+    const helpers = splits(spec) ? Math.max(0, this.threads - this.busy - 1) : 0;
+    const sharedField = helpers > 0 ? createSharedField(particleCount(spec), helpers) : undefined;
+
     const { port1, port2 } = new MessageChannel();
     const cancelFlag = new Int32Array(new SharedArrayBuffer(4));
     port1.on('message', onProgress);
-    const result = this.pool
-      .run({ spec, progressPort: port2, cancelFlag }, { transferList: [port2] })
-      .finally(() => port1.close()) as Promise<RunResult>;
-    return { result, cancel: () => Atomics.store(cancelFlag, 0, 1) };
+    const result = this.track(this.pool.run({ spec, progressPort: port2, cancelFlag, sharedField }, { transferList: [port2] })).finally(() => {
+      port1.close();
+      // Helpers leave even if the run's thread died before it could tell them.
+      if (sharedField) {
+        stopSharedField(sharedField);
+        this.lent.delete(sharedField);
+      }
+    }) as Promise<RunResult>;
+
+    let helped: Promise<number> = Promise.resolve(0);
+    if (sharedField) {
+      this.lent.set(sharedField, helpers);
+      // A helper that fails only means the run works with fewer threads.
+      const tasks = Array.from({ length: helpers }, () => this.track(this.pool.run({ sharedField }, { name: 'fieldHelper' }) as Promise<number>).catch(() => 0));
+      helped = Promise.all(tasks).then((counts) => counts.reduce((a, b) => a + b, 0));
+    }
+    return { result, cancel: () => Atomics.store(cancelFlag, 0, 1), helped };
+  }
+
+  /** Dismisses one helper of a split run; its thread then takes the next queued task. */
+  private reclaimThread(): void {
+    for (const [field, wanted] of this.lent) {
+      if (wanted === 0) continue;
+      dismissHelper(field);
+      this.lent.set(field, wanted - 1);
+      return;
+    }
+  }
+
+  private track<T>(task: Promise<T>): Promise<T> {
+    this.busy++;
+    return task.finally(() => this.busy--);
   }
 
   close(): Promise<void> {
+    for (const field of this.lent.keys()) stopSharedField(field);
     return this.pool.destroy();
   }
 }

@@ -1,23 +1,34 @@
-// The piscina thread's task: runs one simulation through the engine. It knows
-// nothing of queues or databases; progress goes out through a MessagePort and
-// cancelling comes in through a shared flag the parent sets.
+// The piscina thread's tasks. The default one runs one simulation through the
+// engine; it knows nothing of queues or databases: progress goes out through a
+// MessagePort and cancelling comes in through a shared flag the parent sets.
+// `fieldHelper` lends its thread to another task's split force sum.
 import type { MessagePort } from 'node:worker_threads';
 import { runSimulation, type RunResult } from '../shared/engine';
 import type { RunSpec } from '../shared/spec';
+import { serveSharedField, SplitDirectSolver, stopSharedField, type SharedField } from './sharedField';
 
 export interface RunTask {
   spec: RunSpec;
   progressPort: MessagePort;
   cancelFlag: Int32Array; // over a SharedArrayBuffer; 1 means stop
+  /** Present when the pool lent helper threads to this run's direct sum. */
+  sharedField?: SharedField;
 }
 
-export default function runTask({ spec, progressPort, cancelFlag }: RunTask): RunResult {
+export default function runTask({ spec, progressPort, cancelFlag, sharedField }: RunTask): RunResult {
   try {
     return runSimulation(spec, {
       onProgress: (p) => progressPort.postMessage(p),
       shouldCancel: () => Atomics.load(cancelFlag, 0) === 1,
+      ...(sharedField ? { solver: new SplitDirectSolver(sharedField) } : {}),
     });
   } finally {
+    if (sharedField) stopSharedField(sharedField);
     progressPort.close();
   }
+}
+
+/** Serves a split run's force sums until it ends or the pool dismisses this helper; returns the chunks it computed. */
+export function fieldHelper({ sharedField }: { sharedField: SharedField }): number {
+  return serveSharedField(sharedField);
 }

@@ -1,0 +1,88 @@
+// One run's direct sum split across pool threads over shared memory
+// (worker/sharedField.ts): the same numbers, bit for bit, as one thread.
+import path from 'node:path';
+import { Piscina } from 'piscina';
+import { directSolver } from '../../shared/engine/solvers/direct';
+import { newtonKernel, type PairKernel } from '../../shared/engine/solvers/types';
+import { allocateAccelerations, type Points } from '../../shared/engine/state';
+import type { RunResult } from '../../shared/engine';
+import { RunPool, SPLIT_MIN_PARTICLES } from '../../worker/pool';
+import { activeHelpers, createSharedField, SplitDirectSolver, stopSharedField } from '../../worker/sharedField';
+import { plummerParticles, plummerRun } from '../bench/specs';
+
+jest.setTimeout(120_000);
+
+const taskFile = path.resolve(__dirname, '../../worker/task.ts');
+
+async function until(cond: () => boolean, what: string): Promise<void> {
+  for (const started = Date.now(); !cond(); await new Promise((r) => setTimeout(r, 20))) {
+    if (Date.now() - started > 60_000) throw new Error(`timed out waiting for ${what}`);
+  }
+}
+
+test('a force sum split with a helper thread equals the single-thread direct sum bit for bit, for every kernel and target kind', async () => {
+  const n = 1001; // odd, so chunks and pairs of targets do not line up
+  const p = plummerParticles(n);
+  const probes: Points = { x: p.x.slice(0, 333).map((v) => v + 0.01), y: p.y.slice(0, 333), z: p.z.slice(0, 333) };
+  const kernels: PairKernel[] = [newtonKernel(0.05), newtonKernel(0), { softening2_kpc2: 0.01, yukawaAlpha: 0.5, yukawaLambda_kpc: 2 }];
+  const pool = new Piscina({ filename: taskFile, maxThreads: 1, execArgv: ['--import', 'tsx'] });
+  const shared = createSharedField(n, 1);
+  const helper = pool.run({ sharedField: shared }, { name: 'fieldHelper' }) as Promise<number>;
+  try {
+    await until(() => activeHelpers(shared) === 1, 'the helper thread');
+    const split = new SplitDirectSolver(shared);
+    for (const kernel of kernels) {
+      for (const targets of [p, probes]) {
+        const count = targets.x.length;
+        const a = allocateAccelerations(count), b = allocateAccelerations(count);
+        split.field(p, targets, kernel, a);
+        directSolver.field(p, targets, kernel, b);
+        expect(a).toEqual(b);
+        const pa = new Float64Array(count), pb = new Float64Array(count);
+        split.potential(p, targets, kernel, pa);
+        directSolver.potential(p, targets, kernel, pb);
+        expect(pa).toEqual(pb);
+      }
+    }
+  } finally {
+    stopSharedField(shared);
+  }
+  // The helper really took part: it computed some of the chunks, and left when told.
+  expect(await helper).toBeGreaterThan(0);
+  expect(activeHelpers(shared)).toBe(0);
+  await pool.destroy();
+});
+
+const sameRun = (a: RunResult, b: RunResult) => {
+  expect(a.snapshots.map((s) => s.positions)).toEqual(b.snapshots.map((s) => s.positions));
+  expect(a.diagnostics).toEqual(b.diagnostics);
+  expect(a.rotationCurves).toEqual(b.rotationCurves);
+};
+
+test('a large direct-sum run through the pool is split across its free thread and ends bit-identical to a one-thread run', async () => {
+  const spec = plummerRun(SPLIT_MIN_PARTICLES + 1, 6, { snapshotEvery: 2, diagnosticsEvery: 2 });
+  const one = new RunPool(1), two = new RunPool(2);
+  try {
+    const alone = one.start(spec, () => undefined);
+    const split = two.start(spec, () => undefined);
+    sameRun(await split.result, await alone.result);
+    expect(await alone.helped).toBe(0);
+    expect(await split.helped).toBeGreaterThan(0);
+  } finally {
+    await Promise.all([one.close(), two.close()]);
+  }
+});
+
+test('a run arriving while a helper holds the last thread takes that thread back instead of waiting for the large run', async () => {
+  const pool = new RunPool(2);
+  try {
+    const ended: string[] = [];
+    // The large run starts on an idle pool, so it borrows the second thread as a helper.
+    const large = pool.start(plummerRun(SPLIT_MIN_PARTICLES, 400), () => undefined);
+    const small = pool.start(plummerRun(200, 5), () => undefined);
+    await Promise.all([large.result.then(() => ended.push('large')), small.result.then(() => ended.push('small'))]);
+    expect(ended).toEqual(['small', 'large']);
+  } finally {
+    await pool.close();
+  }
+});
