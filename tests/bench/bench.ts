@@ -1,0 +1,107 @@
+// The bench's sections and its report. `run.ts` is the command; the smoke test
+// calls the same functions at tiny sizes so they can't rot.
+import os from 'node:os';
+import { benchDirect, type DirectFigures } from './direct';
+import { benchTree, type TreeFigure } from './tree';
+import { benchThreads, type ThreadFigures } from './threads';
+import { benchEndToEnd, benchSnapshots, type EndToEndFigures, type SnapshotFigures, type StackTarget } from './stack';
+import type { ClientFigures } from './client';
+
+export interface PureSizes {
+  direct: { n: number; repeats: number };
+  tree: { sizes: number[]; thetas: number[]; sampleTargets: number; repeats: number };
+  threads: { n: number; steps: number; threads: number };
+}
+
+export const FULL_SIZES: PureSizes = {
+  direct: { n: 4096, repeats: 7 },
+  tree: { sizes: [1_000, 10_000, 100_000], thetas: [0.5, 0.7], sampleTargets: 1_000, repeats: 3 },
+  threads: { n: 6_000, steps: 40, threads: 2 },
+};
+
+export interface PureReport {
+  directSum: DirectFigures;
+  tree: TreeFigure[];
+  threads: ThreadFigures;
+}
+
+export interface StackReport {
+  e2e: EndToEndFigures;
+  snapshot: SnapshotFigures;
+  client: ClientFigures;
+}
+
+export type BenchReport = PureReport & Partial<StackReport> & { machine: { date: string; cpus: number; cpuModel: string; node: string } };
+
+const log = (msg: string) => process.stderr.write(`[bench] ${msg}\n`);
+
+export async function benchPure(sizes: PureSizes = FULL_SIZES): Promise<PureReport> {
+  log(`direct sum at N = ${sizes.direct.n}`);
+  const directSum = benchDirect(sizes.direct);
+  log(`tree at N = ${sizes.tree.sizes.join(', ')}`);
+  const tree = benchTree(sizes.tree);
+  log(`threads: one ${sizes.threads.n}-particle run on 1 and ${sizes.threads.threads} threads`);
+  const threads = await benchThreads(sizes.threads);
+  return { directSum, tree, threads };
+}
+
+export async function benchStackSections(
+  target: StackTarget,
+  sizes: { particles: number; steps: number },
+): Promise<Omit<StackReport, 'client'>> {
+  log(`end to end: a ${sizes.particles}-particle, ${sizes.steps}-step disk run through the stack`);
+  const e2e = await benchEndToEnd(target, sizes);
+  const snapshot = await benchSnapshots(target, e2e.runId);
+  return { e2e, snapshot };
+}
+
+export function machine(): BenchReport['machine'] {
+  return { date: new Date().toISOString().slice(0, 10), cpus: os.cpus().length, cpuModel: os.cpus()[0]?.model ?? 'unknown', node: process.version };
+}
+
+/** The JSON the issue asks for: every figure under its key; sections not measured are null. */
+export function toJson(r: BenchReport): Record<string, unknown> {
+  return {
+    directSum: r.directSum,
+    tree: r.tree,
+    threads: r.threads,
+    e2e: r.e2e ?? { firstProgressMs: null, diskRunSeconds: null },
+    snapshot: r.snapshot ?? { bytesPerParticle: null },
+    client: r.client ?? { fps: null },
+    machine: r.machine,
+  };
+}
+
+const fmt = (v: number, digits = 3) => (Math.abs(v) >= 1e4 || (Math.abs(v) < 1e-2 && v !== 0) ? v.toExponential(digits - 1) : v.toPrecision(digits));
+const mark = (ok: boolean) => (ok ? 'ok' : 'MISSED');
+
+/** The table: each figure with its target beside it. */
+export function toTable(r: BenchReport): string {
+  const rows: [string, string, string, string][] = [];
+  const d = r.directSum;
+  rows.push([`direct sum N=${d.n}: engine kernel`, `${fmt(d.interactionsPerSecond / 1e6)} M pairs/s`, '', '']);
+  rows.push([`direct sum N=${d.n}: plain reference loop`, `${fmt(d.referenceInteractionsPerSecond / 1e6)} M pairs/s`, '', '']);
+  rows.push(['direct sum: engine / reference', fmt(d.ratio), '>= 1.0', mark(d.ratio >= 1)]);
+  const base = r.tree[0];
+  const perNlogN = (f: TreeFigure) => f.msPerStep / (f.n * Math.log2(f.n));
+  for (const f of r.tree) {
+    const sameTheta = r.tree.find((g) => g.theta === f.theta) ?? base;
+    const growth = perNlogN(f) / perNlogN(sameTheta);
+    rows.push([`tree N=${f.n} theta=${f.theta}: ms per step`, fmt(f.msPerStep), `cost/(N log N) vs N=${sameTheta.n}: ${fmt(growth, 2)} (~1)`, mark(growth < 2)]);
+    const errTarget = f.theta === 0.5 ? '<= 1e-3' : '';
+    rows.push([`tree N=${f.n} theta=${f.theta}: median / p99 force error`, `${fmt(f.medianError)} / ${fmt(f.p99Error)}`, errTarget, f.theta === 0.5 ? mark(f.medianError <= 1e-3) : '']);
+  }
+  const t = r.threads;
+  rows.push([`threads: ${t.n}-particle run, ${t.steps} steps, 1 -> ${t.threads} threads`, `${fmt(t.singleSeconds)} s -> ${fmt(t.splitSeconds)} s`, t.identical ? 'bit-identical' : 'RESULTS DIFFER', mark(t.identical)]);
+  rows.push(['threads: speed-up', `${fmt(t.speedup)}x`, '>= 1.7x', mark(t.speedup >= 1.7)]);
+  if (r.e2e) {
+    rows.push(['end to end: submit -> first progress', `${fmt(r.e2e.firstProgressMs)} ms`, '< 1000 ms', mark(r.e2e.firstProgressMs < 1000)]);
+    rows.push([`end to end: ${r.e2e.particles}-particle ${r.e2e.steps}-step disk run`, `${fmt(r.e2e.diskRunSeconds)} s`, '< 60 s', mark(r.e2e.diskRunSeconds < 60)]);
+  } else rows.push(['end to end', 'not measured (no stack)', '', '']);
+  if (r.snapshot) rows.push([`snapshots: ${r.snapshot.frames} frames x ${r.snapshot.particles} particles`, `${fmt(r.snapshot.bytesPerParticle, 4)} bytes/particle`, '12 (float32 x, y, z) + headers', '']);
+  if (r.client) rows.push([`client: animation at ${r.client.particles} particles`, `${fmt(r.client.fps)} fps`, '>= 30 (our own choice)', mark(r.client.fps >= 30)]);
+  const widths = [0, 1, 2, 3].map((k) => Math.max(...rows.map((row) => row[k].length)));
+  const line = (row: string[]) => row.map((c, k) => c.padEnd(widths[k])).join('  ').trimEnd();
+  const m = r.machine;
+  return [`Infall bench, ${m.date}, ${m.cpus} cores (${m.cpuModel}), Node ${m.node}`, line(['figure', 'measured', 'target', '']), ...rows.map(line)].join('\n');
+}

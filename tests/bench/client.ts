@@ -1,0 +1,55 @@
+// The client's animation in headless Chromium: frames per second while a
+// finished run's snapshots play, counted as requestAnimationFrame callbacks.
+import { chromium, type Browser, type Page } from 'playwright-core';
+import { CHROMIUM_FLAGS } from '../e2e/support/browser';
+
+export interface ClientFigures {
+  particles: number;
+  seconds: number;
+  fps: number;
+}
+
+export interface SignedInBrowser {
+  browser: Browser;
+  page: Page;
+  close(): Promise<void>;
+}
+
+/** Opens Chromium and signs in through the fake provider's page with an invented login (it creates the user). */
+export async function signInBrowser(url: string, login: string): Promise<SignedInBrowser> {
+  const browser = await chromium.launch({ executablePath: process.env.CHROMIUM_PATH ?? '/usr/bin/chromium', args: CHROMIUM_FLAGS });
+  const page = await browser.newPage({ viewport: { width: 1280, height: 900 }, deviceScaleFactor: 1 });
+  await page.goto(`${url}/sign-in?next=/`);
+  await page.getByTestId('sign-in').click();
+  await page.locator('#other').fill(login);
+  await page.getByRole('button', { name: 'Sign in with the login typed above' }).click();
+  await page.waitForURL((u) => u.origin === url && u.pathname === '/', { timeout: 30_000 });
+  return { browser, page, close: () => browser.close() };
+}
+
+/** Opens the run page, starts playback and counts animation frames for `seconds`. */
+export async function benchClient(page: Page, url: string, runId: string, particles: number, seconds = 4): Promise<ClientFigures> {
+  await page.goto(`${url}/runs/${runId}`);
+  const play = page.getByTestId('play-toggle');
+  await page.getByTestId('particle-cloud').waitFor({ timeout: 60_000 });
+  await play.click();
+  const readout = page.getByTestId('playhead-readout');
+  const before = await readout.textContent();
+  const fps = await page.evaluate(
+    (ms) =>
+      new Promise<number>((resolve) => {
+        let frames = 0;
+        const first = performance.now();
+        const tick = (now: number) => {
+          frames++;
+          if (now - first < ms) requestAnimationFrame(tick);
+          else resolve((1000 * frames) / (now - first));
+        };
+        requestAnimationFrame(tick);
+      }),
+    seconds * 1000,
+  );
+  // A readout that did not move would mean the frames were counted over a still picture.
+  if ((await readout.textContent()) === before) throw new Error('the playhead did not move during the measurement');
+  return { particles, seconds, fps };
+}

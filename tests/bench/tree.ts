@@ -1,0 +1,59 @@
+// Barnes-Hut tree: cost of one force evaluation (build and walk over every
+// particle) and its force error against the direct sum on a random subset of targets.
+import { directSolver } from '../../shared/engine/solvers/direct';
+import { treeSolver } from '../../shared/engine/solvers/tree';
+import { newtonKernel } from '../../shared/engine/solvers/types';
+import { allocateAccelerations, type Points } from '../../shared/engine/state';
+import { seedRng, uniform } from '../../shared/engine/rng';
+import { plummerParticles } from './specs';
+
+export interface TreeFigure {
+  n: number;
+  theta: number;
+  msPerStep: number;
+  medianError: number;
+  p99Error: number;
+}
+
+function quantile(sorted: Float64Array, q: number): number {
+  return sorted[Math.min(sorted.length - 1, Math.floor(q * (sorted.length - 1) + 0.5))];
+}
+
+/** Distinct random indices, k of n (all of them when k >= n), from a fixed seed. */
+function sampleIndices(n: number, k: number): Uint32Array {
+  if (k >= n) return Uint32Array.from({ length: n }, (_, i) => i);
+  const rng = seedRng(2024);
+  const picked = new Set<number>();
+  while (picked.size < k) picked.add(Math.floor(uniform(rng) * n));
+  return Uint32Array.from([...picked].sort((a, b) => a - b));
+}
+
+export function benchTree({ sizes = [1_000, 10_000, 100_000], thetas = [0.5, 0.7], sampleTargets = 1_000, repeats = 3, softening_kpc = 0.05 } = {}): TreeFigure[] {
+  const kernel = newtonKernel(softening_kpc);
+  const figures: TreeFigure[] = [];
+  for (const n of sizes) {
+    const p = plummerParticles(n);
+    const idx = sampleIndices(n, sampleTargets);
+    const probes: Points = { x: Float64Array.from(idx, (i) => p.x[i]), y: Float64Array.from(idx, (i) => p.y[i]), z: Float64Array.from(idx, (i) => p.z[i]) };
+    const exact = allocateAccelerations(idx.length);
+    directSolver.field(p, probes, kernel, exact);
+    const out = allocateAccelerations(n);
+    for (const theta of thetas) {
+      const solver = treeSolver(theta);
+      // Big trees take seconds an evaluation: fewer repeats there.
+      const reps = n >= 50_000 ? 1 : repeats;
+      let best = Infinity;
+      for (let r = 0; r < reps; r++) {
+        const t = performance.now();
+        solver.field(p, p, kernel, out);
+        best = Math.min(best, performance.now() - t);
+      }
+      const err = Float64Array.from(idx, (i, k) => {
+        const d = Math.hypot(out.ax[i] - exact.ax[k], out.ay[i] - exact.ay[k], out.az[i] - exact.az[k]);
+        return d / Math.hypot(exact.ax[k], exact.ay[k], exact.az[k]);
+      }).sort();
+      figures.push({ n, theta, msPerStep: best, medianError: quantile(err, 0.5), p99Error: quantile(err, 0.99) });
+    }
+  }
+  return figures;
+}

@@ -1,0 +1,33 @@
+// Smoke test of `npm run bench`: its sections that need no stack, at tiny sizes,
+// so the bench can't rot. Nothing here is timed against a target.
+import { benchPure, machine, toJson, toTable, type PureSizes } from '../bench/bench';
+
+jest.setTimeout(120_000);
+
+const TINY: PureSizes = {
+  direct: { n: 64, repeats: 2 },
+  tree: { sizes: [300, 600], thetas: [0.5, 0.7], sampleTargets: 50, repeats: 1 },
+  threads: { n: 200, steps: 2, threads: 2 },
+};
+
+const finite = (v: unknown) => typeof v === 'number' && Number.isFinite(v);
+
+test('the pure sections give every JSON key a finite number, and the table names each target', async () => {
+  const report = { ...(await benchPure(TINY)), machine: machine() };
+  const json = toJson(report) as Record<string, Record<string, unknown> & unknown[]>;
+  for (const key of ['interactionsPerSecond', 'referenceInteractionsPerSecond', 'ratio']) expect(finite(json.directSum[key])).toBe(true);
+  // The engine's kernel and the bench's plain loop compute the same sums.
+  expect(report.directSum.maxRelativeDifference).toBeLessThan(1e-12);
+  expect(json.tree).toHaveLength(4);
+  for (const row of json.tree as unknown as Record<string, unknown>[]) {
+    for (const key of ['n', 'theta', 'msPerStep', 'medianError', 'p99Error']) expect(finite(row[key])).toBe(true);
+  }
+  expect(finite(json.threads.speedup)).toBe(true);
+  expect(report.threads.identical).toBe(true);
+  // Without a stack (skipped here; tests/server/bench-stack.test.ts covers those sections) the keys are present and null.
+  expect(json.e2e).toEqual({ firstProgressMs: null, diskRunSeconds: null });
+  expect(json.snapshot).toEqual({ bytesPerParticle: null });
+  expect(json.client).toEqual({ fps: null });
+  const table = toTable(report);
+  for (const target of ['>= 1.0', '<= 1e-3', '>= 1.7x']) expect(table).toContain(target);
+});
