@@ -1,8 +1,8 @@
-import { useMemo, useState } from 'react';
+import { memo, useMemo, useState } from 'react';
 import { StyleSheet, View, type LayoutChangeEvent } from 'react-native';
 import Svg, { G, Line, Path, Text as SvgText } from 'react-native-svg';
 import { colors, fonts, space } from '../constants/theme';
-import { formatTick, makeScale, niceDomain } from './plot/scale';
+import { formatTick, makeScale, niceDomain, type Scale } from './plot/scale';
 import { Txt } from './Txt';
 
 export interface PlotSeries {
@@ -58,6 +58,46 @@ function extent(series: PlotSeries[], axis: 'x' | 'y', log: boolean): [number, n
   return [lo, hi];
 }
 
+interface PlotGeometry {
+  x: Scale;
+  y: Scale;
+  paths: { s: PlotSeries; d: string }[];
+  xt: number[];
+  yt: number[];
+}
+
+/** Grid, ticks and lines: memoised, so a moving marker does not redraw them. */
+const Axes = memo(function Axes({ plot, width, height, xLabel, xLog, yLog }: { plot: PlotGeometry; width: number; height: number; xLabel: string; xLog: boolean; yLog: boolean }) {
+  return (
+    <G>
+      {plot.yt.map((t) => (
+        <G key={`y${t}`}>
+          <Line x1={M.left} x2={width - M.right} y1={plot.y(t)} y2={plot.y(t)} stroke={colors.border} strokeWidth={1} />
+          <SvgText x={M.left - 6} y={plot.y(t) + 4} fill={colors.textMuted} fontSize={10} fontFamily={fonts.mono} textAnchor="end">
+            {formatTick(t, plot.yt, yLog)}
+          </SvgText>
+        </G>
+      ))}
+      {plot.xt.map((t) => (
+        <G key={`x${t}`}>
+          <Line x1={plot.x(t)} x2={plot.x(t)} y1={height - M.bottom} y2={height - M.bottom + 4} stroke={colors.borderStrong} strokeWidth={1} />
+          <SvgText x={plot.x(t)} y={height - M.bottom + 16} fill={colors.textMuted} fontSize={10} fontFamily={fonts.mono} textAnchor="middle">
+            {formatTick(t, plot.xt, xLog)}
+          </SvgText>
+        </G>
+      ))}
+      <Line x1={M.left} x2={width - M.right} y1={height - M.bottom} y2={height - M.bottom} stroke={colors.borderStrong} strokeWidth={1} />
+      <Line x1={M.left} x2={M.left} y1={M.top} y2={height - M.bottom} stroke={colors.borderStrong} strokeWidth={1} />
+      {plot.paths.map(({ s, d }) => (
+        <Path key={s.id} d={d} stroke={s.color} strokeWidth={2} fill="none" strokeDasharray={s.dashed ? '6 4' : undefined} strokeLinejoin="round" />
+      ))}
+      <SvgText x={(M.left + width - M.right) / 2} y={height - 4} fill={colors.textMuted} fontSize={11} fontFamily={fonts.body} textAnchor="middle">
+        {xLabel}
+      </SvgText>
+    </G>
+  );
+});
+
 /** A line plot with axes, units, ticks and a legend; linear or log on either axis. */
 export function LinePlot({ series, xLabel, yLabel, xLog = false, yLog = false, height = 220, xDomain, yDomain, yFromZero = false, markerX, accessibilityLabel, emptyText, testID }: LinePlotProps) {
   const [width, setWidth] = useState(320);
@@ -66,7 +106,7 @@ export function LinePlot({ series, xLabel, yLabel, xLog = false, yLog = false, h
     if (w > 0 && w !== width) setWidth(w);
   };
 
-  const plot = useMemo(() => {
+  const plot = useMemo((): PlotGeometry | null => {
     const [xl, xh] = xDomain ?? extent(series, 'x', xLog);
     const [yl, yh] = yDomain ?? extent(series, 'y', yLog);
     if (!Number.isFinite(xl) || !Number.isFinite(yl)) return null;
@@ -102,35 +142,10 @@ export function LinePlot({ series, xLabel, yLabel, xLog = false, yLog = false, h
       <View onLayout={onLayout} role="img" accessibilityLabel={accessibilityLabel} style={{ height }}>
         {plot ? (
           <Svg width={width} height={height}>
-            <G>
-              {plot.yt.map((t) => (
-                <G key={`y${t}`}>
-                  <Line x1={M.left} x2={width - M.right} y1={plot.y(t)} y2={plot.y(t)} stroke={colors.border} strokeWidth={1} />
-                  <SvgText x={M.left - 6} y={plot.y(t) + 4} fill={colors.textMuted} fontSize={10} fontFamily={fonts.mono} textAnchor="end">
-                    {formatTick(t, plot.yt, yLog)}
-                  </SvgText>
-                </G>
-              ))}
-              {plot.xt.map((t) => (
-                <G key={`x${t}`}>
-                  <Line x1={plot.x(t)} x2={plot.x(t)} y1={height - M.bottom} y2={height - M.bottom + 4} stroke={colors.borderStrong} strokeWidth={1} />
-                  <SvgText x={plot.x(t)} y={height - M.bottom + 16} fill={colors.textMuted} fontSize={10} fontFamily={fonts.mono} textAnchor="middle">
-                    {formatTick(t, plot.xt, xLog)}
-                  </SvgText>
-                </G>
-              ))}
-              <Line x1={M.left} x2={width - M.right} y1={height - M.bottom} y2={height - M.bottom} stroke={colors.borderStrong} strokeWidth={1} />
-              <Line x1={M.left} x2={M.left} y1={M.top} y2={height - M.bottom} stroke={colors.borderStrong} strokeWidth={1} />
-              {markerX !== undefined && markerX >= plot.x.domain[0] && markerX <= plot.x.domain[1] ? (
-                <Line x1={plot.x(markerX)} x2={plot.x(markerX)} y1={M.top} y2={height - M.bottom} stroke={colors.text} strokeOpacity={0.5} strokeDasharray="3 3" strokeWidth={1} />
-              ) : null}
-              {plot.paths.map(({ s, d }) => (
-                <Path key={s.id} d={d} stroke={s.color} strokeWidth={2} fill="none" strokeDasharray={s.dashed ? '6 4' : undefined} strokeLinejoin="round" />
-              ))}
-              <SvgText x={(M.left + width - M.right) / 2} y={height - 4} fill={colors.textMuted} fontSize={11} fontFamily={fonts.body} textAnchor="middle">
-                {xLabel}
-              </SvgText>
-            </G>
+            <Axes plot={plot} width={width} height={height} xLabel={xLabel} xLog={xLog} yLog={yLog} />
+            {markerX !== undefined && markerX >= plot.x.domain[0] && markerX <= plot.x.domain[1] ? (
+              <Line x1={plot.x(markerX)} x2={plot.x(markerX)} y1={M.top} y2={height - M.bottom} stroke={colors.text} strokeOpacity={0.5} strokeDasharray="3 3" strokeWidth={1} />
+            ) : null}
           </Svg>
         ) : (
           <View style={[styles.empty, { height }]}>

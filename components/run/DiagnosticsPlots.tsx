@@ -23,42 +23,45 @@ export function DiagnosticsPlots({ runs, markerTime, columns }: { runs: PlottedR
   const single = runs.length === 1;
 
   const data = useMemo(() => runs.map((r) => ({ run: r, c: diagnosticColumns(r.out.diagnostics) })), [runs]);
-  const withEnergy = data.filter((d) => d.run.out.law.hasPotential);
 
-  const energy: PlotSeries[] = withEnergy.map(({ run, c }) => ({
-    id: run.id,
-    label: single ? 'ΔE / E₀' : run.label,
-    color: run.color,
-    x: c.time_Myr,
-    y: driftScale === 'log' ? magnitude(c.energyDrift) : c.energyDrift,
-  }));
-
-  const momentum: PlotSeries[] = data.flatMap(({ run, c }) => [
-    { id: `${run.id}-p`, label: single ? 'momentum |ΔP| / Σm|v|' : `${run.label} · momentum`, color: single ? seriesColors[0] : run.color, x: c.time_Myr, y: c.momentumDrift },
-    { id: `${run.id}-l`, label: single ? 'angular momentum |ΔL| / Σm|r×v|' : `${run.label} · angular momentum`, color: single ? seriesColors[1] : run.color, x: c.time_Myr, y: c.angularMomentumDrift, dashed: true },
-  ]);
-
-  const radii: PlotSeries[] = data.flatMap(({ run, c }) =>
-    (['r10_kpc', 'r50_kpc', 'r90_kpc'] as const).map((key, k) => ({
-      id: `${run.id}-${key}`,
-      label: single ? `${[10, 50, 90][k]}% mass` : `${run.label} · ${[10, 50, 90][k]}%`,
-      color: single ? seriesColors[k] : run.color,
-      x: c.time_Myr,
-      y: c[key],
-      dashed: !single && key !== 'r50_kpc',
-    })),
-  );
-
-  const virial: PlotSeries[] = data.map(({ run, c }) => {
-    const own = run.out.law.hasPotential;
-    return {
-      id: `${run.id}-v`,
-      label: `${single ? '' : `${run.label} · `}${own ? '2K / |W|' : '2K / |Σ m r·a| (Clausius)'}`,
+  // Series are built once per data and scale, so a moving marker redraws nothing but itself.
+  const { energy, momentum, radii, virial } = useMemo(() => {
+    const energy: PlotSeries[] = data.filter((d) => d.run.out.law.hasPotential).map(({ run, c }) => ({
+      id: run.id,
+      label: single ? 'ΔE / E₀' : run.label,
       color: run.color,
       x: c.time_Myr,
-      y: own ? c.virialRatio : c.clausiusVirialRatio,
-    };
-  });
+      y: driftScale === 'log' ? magnitude(c.energyDrift) : c.energyDrift,
+    }));
+
+    const momentum: PlotSeries[] = data.flatMap(({ run, c }) => [
+      { id: `${run.id}-p`, label: single ? 'momentum |ΔP| / Σm|v|' : `${run.label} · momentum`, color: single ? seriesColors[0] : run.color, x: c.time_Myr, y: c.momentumDrift },
+      { id: `${run.id}-l`, label: single ? 'angular momentum |ΔL| / Σm|r×v|' : `${run.label} · angular momentum`, color: single ? seriesColors[1] : run.color, x: c.time_Myr, y: c.angularMomentumDrift, dashed: true },
+    ]);
+
+    const radii: PlotSeries[] = data.flatMap(({ run, c }) =>
+      (['r10_kpc', 'r50_kpc', 'r90_kpc'] as const).map((key, k) => ({
+        id: `${run.id}-${key}`,
+        label: single ? `${[10, 50, 90][k]}% mass` : `${run.label} · ${[10, 50, 90][k]}%`,
+        color: single ? seriesColors[k] : run.color,
+        x: c.time_Myr,
+        y: c[key],
+        dashed: !single && key !== 'r50_kpc',
+      })),
+    );
+
+    const virial: PlotSeries[] = data.map(({ run, c }) => {
+      const own = run.out.law.hasPotential;
+      return {
+        id: `${run.id}-v`,
+        label: `${single ? '' : `${run.label} · `}${own ? '2K / |W|' : '2K / |Σ m r·a| (Clausius)'}`,
+        color: run.color,
+        x: c.time_Myr,
+        y: own ? c.virialRatio : c.clausiusVirialRatio,
+      };
+    });
+    return { energy, momentum, radii, virial };
+  }, [data, driftScale, single]);
 
   const noEnergy = runs.filter((r) => !r.out.law.hasPotential).map((r) => r.out.law.label);
 
