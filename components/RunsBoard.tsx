@@ -36,11 +36,14 @@ export function RunsBoard() {
   return (
     <Screen
       title="Runs"
-      subtitle="Your simulations, newest first. Tap one to watch it or read its diagnostics."
+      subtitle="Runs you can see, newest first. Tap one to watch it or read its diagnostics."
       onRefresh={() => runs.refetch()}
       refreshing={runs.isRefetching}
       actions={
-        <Button href="/runs/new" label="Launch a run" accessibilityHint="Opens the new-run form" />
+        <>
+          <Button tone="secondary" label="Refresh" onPress={() => runs.refetch()} busy={runs.isRefetching} accessibilityHint="Reloads the list (or pull down on a phone)" />
+          <Button href="/runs/new" label="Launch a run" accessibilityHint="Opens the new-run form" />
+        </>
       }
     >
       <View style={styles.filters} role="group" accessibilityLabel="Filters">

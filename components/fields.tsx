@@ -174,7 +174,7 @@ export function Toggle({ label, value, onChange, hint }: { label: string; value:
 }
 
 const styles = StyleSheet.create({
-  field: { gap: space.xs },
+  field: { gap: space.xs, flexShrink: 1, maxWidth: '100%' },
   row: { flexDirection: 'row', flexWrap: 'wrap', gap: space.md },
   cell: { flexGrow: 1, flexShrink: 1, flexBasis: 150, minWidth: 140 },
   inputRow: { flexDirection: 'row', alignItems: 'center', backgroundColor: colors.surfaceRaised, borderColor: colors.border, borderWidth: 1, borderRadius: radius.md, minHeight: 44 },
