@@ -53,14 +53,32 @@ export function directFieldRange(
   }
 }
 
-/** Pair potential per unit mass, (km/s)^2, at targets iStart..iEnd-1; same ordering guarantee as the field. */
+/** Pair potential per unit mass, (km/s)^2, at targets iStart..iEnd-1; same ordering guarantee (and pairing) as the field. */
 export function directPotentialRange(
   sources: Sources, targets: Points, kernel: PairKernel, iStart: number, iEnd: number, out: Float64Array,
 ): void {
   const { x, y, z, m } = sources;
-  for (let i = iStart; i < iEnd; i++) {
-    out[i] = -G * sumPotential(x, y, z, m, m.length, targets.x[i], targets.y[i], targets.z[i], kernel);
+  const n = m.length;
+  const tx = targets.x, ty = targets.y, tz = targets.z;
+  const eps2 = kernel.softening2_kpc2;
+  let i = iStart;
+  if (kernel.yukawaAlpha === 0 && eps2 > 0) {
+    // Two targets per pass, as in the field; here a coincident pair must be skipped (it would add m / eps).
+    for (; i + 1 < iEnd; i += 2) {
+      const xa = tx[i], ya = ty[i], za = tz[i], xb = tx[i + 1], yb = ty[i + 1], zb = tz[i + 1];
+      let pa = 0, pb = 0;
+      for (let j = 0; j < n; j++) {
+        const xj = x[j], yj = y[j], zj = z[j], mj = m[j];
+        const dxa = xj - xa, dya = yj - ya, dza = zj - za;
+        const dxb = xj - xb, dyb = yj - yb, dzb = zj - zb;
+        const r2a = dxa * dxa + dya * dya + dza * dza, r2b = dxb * dxb + dyb * dyb + dzb * dzb;
+        if (r2a !== 0) pa += mj / sqrt(r2a + eps2);
+        if (r2b !== 0) pb += mj / sqrt(r2b + eps2);
+      }
+      out[i] = -G * pa; out[i + 1] = -G * pb;
+    }
   }
+  for (; i < iEnd; i++) out[i] = -G * sumPotential(x, y, z, m, n, tx[i], ty[i], tz[i], kernel);
 }
 
 export const directSolver: FieldSolver = {
