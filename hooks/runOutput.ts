@@ -42,3 +42,11 @@ export function diagnosticColumns(rows: DiagnosticSample[]) {
 
 /** |x| for log plots of drifts, keeping gaps. */
 export const magnitude = (xs: (number | null)[]) => xs.map((x) => (x === null ? null : Math.abs(x)));
+
+/**
+ * 2K/|W| is 1 in equilibrium only for a pure 1/r pair potential (softened Newton);
+ * a static halo or a Yukawa term breaks that, so their runs, like the laws with no
+ * potential, are judged by the Clausius ratio 2K/|Σ m r·a|.
+ */
+export const usesPotentialVirial = (law: { kind: string }): boolean => law.kind === 'newton';
+

@@ -1,4 +1,4 @@
-import type { RunOutputView } from '../../hooks/runOutput';
+import { usesPotentialVirial, type RunOutputView } from '../../hooks/runOutput';
 import { formatValue } from '../format';
 
 // The short written comparison of two runs: plain sentences from their outputs.
@@ -49,7 +49,7 @@ export function describeDifferences(a: Side, b: Side): string[] {
   const qa = a.out.diagnostics[a.out.diagnostics.length - 1];
   const qb = b.out.diagnostics[b.out.diagnostics.length - 1];
   if (qa && qb) {
-    const vr = (s: Side, q: typeof qa) => (s.out.law.hasPotential ? q.virialRatio : q.clausiusVirialRatio);
+    const vr = (s: Side, q: typeof qa) => (usesPotentialVirial(s.out.law) ? q.virialRatio : q.clausiusVirialRatio);
     lines.push(`Final virial ratio: ${formatValue(vr(a, qa))} under ${a.label}, ${formatValue(vr(b, qb))} under ${b.label} (1 is equilibrium).`);
   }
   return lines;

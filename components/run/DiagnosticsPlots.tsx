@@ -1,7 +1,7 @@
 import { useMemo, useState } from 'react';
 import { StyleSheet, View, useWindowDimensions } from 'react-native';
 import { seriesColors, space, WIDE_BREAKPOINT } from '../../constants/theme';
-import { diagnosticColumns, magnitude, type RunOutputView } from '../../hooks/runOutput';
+import { diagnosticColumns, magnitude, usesPotentialVirial, type RunOutputView } from '../../hooks/runOutput';
 import { ChoiceChips } from '../fields';
 import { LinePlot, type PlotSeries } from '../LinePlot';
 import { Panel } from '../Panel';
@@ -51,7 +51,7 @@ export function DiagnosticsPlots({ runs, markerTime, columns }: { runs: PlottedR
     );
 
     const virial: PlotSeries[] = data.map(({ run, c }) => {
-      const own = run.out.law.hasPotential;
+      const own = usesPotentialVirial(run.out.law);
       return {
         id: `${run.id}-v`,
         label: `${single ? '' : `${run.label} · `}${own ? '2K / |W|' : '2K / |Σ m r·a| (Clausius)'}`,

@@ -66,9 +66,9 @@ describe('numbers as typed and as limits', () => {
 });
 
 describe('the compare summary', () => {
-  const out = (over: { hasPotential: boolean; maxDrift: number | null; r50: [number, number]; label: string }) =>
+  const out = (over: { hasPotential: boolean; maxDrift: number | null; r50: [number, number]; label: string; kind?: string }) =>
     ({
-      law: { kind: 'x', label: over.label, hasPotential: over.hasPotential, conservesMomentum: over.hasPotential, conservesEnergy: over.hasPotential, conservesAngularMomentum: true, validity: '', notes: '' },
+      law: { kind: over.kind ?? 'x', label: over.label, hasPotential: over.hasPotential, conservesMomentum: over.hasPotential, conservesEnergy: over.hasPotential, conservesAngularMomentum: true, validity: '', notes: '' },
       summary: { maxAbsEnergyDrift: over.maxDrift, finalMomentumDrift: 1e-16 },
       diagnostics: over.r50.map((r50) => ({ lagrangianRadii_kpc: { r10: 0, r50, r90: 0 }, virialRatio: 1, clausiusVirialRatio: 1.1 })),
       rotationCurves: { final: { radii_kpc: [1, 2], circular_km_s: [100, 120], particleCounts: [5, 5] } },
@@ -85,6 +85,16 @@ describe('the compare summary', () => {
     const lines = describeDifferences({ label: 'Newton', out: out({ hasPotential: true, maxDrift: 1e-6, r50: [1, 1], label: 'N' }) }, { label: 'MOND', out: out({ hasPotential: false, maxDrift: null, r50: [1, 1], label: 'M' }) });
     expect(lines[0]).toMatch(/^MOND has no potential energy/);
     expect(lines[1]).toMatch(/under MOND \(not conserved by this law\)/);
+  });
+
+  it('judges equilibrium by 2K/|W| only under softened Newton, by the Clausius ratio otherwise', () => {
+    // Common practice: the scalar virial theorem 2K + W = 0 holds for a 1/r pair potential;
+    // an external halo or a Yukawa term needs the Clausius form 2K = -Σ m r·a.
+    const lines = describeDifferences(
+      { label: 'Newton', out: out({ hasPotential: true, maxDrift: 1e-6, r50: [1, 1], label: 'N', kind: 'newton' }) },
+      { label: 'Halo', out: out({ hasPotential: true, maxDrift: 1e-6, r50: [1, 1], label: 'H', kind: 'halo' }) },
+    );
+    expect(lines).toContain('Final virial ratio: 1 under Newton, 1.1 under Halo (1 is equilibrium).');
   });
 
   it('groups runs into pairs of two', () => {
