@@ -35,20 +35,17 @@ export async function benchClient(page: Page, url: string, runId: string, partic
   await play.click();
   const readout = page.getByTestId('playhead-readout');
   const before = await readout.textContent();
-  const fps = await page.evaluate(
-    (ms) =>
-      new Promise<number>((resolve) => {
-        let frames = 0;
-        const first = performance.now();
-        const tick = (now: number) => {
-          frames++;
-          if (now - first < ms) requestAnimationFrame(tick);
-          else resolve((1000 * frames) / (now - first));
-        };
-        requestAnimationFrame(tick);
-      }),
-    seconds * 1000,
-  );
+  // Passed as source text: the bench runs through a TypeScript loader whose helpers don't exist in the page.
+  const fps = await page.evaluate<number>(`new Promise((resolve) => {
+    let frames = 0;
+    const first = performance.now();
+    const tick = (now) => {
+      frames++;
+      if (now - first < ${seconds * 1000}) requestAnimationFrame(tick);
+      else resolve((1000 * frames) / (now - first));
+    };
+    requestAnimationFrame(tick);
+  })`);
   // A readout that did not move would mean the frames were counted over a still picture.
   if ((await readout.textContent()) === before) throw new Error('the playhead did not move during the measurement');
   return { particles, seconds, fps };

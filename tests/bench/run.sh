@@ -29,7 +29,9 @@ export INFALL_SMTP_PORT="${INFALL_BENCH_SMTP_PORT:-57025}"
 export INFALL_OUTBOX_PORT="${INFALL_BENCH_OUTBOX_PORT:-57092}"
 export INFALL_PG_FSYNC=off
 export INFALL_SESSION_SECRET="$(head -c 32 /dev/urandom | base64 | tr -d '=+/')"
-export INFALL_WEB_DIR="${INFALL_BENCH_WEB_DIR:-dist}"
+# A web export of its own (gitignored), so the bench never rewrites dist/ under a test run using it;
+# not under a dot folder, which the server will not serve files from.
+export INFALL_WEB_DIR="${INFALL_BENCH_WEB_DIR:-web-build/bench}"
 export INFALL_BENCH_URL="http://127.0.0.1:$INFALL_PORT"
 
 pids=()

@@ -1,6 +1,7 @@
 // `npm run bench` (through run.sh, which starts a throwaway stack and sets
 // INFALL_BENCH_URL). Prints the table, or with --json one JSON object. Without
-// INFALL_BENCH_URL only the sections that need no stack run.
+// INFALL_BENCH_URL only the sections that need no stack run; --stack-only
+// skips the others (to re-measure the stack alone).
 import { randomBytes } from 'node:crypto';
 import { benchPure, benchStackSections, FULL_SIZES, machine, toJson, toTable, type BenchReport } from './bench';
 import { benchClient, signInBrowser } from './client';
@@ -28,8 +29,10 @@ async function benchToken(login: string): Promise<string> {
 
 async function main() {
   const json = process.argv.includes('--json');
-  const report: BenchReport = { ...(await benchPure(FULL_SIZES)), machine: machine() };
+  const stackOnly = process.argv.includes('--stack-only');
+  const report: BenchReport = { ...(stackOnly ? {} : await benchPure(FULL_SIZES)), machine: machine() };
   const url = process.env.INFALL_BENCH_URL;
+  let failed = false;
   if (url) {
     const login = `bench-${randomBytes(4).toString('hex')}`;
     process.stderr.write(`[bench] signing in as ${login}\n`);
@@ -40,15 +43,20 @@ async function main() {
       process.stderr.write(`[bench] client: a finished ${CLIENT_PARTICLES}-particle run played in Chromium\n`);
       const runId = await runToEnd(target, diskRun(CLIENT_PARTICLES, 120));
       report.client = await benchClient(signedIn.page, url, runId, CLIENT_PARTICLES);
+    } catch (err) {
+      // What was measured is still printed; the exit code says a section failed.
+      console.error('[bench] a stack section failed:', err);
+      failed = true;
     } finally {
       await signedIn.close();
     }
   }
   process.stdout.write(json ? `${JSON.stringify(toJson(report), null, 2)}\n` : `${toTable(report)}\n`);
+  return failed ? 1 : 0;
 }
 
 main().then(
-  () => process.exit(0),
+  (code) => process.exit(code),
   (err) => {
     console.error('[bench] failed:', err);
     process.exit(1);

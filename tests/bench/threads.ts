@@ -1,5 +1,6 @@
 // Threads: one large direct-sum run through the worker's pool, alone on one
 // thread and then split across two, with the results compared bit for bit.
+import { Worker } from 'node:worker_threads';
 import { RunPool, SPLIT_MIN_PARTICLES } from '../../worker/pool';
 import type { RunResult } from '../../shared/engine';
 import { plummerRun } from './specs';
@@ -15,6 +16,31 @@ export interface ThreadFigures {
   helperChunks: number;
   /** Same snapshots and energies from both: splitting must not change a bit. */
   identical: boolean;
+  /**
+   * Speed-up of a plain arithmetic loop on the same number of threads, measured
+   * just before: what the machine can give right now (other work on it lowers
+   * this, and the run's speed-up with it).
+   */
+  machineSpeedup: number;
+}
+
+// A fixed amount of arithmetic, the same in every thread; as source text so it runs without a loader,
+// inside a function so the engine compiles the loop as it would any hot function.
+const SPIN = '(() => { let s = 0; for (let i = 0; i < 2e8; i++) s += Math.sqrt(i); return s; })()';
+
+async function machineSpeedup(threads: number): Promise<number> {
+  const spin = () => new Function(`return ${SPIN}`)();
+  let t = performance.now();
+  spin();
+  const one = performance.now() - t;
+  t = performance.now();
+  const others = Array.from({ length: threads - 1 }, () => new Promise((resolve, reject) => {
+    const w = new Worker(`${SPIN};`, { eval: true });
+    w.once('exit', resolve).once('error', reject);
+  }));
+  spin();
+  await Promise.all(others);
+  return (threads * one) / (performance.now() - t);
 }
 
 async function timedRun(pool: RunPool, n: number, steps: number): Promise<{ seconds: number; result: RunResult; helped: number }> {
@@ -36,6 +62,7 @@ function sameResults(a: RunResult, b: RunResult): boolean {
 }
 
 export async function benchThreads({ n = 6_000, steps = 40, threads = 2 } = {}): Promise<ThreadFigures> {
+  const capacity = await machineSpeedup(threads);
   const single = new RunPool(1);
   const split = new RunPool(threads);
   try {
@@ -50,6 +77,7 @@ export async function benchThreads({ n = 6_000, steps = 40, threads = 2 } = {}):
       speedup: one.seconds / many.seconds,
       helperChunks: many.helped,
       identical: sameResults(one.result, many.result),
+      machineSpeedup: capacity,
     };
   } finally {
     await Promise.all([single.close(), split.close()]);
