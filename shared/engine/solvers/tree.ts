@@ -11,8 +11,8 @@ const { min, max, sqrt } = Math;
 const LEAF_SIZE = 8;
 /**
  * Particles sharing one walk of a self-field. Larger groups walk less often
- * but open more cells near them; 32 was fastest in the bench for 1e3-1e5
- * particles (our own measurement).
+ * but open more cells near them; of 16, 32 and 64, 32 was fastest in the
+ * bench for 1e3-1e5 particles (our own measurement, on a busy machine).
  */
 const GROUP_SIZE = 32;
 /** Beyond this depth coincident particles share a leaf rather than splitting forever. */
@@ -47,10 +47,10 @@ export interface Octree {
 }
 
 /** Layout of one cell in Octree.cells and Octree.links. */
-export const CELL = 16;
+const CELL = 16;
 const COM_X = 0, COM_Y = 1, COM_Z = 2, HALF = 3, SIZE2 = 4, CENTRE_X = 5, CENTRE_Y = 6, CENTRE_Z = 7, MASS = 8;
 const IXX = 9, IYY = 10, IZZ = 11, IXY = 12, IXZ = 13, IYZ = 14;
-export const LINK = 4;
+const LINK = 4;
 const FIRST_CHILD = 0, CHILD_COUNT = 1, LEAF_START = 2, LEAF_COUNT = 3;
 
 export function buildOctree(src: Sources): Octree {
@@ -166,7 +166,7 @@ function room(a: Float64Array, need: number): Float64Array {
  * opened. A cell is accepted when size < theta * (distance from its centre
  * of mass to the nearest point of the target box) and it does not overlap
  * the box (the second condition is a common-practice guard against targets
- * inside large, lopsided cells). Sharing the walk among a leaf's particles is
+ * inside large, lopsided cells). Sharing the walk among a group's particles is
  * the grouping of Barnes (1990); for a single point it is the 1986 criterion.
  * A Yukawa kernel's multipole expansion is another than Newton's, so there
  * accepted cells join the particles as point masses (monopoles).
