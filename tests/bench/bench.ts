@@ -10,13 +10,13 @@ import type { ClientFigures } from './client';
 export interface PureSizes {
   direct: { n: number; repeats: number };
   tree: { sizes: number[]; thetas: number[]; sampleTargets: number; repeats: number };
-  threads: { n: number; steps: number; threads: number };
+  threads: { n: number; steps: number; threads: number; spinIterations: number };
 }
 
 export const FULL_SIZES: PureSizes = {
   direct: { n: 4096, repeats: 7 },
   tree: { sizes: [1_000, 10_000, 100_000], thetas: [0.5, 0.7], sampleTargets: 1_000, repeats: 3 },
-  threads: { n: 6_000, steps: 40, threads: 2 },
+  threads: { n: 6_000, steps: 40, threads: 2, spinIterations: 2e8 },
 };
 
 export interface PureReport {

@@ -26,16 +26,17 @@ export interface ThreadFigures {
 
 // A fixed amount of arithmetic, the same in every thread; as source text so it runs without a loader,
 // inside a function so the engine compiles the loop as it would any hot function.
-const SPIN = '(() => { let s = 0; for (let i = 0; i < 2e8; i++) s += Math.sqrt(i); return s; })()';
+const spinSource = (iterations: number) => `(() => { let s = 0; for (let i = 0; i < ${iterations}; i++) s += Math.sqrt(i); return s; })()`;
 
-async function machineSpeedup(threads: number): Promise<number> {
-  const spin = () => new Function(`return ${SPIN}`)();
+async function machineSpeedup(threads: number, iterations: number): Promise<number> {
+  const source = spinSource(iterations);
+  const spin = () => new Function(`return ${source}`)();
   let t = performance.now();
   spin();
   const one = performance.now() - t;
   t = performance.now();
   const others = Array.from({ length: threads - 1 }, () => new Promise((resolve, reject) => {
-    const w = new Worker(`${SPIN};`, { eval: true });
+    const w = new Worker(`${source};`, { eval: true });
     w.once('exit', resolve).once('error', reject);
   }));
   spin();
@@ -61,8 +62,8 @@ function sameResults(a: RunResult, b: RunResult): boolean {
   return JSON.stringify(frames(a)) === JSON.stringify(frames(b)) && JSON.stringify(energies(a)) === JSON.stringify(energies(b));
 }
 
-export async function benchThreads({ n = 6_000, steps = 40, threads = 2 } = {}): Promise<ThreadFigures> {
-  const capacity = await machineSpeedup(threads);
+export async function benchThreads({ n = 6_000, steps = 40, threads = 2, spinIterations = 2e8 } = {}): Promise<ThreadFigures> {
+  const capacity = await machineSpeedup(threads, spinIterations);
   const single = new RunPool(1);
   const split = new RunPool(threads);
   try {
