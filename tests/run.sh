@@ -12,34 +12,12 @@ if ! command -v chromium >/dev/null 2>&1; then
 fi
 ensure_node_modules
 
-tmp=$(mktemp -d /tmp/infall-test.XXXXXX)
-export INFALL_DATA_DIR="$tmp"
-export INFALL_PG_PORT="${INFALL_TEST_PG_PORT:-55432}"
-export INFALL_REDIS_PORT="${INFALL_TEST_REDIS_PORT:-56379}"
-export INFALL_PORT="${INFALL_TEST_PORT:-58080}"
-export INFALL_OAUTH_PORT="${INFALL_TEST_OAUTH_PORT:-58091}"
-export INFALL_SMTP_PORT="${INFALL_TEST_SMTP_PORT:-58025}"
-export INFALL_OUTBOX_PORT="${INFALL_TEST_OUTBOX_PORT:-58092}"
-export INFALL_PG_FSYNC=off
-# A fresh session secret per test run; none is ever committed.
-export INFALL_SESSION_SECRET="$(head -c 32 /dev/urandom | base64 | tr -d '=+/')"
+throwaway_env test "${INFALL_TEST_PG_PORT:-55432}" "${INFALL_TEST_REDIS_PORT:-56379}" "${INFALL_TEST_PORT:-58080}" \
+  "${INFALL_TEST_OAUTH_PORT:-58091}" "${INFALL_TEST_SMTP_PORT:-58025}" "${INFALL_TEST_OUTBOX_PORT:-58092}"
 export INFALL_WEB_DIR="${INFALL_TEST_WEB_DIR:-dist}"
 export INFALL_URL="http://127.0.0.1:$INFALL_PORT"
-
-pids=()
-cleanup() {
-  trap - INT TERM EXIT
-  for p in "${pids[@]}"; do kill -TERM "$p" 2>/dev/null || true; done
-  for p in "${pids[@]}"; do wait "$p" 2>/dev/null || true; done
-  redis_stop "$INFALL_REDIS_PORT"
-  pg_stop "$tmp/pg"
-  rm -rf "$tmp"
-}
-trap cleanup INT TERM EXIT
-
-pg_start "$tmp/pg" "$INFALL_PG_PORT"
-redis_start "$tmp/redis" "$INFALL_REDIS_PORT"
-node --import tsx server/scripts/prepare.ts --no-seed
+trap throwaway_cleanup INT TERM EXIT
+throwaway_services_up
 
 status=0
 npx jest --selectProjects node app --ci "$@" || status=$?
@@ -54,8 +32,6 @@ if [ "$status" -eq 0 ] && [ -z "${INFALL_SKIP_E2E:-}" ]; then
   else
     status=1
   fi
-  if [ "$status" -ne 0 ]; then
-    for f in fakes server worker; do echo "--- $f log (tail)"; tail -n 40 "$tmp/$f.log" || true; done
-  fi
+  [ "$status" -ne 0 ] && print_stack_logs
 fi
 exit "$status"

@@ -140,3 +140,37 @@ start_stack_processes() {
     pids+=($!)
   done
 }
+
+# A throwaway stack for npm test and npm run bench: a temporary folder, ports given in
+# the order PostgreSQL, Redis, server, OAuth fake, SMTP sink, outbox, and a fresh session
+# secret (none is ever committed). Sets `tmp` and an empty `pids` array.
+throwaway_env() {
+  tmp=$(mktemp -d "/tmp/infall-$1.XXXXXX")
+  export INFALL_DATA_DIR="$tmp" INFALL_PG_PORT="$2" INFALL_REDIS_PORT="$3" INFALL_PORT="$4"
+  export INFALL_OAUTH_PORT="$5" INFALL_SMTP_PORT="$6" INFALL_OUTBOX_PORT="$7"
+  export INFALL_PG_FSYNC=off
+  INFALL_SESSION_SECRET="$(head -c 32 /dev/urandom | base64 | tr -d '=+/')"
+  export INFALL_SESSION_SECRET
+  pids=()
+}
+
+# Stops what throwaway_env's caller started and removes the folder.
+throwaway_cleanup() {
+  trap - INT TERM EXIT
+  for p in "${pids[@]}"; do kill -TERM "$p" 2>/dev/null || true; done
+  for p in "${pids[@]}"; do wait "$p" 2>/dev/null || true; done
+  redis_stop "$INFALL_REDIS_PORT"
+  pg_stop "$tmp/pg"
+  rm -rf "$tmp"
+}
+
+throwaway_services_up() {
+  pg_start "$tmp/pg" "$INFALL_PG_PORT"
+  redis_start "$tmp/redis" "$INFALL_REDIS_PORT"
+  node --import tsx server/scripts/prepare.ts --no-seed
+}
+
+print_stack_logs() {
+  local f
+  for f in fakes server worker; do echo "--- $f log (tail)"; tail -n 40 "$tmp/$f.log" || true; done
+}

@@ -20,7 +20,7 @@ function forceErrors(theta: number): number[] {
 }
 
 describe('Barnes & Hut (1986) tree', () => {
-  test('force error against the direct sum at theta = 0.5: median below 0.3%, 99th percentile below 2% (monopole cells; our tolerances, common practice puts the median near 0.1%)', () => {
+  test('force error against the direct sum at theta = 0.5: median below 0.3%, 99th percentile below 2% (quadrupole cells; our tolerances, common practice puts the median near 0.1%)', () => {
     const e = forceErrors(0.5);
     expect(quantile(e, 0.5)).toBeLessThan(3e-3);
     expect(quantile(e, 0.99)).toBeLessThan(2e-2);
