@@ -55,8 +55,13 @@ export class RunPool {
 
     const { port1, port2 } = new MessageChannel();
     const cancelFlag = new Int32Array(new SharedArrayBuffer(4));
-    port1.on('message', onProgress);
-    const result = this.track(this.pool.run({ spec, progressPort: port2, cancelFlag, sharedField }, { transferList: [port2] })).finally(() => {
+    // The result and the progress messages travel on two ports with no order between them:
+    // the result counts once the task's last message (null) is in, so the final update is not lost.
+    let drain: () => void = () => undefined;
+    const drained = new Promise<void>((resolve) => (drain = resolve));
+    port1.on('message', (p: RunProgress | null) => (p === null ? drain() : onProgress(p)));
+    const run = this.pool.run({ spec, progressPort: port2, cancelFlag, sharedField }, { transferList: [port2] });
+    const result = this.track(run.then(async (r: RunResult) => (await drained, r))).finally(() => {
       port1.close();
       // Helpers leave even if the run's thread died before it could tell them.
       if (sharedField) {

@@ -17,11 +17,13 @@ export interface RunTask {
 
 export default function runTask({ spec, progressPort, cancelFlag, sharedField }: RunTask): RunResult {
   try {
-    return runSimulation(spec, {
+    const result = runSimulation(spec, {
       onProgress: (p) => progressPort.postMessage(p),
       shouldCancel: () => Atomics.load(cancelFlag, 0) === 1,
       ...(sharedField ? { solver: new SplitDirectSolver(sharedField) } : {}),
     });
+    progressPort.postMessage(null); // no more progress: see RunPool.start
+    return result;
   } finally {
     if (sharedField) stopSharedField(sharedField);
     progressPort.close();
