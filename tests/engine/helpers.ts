@@ -1,4 +1,5 @@
 import { defaultRunSpec, parseRunSpec, type RunSpec } from '../../shared/spec';
+import { G, myrToInternal } from '../../shared/engine/units';
 
 /** A valid spec: the default with the given fields replaced (defaults of nested objects filled in by the schema). */
 export function specWith(overrides: Record<string, unknown>): RunSpec {
@@ -15,3 +16,18 @@ export function quantile(values: ArrayLike<number>, q: number): number {
 
 /** Metres per kpc from the IAU definitions, written out independently of the engine's units module. */
 export const M_PER_KPC = 1000 * (648_000 / Math.PI) * 149_597_870_700;
+
+/** An unsoftened Kepler pair run for whole periods; the period comes from Kepler's third law. */
+export function keplerOrbitSpec(o: { m1: number; m2: number; a: number; e: number; integrator: string; stepsPerPeriod: number; periods: number }): { spec: RunSpec; P_Myr: number } {
+  const P_Myr = (2 * Math.PI * Math.sqrt(o.a ** 3 / (G * (o.m1 + o.m2)))) / myrToInternal(1);
+  const spec = specWith({
+    model: { kind: 'kepler', mass1_Msun: o.m1, mass2_Msun: o.m2, semiMajorAxis_kpc: o.a, eccentricity: o.e },
+    law: { kind: 'newton' },
+    integrator: o.integrator,
+    softening_kpc: 0,
+    timestep_Myr: P_Myr / o.stepsPerPeriod,
+    duration_Myr: o.periods * P_Myr,
+    snapshotEvery: o.stepsPerPeriod,
+  });
+  return { spec, P_Myr };
+}

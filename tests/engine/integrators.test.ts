@@ -1,9 +1,7 @@
 import { Simulation } from '../../shared/engine';
-import { G, myrToInternal } from '../../shared/engine/units';
-import { specWith } from './helpers';
+import { keplerOrbitSpec } from './helpers';
 
 const M1 = 2e10, M2 = 1e10, A = 1, E = 0.5;
-const P_Myr = (2 * Math.PI * Math.sqrt(A ** 3 / (G * (M1 + M2)))) / myrToInternal(1);
 
 function energy(sim: Simulation): number {
   const p = sim.particles;
@@ -14,17 +12,7 @@ function energy(sim: Simulation): number {
 
 /** |dE/E| after each step of a Kepler orbit (softening 0, so the exact energy is conserved). */
 function energyErrors(integrator: string, stepsPerPeriod: number, periods: number): number[] {
-  const sim = new Simulation(
-    specWith({
-      model: { kind: 'kepler', mass1_Msun: M1, mass2_Msun: M2, semiMajorAxis_kpc: A, eccentricity: E },
-      law: { kind: 'newton' },
-      integrator,
-      softening_kpc: 0,
-      timestep_Myr: P_Myr / stepsPerPeriod,
-      duration_Myr: periods * P_Myr,
-      snapshotEvery: stepsPerPeriod,
-    }),
-  );
+  const sim = new Simulation(keplerOrbitSpec({ m1: M1, m2: M2, a: A, e: E, integrator, stepsPerPeriod, periods }).spec);
   const e0 = energy(sim);
   const errors: number[] = [];
   while (!sim.done) {

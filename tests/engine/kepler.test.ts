@@ -1,6 +1,6 @@
 import { Simulation } from '../../shared/engine';
 import { G, myrToInternal } from '../../shared/engine/units';
-import { specWith } from './helpers';
+import { keplerOrbitSpec } from './helpers';
 
 // odex ships TypeScript sources that fail strict checking, so it is loaded untyped behind the little we use.
 interface OdexSolver {
@@ -12,22 +12,8 @@ const { Solver } = require('odex') as { Solver: new (dimension: number) => OdexS
 
 const M1 = 3e10, M2 = 1e10, A = 2, E = 0.5;
 
-function keplerSpec(a: number, stepsPerPeriod: number, periods: number, integrator = 'yoshida4') {
-  const P = 2 * Math.PI * Math.sqrt(a ** 3 / (G * (M1 + M2)));
-  const P_Myr = P / myrToInternal(1);
-  return {
-    P_Myr,
-    spec: specWith({
-      model: { kind: 'kepler', mass1_Msun: M1, mass2_Msun: M2, semiMajorAxis_kpc: a, eccentricity: E },
-      law: { kind: 'newton' },
-      integrator,
-      softening_kpc: 0,
-      timestep_Myr: P_Myr / stepsPerPeriod,
-      duration_Myr: periods * P_Myr,
-      snapshotEvery: stepsPerPeriod,
-    }),
-  };
-}
+const keplerSpec = (a: number, stepsPerPeriod: number, periods: number, integrator = 'yoshida4') =>
+  keplerOrbitSpec({ m1: M1, m2: M2, a, e: E, integrator, stepsPerPeriod, periods });
 
 const relative = (s: Simulation) => {
   const p = s.particles;
