@@ -19,8 +19,18 @@ export INFALL_URL="http://127.0.0.1:$INFALL_PORT"
 trap throwaway_cleanup INT TERM EXIT
 throwaway_services_up
 
+# A phase that outlives its limit (a hung thread, a handle left open) fails here with a
+# message instead of holding CI until its own deadline.
+phase() {
+  local limit=$1; shift
+  local rc=0
+  timeout --kill-after=30 "$limit" "$@" || rc=$?
+  [ "$rc" -eq 124 ] && echo "[infall] test phase did not end within $limit: $*" >&2
+  return "$rc"
+}
+
 status=0
-npx jest --selectProjects node app --ci "$@" || status=$?
+phase 20m npx jest --selectProjects node app --ci "$@" || status=$?
 
 # The end-to-end runs need the web build and a whole stack, seeded like a new user's.
 if [ "$status" -eq 0 ] && [ -z "${INFALL_SKIP_E2E:-}" ]; then
@@ -28,7 +38,7 @@ if [ "$status" -eq 0 ] && [ -z "${INFALL_SKIP_E2E:-}" ]; then
   node --import tsx server/scripts/prepare.ts
   start_stack_processes "$tmp"
   if wait_for_url "$INFALL_URL/api/health" 90; then
-    npx jest --selectProjects e2e --ci --runInBand || status=$?
+    phase 20m npx jest --selectProjects e2e --ci --runInBand || status=$?
   else
     status=1
   fi

@@ -8,6 +8,12 @@
 // counter, so a round finishes even when no helper is there (not started yet,
 // or dismissed to make room for another run): the run's thread then claims
 // them all.
+//
+// Every claim carries its round's tag, so a helper that claimed just as one
+// round ran out can't mistake its claim for one of the next round. Helpers
+// sleep on a wake counter that every change they must see bumps (a new round,
+// the end of the run, a dismissal), so no wake-up is lost between a helper's
+// last look and its sleep.
 import { directFieldRange, directPotentialRange } from '../shared/engine/solvers';
 import { directSolver } from '../shared/engine/solvers/direct';
 import type { FieldSolver, PairKernel } from '../shared/engine/solvers';
@@ -22,10 +28,10 @@ export interface SharedField {
 }
 
 // Int32 slots of `control`.
-const ROUND = 0; // bumped once per field or potential evaluation; helpers sleep on it
-const NEXT = 1; // next chunk to claim
-const DONE = 2; // chunks finished this round
-const CHUNKS = 3;
+const WAKE = 0; // bumped by a new round, the run's end and a dismissal; helpers sleep on it
+const CLAIM = 1; // round tag << INDEX_BITS | next chunk to claim
+const INFO = 2; // round tag << INDEX_BITS | chunks of that round, written before CLAIM opens
+const DONE = 3; // chunks finished this round
 const CHUNK_SIZE = 4;
 const TARGETS = 5;
 const MODE = 6;
@@ -37,8 +43,11 @@ const CONTROL_SLOTS = 11;
 
 const FIELD = 0;
 const POTENTIAL = 1;
-/** NEXT between rounds: no claim succeeds while a round is being set up. */
-const CLOSED = 1 << 30;
+/** Low bits of CLAIM and INFO: a round has at most threads x CHUNKS_PER_THREAD chunks, plus one spent claim per thread. */
+const INDEX_BITS = 12;
+const INDEX_MASK = (1 << INDEX_BITS) - 1;
+/** Round tags wrap here; a stale claim would have to sleep through this many rounds to match again. */
+const TAG_MASK = (1 << (31 - INDEX_BITS)) - 1;
 /** Float64 slots before the arrays: softening^2, Yukawa alpha and lambda. */
 const PARAMS = 3;
 /** Arrays of n: source x, y, z, m; target x, y, z; output x, y, z (output x alone holds potentials). */
@@ -46,6 +55,8 @@ const ARRAYS = 10;
 /** Chunks per thread and round: enough to even out threads that start late or run slow. */
 const CHUNKS_PER_THREAD = 16;
 const MIN_CHUNK_TARGETS = 16;
+/** Leaves room in the claim index for the spent claims of a round. */
+const MAX_CHUNKS = INDEX_MASK >> 1;
 
 export function createSharedField(n: number, helpers: number): SharedField {
   const f: SharedField = {
@@ -53,9 +64,8 @@ export function createSharedField(n: number, helpers: number): SharedField {
     control: new SharedArrayBuffer(4 * CONTROL_SLOTS),
     data: new SharedArrayBuffer(8 * (PARAMS + ARRAYS * n)),
   };
-  const c = new Int32Array(f.control);
-  c[NEXT] = CLOSED;
-  c[WANTED] = helpers;
+  // All zeros is round 0 with no chunks: a claim before the first round gets nothing.
+  new Int32Array(f.control)[WANTED] = helpers;
   return f;
 }
 
@@ -84,8 +94,13 @@ function work(v: Views): number {
   const c = v.c;
   let done = 0;
   for (;;) {
-    const chunk = Atomics.add(c, NEXT, 1);
-    const chunks = Atomics.load(c, CHUNKS);
+    const claim = Atomics.add(c, CLAIM, 1);
+    const info = Atomics.load(c, INFO);
+    // A claim counts only if its round is still the one described, and only within that round's chunks;
+    // while a counted claim is out, the run's thread waits for it and changes nothing below.
+    if (claim >>> INDEX_BITS !== info >>> INDEX_BITS) return done;
+    const chunk = claim & INDEX_MASK;
+    const chunks = info & INDEX_MASK;
     if (chunk >= chunks) return done;
     const size = c[CHUNK_SIZE];
     const start = chunk * size;
@@ -109,6 +124,8 @@ export function serveSharedField(f: SharedField): number {
   let total = 0;
   Atomics.add(c, ACTIVE, 1);
   for (;;) {
+    // Read before looking at anything else: whatever changes after this read also bumps WAKE and ends the sleep below.
+    const wake = Atomics.load(c, WAKE);
     if (Atomics.load(c, STOP) === 1) {
       Atomics.sub(c, ACTIVE, 1);
       return total;
@@ -118,10 +135,8 @@ export function serveSharedField(f: SharedField): number {
       if (Atomics.compareExchange(c, ACTIVE, active, active - 1) === active) return total;
       continue;
     }
-    // Reading the round before working means a round opened meanwhile is either worked now or ends the wait at once.
-    const round = Atomics.load(c, ROUND);
     total += work(v);
-    Atomics.wait(c, ROUND, round);
+    Atomics.wait(c, WAKE, wake);
   }
 }
 
@@ -134,14 +149,19 @@ export function activeHelpers(f: SharedField): number {
 export function stopSharedField(f: SharedField): void {
   const c = new Int32Array(f.control);
   Atomics.store(c, STOP, 1);
-  Atomics.notify(c, ROUND);
+  wakeHelpers(c);
 }
 
 /** Asks one helper to leave (the pool needs its thread for another run); the run goes on with fewer threads. */
 export function dismissHelper(f: SharedField): void {
   const c = new Int32Array(f.control);
   Atomics.sub(c, WANTED, 1);
-  Atomics.notify(c, ROUND);
+  wakeHelpers(c);
+}
+
+function wakeHelpers(c: Int32Array): void {
+  Atomics.add(c, WAKE, 1);
+  Atomics.notify(c, WAKE);
 }
 
 /**
@@ -152,6 +172,8 @@ export function dismissHelper(f: SharedField): void {
 export class SplitDirectSolver implements FieldSolver {
   readonly kind = 'direct' as const;
   private readonly v: Views;
+  /** Rounds opened so far; only this thread opens them. */
+  private rounds = 0;
 
   constructor(private readonly shared: SharedField) {
     this.v = views(shared);
@@ -186,18 +208,17 @@ export class SplitDirectSolver implements FieldSolver {
     }
     params[0] = kernel.softening2_kpc2; params[1] = kernel.yukawaAlpha; params[2] = kernel.yukawaLambda_kpc;
     const threads = 1 + Atomics.load(c, ACTIVE);
-    const size = Math.max(MIN_CHUNK_TARGETS, Math.ceil(count / (threads * CHUNKS_PER_THREAD)));
+    const size = Math.max(MIN_CHUNK_TARGETS, Math.ceil(count / Math.min(threads * CHUNKS_PER_THREAD, MAX_CHUNKS)));
     const chunks = Math.ceil(count / size);
+    const tag = (++this.rounds & TAG_MASK) << INDEX_BITS;
     c[CHUNK_SIZE] = size; c[TARGETS] = count; c[MODE] = mode; c[SAME] = same;
-    Atomics.store(c, CHUNKS, chunks);
     Atomics.store(c, DONE, 0);
-    // Opening the claim counter last publishes everything above to any thread that claims a chunk.
-    Atomics.store(c, NEXT, 0);
-    Atomics.add(c, ROUND, 1);
-    Atomics.notify(c, ROUND);
+    Atomics.store(c, INFO, tag | chunks);
+    // Opening the claims last publishes everything above to any thread whose claim counts.
+    Atomics.store(c, CLAIM, tag);
+    wakeHelpers(c);
     work(this.v);
     for (let d = Atomics.load(c, DONE); d < chunks; d = Atomics.load(c, DONE)) Atomics.wait(c, DONE, d);
-    Atomics.store(c, NEXT, CLOSED);
     return count;
   }
 }

@@ -53,6 +53,44 @@ test('a force sum split with a helper thread equals the single-thread direct sum
   await pool.destroy();
 });
 
+test('a helper leaves when the run ends right after a round, and a small round followed by a large one never mixes their claims', async () => {
+  // Both are races between threads, so the test repeats the riskiest timing many times: rounds of
+  // 4 and then 38 chunks back to back (a claim spent at the end of the small round must not count
+  // in the large one), then a one-chunk round the run's thread finishes alone and the run's end
+  // signalled at once, while the helper woken for that round is still on its way back to sleep
+  // (the end must still wake it).
+  const n = 600;
+  const p = plummerParticles(n);
+  const probes: Points = { x: p.x.slice(0, 64).map((v) => v + 0.01), y: p.y.slice(0, 64), z: p.z.slice(0, 64) };
+  const kernel = newtonKernel(0.05);
+  const one: Points = { x: probes.x.slice(0, 16), y: probes.y.slice(0, 16), z: probes.z.slice(0, 16) };
+  const wantProbes = allocateAccelerations(64), wantAll = allocateAccelerations(n), wantOne = allocateAccelerations(16);
+  directSolver.field(p, probes, kernel, wantProbes);
+  directSolver.field(p, p, kernel, wantAll);
+  directSolver.field(p, one, kernel, wantOne);
+  const pool = new Piscina({ filename: taskFile, maxThreads: 1, execArgv: ['--import', 'tsx'] });
+  try {
+    for (let i = 0; i < 150; i++) {
+      const shared = createSharedField(n, 1);
+      const helper = pool.run({ sharedField: shared }, { name: 'fieldHelper' }) as Promise<number>;
+      await until(() => activeHelpers(shared) === 1, 'the helper thread');
+      const split = new SplitDirectSolver(shared);
+      const gotProbes = allocateAccelerations(64), gotAll = allocateAccelerations(n), gotOne = allocateAccelerations(16);
+      split.field(p, probes, kernel, gotProbes);
+      split.field(p, p, kernel, gotAll);
+      split.field(p, one, kernel, gotOne);
+      stopSharedField(shared);
+      const left = await Promise.race([helper.then(() => true), new Promise<false>((r) => setTimeout(() => r(false), 10_000))]);
+      expect({ round: i, left }).toEqual({ round: i, left: true });
+      expect(gotProbes).toEqual(wantProbes);
+      expect(gotAll).toEqual(wantAll);
+      expect(gotOne).toEqual(wantOne);
+    }
+  } finally {
+    await pool.destroy();
+  }
+});
+
 const sameRun = (a: RunResult, b: RunResult) => {
   expect(a.snapshots.map((s) => s.positions)).toEqual(b.snapshots.map((s) => s.positions));
   expect(a.diagnostics).toEqual(b.diagnostics);
