@@ -7,7 +7,7 @@ jest.setTimeout(120_000);
 const TINY: PureSizes = {
   direct: { n: 64, repeats: 2 },
   tree: { sizes: [300, 600], thetas: [0.5, 0.7], sampleTargets: 50, repeats: 1 },
-  threads: { n: 200, steps: 2, threads: 2, spinIterations: 1e5 },
+  threads: { n: 200, steps: 2, threads: 2, spinIterations: 1e5, repeats: 2 },
 };
 
 const finite = (v: unknown) => typeof v === 'number' && Number.isFinite(v);
