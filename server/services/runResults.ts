@@ -1,8 +1,32 @@
-import type { EntityManager } from '@mikro-orm/postgresql';
-import { Run, RunOutput, RunSnapshot } from '../db/entities';
+import { LockMode, type EntityManager } from '@mikro-orm/postgresql';
+import { Run, RunOutput, RunSnapshot, UsageEntry } from '../db/entities';
 import type { RunResult } from '../../shared/engine';
+import { budgetDay } from './quotas';
 
 // How the worker records a run's life in the database.
+
+/**
+ * Gives back to the ledger the part of a run's cost that was never computed (all of it for a
+ * run that never started), on the day it was charged. Called once, where the run's status
+ * leaves queued or running, inside the transaction that changes it.
+ */
+export function refundUncomputed(em: EntityManager, run: Run, fractionComputed: number): void {
+  const refund = Math.floor(run.costInteractions * (1 - Math.min(1, Math.max(0, fractionComputed))));
+  if (refund <= 0) return;
+  em.create(UsageEntry, { user: run.owner, day: budgetDay(run.createdAt), interactions: -refund, runs: 0 });
+}
+
+/** Ends a run that did not finish, refunding what it did not compute; a run already ended is left alone. */
+async function endUnfinished(em: EntityManager, runId: string, status: 'cancelled' | 'failed', error?: string): Promise<void> {
+  await em.transactional(async (tx) => {
+    const run = await tx.findOne(Run, { id: runId, status: { $in: ['queued', 'running'] } }, { lockMode: LockMode.PESSIMISTIC_WRITE });
+    if (!run) return;
+    refundUncomputed(tx, run, run.status === 'queued' ? 0 : run.progress);
+    run.status = status;
+    run.finishedAt = new Date();
+    if (error !== undefined) run.error = error.slice(0, 2000);
+  });
+}
 
 export async function markRunning(em: EntityManager, runId: string): Promise<Run | null> {
   const run = await em.findOne(Run, { id: runId });
@@ -48,16 +72,23 @@ export async function storeResult(em: EntityManager, runId: string, result: RunR
         positions: Buffer.from(s.positions.buffer, s.positions.byteOffset, s.positions.byteLength),
       });
     });
+    if (result.cancelled) {
+      const computed = result.summary.stepsCompleted / Math.max(1, result.summary.totalSteps);
+      refundUncomputed(tx, run, computed);
+      run.progress = computed;
+    } else {
+      run.progress = 1;
+    }
     run.status = result.cancelled ? 'cancelled' : 'finished';
-    run.progress = result.cancelled ? run.progress : 1;
     run.finishedAt = new Date();
   });
 }
 
 export async function markCancelled(em: EntityManager, runId: string): Promise<void> {
-  await em.nativeUpdate(Run, { id: runId }, { status: 'cancelled', finishedAt: new Date() });
+  await endUnfinished(em, runId, 'cancelled');
 }
 
+/** A failed run keeps the charge for the steps it computed (its last recorded progress). */
 export async function markFailed(em: EntityManager, runId: string, reason: string): Promise<void> {
-  await em.nativeUpdate(Run, { id: runId }, { status: 'failed', error: reason.slice(0, 2000), finishedAt: new Date() });
+  await endUnfinished(em, runId, 'failed', reason);
 }

@@ -10,6 +10,7 @@ import { encodeSnapshots } from '../../shared/api/snapshots';
 import type { RunJobData } from '../queue';
 import { visibleRunsFilter, canSeeRun, canManageRun } from './access';
 import { admitRuns } from './admission';
+import { refundUncomputed } from './runResults';
 
 function firstIssue(issues: { path: string; message: string }[], prefix: string): ApiError {
   const first = issues[0];
@@ -166,6 +167,7 @@ export async function cancelRun(em: EntityManager, queue: Queue<RunJobData>, use
     // remove() fails when a worker has just locked the job; then the worker sees the flag.
     const removed = job ? await job.remove().then(() => true, () => false) : true;
     if (removed) {
+      refundUncomputed(em, run, 0);
       run.status = 'cancelled';
       run.finishedAt = new Date();
       endedNow = true;

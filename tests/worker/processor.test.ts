@@ -3,7 +3,7 @@ import { Worker, QueueEvents } from 'bullmq';
 import { openTestStack, uniqueLogin, type TestStack } from '../support/stack';
 import { config } from '../../server/config';
 import { redisConnection, type RunJobData } from '../../server/queue';
-import { User, Run, RunOutput, RunSnapshot } from '../../server/db/entities';
+import { User, Run, RunOutput, RunSnapshot, UsageEntry } from '../../server/db/entities';
 import { submitRuns, snapshotBytes } from '../../server/services/runs';
 import { decodeSnapshots } from '../../shared/api/snapshots';
 import { defaultRunSpec } from '../../shared/spec';
@@ -93,4 +93,10 @@ test('a cancel request stops a running run and marks it cancelled', async () => 
   const run = await stack.orm.em.fork().findOneOrFail(Run, { id: summary.id });
   expect(run.status).toBe('cancelled');
   expect(run.progress).toBeLessThan(1);
+  // The ledger keeps the charge for the steps computed and gets the rest back.
+  const rows = await stack.orm.em.fork().find(UsageEntry, { user: user.id, createdAt: { $gte: run.createdAt } });
+  const net = rows.reduce((sum, r) => sum + r.interactions, 0);
+  expect(net).toBe(run.costInteractions - Math.floor(run.costInteractions * (1 - run.progress)));
+  expect(net).toBeGreaterThan(0);
+  expect(net).toBeLessThan(run.costInteractions);
 });

@@ -67,6 +67,23 @@ describe('quota refusals name the limit, the need and what is left', () => {
   });
 });
 
+describe('refunds', () => {
+  test('a run cancelled before it starts gives its whole cost back, so the budget it held is free again', async () => {
+    const { user, auth } = await userWithToken(s);
+    await setAllocation(s.em(), user, { dailyInteractions: 1.5 * COST });
+    const first = await submit(auth, { spec: spec() }).expect(201);
+    await submit(auth, { spec: spec() }).expect(429);
+    // No worker runs in this file, so the run is still queued when it is cancelled.
+    await request(s.app).post(`/api/runs/${first.body.runs[0].id}/cancel`).set(auth).expect(202);
+    expect((await ledger(user.id)).interactions).toBe(0);
+    await submit(auth, { spec: spec() }).expect(201);
+    expect((await ledger(user.id)).interactions).toBe(COST);
+    // Cancelling again is refused and refunds nothing twice.
+    await request(s.app).post(`/api/runs/${first.body.runs[0].id}/cancel`).set(auth).expect(409);
+    expect((await ledger(user.id)).interactions).toBe(COST);
+  });
+});
+
 describe('the ledger under concurrent submissions', () => {
   test('parallel submissions never spend more than the daily budget', async () => {
     const { user, auth } = await userWithToken(s);
