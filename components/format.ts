@@ -58,6 +58,16 @@ export function formatAge(iso: string, now = Date.now()): string {
   return new Date(iso).toISOString().slice(0, 10);
 }
 
+/** A token's expiry as people read it: 'expires in 12 days', 'expired 2026-11-30'. */
+export function formatExpiry(iso: string, now = Date.now()): string {
+  const ms = Date.parse(iso) - now;
+  if (ms <= 0) return `expired ${new Date(iso).toISOString().slice(0, 10)}`;
+  const h = Math.round(ms / 3_600_000);
+  if (h < 36) return `expires in ${Math.max(1, h)} h`;
+  const d = Math.round(h / 24);
+  return d < 60 ? `expires in ${d} days` : `expires ${new Date(iso).toISOString().slice(0, 10)}`;
+}
+
 export function formatDuration(ms: number): string {
   const s = Math.round(ms / 1000);
   if (s < 90) return `${s} s`;

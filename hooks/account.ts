@@ -1,5 +1,5 @@
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
-import type { AccountSettings, AccountUsage, CreatedToken, TokenSummary } from '../shared/api/accounts';
+import type { AccountSettings, AccountUsage, CreateTokenBody, CreatedToken, TokenSummary } from '../shared/api/accounts';
 import { api } from './api';
 
 export type Usage = AccountUsage;
@@ -31,7 +31,7 @@ export function useTokens() {
 export function useCreateToken() {
   const qc = useQueryClient();
   return useMutation({
-    mutationFn: (name: string) => api<CreatedToken>('/api/tokens', { method: 'POST', body: { name } }),
+    mutationFn: (body: CreateTokenBody) => api<CreatedToken>('/api/tokens', { method: 'POST', body }),
     onSuccess: () => qc.invalidateQueries({ queryKey: ['tokens'] }),
   });
 }

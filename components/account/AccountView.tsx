@@ -6,14 +6,15 @@ import { useAccountSettings, useCreateToken, useRevokeToken, useTokens, useUpdat
 import { useCohorts, useJoinCohort, useTemplates } from '../../hooks/cohorts';
 import { useSession } from '../../hooks/session';
 import { Button } from '../Button';
-import { TextField, Toggle } from '../fields';
-import { formatAge, formatCount, formatInteractions, LAW_LABELS, MODEL_LABELS } from '../format';
+import { ChoiceChips, TextField, Toggle } from '../fields';
+import { formatAge, formatCount, formatExpiry, formatInteractions, LAW_LABELS, MODEL_LABELS } from '../format';
 import { Panel } from '../Panel';
 import { ProgressBar } from '../RunCard';
 import { Screen } from '../Screen';
 import { describeError, Empty, ErrorState, Loading, Notice } from '../States';
 import { Txt } from '../Txt';
 import { Fact } from '../run/RunFacts';
+import { DEFAULT_TOKEN_LIFETIME_DAYS, TOKEN_LIFETIME_CHOICES_DAYS } from '../../shared/api/accounts';
 
 function UsagePanel() {
   const usage = useUsage();
@@ -69,6 +70,7 @@ function TokensPanel() {
   const create = useCreateToken();
   const revoke = useRevokeToken();
   const [name, setName] = useState('');
+  const [lifetime, setLifetime] = useState<number>(DEFAULT_TOKEN_LIFETIME_DAYS);
   const [armed, setArmed] = useState<number | null>(null);
   const origin = API_BASE || (typeof window !== 'undefined' ? window.location.origin : '');
   return (
@@ -77,8 +79,9 @@ function TokensPanel() {
         <View style={{ flex: 1, minWidth: 200 }}>
           <TextField label="New token name" value={name} onChange={setName} placeholder="e.g. laptop notebook" testID="token-name" />
         </View>
-        <Button label="Create token" disabled={!name.trim()} busy={create.isPending} onPress={() => create.mutate(name.trim(), { onSuccess: () => setName('') })} />
+        <Button label="Create token" disabled={!name.trim()} busy={create.isPending} onPress={() => create.mutate({ name: name.trim(), expiresInDays: lifetime }, { onSuccess: () => setName('') })} />
       </View>
+      <ChoiceChips label="Valid for" value={lifetime} onChange={setLifetime} compact choices={TOKEN_LIFETIME_CHOICES_DAYS.map((d) => ({ value: d, label: d === 365 ? '1 year' : `${d} days`, note: 'After this the token stops working; make a new one then.' }))} />
       {create.isError ? <Notice tone="danger">{describeError(create.error)}</Notice> : null}
       {create.data ? (
         <Notice tone="ok">
@@ -106,7 +109,7 @@ function TokensPanel() {
               <View style={{ flex: 1, gap: 2 }}>
                 <Txt variant="body">{t.name}</Txt>
                 <Txt variant="caption">
-                  <Txt style={styles.mono}>{t.prefix}…</Txt> · created {formatAge(t.createdAt)} · {t.lastUsedAt ? `last used ${formatAge(t.lastUsedAt)}` : 'never used'}
+                  <Txt style={styles.mono}>{t.prefix}…</Txt> · created {formatAge(t.createdAt)} · {t.lastUsedAt ? `last used ${formatAge(t.lastUsedAt)}` : 'never used'} · {formatExpiry(t.expiresAt)}
                 </Txt>
               </View>
               <Button small tone="danger" label={armed === t.id ? 'Tap again to revoke' : 'Revoke'} busy={revoke.isPending && revoke.variables === t.id} onPress={() => (armed === t.id ? revoke.mutate(t.id) : setArmed(t.id))} accessibilityLabel={`Revoke token ${t.name}`} />

@@ -13,8 +13,8 @@ export function tokensRouter(): Router {
   r.use(requireSession);
 
   r.post('/', async (req, res) => {
-    const { name } = parseInput(createTokenBodySchema, req.body);
-    res.status(201).set('Cache-Control', 'no-store').json(await createToken(em(), req.user!, name));
+    const body = parseInput(createTokenBodySchema, req.body);
+    res.status(201).set('Cache-Control', 'no-store').json(await createToken(em(), req.user!, body));
   });
 
   r.get('/', async (req, res) => {

@@ -58,6 +58,8 @@ export interface TokenSummary {
   prefix: string;
   createdAt: string;
   lastUsedAt: string | null;
+  /** After this the token no longer authenticates; it stays listed until revoked. */
+  expiresAt: string;
 }
 
 /** POST /api/tokens: the only answer that ever contains the secret. */
@@ -133,7 +135,17 @@ const name = (max: number) => z.string().trim().min(1, 'name must not be empty')
 export const updateAccountBodySchema = z.object({ notifyOnFinish: z.boolean() }).strict();
 export type UpdateAccountBody = z.infer<typeof updateAccountBodySchema>;
 
-export const createTokenBodySchema = z.object({ name: name(60) }).strict();
+/** Token lifetimes the account page offers; the API takes any whole number of days up to the maximum. */
+export const TOKEN_LIFETIME_CHOICES_DAYS = [7, 30, 90, 365] as const;
+export const DEFAULT_TOKEN_LIFETIME_DAYS = 90;
+export const MAX_TOKEN_LIFETIME_DAYS = 365;
+
+export const createTokenBodySchema = z
+  .object({
+    name: name(60),
+    expiresInDays: z.number().int().min(1).max(MAX_TOKEN_LIFETIME_DAYS).default(DEFAULT_TOKEN_LIFETIME_DAYS),
+  })
+  .strict();
 export type CreateTokenBody = z.infer<typeof createTokenBodySchema>;
 
 export const createCohortBodySchema = z.object({ name: name(100), quota: quotaLimitsSchema.optional() }).strict();

@@ -21,7 +21,7 @@ async function benchToken(login: string): Promise<string> {
     const user = await em.findOneOrFail(User, { login });
     user.role = 'researcher';
     await em.flush();
-    return (await createToken(em, user, 'bench')).secret;
+    return (await createToken(em, user, { name: 'bench', expiresInDays: 1 })).secret;
   } finally {
     await orm.close();
   }

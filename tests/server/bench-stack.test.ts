@@ -42,7 +42,7 @@ test('end-to-end and snapshot sections give finite figures through a token-authe
   const login = uniqueLogin('bench');
   const user = em.create(User, { providerId: login, login, name: 'Bench smoke', role: 'researcher' });
   await em.flush();
-  const { secret } = await createToken(em, user, 'bench');
+  const { secret } = await createToken(em, user, { name: 'bench', expiresInDays: 1 });
   const url = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;
 
   const { e2e, snapshot } = await benchStackSections({ url, token: secret }, { particles: 150, steps: 20 });

@@ -13,6 +13,7 @@ export const ApiToken = defineEntity({
     hash: p.string().unique(),
     createdAt: p.datetime().onCreate(() => new Date()),
     lastUsedAt: p.datetime().nullable(),
+    expiresAt: p.datetime(),
   },
 });
 export type ApiToken = InferEntity<typeof ApiToken>;

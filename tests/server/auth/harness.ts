@@ -51,6 +51,6 @@ export async function userWithToken(s: AuthStack, role: Role = 'student', prefix
   const login = uniqueLogin(prefix);
   const user = em.create(User, { providerId: `test:${login}`, login, name: `Test ${prefix}`, email: `${login}@infall.example`, role });
   await em.flush();
-  const { secret } = await createToken(em, user, 'test');
+  const { secret } = await createToken(em, user, { name: 'test', expiresInDays: 1 });
   return { user, auth: { Authorization: `Bearer ${secret}` } };
 }

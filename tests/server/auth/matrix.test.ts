@@ -75,7 +75,7 @@ const rows: Row[] = [
     expected: e(401, 204, 404, 404, 404),
     fresh: async () => {
       const em = s.em();
-      return { token: (await createToken(em, await em.findOneOrFail(User, { id: studentId }), 'matrix')).token.id };
+      return { token: (await createToken(em, await em.findOneOrFail(User, { id: studentId }), { name: 'matrix', expiresInDays: 1 })).token.id };
     },
   },
 

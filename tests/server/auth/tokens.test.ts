@@ -48,6 +48,29 @@ describe('personal API tokens', () => {
     await request(s.app).get('/api/runs').set(bearer(secret)).expect(401);
   });
 
+  test('expire after the lifetime chosen (90 days unless asked), and a lifetime out of range is refused naming the field', async () => {
+    const before = Date.now();
+    const plain = (await agent.post('/api/tokens').set('X-CSRF-Token', csrf).send({ name: 'default life' }).expect(201)).body.token;
+    const days90 = 90 * 86_400_000;
+    expect(Date.parse(plain.expiresAt) - before).toBeGreaterThanOrEqual(days90 - 1000);
+    expect(Date.parse(plain.expiresAt) - Date.now()).toBeLessThanOrEqual(days90);
+    const week = (await agent.post('/api/tokens').set('X-CSRF-Token', csrf).send({ name: 'a week', expiresInDays: 7 }).expect(201)).body;
+    expect(Math.round((Date.parse(week.token.expiresAt) - Date.now()) / 86_400_000)).toBe(7);
+    await request(s.app).get('/api/auth/me').set(bearer(week.secret)).expect(200);
+
+    // Past its expiry the same secret is refused, and the token stays listed for its owner to see.
+    await s.em().nativeUpdate(ApiToken, { id: week.token.id }, { expiresAt: new Date(Date.now() - 1000) });
+    const refused = await request(s.app).get('/api/auth/me').set(bearer(week.secret)).expect(401);
+    expect(refused.body.error.code).toBe('UNAUTHENTICATED');
+    const listed = (await agent.get('/api/tokens').expect(200)).body.tokens.find((t: { id: number }) => t.id === week.token.id);
+    expect(Date.parse(listed.expiresAt)).toBeLessThan(Date.now());
+
+    for (const expiresInDays of [0, 366, 1.5, '30']) {
+      const bad = await agent.post('/api/tokens').set('X-CSRF-Token', csrf).send({ name: 'bad', expiresInDays }).expect(400);
+      expect(JSON.stringify(bad.body.error)).toContain('expiresInDays');
+    }
+  });
+
   test('a token cannot create, list or revoke tokens', async () => {
     const { secret, token } = (await agent.post('/api/tokens').set('X-CSRF-Token', csrf).send({ name: 'ci' }).expect(201)).body;
     await request(s.app).post('/api/tokens').set(bearer(secret)).send({ name: 'more' }).expect(403);
