@@ -9,13 +9,13 @@ import { useSession } from '../hooks/session';
 const safeNext = (next: unknown) => (typeof next === 'string' && next.startsWith('/') && !next.startsWith('//') && next !== '/sign-in' ? next : '/');
 
 export default function SignIn() {
-  const { next } = useLocalSearchParams<{ next?: string }>();
+  const { next, error } = useLocalSearchParams<{ next?: string; error?: string }>();
   const session = useSession();
   const target = safeNext(next);
   if (session.data) return <Redirect href={target as '/'} />;
   return (
     <View style={{ flex: 1, alignItems: 'center', justifyContent: 'center', padding: space.lg, backgroundColor: colors.background }}>
-      {session.isPending ? <Loading what="Checking your session" /> : session.isError ? <ErrorState error={session.error} title="Infall is unreachable" onRetry={() => session.refetch()} /> : <SignInCard next={target} />}
+      {session.isPending ? <Loading what="Checking your session" /> : session.isError ? <ErrorState error={session.error} title="Infall is unreachable" onRetry={() => session.refetch()} /> : <SignInCard next={target} failure={error} />}
     </View>
   );
 }

@@ -10,6 +10,14 @@ function int(name: string, fallback: number): number {
   return v;
 }
 
+function count(name: string, fallback: number): number {
+  const raw = env[name];
+  if (raw === undefined || raw === '') return fallback;
+  const v = Number(raw);
+  if (!Number.isInteger(v) || v <= 0) throw new Error(`${name} must be a whole number above 0, got "${raw}"`);
+  return v;
+}
+
 const host = '127.0.0.1'; // services never listen on other addresses
 const port = int('INFALL_PORT', 8080);
 
@@ -51,6 +59,9 @@ function authConfig() {
     userUrl: env.INFALL_OAUTH_USER_URL ?? `${fake}/user`,
     // Logins made admin at sign-in, so a real provider's first admin needs no SQL.
     adminLogins: (env.INFALL_ADMIN_LOGINS ?? '').split(',').map((s) => s.trim()).filter(Boolean),
+    // Per client address and 10 minutes. A classroom behind one address signs in together, hence the room.
+    signInLimit: count('INFALL_SIGNIN_LIMIT', 120),
+    badTokenLimit: count('INFALL_BAD_TOKEN_LIMIT', 30),
   };
 }
 

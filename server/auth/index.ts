@@ -8,6 +8,7 @@ import { installAfterCommit } from '../services/after-commit';
 import { createPassport } from './passport';
 import { sessionMiddleware } from './session';
 import { csrfGuard } from './csrf';
+import { badTokenLimiter, signInLimiter } from './limits';
 import { authRouter } from '../routes/auth';
 import { accountRouter } from '../routes/account';
 import { tokensRouter } from '../routes/tokens';
@@ -21,7 +22,7 @@ const tokenAuth: RequestHandler = async (req, _res, next) => {
   const [scheme, secret] = (req.get('authorization') ?? '').split(' ');
   if (scheme?.toLowerCase() !== 'bearer' || !secret) throw new ApiError('UNAUTHENTICATED', 'Authorization must be "Bearer <personal API token>"');
   const user = await userForToken(RequestContext.getEntityManager() as EntityManager, secret.trim());
-  if (!user) throw new ApiError('UNAUTHENTICATED', 'That API token is unknown or has been revoked');
+  if (!user) throw new ApiError('UNAUTHENTICATED', 'That API token is unknown, expired or revoked');
   req.user = user;
   req.authVia = 'token';
   next();
@@ -39,9 +40,12 @@ export function mountAuth(_app: Express, api: Router, deps: Deps): void {
     if (req.user) req.authVia = 'session';
     next();
   });
-  api.use((req, res, next) => (req.get('authorization') !== undefined ? tokenAuth(req, res, next) : sessionChain(req, res, next)));
+  const tokenChain = Router();
+  tokenChain.use(badTokenLimiter(), tokenAuth);
+  api.use((req, res, next) => (req.get('authorization') !== undefined ? tokenChain(req, res, next) : sessionChain(req, res, next)));
   api.use(csrfGuard);
 
+  api.use(['/auth/signin', '/auth/callback'], signInLimiter());
   api.use('/auth', authRouter(auth));
   api.use('/account', accountRouter());
   api.use('/tokens', tokensRouter());
