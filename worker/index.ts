@@ -19,9 +19,11 @@ runProcess('worker', async () => {
   await worker.waitUntilReady();
   console.log(`[worker] taking runs from "${config.queueName}" with ${config.workerThreads} thread(s)`);
 
+  // Stopping ends the pool's threads first, so the runs they held go back to the queue at once
+  // (the next worker starts them over) instead of holding the stop until they finish.
   return async () => {
-    await worker.close();
     await pool.close();
+    await worker.close();
     await orm.close();
   };
 });

@@ -35,6 +35,8 @@ export class RunPool {
   private busy = 0;
   /** Split runs with their helpers still wanted. */
   private readonly lent = new Map<SharedField, number>();
+  /** Set by close(): runs that fail from now on were stopped by it, not by their numbers. */
+  closing = false;
 
   constructor(private readonly threads: number) {
     this.pool = new Piscina({
@@ -96,6 +98,7 @@ export class RunPool {
   }
 
   close(): Promise<void> {
+    this.closing = true;
     for (const field of this.lent.keys()) stopSharedField(field);
     return this.pool.destroy();
   }

@@ -1,8 +1,8 @@
-import type { Job } from 'bullmq';
+import { WaitingError, type Job } from 'bullmq';
 import type { Orm } from '../server/db/orm';
 import type { RunJobData } from '../server/queue';
 import type { RunProgress } from '../shared/api/contract';
-import { markRunning, markCancelled, recordProgress, isCancelRequested, storeResult, markFailed } from '../server/services/runResults';
+import { markRunning, markCancelled, markRequeued, recordProgress, isCancelRequested, storeResult, markFailed } from '../server/services/runResults';
 import type { RunPool } from './pool';
 
 const PROGRESS_DB_EVERY_MS = 1000; // the database gets coarse progress; live events get every update
@@ -16,7 +16,7 @@ export interface ProcessorDeps {
 
 /** Carries one queued run from the database through a pool thread and back. */
 export function runProcessor({ orm, pool, onEnded }: ProcessorDeps) {
-  return async (job: Job<RunJobData>): Promise<{ status: string }> => {
+  return async (job: Job<RunJobData>, token?: string): Promise<{ status: string }> => {
     const { runId } = job.data;
     const em = orm.em.fork();
     const run = await markRunning(em, runId);
@@ -44,6 +44,12 @@ export function runProcessor({ orm, pool, onEnded }: ProcessorDeps) {
       await storeResult(orm.em.fork(), runId, result);
       return { status: result.cancelled ? 'cancelled' : 'finished' };
     } catch (err) {
+      if (pool.closing) {
+        // The worker is stopping: the run goes back to the queue for the next worker, not to failed.
+        await markRequeued(orm.em.fork(), runId);
+        await job.moveToWait(token);
+        throw new WaitingError();
+      }
       const reason = err instanceof Error ? err.message : String(err);
       await markFailed(orm.em.fork(), runId, `The engine stopped with an error: ${reason}`);
       return { status: 'failed' };

@@ -154,11 +154,30 @@ throwaway_env() {
   pids=()
 }
 
+# Asks the processes in `pids` to stop, and kills any still there after 20 s
+# (the worker hands its runs back to the queue first, which takes a moment).
+stop_processes() {
+  local p i
+  for p in "${pids[@]}"; do kill -TERM "$p" 2>/dev/null || true; done
+  for ((i = 0; i < 40; i++)); do
+    local alive=0
+    for p in "${pids[@]}"; do kill -0 "$p" 2>/dev/null && alive=1; done
+    [ "$alive" = 0 ] && break
+    sleep 0.5
+  done
+  for p in "${pids[@]}"; do
+    if kill -0 "$p" 2>/dev/null; then
+      echo "[infall] process $p did not stop within 20 s; killing it" >&2
+      kill -KILL "$p" 2>/dev/null || true
+    fi
+  done
+  for p in "${pids[@]}"; do wait "$p" 2>/dev/null || true; done
+}
+
 # Stops what throwaway_env's caller started and removes the folder.
 throwaway_cleanup() {
   trap - INT TERM EXIT
-  for p in "${pids[@]}"; do kill -TERM "$p" 2>/dev/null || true; done
-  for p in "${pids[@]}"; do wait "$p" 2>/dev/null || true; done
+  stop_processes
   redis_stop "$INFALL_REDIS_PORT"
   pg_stop "$tmp/pg"
   rm -rf "$tmp"

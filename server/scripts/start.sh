@@ -26,8 +26,7 @@ cleanup() {
   trap - INT TERM EXIT
   echo
   echo "[infall] stopping"
-  for p in "${pids[@]}"; do kill -TERM "$p" 2>/dev/null || true; done
-  for p in "${pids[@]}"; do wait "$p" 2>/dev/null || true; done
+  stop_processes
   [ "$started_redis" = 1 ] && redis_stop "$INFALL_REDIS_PORT"
   [ "$started_pg" = 1 ] && pg_stop "$INFALL_DATA_DIR/pg"
   echo "[infall] stopped; data kept in $INFALL_DATA_DIR/"

@@ -28,14 +28,24 @@ async function endUnfinished(em: EntityManager, runId: string, status: 'cancelle
   });
 }
 
+/**
+ * Takes a queued run for a worker. A run found running was left by a worker that stopped
+ * without putting it back (killed, or its machine went away): the queue hands its job out again
+ * and it starts over; the same spec and seed give the same numbers.
+ */
 export async function markRunning(em: EntityManager, runId: string): Promise<Run | null> {
   const run = await em.findOne(Run, { id: runId });
-  if (!run || run.status !== 'queued') return null; // cancelled while queued, or already handled
+  if (!run || (run.status !== 'queued' && run.status !== 'running')) return null; // cancelled while queued, or already ended
   run.status = 'running';
   run.startedAt = new Date();
   run.progress = 0;
   await em.flush();
   return run;
+}
+
+/** Puts a run its worker is stopping for back in the queue's hands, as if never started. */
+export async function markRequeued(em: EntityManager, runId: string): Promise<void> {
+  await em.nativeUpdate(Run, { id: runId, status: 'running' }, { status: 'queued', progress: 0, startedAt: null });
 }
 
 export async function recordProgress(em: EntityManager, runId: string, fraction: number): Promise<void> {

@@ -6,7 +6,7 @@ import { redisConnection, type RunJobData } from '../../server/queue';
 import { User, Run, RunOutput, RunSnapshot, UsageEntry } from '../../server/db/entities';
 import { submitRuns, snapshotBytes } from '../../server/services/runs';
 import { decodeSnapshots } from '../../shared/api/snapshots';
-import { defaultRunSpec } from '../../shared/spec';
+import { defaultRunSpec, type RunSpec } from '../../shared/spec';
 import { RunPool } from '../../worker/pool';
 import { runProcessor } from '../../worker/processor';
 
@@ -99,4 +99,38 @@ test('a cancel request stops a running run and marks it cancelled', async () => 
   expect(net).toBe(run.costInteractions - Math.floor(run.costInteractions * (1 - run.progress)));
   expect(net).toBeGreaterThan(0);
   expect(net).toBeLessThan(run.costInteractions);
+});
+
+test('a worker that stops hands its running run back to the queue at once, and the next worker runs it from the start to the end', async () => {
+  await worker.close(); // this test brings its own two workers, one after the other
+  const base = defaultRunSpec();
+  // About ten seconds of integration: long enough to be stopped in the middle.
+  const spec = { ...base, model: { ...base.model, n: 1000 }, duration_Myr: base.duration_Myr * 10, snapshotEvery: 200 } as RunSpec;
+  const [summary] = await submitRuns(stack.orm.em.fork(), stack.queue, user, { name: 'handed back', spec });
+
+  const firstPool = new RunPool(1);
+  const first = new Worker<RunJobData>(config.queueName, runProcessor({ orm: stack.orm, pool: firstPool }), { connection: redisConnection });
+  await new Promise<void>((resolve) => events.on('progress', ({ jobId }) => jobId === summary.id && resolve()));
+  // The worker process's stop: pool first, then the queue worker.
+  const stopping = Date.now();
+  await firstPool.close();
+  await first.close();
+  const stopSeconds = (Date.now() - stopping) / 1000;
+  const handedBack = await stack.orm.em.fork().findOneOrFail(Run, { id: summary.id });
+  expect({ status: handedBack.status, progress: handedBack.progress, startedAt: handedBack.startedAt }).toEqual({ status: 'queued', progress: 0, startedAt: null });
+  expect(await (await stack.queue.getJob(summary.id))!.getState()).toBe('waiting');
+  expect(stopSeconds).toBeLessThan(20); // not "until the run ends", which would be most of a minute here
+
+  const nextPool = new RunPool(1);
+  const ended = waitForEnd(summary.id);
+  const next = new Worker<RunJobData>(config.queueName, runProcessor({ orm: stack.orm, pool: nextPool }), { connection: redisConnection });
+  try {
+    await ended;
+    const run = await stack.orm.em.fork().findOneOrFail(Run, { id: summary.id });
+    expect(run.status).toBe('finished');
+    expect(run.progress).toBe(1);
+  } finally {
+    await next.close();
+    await nextPool.close();
+  }
 });
