@@ -51,6 +51,9 @@ export class RunPool {
   }
 
   start(spec: RunSpec, onProgress: (p: RunProgress) => void): RunHandle {
+    // A run handed in while the pool closes fails like the runs it interrupts (the worker then
+    // puts it back in the queue), rather than starting a new thread after the close.
+    if (this.closing) return { result: Promise.reject(new Error('The worker is stopping')), cancel: () => undefined, helped: Promise.resolve(0) };
     if (this.busy >= this.threads) this.reclaimThread();
     const helpers = splits(spec) ? Math.max(0, this.threads - this.busy - 1) : 0;
     const sharedField = helpers > 0 ? createSharedField(particleCount(spec), helpers) : undefined;
