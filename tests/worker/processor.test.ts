@@ -109,8 +109,8 @@ test('a cancel request stops a running run and marks it cancelled', async () => 
 test('a worker that stops hands its running run back to the queue at once, and the next worker runs it from the start to the end', async () => {
   await worker.close(); // this test brings its own two workers, one after the other
   const base = defaultRunSpec();
-  // About ten seconds of integration: long enough to be stopped in the middle.
-  const spec = { ...base, model: { ...base.model, n: 1000 }, duration_Myr: base.duration_Myr * 10, snapshotEvery: 200 } as RunSpec;
+  // A few seconds of integration: the stop comes within milliseconds of the start.
+  const spec = { ...base, model: { ...base.model, n: 1000 }, duration_Myr: base.duration_Myr * 3, snapshotEvery: 100 } as RunSpec;
   const [summary] = await submitRuns(stack.orm.em.fork(), stack.queue, user, { name: 'handed back', spec });
 
   const firstPool = new RunPool(1);
@@ -121,14 +121,12 @@ test('a worker that stops hands its running run back to the queue at once, and t
     await new Promise((r) => setTimeout(r, 50));
   }
   // The worker process's stop: pool first, then the queue worker.
-  const stopping = Date.now();
   await firstPool.close();
   await first.close();
-  const stopSeconds = (Date.now() - stopping) / 1000;
   const handedBack = await stack.orm.em.fork().findOneOrFail(Run, { id: summary.id });
   expect({ status: handedBack.status, progress: handedBack.progress, startedAt: handedBack.startedAt }).toEqual({ status: 'queued', progress: 0, startedAt: null });
+  // Had the stop waited for the run, it would read finished here.
   expect(await (await stack.queue.getJob(summary.id))!.getState()).toBe('waiting');
-  expect(stopSeconds).toBeLessThan(20); // not "until the run ends", which would be most of a minute here
 
   const nextPool = new RunPool(1);
   const ended = waitForEnd(summary.id);
@@ -142,4 +140,4 @@ test('a worker that stops hands its running run back to the queue at once, and t
     await next.close();
     await nextPool.close();
   }
-});
+}, 120_000);
