@@ -2,21 +2,15 @@
 // Defaults are for one developer's machine; README lists them.
 const env = process.env;
 
-function int(name: string, fallback: number): number {
+function count(name: string, fallback: number, max = Number.MAX_SAFE_INTEGER, what = 'a whole number above 0'): number {
   const raw = env[name];
   if (raw === undefined || raw === '') return fallback;
   const v = Number(raw);
-  if (!Number.isInteger(v) || v <= 0 || v > 65535) throw new Error(`${name} must be a port number, got "${raw}"`);
+  if (!Number.isInteger(v) || v <= 0 || v > max) throw new Error(`${name} must be ${what}, got "${raw}"`);
   return v;
 }
 
-function count(name: string, fallback: number): number {
-  const raw = env[name];
-  if (raw === undefined || raw === '') return fallback;
-  const v = Number(raw);
-  if (!Number.isInteger(v) || v <= 0) throw new Error(`${name} must be a whole number above 0, got "${raw}"`);
-  return v;
-}
+const int = (name: string, fallback: number) => count(name, fallback, 65535, 'a port number');
 
 const host = '127.0.0.1'; // services never listen on other addresses
 const port = int('INFALL_PORT', 8080);

@@ -1,4 +1,4 @@
-import { rateLimit, type RateLimitRequestHandler } from 'express-rate-limit';
+import { rateLimit, type Options, type RateLimitRequestHandler } from 'express-rate-limit';
 import { config } from '../config';
 import { ApiError } from '../errors';
 
@@ -9,26 +9,16 @@ export const LIMIT_WINDOW_MS = 10 * 60_000;
 
 const minutes = Math.round(LIMIT_WINDOW_MS / 60_000);
 
+const limiter = (limit: number, options: Partial<Options>): RateLimitRequestHandler =>
+  rateLimit({ windowMs: LIMIT_WINDOW_MS, limit, standardHeaders: 'draft-7', legacyHeaders: false, ...options });
+
 /** Sign-in starts and provider callbacks; over the limit the browser goes back to the sign-in page with a reason. */
-export function signInLimiter(limit = config.auth.signInLimit): RateLimitRequestHandler {
-  return rateLimit({
-    windowMs: LIMIT_WINDOW_MS,
-    limit,
-    standardHeaders: 'draft-7',
-    legacyHeaders: false,
-    handler: (_req, res) => res.redirect(302, '/sign-in?error=busy'),
-  });
-}
+export const signInLimiter = (limit = config.auth.signInLimit) => limiter(limit, { handler: (_req, res) => res.redirect(302, '/sign-in?error=busy') });
 
 /** Requests whose token was refused (401); good tokens from the same address are not counted. */
-export function badTokenLimiter(limit = config.auth.badTokenLimit): RateLimitRequestHandler {
-  return rateLimit({
-    windowMs: LIMIT_WINDOW_MS,
-    limit,
-    standardHeaders: 'draft-7',
-    legacyHeaders: false,
+export const badTokenLimiter = (limit = config.auth.badTokenLimit) =>
+  limiter(limit, {
     requestWasSuccessful: (_req, res) => res.statusCode !== 401,
     skipSuccessfulRequests: true,
-    handler: (_req, _res, next) => next(new ApiError('RATE_LIMITED', `Too many requests with an unknown or revoked API token from this address; try again within ${minutes} minutes`)),
+    handler: (_req, _res, next) => next(new ApiError('RATE_LIMITED', `Too many requests with an unknown, expired or revoked API token from this address; try again within ${minutes} minutes`)),
   });
-}

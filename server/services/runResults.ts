@@ -82,13 +82,9 @@ export async function storeResult(em: EntityManager, runId: string, result: RunR
         positions: Buffer.from(s.positions.buffer, s.positions.byteOffset, s.positions.byteLength),
       });
     });
-    if (result.cancelled) {
-      const computed = result.summary.stepsCompleted / Math.max(1, result.summary.totalSteps);
-      refundUncomputed(tx, run, computed);
-      run.progress = computed;
-    } else {
-      run.progress = 1;
-    }
+    const computed = result.cancelled ? result.summary.stepsCompleted / Math.max(1, result.summary.totalSteps) : 1;
+    refundUncomputed(tx, run, computed);
+    run.progress = computed;
     run.status = result.cancelled ? 'cancelled' : 'finished';
     run.finishedAt = new Date();
   });
