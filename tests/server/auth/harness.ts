@@ -27,7 +27,9 @@ async function migrateExclusively(orm: Orm): Promise<void> {
   });
 }
 
-export async function openAuthStack(basePort: number): Promise<AuthStack> {
+export async function openAuthStack(filePort: number): Promise<AuthStack> {
+  // A second copy of the suite (a fresh clone beside a working tree) shifts every file's fakes.
+  const basePort = filePort + Number(process.env.INFALL_TEST_AUTH_PORT_SHIFT ?? 0);
   config.sessionSecret = randomBytes(32).toString('base64url');
   const fakes = await startAuthFakes({ oauth: basePort, smtp: basePort + 1, outbox: basePort + 2 });
   const stack = await openTestStack();
