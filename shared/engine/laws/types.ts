@@ -24,6 +24,11 @@ export interface ForceLaw {
   accelerations(sources: Sources, targets: Points, out: Accelerations): void;
   /** Total potential energy, Msun (km/s)^2; absent where the law has none. */
   potentialEnergy?(sources: Sources): number;
+  /**
+   * The part of potentialEnergy due to fixed external fields (a rigid halo), whose zero
+   * point is a convention; absent when there is none. Drifts are scaled by the rest.
+   */
+  externalPotentialEnergy?(sources: Sources): number;
 }
 
 export interface LawContext {
