@@ -42,7 +42,12 @@ const info = (): LawInfo => ({
     '(a kernel-smoothed cumulative mass, biweight kernel in r^3) taken about their density centre (shrinking spheres), so it follows the galaxy rather than stray particles. ' +
     'The apparent dark mass is a function of the baryons alone, so an isolated system must not push itself: the net pull, sum of m a over all particles, ' +
     'is removed by subtracting the same acceleration (net pull / total mass) from every particle and probe. Total momentum is then conserved to rounding with the direct solver. ' +
+    'With the tree solver momentum is conserved only to the accuracy of the approximate forces. ' +
     'There is no potential, so energy is not defined and angular momentum is not conserved.',
+  readings: {
+    meaningful: 'Rotation curves, Lagrangian radii and the Clausius ratio of roughly spherical, quasi-static systems; total momentum and the centre of mass (balanced, so any drift is integration error).',
+    notMeaningful: 'Energy (the law has no potential) and angular momentum; any result for disks, encounters or systems far from equilibrium beyond illustration.',
+  },
 });
 
 /** The apparent-dark-mass pull towards the centre at every point (written, not added). */

@@ -15,6 +15,8 @@ export interface LawInfo {
   /** Where the law (as implemented here) may be trusted. */
   validity: string;
   notes: string;
+  /** Where a law's runs carry artefacts of its form: which measured quantities mean something and which do not. */
+  readings?: { meaningful: string; notMeaningful: string };
 }
 
 /** A force law bound to a solver and softening, ready to act on particles. */
