@@ -1,5 +1,6 @@
 import { CentreDriftPlot, centreDriftColumns } from '../../components/run/CentreDriftPlot';
 import type { PlottedRun } from '../../components/run/DiagnosticsPlots';
+import { diagnosticsCsv } from '../../hooks/exports';
 import type { RunOutputView } from '../../hooks/runOutput';
 import type { DiagnosticSample } from '../../shared/engine';
 import { render } from './support/render';
@@ -36,4 +37,13 @@ test('runs stored before the centre series existed show no panel rather than fai
   const old = { step: 0, time_Myr: 0 } as unknown as DiagnosticSample;
   const { view } = render(<CentreDriftPlot runs={[runWith([old])]} />);
   expect(view.queryByText('Centre drift')).toBeNull();
+});
+
+test('the diagnostics CSV carries the centre series, empty for runs stored without them', () => {
+  const full = { ...row(1), kineticEnergy: 1, potentialEnergy: null, totalEnergy: null, energyDrift: null, momentumDrift: 0, angularMomentumDrift: 0, virialRatio: null, clausiusVirialRatio: 1, lagrangianRadii_kpc: { r10: 1, r50: 2, r90: 3 } };
+  const csv = diagnosticsCsv({ diagnostics: [full, { ...full, centreOfMass: undefined, centreOfMassVelocity: undefined, densityCentre: undefined }] } as unknown as RunOutputView);
+  const [header, first, second] = csv.trim().split('\n').map((l) => l.split(','));
+  expect(header.slice(-9)).toEqual(['cm_x_kpc', 'cm_y_kpc', 'cm_z_kpc', 'cm_vx_km_s', 'cm_vy_km_s', 'cm_vz_km_s', 'density_centre_x_kpc', 'density_centre_y_kpc', 'density_centre_z_kpc']);
+  expect(first.slice(-9).map(Number)).toEqual([0.030677, 0, 0, 3, 0, 0, 0, 0, 0]);
+  expect(second.slice(-9)).toEqual(['', '', '', '', '', '', '', '', '']);
 });

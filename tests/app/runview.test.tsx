@@ -71,7 +71,7 @@ test('a running run follows its event stream, then shows its results when it end
   press(view.getByLabelText('Next snapshot'));
   expect(view.getByText(/^At t = 5 Myr, from the law's field/)).toBeTruthy();
   press(view.getByRole('radio', { name: 'end' }));
-  expect(view.getByText(/^Measured in the plane z = z_cm at t = 10 Myr/)).toBeTruthy();
+  expect(view.getByText(/^Measured about the density centre at t = 10 Myr/)).toBeTruthy();
 });
 
 test('a run that is not there says so', async () => {
