@@ -7,7 +7,7 @@ import { allocateAccelerations, type ParticleState, type Points } from './state'
 export interface MeasuredSpeeds {
   /** Mass-weighted mean cylindrical radius of the particles in each bin, kpc (the bin centre where it is empty): where the speed belongs. */
   meanRadius_kpc: number[];
-  /** Mass-weighted mean azimuthal speed about the centre's velocity; null for an empty bin. */
+  /** Mass-weighted mean azimuthal speed about the centre's velocity; null for a bin of fewer than MIN_PARTICLES_PER_BIN particles. */
   meanAzimuthal_km_s: (number | null)[];
   particleCounts: number[];
 }
@@ -36,6 +36,9 @@ export function curveRadii(maxRadius_kpc: number, bins: number): number[] {
   const w = maxRadius_kpc / bins;
   return Array.from({ length: bins }, (_, k) => (k + 0.5) * w);
 }
+
+/** A bin with fewer particles gives a mean too noisy to quote (our choice: sigma / sqrt(8) is already a third of sigma). */
+export const MIN_PARTICLES_PER_BIN = 8;
 
 /** Probes per ring: enough to average out the azimuthal graininess of a particle disk (common practice). */
 const RING_PROBES = 8;
@@ -98,7 +101,7 @@ export function measureRotationCurve(
     }
     return {
       meanRadius_kpc: Array.from(mass, (m, k) => (m > 0 ? radius[k] / m : radii[k])),
-      meanAzimuthal_km_s: Array.from(mass, (m, k) => (m > 0 ? momentum[k] / m : null)),
+      meanAzimuthal_km_s: Array.from(mass, (m, k) => (counts[k] >= MIN_PARTICLES_PER_BIN ? momentum[k] / m : null)),
       particleCounts: counts,
     };
   };
