@@ -59,7 +59,7 @@ export function radialProfile(sources: Sources, cx: number, cy: number, cz: numb
   // Nodes: u = 0, then evenly spaced particle ranks, then the reach of the last kernel (all mass inside).
   const nodeU: number[] = [0];
   for (let q = 1; q <= NODES; q++) {
-    const uq = u[min(n - 1, round((q * n) / NODES) - 1)];
+    const uq = u[min(n - 1, max(0, round((q * n) / NODES) - 1))];
     if (uq > nodeU[nodeU.length - 1]) nodeU.push(uq);
   }
   if (reach > nodeU[nodeU.length - 1]) nodeU.push(reach);
