@@ -22,9 +22,11 @@ export function diagnosticsCsv(out: RunOutputView): string {
     'r10_kpc',
     'r50_kpc',
     'r90_kpc',
+    ...['cm_x_kpc', 'cm_y_kpc', 'cm_z_kpc', 'cm_vx_km_s', 'cm_vy_km_s', 'cm_vz_km_s', 'density_centre_x_kpc', 'density_centre_y_kpc', 'density_centre_z_kpc'],
   ];
+  const xyz = (v: { x: number; y: number; z: number } | null) => (v ? [v.x, v.y, v.z] : [null, null, null]);
   const rows = c.step.map((_, i) =>
-    [c.step[i], c.time_Myr[i], c.kineticEnergy[i], c.potentialEnergy[i], c.totalEnergy[i], c.energyDrift[i], c.momentumDrift[i], c.angularMomentumDrift[i], c.virialRatio[i], c.clausiusVirialRatio[i], c.r10_kpc[i], c.r50_kpc[i], c.r90_kpc[i]]
+    [c.step[i], c.time_Myr[i], c.kineticEnergy[i], c.potentialEnergy[i], c.totalEnergy[i], c.energyDrift[i], c.momentumDrift[i], c.angularMomentumDrift[i], c.virialRatio[i], c.clausiusVirialRatio[i], c.r10_kpc[i], c.r50_kpc[i], c.r90_kpc[i], ...xyz(c.centreOfMass_kpc[i]), ...xyz(c.centreOfMassVelocity_km_s[i]), ...xyz(c.densityCentre_kpc[i])]
       .map(cell)
       .join(','),
   );

@@ -37,6 +37,10 @@ export function diagnosticColumns(rows: DiagnosticSample[]) {
     r10_kpc: rows.map((r) => r.lagrangianRadii_kpc.r10),
     r50_kpc: rows.map((r) => r.lagrangianRadii_kpc.r50),
     r90_kpc: rows.map((r) => r.lagrangianRadii_kpc.r90),
+    // Centres (null for runs stored before they were measured).
+    centreOfMass_kpc: rows.map((r) => r.centreOfMass ?? null),
+    centreOfMassVelocity_km_s: rows.map((r) => r.centreOfMassVelocity ?? null),
+    densityCentre_kpc: rows.map((r) => r.densityCentre ?? null),
   };
 }
 

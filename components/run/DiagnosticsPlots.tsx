@@ -5,6 +5,7 @@ import { diagnosticColumns, magnitude, usesPotentialVirial, type RunOutputView }
 import { ChoiceChips } from '../fields';
 import { LinePlot, type PlotSeries } from '../LinePlot';
 import { Panel } from '../Panel';
+import { CentreDriftPlot } from './CentreDriftPlot';
 
 export interface PlottedRun {
   id: string;
@@ -28,7 +29,7 @@ export function DiagnosticsPlots({ runs, markerTime, columns }: { runs: PlottedR
   const { energy, momentum, radii, virial } = useMemo(() => {
     const energy: PlotSeries[] = data.filter((d) => d.run.out.law.hasPotential).map(({ run, c }) => ({
       id: run.id,
-      label: single ? 'ΔE / E₀' : run.label,
+      label: single ? 'ΔE / (K₀ + |W₀|)' : run.label,
       color: run.color,
       x: c.time_Myr,
       y: driftScale === 'log' ? magnitude(c.energyDrift) : c.energyDrift,
@@ -70,14 +71,14 @@ export function DiagnosticsPlots({ runs, markerTime, columns }: { runs: PlottedR
       <Panel
         style={twoUp ? styles.half : undefined}
         title="Energy drift"
-        note={noEnergy.length ? `${noEnergy.join(', ')}: no potential, so no energy to track.` : 'Relative change of total energy since t = 0.'}
-        right={energy.length === 0 ? undefined : <ChoiceChips compact value={driftScale} onChange={setDriftScale} choices={[{ value: 'log', label: 'log |ΔE/E₀|' }, { value: 'signed', label: 'signed' }]} />}
+        note={noEnergy.length ? `${noEnergy.join(', ')}: no potential, so no energy to track.` : 'Change of total energy since t = 0, over K₀ + |W₀| (kinetic plus the particles\' own potential energy at t = 0; a rigid halo\'s term is left out, so its zero point does not matter).'}
+        right={energy.length === 0 ? undefined : <ChoiceChips compact value={driftScale} onChange={setDriftScale} choices={[{ value: 'log', label: 'log |ΔE|' }, { value: 'signed', label: 'signed' }]} />}
       >
         {energy.length === 0 ? null : (
           <LinePlot
             series={energy}
             xLabel="time [Myr]"
-            yLabel={driftScale === 'log' ? '|ΔE / E₀| (log scale)' : 'ΔE / E₀'}
+            yLabel={driftScale === 'log' ? '|ΔE| / (K₀ + |W₀|) (log scale)' : 'ΔE / (K₀ + |W₀|)'}
             yLog={driftScale === 'log'}
             markerX={markerTime}
             accessibilityLabel={`Energy drift against time for ${runs.map((r) => r.label).join(' and ')}`}
@@ -88,9 +89,10 @@ export function DiagnosticsPlots({ runs, markerTime, columns }: { runs: PlottedR
       <Panel style={twoUp ? styles.half : undefined} title="Momentum drift" note="Change of total linear (solid) and angular (dashed) momentum, relative to their t = 0 scale.">
         <LinePlot series={momentum} xLabel="time [Myr]" yLabel="relative drift (log scale)" yLog markerX={markerTime} accessibilityLabel="Momentum and angular momentum drift against time" testID="plot-momentum" />
       </Panel>
-      <Panel style={twoUp ? styles.half : undefined} title="Lagrangian radii" note="Radii about the centre of mass holding 10, 50 and 90% of the mass.">
+      <Panel style={twoUp ? styles.half : undefined} title="Lagrangian radii" note="Radii about the density centre holding 10, 50 and 90% of the mass.">
         <LinePlot series={radii} xLabel="time [Myr]" yLabel="radius [kpc]" yFromZero markerX={markerTime} accessibilityLabel="Lagrangian radii against time" testID="plot-radii" />
       </Panel>
+      <CentreDriftPlot runs={runs} markerTime={markerTime} style={twoUp ? styles.half : undefined} />
       <Panel style={twoUp ? styles.half : undefined} title="Virial ratio" note="1 in equilibrium; above 1 the system expands, below it contracts.">
         <LinePlot series={virial} xLabel="time [Myr]" yLabel="virial ratio" markerX={markerTime} accessibilityLabel="Virial ratio against time" testID="plot-virial" />
       </Panel>

@@ -38,6 +38,20 @@ export function LawNotes({ info }: { info: LawInfo }) {
         <Txt variant="label">How to read the drifts</Txt>
         <Txt variant="small">{info.notes}</Txt>
       </View>
+      {info.readings ? (
+        <View style={styles.block} role="note" accessibilityLabel={`What the results of ${info.label} mean`}>
+          <Txt variant="label">Meaningful in these runs</Txt>
+          <Txt variant="small" color={colors.text}>
+            {info.readings.meaningful}
+          </Txt>
+          <Txt variant="label" color={colors.warning}>
+            Not meaningful in these runs
+          </Txt>
+          <Txt variant="small" color={colors.text}>
+            {info.readings.notMeaningful}
+          </Txt>
+        </View>
+      ) : null}
     </Panel>
   );
 }

@@ -32,15 +32,15 @@ export function LiveProgress({ run, stream, hasPotential }: { run: RunDetail; st
         <View style={styles.facts}>
           <Txt variant="mono">step {p ? `${formatCount(p.step)} / ${formatCount(p.totalSteps)}` : `– / ${formatCount(run.steps)}`}</Txt>
           <Txt variant="mono">t = {p ? formatValue(p.time_Myr) : '–'} Myr</Txt>
-          <Txt variant="mono">ΔE/E₀ = {hasPotential ? formatValue(p?.energyDrift ?? null) : 'n/a'}</Txt>
+          <Txt variant="mono">ΔE/(K₀+|W₀|) = {hasPotential ? formatValue(p?.energyDrift ?? null) : 'n/a'}</Txt>
         </View>
       </View>
       <ProgressBar value={percent / 100} color={color} label={`${run.name} progress`} />
       {hasPotential ? (
         <LinePlot
-          series={[{ id: 'live', label: '|ΔE / E₀| so far', color, x: drift.map((d) => d.time_Myr), y: magnitude(drift.map((d) => d.energyDrift)) }]}
+          series={[{ id: 'live', label: '|ΔE| / (K₀+|W₀|) so far', color, x: drift.map((d) => d.time_Myr), y: magnitude(drift.map((d) => d.energyDrift)) }]}
           xLabel="time [Myr]"
-          yLabel="|ΔE / E₀| (log scale)"
+          yLabel="|ΔE| / (K₀+|W₀|) (log scale)"
           yLog
           height={180}
           accessibilityLabel="Live energy drift of the running integration"

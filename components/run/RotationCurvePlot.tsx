@@ -1,5 +1,5 @@
 import { useState } from 'react';
-import { colors } from '../../constants/theme';
+import { colors, seriesColors } from '../../constants/theme';
 import { ChoiceChips } from '../fields';
 import { formatValue } from '../format';
 import { LinePlot, type PlotSeries } from '../LinePlot';
@@ -35,7 +35,11 @@ export function RotationCurvePlot({ runs, atFrame }: { runs: PlottedRun[]; atFra
     } else {
       const measured = r.out.rotationCurves[when];
       t = measured.time_Myr;
-      series.push({ id: `${r.id}-vphi`, label: `${tag}mean v_φ of particles`, color: r.color, x: measured.radii_kpc, y: measured.meanAzimuthal_km_s });
+      // Each bin at its particles' mass-weighted radius (runs stored before that existed: the bin centre).
+      series.push({ id: `${r.id}-vphi`, label: `${tag}mean v_φ of particles`, color: r.color, x: measured.meanRadius_kpc ?? measured.radii_kpc, y: measured.meanAzimuthal_km_s });
+      (measured.byComponent ?? []).forEach((part, k) =>
+        series.push({ id: `${r.id}-vphi-${part.label}`, label: `${tag}mean v_φ, ${part.label}`, color: single ? seriesColors[(k + 2) % seriesColors.length] : r.color, x: part.meanRadius_kpc, y: part.meanAzimuthal_km_s, dashed: !single }),
+      );
       series.push({ id: `${r.id}-vc`, label: `${tag}√(R g) from forces`, color: r.color, x: measured.radii_kpc, y: measured.circular_km_s, dashed: true });
     }
     for (const c of r.out.rotationCurves.analytic.curves) {
@@ -53,7 +57,7 @@ export function RotationCurvePlot({ runs, atFrame }: { runs: PlottedRun[]; atFra
   const note =
     when === 'now'
       ? `At t = ${formatValue(t)} Myr, from the law's field of the stored particles (snapshots keep positions only, so no particle speeds here).`
-      : `Measured in the plane z = z_cm at t = ${formatValue(t)} Myr; analytic curves are the initial mass model under each law.`;
+      : `Measured about the density centre at t = ${formatValue(t)} Myr, from particles within one bin width of its plane (all, and each component on its own); analytic curves are the initial mass model under each law.`;
   return (
     <Panel title="Rotation curve" note={note} right={<ChoiceChips compact value={when} onChange={setChoice} choices={choices} />}>
       <LinePlot series={series} xLabel="radius R [kpc]" yLabel="speed [km/s]" yFromZero accessibilityLabel={`Rotation curves ${when === 'now' ? `at t = ${formatValue(t)} Myr` : `at the ${when === 'initial' ? 'start' : 'end'} of the run`}`} testID="plot-rotation" />

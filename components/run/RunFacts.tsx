@@ -57,8 +57,8 @@ export function RunFacts({ out }: { out: RunOutputView }) {
   return (
     <Panel title="Outcome">
       <View style={styles.facts}>
-        <Fact label="final ΔE/E₀" value={formatValue(s.finalEnergyDrift)} />
-        <Fact label="max |ΔE/E₀|" value={formatValue(s.maxAbsEnergyDrift)} />
+        <Fact label="final ΔE/(K₀+|W₀|)" value={formatValue(s.finalEnergyDrift)} />
+        <Fact label="max |ΔE|/(K₀+|W₀|)" value={formatValue(s.maxAbsEnergyDrift)} />
         <Fact label="final momentum drift" value={formatValue(s.finalMomentumDrift)} />
         <Fact label="final ang. momentum drift" value={formatValue(s.finalAngularMomentumDrift)} />
         <Fact label="steps done" value={`${formatCount(s.stepsCompleted)} / ${formatCount(s.totalSteps)}`} />

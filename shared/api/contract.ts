@@ -65,6 +65,7 @@ export interface RunOutputBody {
   law: unknown;
   timescales: unknown;
   warnings: unknown;
+  /** The engine's DiagnosticSample rows, incl. centreOfMass, centreOfMassVelocity and densityCentre (absent in runs stored before those existed). */
   diagnostics: unknown[];
   rotationCurves: unknown;
   summary: unknown;

@@ -57,7 +57,7 @@ function run(args: string[]): void {
       if (p.percent - lastReported < 5 && p.step !== p.totalSteps) return;
       lastReported = p.percent;
       const drift = p.energyDrift === null ? 'n/a' : p.energyDrift.toExponential(2);
-      process.stderr.write(`step ${p.step}/${p.totalSteps} (${p.percent.toFixed(0)}%) t=${p.time_Myr.toFixed(2)} Myr dE/E=${drift}\n`);
+      process.stderr.write(`step ${p.step}/${p.totalSteps} (${p.percent.toFixed(0)}%) t=${p.time_Myr.toFixed(2)} Myr dE/(K0+|W0|)=${drift}\n`);
     },
   });
   if (out) {

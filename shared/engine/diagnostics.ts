@@ -1,3 +1,4 @@
+import { densityCentre, type DensityCentre } from './centre';
 import type { ForceLaw } from './laws/types';
 import { centreOfMass, type ParticleState } from './state';
 
@@ -22,7 +23,11 @@ export interface DiagnosticSample {
   kineticEnergy: number;
   potentialEnergy: number | null;
   totalEnergy: number | null;
-  /** (E - E0) / |E0|. */
+  /**
+   * (E - E0) / (K0 + |W_self,0|): K0 the kinetic and W_self,0 the particles' own (pair) potential
+   * energy at t = 0. Unlike |E0| this scale cannot vanish, and a fixed external field (a rigid halo),
+   * whose potential's zero point is a convention, is not part of it.
+   */
   energyDrift: number | null;
   momentum: Vector3;
   /** |P - P0| divided by sum m|v| at t = 0 (P0 is near zero, so it cannot be the scale). */
@@ -30,12 +35,21 @@ export interface DiagnosticSample {
   angularMomentum: Vector3;
   /** |L - L0| divided by sum m|r x v| at t = 0. */
   angularMomentumDrift: number;
-  /** 2K / |W|; null without a potential. */
+  /** 2K / |W|: only under softened Newton, the one law where it is 1 in equilibrium; null elsewhere. */
   virialRatio: number | null;
-  /** 2K / |sum m (r - r_cm) . a|: the Clausius virial, defined for every law (equals W for unsoftened Newton). */
+  /**
+   * 2K' / |sum m (r - r_cm) . a| with K' the kinetic energy about the centre-of-mass velocity:
+   * the Clausius virial ratio, 1 in equilibrium under every law (Clausius 1870; the form used
+   * e.g. in Binney & Tremaine 2008, section 4.8.3, from memory).
+   */
   clausiusVirialRatio: number;
-  /** Radii about the centre of mass holding 10, 50 and 90% of the mass. */
+  /** Radii about the density centre holding 10, 50 and 90% of the mass. */
   lagrangianRadii_kpc: { r10: number; r50: number; r90: number };
+  /** Centre of mass, kpc, and its velocity, km/s: a drift here is self-acceleration or an external pull. */
+  centreOfMass: Vector3;
+  centreOfMassVelocity: Vector3;
+  /** Density centre (shrinking spheres, see centre.ts), kpc: the centre the radii, curves and Q are taken about. */
+  densityCentre: Vector3;
   /** Only for disk models: Toomre Q in radial bins of the disk plane. */
   toomreQ: ToomreProfile | null;
 }
@@ -48,6 +62,8 @@ export interface ToomreProfile {
 /** Values at t = 0 that drifts are measured against. */
 export interface DriftReference {
   energy: number | null;
+  /** K0 + |W_self,0|, the energy drift's scale. */
+  energyScale: number | null;
   momentum: Vector3;
   momentumScale: number;
   angularMomentum: Vector3;
@@ -86,9 +102,9 @@ function moments(p: ParticleState): Moments {
 
 const distance = (a: Vector3, b: Vector3): number => hypot(a.x - b.x, a.y - b.y, a.z - b.z);
 
-/** Radii about the centre of mass enclosing the given mass fractions, kpc. */
-export function lagrangianRadii(p: ParticleState, fractions: readonly number[]): number[] {
-  const c = centreOfMass(p);
+/** Radii about `centre` (default the centre of mass) enclosing the given mass fractions, kpc. */
+export function lagrangianRadii(p: ParticleState, fractions: readonly number[], centre: Vector3 = centreOfMass(p)): number[] {
+  const c = centre;
   const r = new Float64Array(p.n);
   for (let i = 0; i < p.n; i++) r[i] = hypot(p.x[i] - c.x, p.y[i] - c.y, p.z[i] - c.z);
   const order = Uint32Array.from({ length: p.n }, (_, i) => i).sort((a, b) => r[a] - r[b]);
@@ -104,8 +120,7 @@ export function lagrangianRadii(p: ParticleState, fractions: readonly number[]):
 }
 
 /** Clausius virial sum m (r - r_cm) . a; uses the accelerations held in the state. */
-function clausiusVirial(p: ParticleState): number {
-  const c = centreOfMass(p);
+function clausiusVirial(p: ParticleState, c: Vector3): number {
   let v = 0;
   for (let i = 0; i < p.n; i++) v += p.m[i] * ((p.x[i] - c.x) * p.ax[i] + (p.y[i] - c.y) * p.ay[i] + (p.z[i] - c.z) * p.az[i]);
   return v;
@@ -122,35 +137,45 @@ export function sampleDiagnostics(
   step: number,
   time_Myr: number,
   reference: DriftReference | null,
-  toomre: ((p: ParticleState) => ToomreProfile) | null,
+  toomre: ((p: ParticleState, centre: DensityCentre) => ToomreProfile) | null,
 ): { sample: DiagnosticSample; reference: DriftReference } {
   const mo = moments(p);
   const W = law.potentialEnergy ? law.potentialEnergy(p) : null;
   const E = W === null ? null : mo.kinetic + W;
+  const wSelf = W === null ? null : W - (law.externalPotentialEnergy ? law.externalPotentialEnergy(p) : 0);
   const ref: DriftReference = reference ?? {
     energy: E,
+    energyScale: wSelf === null ? null : mo.kinetic + Math.abs(wSelf),
     momentum: mo.momentum,
     momentumScale: mo.momentumScale,
     angularMomentum: mo.angularMomentum,
     angularMomentumScale: mo.angularMomentumScale,
   };
-  const [r10, r50, r90] = lagrangianRadii(p, [0.1, 0.5, 0.9]);
-  const vir = clausiusVirial(p);
+  const cm = centreOfMass(p);
+  const dc = densityCentre(p, p);
+  const [r10, r50, r90] = lagrangianRadii(p, [0.1, 0.5, 0.9], dc);
+  const vir = clausiusVirial(p, cm);
+  let M = 0;
+  for (let i = 0; i < p.n; i++) M += p.m[i];
+  const internalKinetic = mo.kinetic - 0.5 * M * (cm.vx * cm.vx + cm.vy * cm.vy + cm.vz * cm.vz);
   const sample: DiagnosticSample = {
     step,
     time_Myr,
     kineticEnergy: mo.kinetic,
     potentialEnergy: W,
     totalEnergy: E,
-    energyDrift: E === null || ref.energy === null ? null : (E - ref.energy) / Math.abs(ref.energy),
+    energyDrift: E === null || ref.energy === null || !ref.energyScale ? null : (E - ref.energy) / ref.energyScale,
     momentum: mo.momentum,
     momentumDrift: ref.momentumScale > 0 ? distance(mo.momentum, ref.momentum) / ref.momentumScale : 0,
     angularMomentum: mo.angularMomentum,
     angularMomentumDrift: ref.angularMomentumScale > 0 ? distance(mo.angularMomentum, ref.angularMomentum) / ref.angularMomentumScale : 0,
-    virialRatio: W === null || W === 0 ? null : (2 * mo.kinetic) / Math.abs(W),
-    clausiusVirialRatio: vir === 0 ? 0 : (2 * mo.kinetic) / Math.abs(vir),
+    virialRatio: law.info.kind !== 'newton' || W === null || W === 0 ? null : (2 * mo.kinetic) / Math.abs(W),
+    clausiusVirialRatio: vir === 0 ? 0 : (2 * internalKinetic) / Math.abs(vir),
     lagrangianRadii_kpc: { r10, r50, r90 },
-    toomreQ: toomre ? toomre(p) : null,
+    centreOfMass: { x: cm.x, y: cm.y, z: cm.z },
+    centreOfMassVelocity: { x: cm.vx, y: cm.vy, z: cm.vz },
+    densityCentre: { x: dc.x, y: dc.y, z: dc.z },
+    toomreQ: toomre ? toomre(p, dc) : null,
   };
   return { sample, reference: ref };
 }

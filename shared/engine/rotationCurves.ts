@@ -1,18 +1,32 @@
+import { densityCentre } from './centre';
 import type { ForceLaw } from './laws/types';
-import { allocateAccelerations, centreOfMass, type ParticleState, type Points } from './state';
+import type { Component } from './models/types';
+import { allocateAccelerations, type ParticleState, type Points } from './state';
 
-/**
- * Rotation curve measured from particles, in the plane z = z_cm about the
- * centre of mass (disks are built in the x-y plane).
- */
-export interface RotationCurve {
-  step: number;
-  time_Myr: number;
-  /** Bin centres, kpc. */
-  radii_kpc: number[];
-  /** Mass-weighted mean azimuthal speed of the particles in each cylindrical bin; null for an empty bin. */
+/** Mean azimuthal speed of a set of particles near the plane, per cylindrical bin. */
+export interface MeasuredSpeeds {
+  /** Mass-weighted mean cylindrical radius of the particles in each bin, kpc (the bin centre where it is empty): where the speed belongs. */
+  meanRadius_kpc: number[];
+  /** Mass-weighted mean azimuthal speed about the centre's velocity; null for a bin of fewer than MIN_PARTICLES_PER_BIN particles. */
   meanAzimuthal_km_s: (number | null)[];
   particleCounts: number[];
+}
+
+/**
+ * Rotation curve measured from particles about the density centre (see
+ * centre.ts), in cylindrical bins of the x-y plane (disks are built in it).
+ * Particle speeds count only near the plane, |z - z_c| < planeCut_kpc, so a
+ * bulge's or halo's particles far above the disk do not dilute it.
+ */
+export interface RotationCurve extends MeasuredSpeeds {
+  step: number;
+  time_Myr: number;
+  /** Bin centres, kpc: where circular_km_s is sampled. */
+  radii_kpc: number[];
+  /** Half-thickness of the slab whose particles are measured, kpc: one bin width. */
+  planeCut_kpc: number;
+  /** The same measurement for each component alone (disk, bulge, each galaxy of an encounter...). */
+  byComponent: (MeasuredSpeeds & { label: string })[];
   /** sqrt(R g_R) from the law's field sampled at massless probes on a ring of radius R; 0 where the pull is outward. */
   circular_km_s: number[];
 }
@@ -22,6 +36,9 @@ export function curveRadii(maxRadius_kpc: number, bins: number): number[] {
   const w = maxRadius_kpc / bins;
   return Array.from({ length: bins }, (_, k) => (k + 0.5) * w);
 }
+
+/** A bin with fewer particles gives a mean too noisy to quote (our choice: sigma / sqrt(8) is already a third of sigma). */
+export const MIN_PARTICLES_PER_BIN = 8;
 
 /** Probes per ring: enough to average out the azimuthal graininess of a particle disk (common practice). */
 const RING_PROBES = 8;
@@ -64,27 +81,37 @@ export function measureRotationCurve(
   bins: number,
   step: number,
   time_Myr: number,
+  components: readonly Component[] = [],
 ): RotationCurve {
-  const c = centreOfMass(p);
+  const c = densityCentre(p, p);
   const width = maxRadius_kpc / bins;
-  const mass = new Float64Array(bins), momentum = new Float64Array(bins), counts = new Array<number>(bins).fill(0);
-  for (let i = 0; i < p.n; i++) {
-    const x = p.x[i] - c.x, y = p.y[i] - c.y;
-    const R = Math.hypot(x, y);
-    const k = Math.floor(R / width);
-    if (R === 0 || k >= bins) continue;
-    const vphi = (x * (p.vy[i] - c.vy) - y * (p.vx[i] - c.vx)) / R;
-    mass[k] += p.m[i];
-    momentum[k] += p.m[i] * vphi;
-    counts[k]++;
-  }
   const radii = curveRadii(maxRadius_kpc, bins);
+  const speeds = (start: number, end: number): MeasuredSpeeds => {
+    const mass = new Float64Array(bins), momentum = new Float64Array(bins), radius = new Float64Array(bins), counts = new Array<number>(bins).fill(0);
+    for (let i = start; i < end; i++) {
+      const x = p.x[i] - c.x, y = p.y[i] - c.y;
+      const R = Math.hypot(x, y);
+      const k = Math.floor(R / width);
+      if (R === 0 || k >= bins || Math.abs(p.z[i] - c.z) >= width) continue;
+      const vphi = (x * (p.vy[i] - c.vy) - y * (p.vx[i] - c.vx)) / R;
+      mass[k] += p.m[i];
+      momentum[k] += p.m[i] * vphi;
+      radius[k] += p.m[i] * R;
+      counts[k]++;
+    }
+    return {
+      meanRadius_kpc: Array.from(mass, (m, k) => (m > 0 ? radius[k] / m : radii[k])),
+      meanAzimuthal_km_s: Array.from(mass, (m, k) => (counts[k] >= MIN_PARTICLES_PER_BIN ? momentum[k] / m : null)),
+      particleCounts: counts,
+    };
+  };
   return {
     step,
     time_Myr,
     radii_kpc: radii,
-    meanAzimuthal_km_s: Array.from(mass, (m, k) => (m > 0 ? momentum[k] / m : null)),
-    particleCounts: counts,
+    planeCut_kpc: width,
+    ...speeds(0, p.n),
+    byComponent: components.length > 1 ? components.map((part) => ({ label: part.label, ...speeds(part.start, part.start + part.count) })) : [],
     circular_km_s: circularSpeedFromForces(p, law, radii, c),
   };
 }

@@ -1,5 +1,6 @@
 import type { RunSpec } from '../spec/runSpec';
 import { particleCount } from '../spec/runSpec';
+import type { DensityCentre } from './centre';
 import { analyticCurves, CURVE_BINS, type AnalyticCurves } from './analytic';
 import { sampleDiagnostics, type DiagnosticSample, type DriftReference } from './diagnostics';
 import type { LawInfo } from './laws/types';
@@ -117,7 +118,7 @@ export function runSimulation(spec: RunSpec, hooks: RunHooks = {}): RunResult {
   const diskModel = spec.model.kind === 'disk' ? spec.model : null;
   const toomre =
     diskPart && diskModel
-      ? (p: ParticleState) => toomreProfile(p, sim.law, diskPart, TOOMRE_RANGE_SCALE_LENGTHS * diskModel.scaleLength_kpc, TOOMRE_BINS)
+      ? (p: ParticleState, centre: DensityCentre) => toomreProfile(p, sim.law, diskPart, TOOMRE_RANGE_SCALE_LENGTHS * diskModel.scaleLength_kpc, TOOMRE_BINS, centre)
       : null;
 
   const diagnose = () => {
@@ -147,7 +148,7 @@ export function runSimulation(spec: RunSpec, hooks: RunHooks = {}): RunResult {
       energyDrift: latestDrift,
     });
 
-  const initialCurve = measureRotationCurve(sim.particles, sim.law, curveRadius, CURVE_BINS, 0, 0);
+  const initialCurve = measureRotationCurve(sim.particles, sim.law, curveRadius, CURVE_BINS, 0, 0, sim.initial.components);
   diagnose();
   snapshot();
   report();
@@ -180,7 +181,7 @@ export function runSimulation(spec: RunSpec, hooks: RunHooks = {}): RunResult {
     report();
   }
 
-  const finalCurve = measureRotationCurve(sim.particles, sim.law, curveRadius, CURVE_BINS, sim.state.step, sim.time_Myr);
+  const finalCurve = measureRotationCurve(sim.particles, sim.law, curveRadius, CURVE_BINS, sim.state.step, sim.time_Myr, sim.initial.components);
   const last = diagnostics[diagnostics.length - 1];
   const drifts = diagnostics.map((d) => d.energyDrift).filter((d): d is number => d !== null);
   const meaning = (conserved: boolean, defined = true): QuantityMeaning => (!defined ? 'undefined' : conserved ? 'conserved' : 'not-conserved');

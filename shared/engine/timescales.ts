@@ -123,7 +123,7 @@ export function timescalesFor(spec: RunSpec, ic: InitialConditions): { timescale
     warnings.push({
       code: 'law-without-potential',
       severity: 'info',
-      message: `${info.label} has no potential: energy is not reported and momentum is not conserved. ${info.notes}`,
+      message: `${info.label} has no potential: energy is not reported${info.conservesMomentum ? '' : ' and momentum is not conserved'}. ${info.notes}`,
       source: 'the law itself (no pairwise potential)',
     });
   }
@@ -167,7 +167,7 @@ function modelAndMethodNotes(spec: RunSpec, n: number): EngineWarning[] {
     notes.push({
       code: 'algebraic-mond-approximate',
       severity: 'info',
-      message: 'algebraic MOND is exact only for symmetric configurations; for disks and encounters it approximates the field equations (QUMOND, Milgrom 2010)',
+      message: 'algebraic MOND is exact only for symmetric configurations; for disks and encounters it approximates the field equations (QUMOND, Milgrom 2010), and the momentum, energy and centre drift of such a run are artefacts of the algebraic form: read its curves and short-time structure only, or use the field form',
       source: 'Milgrom 2010',
     });
   }

@@ -2,7 +2,8 @@ import type { ToomreProfile } from './diagnostics';
 import type { ForceLaw } from './laws/types';
 import { TOOMRE_STELLAR } from './models/disk';
 import { circularSpeedFromForces } from './rotationCurves';
-import { centreOfMass, type ParticleState } from './state';
+import { densityCentre, type DensityCentre } from './centre';
+import type { ParticleState } from './state';
 import { G } from './units';
 
 /** Bins shorter than this give a dispersion too noisy to quote (common practice). */
@@ -10,7 +11,8 @@ const MIN_PARTICLES_PER_BIN = 20;
 
 /**
  * Toomre (1964) Q = sigma_R kappa / (3.36 G Sigma) in radial bins of the disk
- * plane, from the disk particles (index range) about the centre of mass.
+ * plane, from the disk particles (index range) about the density centre
+ * (its position, and the mean velocity of the particles that define it).
  * kappa comes from the circular speed of the law's field sampled at probes,
  * kappa^2 = 2 vc^2 / R^2 + (1/R) d(vc^2)/dR by central differences.
  */
@@ -20,8 +22,8 @@ export function toomreProfile(
   disk: { start: number; count: number },
   maxRadius_kpc: number,
   bins: number,
+  c: DensityCentre = densityCentre(p, p),
 ): ToomreProfile {
-  const c = centreOfMass(p);
   const width = maxRadius_kpc / bins;
   const mass = new Float64Array(bins), sumV = new Float64Array(bins), sumV2 = new Float64Array(bins), counts = new Int32Array(bins);
   for (let i = disk.start; i < disk.start + disk.count; i++) {

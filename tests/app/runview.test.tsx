@@ -51,7 +51,7 @@ test('a running run follows its event stream, then shows its results when it end
     source.emit('progress', { percent: 42.5, step: 8, totalSteps: 20, time_Myr: 4, energyDrift: -3.2e-6 });
   });
   expect(view.getByTestId('live-percent').textContent).toBe('42%');
-  expect(view.getByText('ΔE/E₀ = -3.20e-6')).toBeTruthy();
+  expect(view.getByText('ΔE/(K₀+|W₀|) = -3.20e-6')).toBeTruthy();
   expect(view.getByText('● live')).toBeTruthy();
 
   finished = true;
@@ -71,7 +71,7 @@ test('a running run follows its event stream, then shows its results when it end
   press(view.getByLabelText('Next snapshot'));
   expect(view.getByText(/^At t = 5 Myr, from the law's field/)).toBeTruthy();
   press(view.getByRole('radio', { name: 'end' }));
-  expect(view.getByText(/^Measured in the plane z = z_cm at t = 10 Myr/)).toBeTruthy();
+  expect(view.getByText(/^Measured about the density centre at t = 10 Myr/)).toBeTruthy();
 });
 
 test('a run that is not there says so', async () => {

@@ -6,6 +6,7 @@ import { redisConnection, type RunJobData } from '../../server/queue';
 import { User, Run, RunOutput, RunSnapshot, UsageEntry } from '../../server/db/entities';
 import { submitRuns, snapshotBytes } from '../../server/services/runs';
 import { decodeSnapshots } from '../../shared/api/snapshots';
+import type { DiagnosticSample } from '../../shared/engine';
 import { defaultRunSpec, type RunSpec } from '../../shared/spec';
 import { RunPool } from '../../worker/pool';
 import { runProcessor } from '../../worker/processor';
@@ -70,6 +71,10 @@ test('a submitted run is integrated in a pool thread and lands whole in PostgreS
 
   const output = await check.findOneOrFail(RunOutput, { run: summary.id });
   expect((output.diagnostics as unknown[]).length).toBeGreaterThan(1);
+  // Every stored sample carries the centre series; an isolated Newtonian sphere's centre of mass stays at rest.
+  const rows = output.diagnostics as DiagnosticSample[];
+  expect(rows.every((d) => Math.hypot(d.centreOfMassVelocity.x, d.centreOfMassVelocity.y, d.centreOfMassVelocity.z) < 1e-9)).toBe(true);
+  expect(rows.every((d) => [d.centreOfMass.x, d.densityCentre.x, d.densityCentre.y, d.densityCentre.z].every(Number.isFinite))).toBe(true);
   const frames = await check.count(RunSnapshot, { run: summary.id });
   expect(frames).toBeGreaterThan(1);
 

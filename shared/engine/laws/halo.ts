@@ -3,6 +3,7 @@ import { newtonKernel } from '../solvers/types';
 import { G } from '../units';
 import { pairPotentialEnergy, scratchFor } from './pairwise';
 import { defineLaw, type LawInfo } from './types';
+import type { Sources } from '../state';
 
 const schema = z
   .object({
@@ -47,7 +48,10 @@ const info = (p: HaloParams): LawInfo => ({
   conservesAngularMomentum: true,
   hasPotential: true,
   validity: 'A rigid halo that does not respond to the particles: fine for a settled galaxy, not for mergers that would heat or move the halo.',
-  notes: 'The halo is an external field fixed at the origin, so total momentum is not conserved; energy and angular momentum about the origin are.',
+  notes:
+    'The halo is an external field fixed at the origin: it changes the particles\' total momentum by its own pull (an impulse from outside, not an error), ' +
+    'while energy and angular momentum about the origin are conserved. Energy drift is scaled by K0 + |W_self| (the halo term left out), ' +
+    'so the halo potential\'s arbitrary zero point does not change it. 2K/|W| means nothing here; read the Clausius ratio.',
 });
 
 export const haloLaw = defineLaw({
@@ -57,6 +61,11 @@ export const haloLaw = defineLaw({
   create(params, { solver, softening_kpc }) {
     const kernel = newtonKernel(softening_kpc);
     const scratch = scratchFor();
+    const external = (sources: Sources): number => {
+      let w = 0;
+      for (let i = 0; i < sources.m.length; i++) w += sources.m[i] * haloPotential(params, Math.hypot(sources.x[i], sources.y[i], sources.z[i]));
+      return w;
+    };
     return {
       info: info(params),
       accelerations(sources, targets, out) {
@@ -71,14 +80,8 @@ export const haloLaw = defineLaw({
           out.az[i] -= g * z;
         }
       },
-      potentialEnergy(sources) {
-        let w = pairPotentialEnergy(solver, kernel, sources, scratch);
-        for (let i = 0; i < sources.m.length; i++) {
-          const r = Math.hypot(sources.x[i], sources.y[i], sources.z[i]);
-          w += sources.m[i] * haloPotential(params, r);
-        }
-        return w;
-      },
+      potentialEnergy: (sources) => pairPotentialEnergy(solver, kernel, sources, scratch) + external(sources),
+      externalPotentialEnergy: external,
     };
   },
   modelAcceleration: (params, model, R) => model.newtonAccel(R) + haloAcceleration(params, R),

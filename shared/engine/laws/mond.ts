@@ -54,8 +54,15 @@ const info = (p: MondParams): LawInfo => ({
   conservesAngularMomentum: false,
   hasPotential: false,
   validity:
-    'The algebraic form is exact only for symmetric (spherical, cylindrical, planar) configurations; elsewhere it approximates the field equations (QUMOND, Milgrom 2010), which this engine does not solve.',
-  notes: 'No pairwise potential: energy and momentum are not conserved and their drift measures the law, not the integrator.',
+    'The algebraic form is exact only for symmetric (spherical, cylindrical, planar) configurations; elsewhere it approximates the field equations of MOND. ' +
+    'For N-body runs use the field form (QUMOND), which has a potential and conserves momentum; keep this form for rotation curves and short, quick runs.',
+  notes:
+    'Each particle\'s own Newtonian field is boosted by nu(|g_N|/a0), so the forces are not pairwise: particle noise makes an isolated system push itself, ' +
+    'and there is no potential. Momentum and energy drifts here are artefacts of the algebraic form, not MOND physics and not integrator error.',
+  readings: {
+    meaningful: 'Rotation curves (analytic, and measured from the forces at t = 0) and structure over a few crossing times: Lagrangian radii, the Clausius ratio, the shape of a disk.',
+    notMeaningful: 'Total momentum, energy, and the drift of the centre of mass: they grow from the particle noise of the algebraic form (less with more particles) and say nothing about MOND.',
+  },
 });
 
 export const mondLaw = defineLaw({

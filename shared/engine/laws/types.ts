@@ -15,6 +15,8 @@ export interface LawInfo {
   /** Where the law (as implemented here) may be trusted. */
   validity: string;
   notes: string;
+  /** Where a law's runs carry artefacts of its form: which measured quantities mean something and which do not. */
+  readings?: { meaningful: string; notMeaningful: string };
 }
 
 /** A force law bound to a solver and softening, ready to act on particles. */
@@ -24,6 +26,11 @@ export interface ForceLaw {
   accelerations(sources: Sources, targets: Points, out: Accelerations): void;
   /** Total potential energy, Msun (km/s)^2; absent where the law has none. */
   potentialEnergy?(sources: Sources): number;
+  /**
+   * The part of potentialEnergy due to fixed external fields (a rigid halo), whose zero
+   * point is a convention; absent when there is none. Drifts are scaled by the rest.
+   */
+  externalPotentialEnergy?(sources: Sources): number;
 }
 
 export interface LawContext {

@@ -5,7 +5,7 @@ import type { FieldSolver, PairKernel } from './types';
 
 // Module-local aliases: inside a vm context (Jest, sandboxes) every global
 // lookup of Math is slow enough to dominate a hot loop.
-const { min, max, sqrt } = Math;
+const { min, max, sqrt, exp } = Math;
 
 /** Particles per leaf before it splits (common practice: small buckets beat single-particle leaves). */
 const LEAF_SIZE = 8;
@@ -168,11 +168,11 @@ function room(a: Float64Array, need: number): Float64Array {
  * the box (the second condition is a common-practice guard against targets
  * inside large, lopsided cells). Sharing the walk among a group's particles is
  * the grouping of Barnes (1990); for a single point it is the 1986 criterion.
- * A Yukawa kernel's multipole expansion is another than Newton's, so there
- * accepted cells join the particles as point masses (monopoles).
+ * Accepted cells act through monopole plus quadrupole terms of the pair
+ * kernel, Newton's or Newton plus Yukawa (see cellPull).
  */
 class InteractionList {
-  // Particles (and Yukawa monopoles): summed by the pair loop.
+  // Particles of opened leaves: summed by the pair loop.
   px = list(); py = list(); pz = list(); pm = list();
   particles = 0;
   // Cells: centre of mass, mass, second moments, contiguous for the per-target loop.
@@ -192,14 +192,6 @@ class InteractionList {
     this.particles = need;
   }
 
-  private pushPoint(x: number, y: number, z: number, m: number): void {
-    const k = this.particles++;
-    if (k === this.px.length) {
-      this.px = room(this.px, k + 1); this.py = room(this.py, k + 1); this.pz = room(this.pz, k + 1); this.pm = room(this.pm, k + 1);
-    }
-    this.px[k] = x; this.py[k] = y; this.pz[k] = z; this.pm[k] = m;
-  }
-
   private pushCell(cells: Float64Array, c: number): void {
     const k = this.cellCount++;
     if (k === this.cx.length) {
@@ -213,7 +205,7 @@ class InteractionList {
     this.cxy[k] = cells[c + IXY]; this.cxz[k] = cells[c + IXZ]; this.cyz[k] = cells[c + IYZ];
   }
 
-  collect(t: Octree, theta2: number, multipoles: boolean, minX: number, minY: number, minZ: number, maxX: number, maxY: number, maxZ: number): void {
+  collect(t: Octree, theta2: number, minX: number, minY: number, minZ: number, maxX: number, maxY: number, maxZ: number): void {
     this.particles = 0;
     this.cellCount = 0;
     const { cells, links } = t;
@@ -232,8 +224,7 @@ class InteractionList {
       const dx = max(minX - gx, 0, gx - maxX), dy = max(minY - gy, 0, gy - maxY), dz = max(minZ - gz, 0, gz - maxZ);
       const l = node * LINK;
       if (apart && cells[c + SIZE2] < theta2 * (dx * dx + dy * dy + dz * dz)) {
-        if (multipoles) this.pushCell(cells, c);
-        else this.pushPoint(gx, gy, gz, cells[c + MASS]);
+        this.pushCell(cells, c);
       } else if (links[l + FIRST_CHILD] < 0) {
         this.pushParticles(sx, sy, sz, sm, links[l + LEAF_START], links[l + LEAF_COUNT]);
       } else {
@@ -244,37 +235,80 @@ class InteractionList {
 
   /**
    * Pull of the gathered cells at (xi, yi, zi), still to be multiplied by G, added into acc[0..2].
-   * With d = com - target, s^2 = d^2 + eps^2 and I the second moments about the com,
-   * the softened sum_j m_j / s_j expands to M/s + (3/2) d.I.d / s^5 - (1/2) tr(I) / s^3;
-   * the pull is its gradient with respect to the target.
+   * With d = com - target, q = d^2, the kernel F(q) = f(sqrt(q + eps^2)) and I the second moments
+   * about the com, sum_j m_j F(|d + delta_j|^2) expands (Taylor to second order; the first-order
+   * term vanishes about the com) to M F + F' tr(I) + 2 F'' d.I.d, F' = dF/dq. The pull is minus
+   * its gradient in d: -(2 M F' + 2 F'' tr(I) + 4 F''' d.I.d) d - 4 F'' I.d. For softened Newton,
+   * f = 1/s: F' = -s^-3 / 2, F'' = 3 s^-5 / 4, F''' = -15 s^-7 / 8. A Yukawa term alpha e^(-s/lambda) / s
+   * adds, with e = alpha e^(-s/lambda) and L = lambda (our own differentiation, checked in the tests):
+   * F' = -e (s + L) / (2 L s^3), F'' = e (s^2 + 3 L s + 3 L^2) / (4 L^2 s^5),
+   * F''' = -e (s^3 + 6 L s^2 + 15 L^2 s + 15 L^3) / (8 L^3 s^7).
    */
-  cellPull(xi: number, yi: number, zi: number, eps2: number, acc: Float64Array): void {
+  cellPull(xi: number, yi: number, zi: number, kernel: PairKernel, acc: Float64Array): void {
     const { cx, cy, cz, cm, cxx, cyy, czz, cxy, cxz, cyz } = this;
+    const eps2 = kernel.softening2_kpc2, alpha = kernel.yukawaAlpha, L = kernel.yukawaLambda_kpc;
     let sx = 0, sy = 0, sz = 0;
-    for (let k = 0, n = this.cellCount; k < n; k++) {
-      const dx = cx[k] - xi, dy = cy[k] - yi, dz = cz[k] - zi;
-      const inv = 1 / sqrt(dx * dx + dy * dy + dz * dz + eps2);
-      const inv2 = inv * inv, inv3 = inv2 * inv, inv5 = inv3 * inv2;
-      const Ixx = cxx[k], Iyy = cyy[k], Izz = czz[k], Ixy = cxy[k], Ixz = cxz[k], Iyz = cyz[k];
-      const Idx = Ixx * dx + Ixy * dy + Ixz * dz, Idy = Ixy * dx + Iyy * dy + Iyz * dz, Idz = Ixz * dx + Iyz * dy + Izz * dz;
-      const radial = cm[k] * inv3 + 7.5 * (dx * Idx + dy * Idy + dz * Idz) * inv5 * inv2 - 1.5 * (Ixx + Iyy + Izz) * inv5;
-      const q = 3 * inv5;
-      sx += radial * dx - q * Idx; sy += radial * dy - q * Idy; sz += radial * dz - q * Idz;
+    if (alpha === 0) {
+      for (let k = 0, n = this.cellCount; k < n; k++) {
+        const dx = cx[k] - xi, dy = cy[k] - yi, dz = cz[k] - zi;
+        const inv = 1 / sqrt(dx * dx + dy * dy + dz * dz + eps2);
+        const inv2 = inv * inv, inv3 = inv2 * inv, inv5 = inv3 * inv2;
+        const Ixx = cxx[k], Iyy = cyy[k], Izz = czz[k], Ixy = cxy[k], Ixz = cxz[k], Iyz = cyz[k];
+        const Idx = Ixx * dx + Ixy * dy + Ixz * dz, Idy = Ixy * dx + Iyy * dy + Iyz * dz, Idz = Ixz * dx + Iyz * dy + Izz * dz;
+        const radial = cm[k] * inv3 + 7.5 * (dx * Idx + dy * Idy + dz * Idz) * inv5 * inv2 - 1.5 * (Ixx + Iyy + Izz) * inv5;
+        const q = 3 * inv5;
+        sx += radial * dx - q * Idx; sy += radial * dy - q * Idy; sz += radial * dz - q * Idz;
+      }
+    } else {
+      const iL = 1 / L, c1 = 0.5 * iL, c2 = 0.25 * iL * iL, c3 = 0.125 * iL * iL * iL;
+      for (let k = 0, n = this.cellCount; k < n; k++) {
+        const dx = cx[k] - xi, dy = cy[k] - yi, dz = cz[k] - zi;
+        const s2 = dx * dx + dy * dy + dz * dz + eps2;
+        const inv = 1 / sqrt(s2), s = s2 * inv;
+        const inv2 = inv * inv, inv3 = inv2 * inv, inv5 = inv3 * inv2, inv7 = inv5 * inv2;
+        const e = alpha * exp(-s * iL);
+        const F1 = -0.5 * inv3 - e * c1 * (s + L) * inv3;
+        const F2 = 0.75 * inv5 + e * c2 * (s2 + 3 * L * s + 3 * L * L) * inv5;
+        const F3 = -1.875 * inv7 - e * c3 * (s2 * s + 6 * L * s2 + 15 * L * L * s + 15 * L * L * L) * inv7;
+        const Ixx = cxx[k], Iyy = cyy[k], Izz = czz[k], Ixy = cxy[k], Ixz = cxz[k], Iyz = cyz[k];
+        const Idx = Ixx * dx + Ixy * dy + Ixz * dz, Idy = Ixy * dx + Iyy * dy + Iyz * dz, Idz = Ixz * dx + Iyz * dy + Izz * dz;
+        const radial = -(2 * cm[k] * F1 + 2 * F2 * (Ixx + Iyy + Izz) + 4 * F3 * (dx * Idx + dy * Idy + dz * Idz));
+        const q = 4 * F2;
+        sx += radial * dx - q * Idx; sy += radial * dy - q * Idy; sz += radial * dz - q * Idz;
+      }
     }
     acc[0] += sx; acc[1] += sy; acc[2] += sz;
   }
 
   /** The expansion above summed over the gathered cells; the potential is -G times it. */
-  cellPotential(xi: number, yi: number, zi: number, eps2: number): number {
+  cellPotential(xi: number, yi: number, zi: number, kernel: PairKernel): number {
     const { cx, cy, cz, cm, cxx, cyy, czz, cxy, cxz, cyz } = this;
+    const eps2 = kernel.softening2_kpc2, alpha = kernel.yukawaAlpha, L = kernel.yukawaLambda_kpc;
     let sp = 0;
-    for (let k = 0, n = this.cellCount; k < n; k++) {
-      const dx = cx[k] - xi, dy = cy[k] - yi, dz = cz[k] - zi;
-      const inv = 1 / sqrt(dx * dx + dy * dy + dz * dz + eps2);
-      const inv2 = inv * inv, inv3 = inv2 * inv;
-      const Ixx = cxx[k], Iyy = cyy[k], Izz = czz[k], Ixy = cxy[k], Ixz = cxz[k], Iyz = cyz[k];
-      const dId = dx * (Ixx * dx + Ixy * dy + Ixz * dz) + dy * (Ixy * dx + Iyy * dy + Iyz * dz) + dz * (Ixz * dx + Iyz * dy + Izz * dz);
-      sp += cm[k] * inv + 1.5 * dId * inv3 * inv2 - 0.5 * (Ixx + Iyy + Izz) * inv3;
+    if (alpha === 0) {
+      for (let k = 0, n = this.cellCount; k < n; k++) {
+        const dx = cx[k] - xi, dy = cy[k] - yi, dz = cz[k] - zi;
+        const inv = 1 / sqrt(dx * dx + dy * dy + dz * dz + eps2);
+        const inv2 = inv * inv, inv3 = inv2 * inv;
+        const Ixx = cxx[k], Iyy = cyy[k], Izz = czz[k], Ixy = cxy[k], Ixz = cxz[k], Iyz = cyz[k];
+        const dId = dx * (Ixx * dx + Ixy * dy + Ixz * dz) + dy * (Ixy * dx + Iyy * dy + Iyz * dz) + dz * (Ixz * dx + Iyz * dy + Izz * dz);
+        sp += cm[k] * inv + 1.5 * dId * inv3 * inv2 - 0.5 * (Ixx + Iyy + Izz) * inv3;
+      }
+    } else {
+      const iL = 1 / L, c1 = 0.5 * iL, c2 = 0.25 * iL * iL;
+      for (let k = 0, n = this.cellCount; k < n; k++) {
+        const dx = cx[k] - xi, dy = cy[k] - yi, dz = cz[k] - zi;
+        const s2 = dx * dx + dy * dy + dz * dz + eps2;
+        const inv = 1 / sqrt(s2), s = s2 * inv;
+        const inv2 = inv * inv, inv3 = inv2 * inv, inv5 = inv3 * inv2;
+        const e = alpha * exp(-s * iL);
+        const F0 = inv + e * inv;
+        const F1 = -0.5 * inv3 - e * c1 * (s + L) * inv3;
+        const F2 = 0.75 * inv5 + e * c2 * (s2 + 3 * L * s + 3 * L * L) * inv5;
+        const Ixx = cxx[k], Iyy = cyy[k], Izz = czz[k], Ixy = cxy[k], Ixz = cxz[k], Iyz = cyz[k];
+        const dId = dx * (Ixx * dx + Ixy * dy + Ixz * dz) + dy * (Ixy * dx + Iyy * dy + Iyz * dz) + dz * (Ixz * dx + Iyz * dy + Izz * dz);
+        sp += cm[k] * F0 + F1 * (Ixx + Iyy + Izz) + 2 * F2 * dId;
+      }
     }
     return sp;
   }
@@ -291,12 +325,11 @@ export const treeGroups = (t: Octree): number => t.groups.length / 2;
  * its group, so splitting ranges across threads gives identical results.
  */
 function forEachTarget(
-  tree: Octree, sources: Sources, targets: Points, kernel: PairKernel, theta: number, iStart: number, iEnd: number,
+  tree: Octree, sources: Sources, targets: Points, theta: number, iStart: number, iEnd: number,
   each: (i: number, list: InteractionList) => void,
 ): void {
   const list = new InteractionList();
   const theta2 = theta * theta;
-  const multipoles = kernel.yukawaAlpha === 0;
   if (targets === sources) {
     const { order, groups } = tree;
     const { x, y, z } = tree.sorted;
@@ -308,13 +341,13 @@ function forEachTarget(
         minY = min(minY, y[q]); maxY = max(maxY, y[q]);
         minZ = min(minZ, z[q]); maxZ = max(maxZ, z[q]);
       }
-      list.collect(tree, theta2, multipoles, minX, minY, minZ, maxX, maxY, maxZ);
+      list.collect(tree, theta2, minX, minY, minZ, maxX, maxY, maxZ);
       for (let q = s; q < e; q++) each(order[q], list);
     }
   } else {
     for (let i = iStart; i < iEnd; i++) {
       const xi = targets.x[i], yi = targets.y[i], zi = targets.z[i];
-      list.collect(tree, theta2, multipoles, xi, yi, zi, xi, yi, zi);
+      list.collect(tree, theta2, xi, yi, zi, xi, yi, zi);
       each(i, list);
     }
   }
@@ -329,12 +362,11 @@ export function treeFieldRange(
   tree: Octree, sources: Sources, targets: Points, kernel: PairKernel, theta: number, iStart: number, iEnd: number, out: Accelerations,
 ): void {
   const acc = new Float64Array(3);
-  const eps2 = kernel.softening2_kpc2;
-  forEachTarget(tree, sources, targets, kernel, theta, iStart, iEnd, (i, list) => {
+  forEachTarget(tree, sources, targets, theta, iStart, iEnd, (i, list) => {
     const xi = targets.x[i], yi = targets.y[i], zi = targets.z[i];
     acc[0] = 0; acc[1] = 0; acc[2] = 0;
     sumPull(list.px, list.py, list.pz, list.pm, list.particles, xi, yi, zi, kernel, acc);
-    list.cellPull(xi, yi, zi, eps2, acc);
+    list.cellPull(xi, yi, zi, kernel, acc);
     out.ax[i] = G * acc[0]; out.ay[i] = G * acc[1]; out.az[i] = G * acc[2];
   });
 }
@@ -342,10 +374,9 @@ export function treeFieldRange(
 export function treePotentialRange(
   tree: Octree, sources: Sources, targets: Points, kernel: PairKernel, theta: number, iStart: number, iEnd: number, out: Float64Array,
 ): void {
-  const eps2 = kernel.softening2_kpc2;
-  forEachTarget(tree, sources, targets, kernel, theta, iStart, iEnd, (i, list) => {
+  forEachTarget(tree, sources, targets, theta, iStart, iEnd, (i, list) => {
     const xi = targets.x[i], yi = targets.y[i], zi = targets.z[i];
-    out[i] = -G * (sumPotential(list.px, list.py, list.pz, list.pm, list.particles, xi, yi, zi, kernel) + list.cellPotential(xi, yi, zi, eps2));
+    out[i] = -G * (sumPotential(list.px, list.py, list.pz, list.pm, list.particles, xi, yi, zi, kernel) + list.cellPotential(xi, yi, zi, kernel));
   });
 }
 
