@@ -63,6 +63,7 @@ function run(args: string[]): void {
   if (out) {
     const plain = {
       ...result,
+      snapshotMasses: Array.from(result.snapshotMasses),
       snapshots: result.snapshots.map((s) => ({
         ...s,
         positions: Array.from(s.positions),

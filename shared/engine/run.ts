@@ -71,6 +71,8 @@ export interface RunResult {
   diagnostics: DiagnosticSample[];
   /** Particle indices stored in every snapshot, in order. */
   snapshotParticles: number[];
+  /** Masses of those particles, Msun (they do not change during a run). */
+  snapshotMasses: Float64Array;
   snapshots: Snapshot[];
   rotationCurves: { initial: RotationCurve; final: RotationCurve; analytic: AnalyticCurves };
   summary: RunSummary;
@@ -193,6 +195,7 @@ export function runSimulation(spec: RunSpec, hooks: RunHooks = {}): RunResult {
     components: sim.initial.components,
     diagnostics,
     snapshotParticles: Array.from(subset),
+    snapshotMasses: Float64Array.from(subset, (i) => sim.particles.m[i]),
     snapshots,
     rotationCurves: { initial: initialCurve, final: finalCurve, analytic: analyticCurves(spec) },
     summary: {
