@@ -1,6 +1,6 @@
 import fs from 'node:fs';
 import { pipeline } from 'node:stream/promises';
-import { Router } from 'express';
+import { Router, type Request } from 'express';
 import { RequestContext } from '@mikro-orm/core';
 import type { EntityManager } from '@mikro-orm/postgresql';
 import { requireUser } from '../auth/guards';
@@ -15,7 +15,7 @@ const em = () => RequestContext.getEntityManager() as EntityManager;
 export function exportsRouter(): Router {
   const r = Router();
 
-  r.get('/:id/snapshots.h5', requireUser, async (req, res) => {
+  r.get('/:id/snapshots.h5', requireUser, async (req: Request<{ id: string }>, res) => {
     const run = await findVisibleRun(em(), req.user!, req.params.id);
     const file = await writeSnapshotFile(em(), run, config.exportMaxBytes);
     try {

@@ -76,7 +76,7 @@ export async function storeResult(em: EntityManager, runId: string, result: RunR
       summary: result.summary,
       snapshotParticles: result.snapshots.length ? result.snapshots[0].positions.length / 3 : 0,
       particleIds: bytesOf(Uint32Array.from(result.snapshotParticles)),
-      masses: bytesOf(result.snapshotMasses),
+      masses: bytesOf(Float64Array.from(result.snapshotMasses)),
       components: result.components,
       engineVersion: ENGINE_VERSION,
     });

@@ -63,7 +63,6 @@ function run(args: string[]): void {
   if (out) {
     const plain = {
       ...result,
-      snapshotMasses: Array.from(result.snapshotMasses),
       snapshots: result.snapshots.map((s) => ({
         ...s,
         positions: Array.from(s.positions),

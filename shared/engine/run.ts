@@ -72,7 +72,7 @@ export interface RunResult {
   /** Particle indices stored in every snapshot, in order. */
   snapshotParticles: number[];
   /** Masses of those particles, Msun (they do not change during a run). */
-  snapshotMasses: Float64Array;
+  snapshotMasses: number[];
   snapshots: Snapshot[];
   rotationCurves: { initial: RotationCurve; final: RotationCurve; analytic: AnalyticCurves };
   summary: RunSummary;
@@ -195,7 +195,7 @@ export function runSimulation(spec: RunSpec, hooks: RunHooks = {}): RunResult {
     components: sim.initial.components,
     diagnostics,
     snapshotParticles: Array.from(subset),
-    snapshotMasses: Float64Array.from(subset, (i) => sim.particles.m[i]),
+    snapshotMasses: Array.from(subset, (i) => sim.particles.m[i]),
     snapshots,
     rotationCurves: { initial: initialCurve, final: finalCurve, analytic: analyticCurves(spec) },
     summary: {
