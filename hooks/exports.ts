@@ -1,8 +1,12 @@
 import type { RunDetail } from '../shared/api/contract';
+import { SNAPSHOT_FILE } from '../shared/api/snapshots';
+import { RESULT_UNITS } from '../shared/engine';
+import { api } from './api';
 import { diagnosticColumns, readOutput, type RunOutputView } from './runOutput';
 
 // Exports of a finished run: the diagnostics series and rotation curves as CSV
-// (one header row with units), and everything with the spec as one JSON file.
+// (one header row with units), everything but the frames with the spec as one JSON file,
+// and the stored frames as an HDF5 file the server writes.
 
 const cell = (v: number | string | null | undefined) => (v === null || v === undefined ? '' : typeof v === 'number' ? String(v) : `"${v.replace(/"/g, '""')}"`);
 
@@ -42,17 +46,42 @@ export function curvesCsv(out: RunOutputView): string {
   return [header.join(','), ...rows].join('\n') + '\n';
 }
 
+// What the JSON export holds, written into the file itself (README "Exports" says the same).
+const RUN_JSON_CONTENTS = {
+  'id, name, status, law, model': 'the run as the API lists it',
+  'createdAt, finishedAt': 'ISO 8601 times, UTC',
+  spec: 'the run spec, which fully determines the run (same spec and seed, same numbers); units in the field names',
+  'output.law': "the force law's label, what it conserves, and its validity notes",
+  'output.timescales': 'half-mass radius, rms speed, crossing and relaxation times, suggested timestep of the initial particles; units in the field names',
+  'output.warnings': 'checks made before the run: code, severity, message, source',
+  'output.diagnostics': 'samples over the run: step, time_Myr, kinetic/potential/total energy, momentum, angular momentum, their relative drifts (no unit), virial ratios (no unit), lagrangianRadii_kpc, toomreQ for disks',
+  'output.rotationCurves': 'initial and final curves measured from the particles and the field (radii_kpc, speeds in km/s, particle counts), and the analytic curves of the initial mass model per law',
+  'output.summary': 'steps computed, final time in Myr, final and largest drifts, and whether the law conserves each quantity',
+  'output.snapshotParticles': 'particles kept in each stored frame',
+  'output.frames': "the stored frames (frame, step, time_Myr); their positions and velocities are in the run's snapshot file (HDF5), not here",
+};
+
 export function runJson(run: RunDetail): string {
   const out = readOutput(run);
-  return JSON.stringify({ id: run.id, name: run.name, status: run.status, law: run.lawKind, model: run.modelKind, createdAt: run.createdAt, finishedAt: run.finishedAt, spec: run.spec, output: out }, null, 2);
+  return JSON.stringify(
+    {
+      format: 'infall-run',
+      format_version: 1,
+      contents: RUN_JSON_CONTENTS,
+      units: { length: 'kpc', velocity: 'km/s', mass: 'Msun', time: 'Myr', ...RESULT_UNITS },
+      id: run.id, name: run.name, status: run.status, law: run.lawKind, model: run.modelKind, createdAt: run.createdAt, finishedAt: run.finishedAt, spec: run.spec, output: out,
+    },
+    null,
+    2,
+  );
 }
 
 export const exportName = (run: RunDetail, what: string, ext: string) => `infall-${run.name.replace(/[^a-z0-9]+/gi, '-').replace(/^-|-$/g, '').toLowerCase() || run.id}-${what}.${ext}`;
 
-/** Saves text as a file through the browser. */
-export function downloadText(filename: string, mime: string, text: string): void {
+/** Saves text or bytes as a file through the browser. */
+export function downloadFile(filename: string, mime: string, data: string | Uint8Array<ArrayBuffer>): void {
   if (typeof document === 'undefined') return;
-  const url = URL.createObjectURL(new Blob([text], { type: mime }));
+  const url = URL.createObjectURL(new Blob([data], { type: mime }));
   const a = document.createElement('a');
   a.href = url;
   a.download = filename;
@@ -60,4 +89,10 @@ export function downloadText(filename: string, mime: string, text: string): void
   a.click();
   a.remove();
   setTimeout(() => URL.revokeObjectURL(url), 1000);
+}
+
+/** Fetches the run's snapshot file from the server (with the API's errors) and saves it. */
+export async function downloadSnapshotFile(run: RunDetail): Promise<void> {
+  const bytes = await api<Uint8Array<ArrayBuffer>>(`/api/runs/${run.id}/snapshots.h5`, { as: 'bytes' });
+  downloadFile(exportName(run, 'snapshots', 'h5'), SNAPSHOT_FILE.mime, bytes);
 }

@@ -9,6 +9,7 @@ import { errorHandler, notFoundHandler } from './errors';
 import { mountAuth } from './auth';
 import { healthRouter } from './routes/health';
 import { runsRouter } from './routes/runs';
+import { exportsRouter } from './routes/exports';
 
 export interface Deps {
   orm: Orm;
@@ -28,6 +29,7 @@ export function createApp(deps: Deps, opts: { webDir?: string } = {}): Express {
   api.use('/health', healthRouter(deps));
   mountAuth(app, api, deps);
   api.use('/runs', runsRouter(deps));
+  api.use('/runs', exportsRouter());
   api.use(notFoundHandler);
   app.use('/api', api);
 

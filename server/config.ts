@@ -29,6 +29,8 @@ export const config = {
   queueName: env.INFALL_QUEUE ?? 'infall-runs',
   workerThreads: Math.max(1, Number(env.INFALL_WORKER_THREADS ?? 2) | 0),
   webDir: env.INFALL_WEB_DIR ?? 'dist',
+  // One snapshot download at most this large (the largest run the limits allow needs about 115 MiB).
+  exportMaxBytes: count('INFALL_EXPORT_MAX_MB', 160) * 2 ** 20,
   sessionSecret: env.INFALL_SESSION_SECRET ?? '',
   production: env.NODE_ENV === 'production',
   auth: authConfig(),

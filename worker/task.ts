@@ -20,6 +20,7 @@ export default function runTask({ spec, progressPort, cancelFlag, sharedField }:
     const result = runSimulation(spec, {
       onProgress: (p) => progressPort.postMessage(p),
       shouldCancel: () => Atomics.load(cancelFlag, 0) === 1,
+      snapshotVelocities: true, // stored with the frames for export
       ...(sharedField ? { solver: new SplitDirectSolver(sharedField) } : {}),
     });
     progressPort.postMessage(null); // no more progress: see RunPool.start

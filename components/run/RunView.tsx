@@ -4,7 +4,7 @@ import { useRouter } from 'expo-router';
 import type { RunDetail } from '../../shared/api/contract';
 import { lawInfo } from '../../shared/engine';
 import { colors, lawColor, space, WIDE_BREAKPOINT } from '../../constants/theme';
-import { downloadText, exportName, curvesCsv, diagnosticsCsv, runJson } from '../../hooks/exports';
+import { downloadFile, exportName, curvesCsv, diagnosticsCsv, runJson } from '../../hooks/exports';
 import { useFrameTime, type Playhead } from '../../hooks/playback';
 import { useRunEvents } from '../../hooks/runEvents';
 import { readOutput, specOf } from '../../hooks/runOutput';
@@ -23,6 +23,7 @@ import { LawNotes, ModelCaution } from './LawNotes';
 import { LiveProgress } from './LiveProgress';
 import { RotationAtPlayhead } from './RotationAtPlayhead';
 import { RunFacts } from './RunFacts';
+import { SnapshotFileButton } from './SnapshotFileButton';
 import { SnapshotPlayer } from './SnapshotPlayer';
 
 function CancelButton({ run }: { run: RunDetail }) {
@@ -48,11 +49,12 @@ function Exports({ run }: { run: RunDetail }) {
   const out = readOutput(run);
   if (!out) return null;
   return (
-    <Panel title="Export" note="Diagnostics and rotation curves as CSV (units in the header), or everything with the spec as JSON.">
+    <Panel title="Export" note="Diagnostics and rotation curves as CSV (units in the header), everything but the frames with the spec as JSON, or the stored frames as HDF5 (units in its attributes).">
       <View style={styles.buttons}>
-        <Button small tone="secondary" label="Diagnostics CSV" onPress={() => downloadText(exportName(run, 'diagnostics', 'csv'), 'text/csv', diagnosticsCsv(out))} />
-        <Button small tone="secondary" label="Rotation curves CSV" onPress={() => downloadText(exportName(run, 'curves', 'csv'), 'text/csv', curvesCsv(out))} />
-        <Button small tone="secondary" label="Everything JSON" onPress={() => downloadText(exportName(run, 'run', 'json'), 'application/json', runJson(run))} />
+        <Button small tone="secondary" label="Diagnostics CSV" onPress={() => downloadFile(exportName(run, 'diagnostics', 'csv'), 'text/csv', diagnosticsCsv(out))} />
+        <Button small tone="secondary" label="Rotation curves CSV" onPress={() => downloadFile(exportName(run, 'curves', 'csv'), 'text/csv', curvesCsv(out))} />
+        <Button small tone="secondary" label="Everything JSON" onPress={() => downloadFile(exportName(run, 'run', 'json'), 'application/json', runJson(run))} />
+        {out.frames.length ? <SnapshotFileButton run={run} /> : null}
       </View>
     </Panel>
   );

@@ -1,6 +1,6 @@
 import { LockMode, type EntityManager } from '@mikro-orm/postgresql';
 import { Run, RunOutput, RunSnapshot, UsageEntry } from '../db/entities';
-import type { RunResult } from '../../shared/engine';
+import { ENGINE_VERSION, type RunResult } from '../../shared/engine';
 import { budgetDay } from './quotas';
 
 // How the worker records a run's life in the database.
@@ -57,6 +57,9 @@ export async function isCancelRequested(em: EntityManager, runId: string): Promi
   return row?.cancelRequested ?? false;
 }
 
+// Typed arrays are stored as their bytes (little-endian on every machine Node runs on).
+const bytesOf = (a: Float32Array | Float64Array | Uint32Array) => Buffer.from(a.buffer, a.byteOffset, a.byteLength);
+
 /** Writes output, snapshots and the final status in one transaction: all or nothing. */
 export async function storeResult(em: EntityManager, runId: string, result: RunResult): Promise<void> {
   await em.transactional(async (tx) => {
@@ -72,6 +75,10 @@ export async function storeResult(em: EntityManager, runId: string, result: RunR
       rotationCurves: result.rotationCurves,
       summary: result.summary,
       snapshotParticles: result.snapshots.length ? result.snapshots[0].positions.length / 3 : 0,
+      particleIds: bytesOf(Uint32Array.from(result.snapshotParticles)),
+      masses: bytesOf(Float64Array.from(result.snapshotMasses)),
+      components: result.components,
+      engineVersion: ENGINE_VERSION,
     });
     result.snapshots.forEach((s, frame) => {
       tx.create(RunSnapshot, {
@@ -79,7 +86,8 @@ export async function storeResult(em: EntityManager, runId: string, result: RunR
         frame,
         step: s.step,
         timeMyr: s.time_Myr,
-        positions: Buffer.from(s.positions.buffer, s.positions.byteOffset, s.positions.byteLength),
+        positions: bytesOf(s.positions),
+        velocities: s.velocities ? bytesOf(s.velocities) : null,
       });
     });
     const computed = result.cancelled ? result.summary.stepsCompleted / Math.max(1, result.summary.totalSteps) : 1;

@@ -52,3 +52,22 @@ export function decodeSnapshots(bytes: Uint8Array): SnapshotFrame[] {
   }
   return frames;
 }
+
+// The snapshot file (GET /api/runs/:id/snapshots.h5): HDF5, in a layout of Infall's own that
+// README "Exports" describes. Every dataset carries `units` and `description` attributes.
+export const SNAPSHOT_FILE = {
+  format: 'infall-snapshots',
+  version: 1,
+  mime: 'application/x-hdf5',
+  datasets: {
+    id: { path: 'particles/id', units: '1', description: "the particle's index in the run's initial conditions" },
+    mass: { path: 'particles/mass', units: 'Msun', description: 'particle mass (constant during the run)' },
+    component: { path: 'particles/component', units: '1', description: "index into this dataset's `labels` attribute (disk, bulge, primary, ...)" },
+    step: { path: 'frames/step', units: '1', description: 'integration step of each frame' },
+    time: { path: 'frames/time', units: 'Myr', description: 'simulated time of each frame' },
+    position: { path: 'frames/position', units: 'kpc', description: "x, y, z per frame and particle, in the run's coordinates" },
+    velocity: { path: 'frames/velocity', units: 'km/s', description: 'vx, vy, vz per frame and particle' },
+  },
+} as const;
+
+export type SnapshotDataset = keyof typeof SNAPSHOT_FILE.datasets;

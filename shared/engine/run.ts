@@ -72,6 +72,8 @@ export interface RunResult {
   diagnostics: DiagnosticSample[];
   /** Particle indices stored in every snapshot, in order. */
   snapshotParticles: number[];
+  /** Masses of those particles, Msun (they do not change during a run). */
+  snapshotMasses: number[];
   snapshots: Snapshot[];
   rotationCurves: { initial: RotationCurve; final: RotationCurve; analytic: AnalyticCurves };
   summary: RunSummary;
@@ -194,6 +196,7 @@ export function runSimulation(spec: RunSpec, hooks: RunHooks = {}): RunResult {
     components: sim.initial.components,
     diagnostics,
     snapshotParticles: Array.from(subset),
+    snapshotMasses: Array.from(subset, (i) => sim.particles.m[i]),
     snapshots,
     rotationCurves: { initial: initialCurve, final: finalCurve, analytic: analyticCurves(spec) },
     summary: {

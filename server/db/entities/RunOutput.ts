@@ -15,6 +15,12 @@ export const RunOutput = defineEntity({
     rotationCurves: p.json<unknown>(),
     summary: p.json<unknown>(),
     snapshotParticles: p.integer(),
+    // Who the snapshot particles are: their indices in the run (uint32), masses (float64, Msun),
+    // the labelled index ranges, and the engine that computed them. Null for runs stored before.
+    particleIds: p.blob().nullable(),
+    masses: p.blob().nullable(),
+    components: p.json<unknown>().nullable(),
+    engineVersion: p.string().nullable(),
   },
 });
 export type RunOutput = InferEntity<typeof RunOutput>;

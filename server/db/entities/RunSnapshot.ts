@@ -1,7 +1,8 @@
 import { defineEntity, p, type InferEntity } from '@mikro-orm/core';
 import { Run } from './Run';
 
-// One downsampled frame: float32 x,y,z interleaved, little-endian, as bytes.
+// One downsampled frame: float32 x,y,z (kpc) and vx,vy,vz (km/s) interleaved, little-endian,
+// as bytes. Frames stored before velocities were kept have none.
 export const RunSnapshot = defineEntity({
   name: 'RunSnapshot',
   tableName: 'run_snapshots',
@@ -12,6 +13,7 @@ export const RunSnapshot = defineEntity({
     step: p.integer(),
     timeMyr: p.double().$type<number>(),
     positions: p.blob(),
+    velocities: p.blob().nullable(),
   },
 });
 export type RunSnapshot = InferEntity<typeof RunSnapshot>;

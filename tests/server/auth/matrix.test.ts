@@ -104,6 +104,8 @@ const rows: Row[] = [
   { route: 'GET /api/runs?cohort=:cohort', expected: e(401, 403, 200, 403, 200) },
   { route: 'GET /api/runs/:run', expected: e(401, 200, 200, 404, 200) },
   { route: 'GET /api/runs/:run/snapshots', expected: e(401, 200, 200, 404, 200) },
+  // The run ended without output: whoever may read it is told there is nothing to download.
+  { route: 'GET /api/runs/:run/snapshots.h5', expected: e(401, 409, 409, 404, 409) },
   { route: 'GET /api/runs/:run/events', expected: e(401, 200, 200, 404, 200) },
   // Instructors see their students' runs but may not cancel them.
   { route: 'POST /api/runs/:run/cancel', expected: e(401, 202, 403, 404, 202), fresh: async () => ({ run: await queuedRunOfStudent() }) },
