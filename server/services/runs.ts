@@ -27,6 +27,17 @@ function pinEquilibrium(spec: RunSpec): RunSpec {
   return { ...spec, model: pin(m) };
 }
 
+/**
+ * The run's name may come beside the spec (`name`) or inside it (`spec.name`); both are
+ * checked by the same schema. Given twice, they must agree, so neither is silently dropped.
+ */
+function runName(top: string | undefined, inSpec: string | undefined): string | undefined {
+  if (top !== undefined && inSpec !== undefined && top !== inSpec) {
+    throw new ApiError('BAD_REQUEST', `name: "${top}" differs from spec.name "${inSpec}"; give the name once, or the same in both places`, { field: 'name' });
+  }
+  return inSpec ?? top;
+}
+
 /** Validates a submission into one spec, or two sharing initial conditions. */
 export function specsFromBody(body: unknown): { name: string; specs: RunSpec[] } {
   const parsed = submitRunBodySchema.safeParse(body);
@@ -37,9 +48,10 @@ export function specsFromBody(body: unknown): { name: string; specs: RunSpec[] }
   }
   const spec = parseRunSpec(parsed.data.spec);
   if (!spec.ok) throw firstIssue(spec.issues, 'spec');
-  const specs = [spec.spec];
+  const given = runName(parsed.data.name, spec.spec.name);
+  const specs = [given === undefined ? spec.spec : { ...spec.spec, name: given }];
   if (parsed.data.pairLaw !== undefined) {
-    specs[0] = pinEquilibrium(spec.spec);
+    specs[0] = pinEquilibrium(specs[0]);
     const twin = parseRunSpec({ ...specs[0], law: parsed.data.pairLaw });
     if (!twin.ok) throw firstIssue(twin.issues.map((i) => ({ ...i, path: i.path.replace(/^law\.?/, '') })), 'pairLaw');
     if (JSON.stringify(twin.spec.law) === JSON.stringify(spec.spec.law)) {
@@ -47,7 +59,7 @@ export function specsFromBody(body: unknown): { name: string; specs: RunSpec[] }
     }
     specs.push(twin.spec);
   }
-  const name = parsed.data.name ?? `${spec.spec.model.kind} under ${specs.map((s) => s.law.kind).join(' vs ')}`;
+  const name = given ?? `${spec.spec.model.kind} under ${specs.map((s) => s.law.kind).join(' vs ')}`;
   return { name, specs };
 }
 
