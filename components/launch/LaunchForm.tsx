@@ -1,6 +1,6 @@
 import { StyleSheet, View, useWindowDimensions } from 'react-native';
 import { useRouter } from 'expo-router';
-import type { LawSpec, RunSpecInput } from '../../shared/spec';
+import { NAME_MAX_LENGTH, type LawSpec, type RunSpecInput } from '../../shared/spec';
 import { colors, space, WIDE_BREAKPOINT } from '../../constants/theme';
 import { ApiError } from '../../hooks/api';
 import { LAW_PRESETS, useRunDraft } from '../../hooks/runDraft';
@@ -71,7 +71,7 @@ export function LaunchForm({ start }: { start?: LaunchStart }) {
   const formColumn = (
     <View style={styles.column}>
       <Panel title="Name">
-        <TextField label="Run name (optional)" value={form.name} onChange={form.setName} placeholder="e.g. disk, halo vs MOND" hint="Left empty, the name says the model and law." testID="field-name" />
+        <TextField label="Run name (optional)" value={form.name} onChange={form.setName} placeholder="e.g. disk, halo vs MOND" hint={`Up to ${NAME_MAX_LENGTH} characters. Left empty, the name says the model and law.`} error={issues.name} testID="field-name" />
       </Panel>
       <Panel title="Initial conditions">
         <ModelEditor draft={draft} set={set} issues={issues} pairLaw={form.pairLaw} />
