@@ -43,6 +43,9 @@ test('a running run follows its event stream, then shows its results when it end
   const { view } = render(<RunView id={ID} />);
   await settle();
   expect(view.getByText('Integrating')).toBeTruthy();
+  // What it runs is on the page from the start, not only once results exist.
+  expect(view.getByTestId('spec-timestep_Myr').textContent).toBe('Timestep Δt0.5 Myr');
+  expect(view.getByTestId('spec-law.kind').textContent).toBe('LawNewtonian');
   const source = FakeEventSource.instances[0];
   expect(source.url).toBe(`/api/runs/${ID}/events`);
 
