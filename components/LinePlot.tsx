@@ -38,6 +38,8 @@ export interface LinePlotProps {
   yDomain?: [number, number];
   /** Start a linear y axis at zero (speeds, radii). */
   yFromZero?: boolean;
+  /** Start a linear x axis at zero (time since the start of a run). */
+  xFromZero?: boolean;
   /** A vertical guide, e.g. the time of the frame on screen. */
   markerX?: number;
   /** Spoken summary of what the plot shows. */
@@ -169,7 +171,7 @@ function LegendEntry({ s, on, onToggle }: { s: PlotSeries; on: boolean; onToggle
  * A line plot with axes, units, ticks and a legend; linear or log on either axis. Each legend
  * entry switches its series on and off; series with a `group` are listed under its heading.
  */
-export function LinePlot({ series, xLabel, yLabel, xLog = false, yLog = false, height = 220, xDomain, yDomain, yFromZero = false, markerX, accessibilityLabel, emptyText, testID }: LinePlotProps) {
+export function LinePlot({ series, xLabel, yLabel, xLog = false, yLog = false, height = 220, xDomain, yDomain, yFromZero = false, xFromZero = false, markerX, accessibilityLabel, emptyText, testID }: LinePlotProps) {
   const [width, setWidth] = useState(320);
   // Someone's choice per series id; series they have not touched follow their `hidden` flag.
   const [picked, setPicked] = useState<Record<string, boolean>>({});
@@ -185,7 +187,7 @@ export function LinePlot({ series, xLabel, yLabel, xLog = false, yLog = false, h
     const [xl, xh] = xDomain ?? extent(series, 'x', xLog);
     const [yl, yh] = yDomain ?? extent(series, 'y', yLog);
     if (!Number.isFinite(xl) || !Number.isFinite(yl)) return null;
-    const xd = xDomain ?? niceDomain(xl, xh, xLog);
+    const xd = xDomain ?? niceDomain(xFromZero && !xLog ? Math.min(0, xl) : xl, xh, xLog);
     const yd = yDomain ?? niceDomain(yFromZero && !yLog ? Math.min(0, yl) : yl, yh, yLog);
     const x = makeScale(xd, [M.left, width - M.right], xLog);
     const y = makeScale(yd, [height - M.bottom, M.top], yLog);
@@ -216,7 +218,7 @@ export function LinePlot({ series, xLabel, yLabel, xLog = false, yLog = false, h
     const xt = x.ticks(width < 400 ? 4 : 6);
     const yt = y.ticks(5);
     return { x, y, paths, xt, yt };
-  }, [series, shown, xLog, yLog, xDomain, yDomain, yFromZero, width, height]);
+  }, [series, shown, xLog, yLog, xDomain, yDomain, yFromZero, xFromZero, width, height]);
 
   const toggle = (s: PlotSeries) => setPicked((p) => ({ ...p, [s.id]: !isOn(s) }));
   const groups = [...new Set(series.map((s) => s.group ?? ''))];

@@ -42,6 +42,7 @@ export function LiveProgress({ run, stream, hasPotential, lawLabel, color = lawC
           xLabel="time [Myr]"
           yLabel="|ΔE / E₀| (log scale)"
           yLog
+          xFromZero
           height={180}
           accessibilityLabel="Live energy drift of the running integration"
           emptyText={run.status === 'queued' ? 'The drift appears once the run starts' : 'Waiting for the first drift sample'}

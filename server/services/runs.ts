@@ -5,7 +5,7 @@ import { ApiError } from '../errors';
 import { Run, RunOutput, RunSnapshot, type User } from '../db/entities';
 import { parseRunSpec, particleCount, stepCount, estimateInteractions, type RunSpec } from '../../shared/spec';
 import { submitRunBodySchema, type ListRunsQuery } from '../../shared/api/requests';
-import type { RunDetail, RunSummary } from '../../shared/api/contract';
+import type { RunDetail, RunProgress, RunSummary } from '../../shared/api/contract';
 import { encodeSnapshots } from '../../shared/api/snapshots';
 import type { RunJobData } from '../queue';
 import { visibleRunsFilter, canSeeRun, canManageRun } from './access';
@@ -152,6 +152,12 @@ export async function runDetail(em: EntityManager, run: Run): Promise<RunDetail>
         }
       : null,
   };
+}
+
+/** The progress samples a running run has reported so far (kept on its job until it ends). */
+export async function progressSoFar(queue: Queue<RunJobData>, runId: string): Promise<RunProgress[]> {
+  const { logs } = await queue.getJobLogs(runId, 0, -1, true);
+  return logs.map((row) => JSON.parse(row) as RunProgress);
 }
 
 export async function snapshotBytes(em: EntityManager, run: Run): Promise<Uint8Array> {

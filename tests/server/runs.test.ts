@@ -219,4 +219,23 @@ describe('a run from submit to results', () => {
     const late = await request(s.app).get(`/api/runs/${id}/events`).set(auth).expect(200);
     expect(parseEvents(late.text).map((e) => e.event)).toEqual(['state', 'state', 'end']);
   });
+
+  test('a stream opened mid-run starts with the progress so far, from step 0', async () => {
+    const res = await request(s.app).post('/api/runs').set(auth).send({ spec: { ...small(), duration_Myr: 400 } }).expect(201);
+    const id: string = res.body.runs[0].id;
+    // Wait until the worker (from the test above) has reported a few samples.
+    for (let k = 0; k < 400 && (await s.queue.getJobLogs(id)).count < 3; k++) await new Promise((r) => setTimeout(r, 25));
+    const events = parseEvents((await request(s.app).get(`/api/runs/${id}/events`).set(auth).expect(200)).text);
+    expect(events[0]).toMatchObject({ event: 'state', data: { status: 'running' } });
+    const history = events.find((e) => e.event === 'history')!.data as { step: number; time_Myr: number; energyDrift: number }[];
+    expect(history.length).toBeGreaterThanOrEqual(3);
+    expect(history[0]).toMatchObject({ step: 0, time_Myr: 0, energyDrift: 0 });
+    expect(history.every((p, i) => i === 0 || p.step > history[i - 1].step)).toBe(true);
+    // History and live samples together reach the end of the run.
+    const live = events.filter((e) => e.event === 'progress').map((e) => e.data);
+    expect(Math.max(...[...history, ...live].map((p) => p.step))).toBe(2000);
+    expect(events.at(-1)).toMatchObject({ event: 'end', data: { status: 'finished' } });
+    // The samples were kept only while the run ran; its stored diagnostics take over.
+    expect((await s.queue.getJobLogs(id)).count).toBe(0);
+  });
 });
