@@ -156,7 +156,7 @@ function LegendEntry({ s, on, onToggle }: { s: PlotSeries; on: boolean; onToggle
       aria-checked={on}
       accessibilityLabel={`${s.label}, ${looks}`}
       accessibilityHint={on ? 'Hides this curve' : 'Shows this curve'}
-      style={({ hovered }: { hovered?: boolean }) => [styles.legendItem, hovered && styles.legendHover]}
+      style={({ pressed }) => [styles.legendItem, pressed && styles.legendPressed]}
       testID={`legend-${s.id}`}
     >
       <Swatch s={s} on={on} />
@@ -272,6 +272,6 @@ const styles = StyleSheet.create({
   groupTitle: { fontFamily: fonts.bodySemi },
   legendRow: { flexDirection: 'row', flexWrap: 'wrap', columnGap: space.md, rowGap: 2 },
   legendItem: { flexDirection: 'row', alignItems: 'center', gap: space.xs, paddingVertical: 4, paddingHorizontal: 4, borderRadius: 6, minHeight: 28 },
-  legendHover: { backgroundColor: colors.surfaceRaised },
+  legendPressed: { backgroundColor: colors.surfaceRaised },
   off: { textDecorationLine: 'line-through' },
 });

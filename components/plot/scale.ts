@@ -44,7 +44,7 @@ export function makeScale(domain: [number, number], range: [number, number], log
     if (!log) return values.map((value) => ({ value, labelled: true }));
     // d3's log tick format leaves out the labels of crowded sub-decade ticks; asked for half as
     // many labels as ticks, it labels 1, 2 and 10 within one decade, only powers of ten beyond.
-    const keep = scaleLog().domain(domain).tickFormat(count / 2, () => 'y');
+    const keep = scaleLog().domain(domain).tickFormat(count / 2);
     return values.map((value) => ({ value, labelled: keep(value) !== '' }));
   };
   return s;

@@ -107,7 +107,7 @@ describe('the rotation-curve panel', () => {
     // Seven curves: each run's √(R g), analytic and particle curves, and one Newtonian reference.
     const entries = view.getAllByRole('checkbox');
     expect(entries).toHaveLength(7);
-    expect(entries.filter((e) => e.getAttribute('aria-checked') === 'true')).toHaveLength(4);
+    expect(entries.filter((e: HTMLElement) => e.getAttribute('aria-checked') === 'true')).toHaveLength(4);
     expect(linesOf(container)).toHaveLength(4);
     expect(view.getByText('3 of 7 curves start hidden; press a legend entry to show or hide its curve.')).toBeTruthy();
     expect(reference.getAttribute('aria-checked')).toBe('false');

@@ -95,7 +95,7 @@ test('a page opened mid-run plots the drift from t = 0: the stored samples first
   const plot = view.getByTestId('plot-live-drift');
   const line = [...plot.querySelectorAll('path')].find((p) => p.getAttribute('fill') === 'none')!;
   // Steps 2 to 10 in order (the drift of 0 at step 0 has no place on a log axis) ...
-  const xs = (line.getAttribute('d') ?? '').split(/[ML]/).filter(Boolean).map((pt) => Number(pt.split(',')[0]));
+  const xs = (line.getAttribute('d') ?? '').split(/[ML]/).filter(Boolean).map((pt: string) => Number(pt.split(',')[0]));
   expect(xs).toHaveLength(5);
   expect(xs).toEqual([...xs].sort((a, b) => a - b));
   // ... on a time axis that starts at t = 0.
