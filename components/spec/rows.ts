@@ -21,6 +21,8 @@ export interface SpecRow {
 const ENUM_LABELS: Record<string, Record<string, string>> = { interpolation: INTERPOLATION_LABELS, profile: PROFILE_LABELS };
 const SYSTEM_KINDS = new Set(['plummer', 'hernquist', 'disk']);
 
+const unitFor = (key: string, v: number) => (v === 1 && unitOf(key) === 'steps' ? 'step' : unitOf(key));
+
 /** A number as it was given: counts grouped (8 000), far from 1 in e-notation (4e10, 1.2e-10). */
 function numberText(key: string, v: number): string {
   if (key === 'seed') return String(v);
@@ -44,7 +46,7 @@ function fieldRows(obj: Obj, path: string, group: SpecGroup, labelPrefix: string
     const v = obj[k];
     const key = `${path}.${k}`;
     const label = `${labelPrefix}${labelOf(k)}`;
-    if (typeof v === 'number') rows.push({ key, group, label, value: numberText(k, v), unit: unitOf(k) });
+    if (typeof v === 'number') rows.push({ key, group, label, value: numberText(k, v), unit: unitFor(k, v) });
     else if (typeof v === 'boolean') rows.push({ key, group, label, value: v ? 'yes' : 'no' });
     else if (typeof v === 'string') rows.push({ key, group, label, value: ENUM_LABELS[k]?.[v] ?? v });
     else if (Array.isArray(v)) rows.push({ key, group, label, value: `${formatCount(v.length)} rows` });
@@ -89,7 +91,7 @@ export function specRows(spec: RunSpec): SpecRow[] {
   rows.push(...fieldRows(spec.solver as unknown as Obj, 'solver', g, ''));
   const rest: Obj = { timestep_Myr: spec.timestep_Myr, duration_Myr: spec.duration_Myr, softening_kpc: spec.softening_kpc, snapshotEvery: spec.snapshotEvery, diagnosticsEvery: spec.diagnosticsEvery, seed: spec.seed };
   for (const [k, v] of Object.entries(rest)) {
-    if (typeof v === 'number') rows.push({ key: k, group: g, label: labelOf(k), value: numberText(k, v), unit: unitOf(k) });
+    if (typeof v === 'number') rows.push({ key: k, group: g, label: labelOf(k), value: numberText(k, v), unit: unitFor(k, v) });
     else rows.push({ key: k, group: g, label: labelOf(k), value: 'default, about 200 samples' });
   }
   return rows;

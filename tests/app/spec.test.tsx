@@ -53,6 +53,12 @@ describe('the spec a run ran', () => {
     expect(container.textContent).not.toContain('≠');
   });
 
+  it('says "1 step", not "1 steps"', () => {
+    const { container } = render(<SpecTable columns={[{ title: 'Veyra', color: '#fff', spec: { ...diskSpec(), snapshotEvery: 1, diagnosticsEvery: 2 } }]} />);
+    expect(text(container, 'snapshotEvery')).toBe('Snapshot every1 step');
+    expect(text(container, 'diagnosticsEvery')).toBe('Diagnostics every2 steps');
+  });
+
   it('marks exactly the fields where two specs differ, and says how many', () => {
     const a = diskSpec();
     const b: RunSpec = { ...a, law: { kind: 'halo', profile: 'nfw', scale_kpc: 15, density_Msun_kpc3: 8e6 }, softening_kpc: 0.1 };
