@@ -113,6 +113,7 @@ function ComparePair({ a, b }: { a: RunDetail; b: RunDetail }) {
   const done = outA && outB;
   const specA = specOf(a);
   const specB = specOf(b);
+  const specs = specA && specB ? <SpecTable columns={[{ title: labelA, color: tints[0], spec: specA }, { title: labelB, color: tints[1], spec: specB }]} /> : null;
   const sameIC = a.pairId !== null && a.pairId === b.pairId;
   const plotted: PlottedRun[] = done ? [{ id: a.id, label: labelA, color: tints[0], out: outA }, { id: b.id, label: labelB, color: tints[1], out: outB }] : [];
 
@@ -128,7 +129,6 @@ function ComparePair({ a, b }: { a: RunDetail; b: RunDetail }) {
       </View>
       <ModelCaution />
       <Txt variant="small">{sameIC ? 'Same initial particles (same spec and seed), two force laws: differences below come from the laws, up to integration error.' : 'These runs were not launched as a pair, so their initial conditions may differ as well as their laws.'}</Txt>
-      {specA && specB ? <SpecTable columns={[{ title: labelA, color: tints[0], spec: specA }, { title: labelB, color: tints[1], spec: specB }]} /> : null}
       {[a, b].some((r) => !isFinal(r.status)) ? (
         <View style={[styles.players, wide && styles.playersWide]}>
           {[a, b].map((r, k) => (
@@ -147,6 +147,7 @@ function ComparePair({ a, b }: { a: RunDetail; b: RunDetail }) {
               </Txt>
             ))}
           </Panel>
+          {specs}
           <SyncedPlayers runs={[{ run: a, out: outA }, { run: b, out: outB }]} plotted={plotted} />
           <View style={[styles.players, wide && styles.playersWide]}>
             <View style={wide ? styles.half : undefined}><LawNotes info={outA.law} /></View>
@@ -154,9 +155,15 @@ function ComparePair({ a, b }: { a: RunDetail; b: RunDetail }) {
           </View>
         </>
       ) : [a, b].every((r) => isFinal(r.status)) ? (
-        <Empty title="Nothing to compare yet" hint="One of these runs ended without output (failed or stopped early)." />
+        <>
+          <Empty title="Nothing to compare yet" hint="One of these runs ended without output (failed or stopped early)." />
+          {specs}
+        </>
       ) : (
-        <Txt variant="small">The comparison appears when both runs have finished.</Txt>
+        <>
+          <Txt variant="small">The comparison appears when both runs have finished.</Txt>
+          {specs}
+        </>
       )}
     </Screen>
   );
