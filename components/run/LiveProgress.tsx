@@ -24,7 +24,7 @@ export function LiveProgress({ run, stream, hasPotential, lawLabel, color = lawC
   const doing = run.status === 'queued' ? 'Waiting for a worker' : 'Integrating';
   const drift = stream.drift;
   return (
-    <Panel title={lawLabel ? `${lawLabel} · ${doing.toLowerCase()}` : doing} right={<Txt variant="caption" color={stream.state === 'open' ? colors.ok : colors.textMuted} accessibilityLiveRegion="polite">● {STREAM_WORDS[stream.state]}</Txt>}>
+    <Panel title={lawLabel ? `${doing} · ${lawLabel}` : doing} right={<Txt variant="caption" color={stream.state === 'open' ? colors.ok : colors.textMuted} accessibilityLiveRegion="polite">● {STREAM_WORDS[stream.state]}</Txt>}>
       <View style={styles.big}>
         <Txt style={styles.percent} accessibilityLabel={`${Math.floor(percent)} percent done`} testID="live-percent">
           {Math.floor(percent)}%

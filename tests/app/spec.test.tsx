@@ -98,7 +98,7 @@ describe('the compare page', () => {
     // The law and MOND's two parameters: everything else is shared.
     expect(view.getByText('3 fields differ (marked ≠); every other field is the same.')).toBeTruthy();
     expect(label(container, 'law.kind')).toMatch(/^Law: Newton.* and .*MOND.*, differs$/);
-    expect(view.getByText('Newton · integrating')).toBeTruthy();
-    expect(view.getByText('MOND · integrating')).toBeTruthy();
+    expect(view.getByText('Integrating · Newton')).toBeTruthy();
+    expect(view.getByText('Integrating · MOND')).toBeTruthy();
   });
 });
