@@ -12,8 +12,9 @@ export interface SpecColumn {
   spec: RunSpec;
 }
 
-function Line({ line, pair }: { line: SpecLine; pair: boolean }) {
-  const spoken = pair ? `${line.label}: ${line.a ?? 'not set'} and ${line.b ?? 'not set'}${line.differs ? ', differs' : ''}` : `${line.label}: ${line.a}`;
+function Line({ line, titles }: { line: SpecLine; titles: string[] }) {
+  const pair = titles.length === 2;
+  const spoken = pair ? `${line.label}: ${titles[0]} ${line.a ?? 'not set'}; ${titles[1]} ${line.b ?? 'not set'}${line.differs ? '; differs' : ''}` : `${line.label}: ${line.a}`;
   return (
     <View style={[styles.line, line.differs && styles.differs]} accessible accessibilityLabel={spoken} testID={`spec-${line.key}`}>
       <View style={styles.labelCell}>
@@ -53,7 +54,7 @@ export function SpecTable({ columns }: { columns: [SpecColumn] | [SpecColumn, Sp
   return (
     <Panel title={pair ? 'What each ran' : 'What it ran'} note={note}>
       {pair ? (
-        <View style={styles.line} importantForAccessibility="no-hide-descendants">
+        <View style={styles.line} aria-hidden>
           <View style={styles.labelCell} />
           {columns.map((c) => (
             <Txt key={c.title} variant="label" color={c.color} style={styles.value} numberOfLines={2}>
@@ -68,7 +69,7 @@ export function SpecTable({ columns }: { columns: [SpecColumn] | [SpecColumn, Sp
           <View key={group} style={styles.group}>
             <Txt variant="label">{group}</Txt>
             {rows.map((l) => (
-              <Line key={l.key} line={l} pair={pair} />
+              <Line key={l.key} line={l} titles={columns.map((c) => c.title)} />
             ))}
           </View>
         ) : null;

@@ -75,7 +75,7 @@ function systemRows(model: Obj, path: string, group: SpecGroup, labelPrefix: str
 }
 
 /** One line for a law and its parameters: "Newton + halo (Halo profile NFW, Scale radius a 15 kpc, …)". */
-export function lawSummary(law: LawSpec): string {
+function lawSummary(law: LawSpec): string {
   const params = fieldRows(law as unknown as Obj, 'law', 'Force law', '').map((r) => `${r.label} ${r.value}${r.unit ? ` ${r.unit}` : ''}`);
   return params.length ? `${lawLabel(law)} (${params.join(', ')})` : lawLabel(law);
 }

@@ -68,10 +68,10 @@ describe('the spec a run ran', () => {
 
     const { container, view } = render(<SpecTable columns={[{ title: 'MOND', color: '#f90', spec: a }, { title: 'Newton + halo', color: '#9bf', spec: b }]} />);
     expect(view.getByText('7 fields differ (marked ≠); every other field is the same.')).toBeTruthy();
-    expect(label(container, 'softening_kpc')).toBe('Softening ε: 0.15 kpc and 0.1 kpc, differs');
-    expect(label(container, 'law.profile')).toBe('Halo profile: not set and NFW, differs');
-    expect(label(container, 'model.n')).toBe('Particles N: 8\u2009000 and 8\u2009000');
-    expect(container.querySelectorAll('[aria-label$=", differs"]')).toHaveLength(7);
+    expect(label(container, 'softening_kpc')).toBe('Softening ε: MOND 0.15 kpc; Newton + halo 0.1 kpc; differs');
+    expect(label(container, 'law.profile')).toBe('Halo profile: MOND not set; Newton + halo NFW; differs');
+    expect(label(container, 'model.n')).toBe('Particles N: MOND 8\u2009000; Newton + halo 8\u2009000');
+    expect(container.querySelectorAll('[aria-label$="; differs"]')).toHaveLength(7);
   });
 });
 
@@ -97,7 +97,7 @@ describe('the compare page', () => {
     await settle();
     // The law and MOND's two parameters: everything else is shared.
     expect(view.getByText('3 fields differ (marked ≠); every other field is the same.')).toBeTruthy();
-    expect(label(container, 'law.kind')).toMatch(/^Law: Newton.* and .*MOND.*, differs$/);
+    expect(label(container, 'law.kind')).toMatch(/^Law: Newton Newtonian; MOND MOND.*; differs$/);
     expect(view.getByText('Integrating · Newton')).toBeTruthy();
     expect(view.getByText('Integrating · MOND')).toBeTruthy();
   });
