@@ -1,7 +1,7 @@
 import { usesPotentialVirial, type RunOutputView } from '../../hooks/runOutput';
 import type { RunSpec } from '../../shared/spec';
 import { formatValue } from '../format';
-import { SPEC_GROUPS, specRows, type SpecGroup, type SpecRow } from '../spec/rows';
+import { rowText, SPEC_GROUPS, specRows, type SpecGroup, type SpecRow } from '../spec/rows';
 
 // The short written comparison of two runs: plain sentences from their outputs.
 
@@ -67,7 +67,7 @@ export interface SpecLine {
   differs: boolean;
 }
 
-const shown = (r: SpecRow | undefined) => (r ? `${r.value}${r.unit ? ` ${r.unit}` : ''}` : null);
+const shown = (r: SpecRow | undefined) => (r ? rowText(r) : null);
 
 /** Two specs field by field, grouped, in the first spec's order (fields only the second has end their group). */
 export function compareSpecs(a: RunSpec, b: RunSpec): SpecLine[] {

@@ -3,7 +3,7 @@ import type { RunSpec } from '../../shared/spec';
 import { colors, fonts, radius, space } from '../../constants/theme';
 import { compareSpecs, type SpecLine } from '../compare/differences';
 import { Panel } from '../Panel';
-import { SPEC_GROUPS, specRows } from '../spec/rows';
+import { rowText, SPEC_GROUPS, specRows } from '../spec/rows';
 import { Txt } from '../Txt';
 
 export interface SpecColumn {
@@ -44,7 +44,7 @@ export function SpecTable({ columns }: { columns: [SpecColumn] | [SpecColumn, Sp
   const pair = columns.length === 2;
   const lines: SpecLine[] = pair
     ? compareSpecs(columns[0].spec, columns[1].spec)
-    : specRows(columns[0].spec).map((r) => ({ key: r.key, group: r.group, label: r.label, a: `${r.value}${r.unit ? ` ${r.unit}` : ''}`, b: null, differs: false }));
+    : specRows(columns[0].spec).map((r) => ({ key: r.key, group: r.group, label: r.label, a: rowText(r), b: null, differs: false }));
   const differing = lines.filter((l) => l.differs).length;
   const note = pair
     ? differing

@@ -74,9 +74,12 @@ function systemRows(model: Obj, path: string, group: SpecGroup, labelPrefix: str
   return rows;
 }
 
+/** A row's value with its unit: "0.2 kpc", "30°". */
+export const rowText = (r: SpecRow): string => (r.unit ? `${r.value}${r.unit === '°' ? '' : ' '}${r.unit}` : r.value);
+
 /** One line for a law and its parameters: "Newton + halo (Halo profile NFW, Scale radius a 15 kpc, …)". */
 function lawSummary(law: LawSpec): string {
-  const params = fieldRows(law as unknown as Obj, 'law', 'Force law', '').map((r) => `${r.label} ${r.value}${r.unit ? ` ${r.unit}` : ''}`);
+  const params = fieldRows(law as unknown as Obj, 'law', 'Force law', '').map((r) => `${r.label} ${rowText(r)}`);
   return params.length ? `${lawLabel(law)} (${params.join(', ')})` : lawLabel(law);
 }
 

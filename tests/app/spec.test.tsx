@@ -53,6 +53,28 @@ describe('the spec a run ran', () => {
     expect(container.textContent).not.toContain('≠');
   });
 
+  it('lists both systems of an encounter under their own names', () => {
+    const parsed = parseRunSpec({
+      version: 1,
+      model: { kind: 'encounter', primary: { kind: 'plummer', n: 600, mass_Msun: 2e10, scale_kpc: 1.5 }, secondary: { kind: 'disk', n: 300, mass_Msun: 1e10, scaleLength_kpc: 1, scaleHeight_kpc: 0.1 }, pericentre_kpc: 8, initialSeparation_kpc: 40, secondaryTilt_deg: 30 },
+      law: { kind: 'newton' },
+      timestep_Myr: 0.5,
+      duration_Myr: 100,
+      softening_kpc: 0.1,
+      snapshotEvery: 10,
+    });
+    if (!parsed.ok) throw new Error(JSON.stringify(parsed.issues));
+    const { container } = render(<SpecTable columns={[{ title: 'Encounter', color: '#fff', spec: parsed.spec }]} />);
+    expect(text(container, 'model.kind')).toBe('ModelEncounter');
+    expect(text(container, 'model.primary.kind')).toBe('PrimaryPlummer sphere');
+    expect(text(container, 'model.primary.n')).toBe('Primary · Particles N600');
+    expect(text(container, 'model.primary.truncationRadius_kpc')).toBe('Primary · Truncation radiusthe model’s default');
+    expect(text(container, 'model.secondary.kind')).toBe('SecondaryExponential disk');
+    expect(text(container, 'model.secondary.equilibriumLaw')).toBe('Secondary · Velocities balanced forthe run’s law');
+    expect(text(container, 'model.secondaryTilt_deg')).toBe('Secondary tilt30°');
+    expect(text(container, 'model.primaryTilt_deg')).toBe('Primary tilt0°');
+  });
+
   it('says "1 step", not "1 steps"', () => {
     const { container } = render(<SpecTable columns={[{ title: 'Veyra', color: '#fff', spec: { ...diskSpec(), snapshotEvery: 1, diagnosticsEvery: 2 } }]} />);
     expect(text(container, 'snapshotEvery')).toBe('Snapshot every1 step');
