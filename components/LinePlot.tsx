@@ -152,8 +152,8 @@ function LegendEntry({ s, on, onToggle }: { s: PlotSeries; on: boolean; onToggle
   return (
     <Pressable
       onPress={onToggle}
-      role="checkbox"
-      aria-checked={on}
+      role="button"
+      aria-pressed={on}
       accessibilityLabel={`${s.label}, ${looks}`}
       accessibilityHint={on ? 'Hides this curve' : 'Shows this curve'}
       style={({ pressed }) => [styles.legendItem, pressed && styles.legendPressed]}
@@ -173,7 +173,7 @@ function LegendEntry({ s, on, onToggle }: { s: PlotSeries; on: boolean; onToggle
  */
 export function LinePlot({ series, xLabel, yLabel, xLog = false, yLog = false, height = 220, xDomain, yDomain, yFromZero = false, xFromZero = false, markerX, accessibilityLabel, emptyText, testID }: LinePlotProps) {
   const [width, setWidth] = useState(320);
-  // Someone's choice per series id; series they have not touched follow their `hidden` flag.
+  // Someone's choice per series id (legend entries are toggle buttons: Enter or Space); series they have not touched follow their `hidden` flag.
   const [picked, setPicked] = useState<Record<string, boolean>>({});
   const onLayout = (e: LayoutChangeEvent) => {
     const w = Math.round(e.nativeEvent.layout.width);

@@ -65,13 +65,14 @@ describe('LinePlot', () => {
 
   it('switches a series off and on from its legend entry, keeping the axes', () => {
     const { container, view } = render(<LinePlot series={series} xLabel="time [Myr]" yLabel="drift" yLog accessibilityLabel="Energy drift" />);
-    const entry = view.getByRole('checkbox', { name: 'Newtonian, solid line' });
-    expect(entry.getAttribute('aria-checked')).toBe('true');
+    const entry = view.getByRole('button', { name: 'Newtonian, solid line' });
+    expect(entry.getAttribute('aria-pressed')).toBe('true');
     press(entry);
-    expect(entry.getAttribute('aria-checked')).toBe('false');
+    expect(entry.getAttribute('aria-pressed')).toBe('false');
     expect(linesOf(container).map((l) => l.getAttribute('stroke'))).toEqual(['#f90']);
     expect(view.getByText('1e-6')).toBeTruthy(); // the hidden series still sets the range
     press(entry);
+    expect(entry.getAttribute('aria-pressed')).toBe('true');
     expect(linesOf(container)).toHaveLength(2);
   });
 
@@ -100,17 +101,17 @@ describe('the rotation-curve panel', () => {
   it('tells measured, from-forces and analytic curves apart by group, line and mark, four at first', () => {
     const { container, view } = render(<RotationCurvePlot runs={runs} />);
     for (const g of ['from the law’s field (forces)', 'measured from particles', 'analytic, initial mass model']) expect(view.getByRole('group', { name: g })).toBeTruthy();
-    expect(view.getByRole('checkbox', { name: 'MOND · √(R g), solid line with square marks' })).toBeTruthy();
-    expect(view.getByRole('checkbox', { name: 'MOND · mean v_φ, solid line with round marks' })).toBeTruthy();
-    expect(view.getByRole('checkbox', { name: 'MOND (simple ν), dashed line with triangle marks' })).toBeTruthy();
-    const reference = view.getByRole('checkbox', { name: 'Newtonian (reference), dashed line with diamond marks' });
+    expect(view.getByRole('button', { name: 'MOND · √(R g), solid line with square marks' })).toBeTruthy();
+    expect(view.getByRole('button', { name: 'MOND · mean v_φ, solid line with round marks' })).toBeTruthy();
+    expect(view.getByRole('button', { name: 'MOND (simple ν), dashed line with triangle marks' })).toBeTruthy();
+    const reference = view.getByRole('button', { name: 'Newtonian (reference), dashed line with diamond marks' });
     // Seven curves: each run's √(R g), analytic and particle curves, and one Newtonian reference.
-    const entries = view.getAllByRole('checkbox');
+    const entries = view.getAllByRole('button').filter((b: HTMLElement) => b.hasAttribute('aria-pressed'));
     expect(entries).toHaveLength(7);
-    expect(entries.filter((e: HTMLElement) => e.getAttribute('aria-checked') === 'true')).toHaveLength(4);
+    expect(entries.filter((e: HTMLElement) => e.getAttribute('aria-pressed') === 'true')).toHaveLength(4);
     expect(linesOf(container)).toHaveLength(4);
     expect(view.getByText('3 of 7 curves start hidden; press a legend entry to show or hide its curve.')).toBeTruthy();
-    expect(reference.getAttribute('aria-checked')).toBe('false');
+    expect(reference.getAttribute('aria-pressed')).toBe('false');
     press(reference);
     expect(linesOf(container)).toHaveLength(5);
   });
