@@ -23,6 +23,8 @@ module.exports = {
     {
       displayName: 'app',
       preset: 'jest-expo/web',
+      // d3-scale and its helpers resolve to ES modules; Jest takes their CommonJS builds instead.
+      moduleNameMapper: { '^(d3-[a-z-]+|internmap)$': '<rootDir>/node_modules/$1/dist/$1.js' },
       roots: ['<rootDir>/tests'],
       testMatch: ['<rootDir>/tests/app/**/*.test.tsx'],
     },

@@ -88,8 +88,11 @@ function issueMap(issues: { path: PropertyKey[]; message: string }[], prefix = '
 
 /** The new-run form's state: a draft spec checked by the shared schema on every change, its preview and cost. */
 export function useRunDraft(initial?: RunSpecInput, initialPairLaw?: LawSpec | null, initialName = '') {
-  const [draft, setDraft] = useState<Draft>(() => (initial ?? defaultRunSpec()) as unknown as Draft);
-  const [name, setName] = useState(initialName);
+  // The name lives in the spec (spec.name), so the shared schema checks it like every other field.
+  const [draft, setDraft] = useState<Draft>(() => {
+    const d = (initial ?? defaultRunSpec()) as unknown as Draft;
+    return initialName ? { ...d, name: initialName } : d;
+  });
   const [pairLaw, setPairLawState] = useState<LawSpec | null>(initialPairLaw ?? null);
   const [serverIssue, setServerIssue] = useState<{ field: string; message: string } | null>(null);
 
@@ -97,6 +100,8 @@ export function useRunDraft(initial?: RunSpecInput, initialPairLaw?: LawSpec | n
     setServerIssue(null);
     setDraft((d) => setIn(d, path, value));
   }, []);
+  const name = typeof draft.name === 'string' ? draft.name : '';
+  const setName = useCallback((v: string) => set(['name'], v === '' ? undefined : v), [set]);
   const setPairLaw = useCallback((law: LawSpec | null) => {
     setServerIssue(null);
     setPairLawState(law);
@@ -155,7 +160,7 @@ export function useRunDraft(initial?: RunSpecInput, initialPairLaw?: LawSpec | n
       const chosen = (getIn(model, ['equilibriumLaw']) ?? getIn(model, ['primary', 'equilibriumLaw']) ?? getIn(model, ['secondary', 'equilibriumLaw'])) as LawSpec | undefined;
       body = { ...draft, model: withEquilibriumLaw(model, chosen ?? (draft.law as LawSpec)) };
     }
-    return { name: name.trim() || undefined, spec: body, ...(pairLaw ? { pairLaw } : {}) };
+    return { spec: body, ...(pairLaw ? { pairLaw } : {}) };
   };
 
   /** Shows a field error the server reported (its paths start with "spec."). */

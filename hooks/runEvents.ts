@@ -15,14 +15,25 @@ export interface DriftSample {
 export interface RunStream {
   state: StreamState;
   progress: RunProgress | null;
-  /** Every progress sample seen on this page, for the live drift plot. */
+  /** Every progress sample of the run so far (from t = 0, even when the page opened mid-run), for the live drift plot. */
   drift: DriftSample[];
 }
 
 const MAX_SAMPLES = 2000; // plenty for a live plot; older samples are thinned out
 
 function thin(samples: DriftSample[]): DriftSample[] {
-  return samples.length <= MAX_SAMPLES ? samples : samples.filter((_, i) => i % 2 === 0 || i === samples.length - 1);
+  while (samples.length > MAX_SAMPLES) samples = samples.filter((_, i) => i % 2 === 0 || i === samples.length - 1);
+  return samples;
+}
+
+const sample = (p: RunProgress): DriftSample => ({ step: p.step, time_Myr: p.time_Myr, energyDrift: p.energyDrift });
+
+/** Samples from before the page opened and those seen live, one per step, in step order. */
+function merge(earlier: RunProgress[], seen: DriftSample[]): DriftSample[] {
+  const byStep = new Map<number, DriftSample>();
+  for (const p of earlier) byStep.set(p.step, sample(p));
+  for (const d of seen) byStep.set(d.step, d);
+  return thin([...byStep.values()].sort((a, b) => a.step - b.step));
 }
 
 /**
@@ -49,11 +60,15 @@ export function useRunEvents(id: string | undefined, enabled: boolean): RunStrea
       const summary = JSON.parse((ev as MessageEvent).data) as RunSummary;
       qc.setQueryData<RunDetail>(runKeys.detail(id), (old) => (old ? { ...old, ...summary } : old));
     });
+    source.addEventListener('history', (ev) => {
+      const earlier = JSON.parse((ev as MessageEvent).data) as RunProgress[];
+      setStream((s) => ({ ...s, progress: s.progress ?? earlier[earlier.length - 1] ?? null, drift: merge(earlier, s.drift) }));
+    });
     source.addEventListener('progress', (ev) => {
       const p = JSON.parse((ev as MessageEvent).data) as RunProgress;
       setStream((s) => {
         const last = s.drift[s.drift.length - 1];
-        const drift = last && last.step >= p.step ? s.drift : thin([...s.drift, { step: p.step, time_Myr: p.time_Myr, energyDrift: p.energyDrift }]);
+        const drift = last && last.step >= p.step ? s.drift : thin([...s.drift, sample(p)]);
         return { state: 'open', progress: p, drift };
       });
       qc.setQueryData<RunDetail>(runKeys.detail(id), (old) =>

@@ -29,6 +29,8 @@ export function runProcessor({ orm, pool, onEnded }: ProcessorDeps) {
     let lastDbWrite = 0;
     const handle = pool.start(run.spec, (p: RunProgress) => {
       void job.updateProgress(p);
+      // Kept on the job until it ends, so a page opened mid-run can plot from t = 0.
+      void job.log(JSON.stringify(p)).catch(() => undefined);
       const now = Date.now();
       if (now - lastDbWrite >= PROGRESS_DB_EVERY_MS) {
         lastDbWrite = now;
@@ -55,6 +57,7 @@ export function runProcessor({ orm, pool, onEnded }: ProcessorDeps) {
       return { status: 'failed' };
     } finally {
       clearInterval(poll);
+      await job.clearLogs().catch(() => undefined); // the stored diagnostics take over
       if (onEnded) await onEnded(runId).catch((e) => console.error('[worker] after-run hook failed', e));
     }
   };

@@ -23,6 +23,7 @@ import { LawNotes, ModelCaution } from '../run/LawNotes';
 import { LiveProgress } from '../run/LiveProgress';
 import { RotationAtPlayhead } from '../run/RotationAtPlayhead';
 import { RotationCurvePlot } from '../run/RotationCurvePlot';
+import { SpecTable } from '../run/SpecTable';
 import { ComparePicker } from './ComparePicker';
 import { describeDifferences } from './differences';
 
@@ -31,10 +32,10 @@ function sideColor(run: RunDetail, other: RunDetail): string {
   return run.lawKind === other.lawKind ? colors.link : lawColor(run.lawKind);
 }
 
-function Live({ run }: { run: RunDetail }) {
+function Live({ run, lawLabel, color }: { run: RunDetail; lawLabel: string; color: string }) {
   const stream = useRunEvents(run.id, !isFinal(run.status));
   const spec = specOf(run);
-  return <LiveProgress run={run} stream={stream} hasPotential={spec ? lawInfo(spec.law).hasPotential : true} />;
+  return <LiveProgress run={run} stream={stream} hasPotential={spec ? lawInfo(spec.law).hasPotential : true} lawLabel={lawLabel} color={color} />;
 }
 
 /** Both animations on one playhead, then the overlaid curves and diagnostics that follow it. */
@@ -110,6 +111,9 @@ function ComparePair({ a, b }: { a: RunDetail; b: RunDetail }) {
   const labelA = same && outA ? outA.law.label : (LAW_LABELS[a.lawKind] ?? a.lawKind);
   const labelB = same && outB ? outB.law.label : (LAW_LABELS[b.lawKind] ?? b.lawKind);
   const done = outA && outB;
+  const specA = specOf(a);
+  const specB = specOf(b);
+  const specs = specA && specB ? <SpecTable columns={[{ title: labelA, color: tints[0], spec: specA }, { title: labelB, color: tints[1], spec: specB }]} /> : null;
   const sameIC = a.pairId !== null && a.pairId === b.pairId;
   const plotted: PlottedRun[] = done ? [{ id: a.id, label: labelA, color: tints[0], out: outA }, { id: b.id, label: labelB, color: tints[1], out: outB }] : [];
 
@@ -127,9 +131,9 @@ function ComparePair({ a, b }: { a: RunDetail; b: RunDetail }) {
       <Txt variant="small">{sameIC ? 'Same initial particles (same spec and seed), two force laws: differences below come from the laws, up to integration error.' : 'These runs were not launched as a pair, so their initial conditions may differ as well as their laws.'}</Txt>
       {[a, b].some((r) => !isFinal(r.status)) ? (
         <View style={[styles.players, wide && styles.playersWide]}>
-          {[a, b].map((r) => (
+          {[a, b].map((r, k) => (
             <View key={r.id} style={wide ? styles.half : undefined}>
-              {isFinal(r.status) ? <Panel title={r.name}><StatusBadge status={r.status} /></Panel> : <Live run={r} />}
+              {isFinal(r.status) ? <Panel title={`${k ? labelB : labelA} · ${r.name}`}><StatusBadge status={r.status} /></Panel> : <Live run={r} lawLabel={k ? labelB : labelA} color={tints[k]} />}
             </View>
           ))}
         </View>
@@ -143,6 +147,7 @@ function ComparePair({ a, b }: { a: RunDetail; b: RunDetail }) {
               </Txt>
             ))}
           </Panel>
+          {specs}
           <SyncedPlayers runs={[{ run: a, out: outA }, { run: b, out: outB }]} plotted={plotted} />
           <View style={[styles.players, wide && styles.playersWide]}>
             <View style={wide ? styles.half : undefined}><LawNotes info={outA.law} /></View>
@@ -150,9 +155,15 @@ function ComparePair({ a, b }: { a: RunDetail; b: RunDetail }) {
           </View>
         </>
       ) : [a, b].every((r) => isFinal(r.status)) ? (
-        <Empty title="Nothing to compare yet" hint="One of these runs ended without output (failed or stopped early)." />
+        <>
+          <Empty title="Nothing to compare yet" hint="One of these runs ended without output (failed or stopped early)." />
+          {specs}
+        </>
       ) : (
-        <Txt variant="small">The comparison appears when both runs have finished.</Txt>
+        <>
+          <Txt variant="small">The comparison appears when both runs have finished.</Txt>
+          {specs}
+        </>
       )}
     </Screen>
   );

@@ -1,5 +1,7 @@
 import { usesPotentialVirial, type RunOutputView } from '../../hooks/runOutput';
+import type { RunSpec } from '../../shared/spec';
 import { formatValue } from '../format';
+import { rowText, SPEC_GROUPS, specRows, type SpecGroup, type SpecRow } from '../spec/rows';
 
 // The short written comparison of two runs: plain sentences from their outputs.
 
@@ -53,4 +55,31 @@ export function describeDifferences(a: Side, b: Side): string[] {
     lines.push(`Final virial ratio: ${formatValue(vr(a, qa))} under ${a.label}, ${formatValue(vr(b, qb))} under ${b.label} (1 is equilibrium).`);
   }
   return lines;
+}
+
+/** One field of two specs side by side; a field only one spec has is null on the other side. */
+export interface SpecLine {
+  key: string;
+  group: SpecGroup;
+  label: string;
+  a: string | null;
+  b: string | null;
+  differs: boolean;
+}
+
+const shown = (r: SpecRow | undefined) => (r ? rowText(r) : null);
+
+/** Two specs field by field, grouped, in the first spec's order (fields only the second has end their group). */
+export function compareSpecs(a: RunSpec, b: RunSpec): SpecLine[] {
+  const rowsA = specRows(a);
+  const rowsB = specRows(b);
+  const inA = new Map(rowsA.map((r) => [r.key, r]));
+  const inB = new Map(rowsB.map((r) => [r.key, r]));
+  return SPEC_GROUPS.flatMap((group) =>
+    [...rowsA.filter((r) => r.group === group), ...rowsB.filter((r) => r.group === group && !inA.has(r.key))].map((r) => {
+      const va = shown(inA.get(r.key));
+      const vb = shown(inB.get(r.key));
+      return { key: r.key, group, label: r.label, a: va, b: vb, differs: va !== vb };
+    }),
+  );
 }

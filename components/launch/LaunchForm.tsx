@@ -1,6 +1,6 @@
 import { StyleSheet, View, useWindowDimensions } from 'react-native';
 import { useRouter } from 'expo-router';
-import type { LawSpec, RunSpecInput } from '../../shared/spec';
+import { NAME_MAX_LENGTH, type LawSpec, type RunSpecInput } from '../../shared/spec';
 import { colors, space, WIDE_BREAKPOINT } from '../../constants/theme';
 import { ApiError } from '../../hooks/api';
 import { LAW_PRESETS, useRunDraft } from '../../hooks/runDraft';
@@ -13,18 +13,13 @@ import { Panel } from '../Panel';
 import { Screen } from '../Screen';
 import { describeError, Notice } from '../States';
 import { Txt } from '../Txt';
+import { INTEGRATOR_LABELS, SOLVER_LABELS } from '../spec/labels';
 import { CostPanel } from './CostPanel';
 import { styles as formStyles } from './formStyles';
 import { LawEditor } from './LawEditor';
 import { ModelEditor } from './ModelEditor';
 import { ChecksPreview, CurvePreview } from './PreviewPanels';
 import { SpecNumber } from './SpecField';
-
-const INTEGRATOR_LABELS: Record<string, { label: string; note: string }> = {
-  leapfrog: { label: 'Leapfrog (KDK)', note: 'Second order, symplectic: energy error stays bounded. The usual choice.' },
-  yoshida4: { label: 'Yoshida 4th order', note: 'Fourth-order symplectic; three force evaluations per step.' },
-  rk4: { label: 'RK4', note: 'Classical Runge–Kutta, not symplectic: energy drifts steadily. Useful as a foil.' },
-};
 
 function quotaMessage(e: ApiError): string {
   const d = e.details as { limit?: string; max?: number; needed?: number; remaining?: number } | undefined;
@@ -71,7 +66,7 @@ export function LaunchForm({ start }: { start?: LaunchStart }) {
   const formColumn = (
     <View style={styles.column}>
       <Panel title="Name">
-        <TextField label="Run name (optional)" value={form.name} onChange={form.setName} placeholder="e.g. disk, halo vs MOND" hint="Left empty, the name says the model and law." testID="field-name" />
+        <TextField label="Run name (optional)" value={form.name} onChange={form.setName} placeholder="e.g. disk, halo vs MOND" hint={`Up to ${NAME_MAX_LENGTH} characters. Left empty, the name says the model and law.`} error={issues.name} testID="field-name" />
       </Panel>
       <Panel title="Initial conditions">
         <ModelEditor draft={draft} set={set} issues={issues} pairLaw={form.pairLaw} />
@@ -102,10 +97,7 @@ export function LaunchForm({ start }: { start?: LaunchStart }) {
           label="Force solver"
           value={solver.kind}
           onChange={(k) => set(['solver'], k === 'tree' ? { kind: 'tree', theta: 0.6 } : { kind: 'direct' })}
-          choices={[
-            { value: 'direct', label: 'Direct sum', note: 'Every pair, exact up to softening: cost grows as N².' },
-            { value: 'tree', label: 'Barnes–Hut tree', note: 'Approximate far forces by cells: cost grows as N log N; error set by θ.' },
-          ]}
+          choices={Object.entries(SOLVER_LABELS).map(([value, { label, note }]) => ({ value, label, note }))}
         />
         {solver.kind === 'tree' ? <FieldRow><SpecNumber draft={draft} path={['solver', 'theta']} onChange={set} issues={issues} /></FieldRow> : null}
         <FieldRow>

@@ -7,11 +7,10 @@ import { enumOptions } from '../../hooks/specSchema';
 import { ChoiceChips, FieldRow } from '../fields';
 import { LAW_LABELS } from '../format';
 import { Txt } from '../Txt';
+import { INTERPOLATION_LABELS, PROFILE_LABELS } from '../spec/labels';
 import { SpecNumber } from './SpecField';
 import { styles as formStyles } from './formStyles';
 
-const INTERPOLATION_LABELS: Record<string, string> = { simple: 'simple ν', standard: 'standard ν', rar: 'RAR ν' };
-const PROFILE_LABELS: Record<string, string> = { nfw: 'NFW', 'cored-isothermal': 'cored isothermal' };
 
 export interface LawEditorProps {
   label: string;

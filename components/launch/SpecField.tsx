@@ -1,55 +1,7 @@
 import { fieldBounds } from '../../hooks/specSchema';
 import { getIn, type Path } from '../../hooks/runDraft';
 import { NumberField } from '../fields';
-
-// Units read from the field names of the spec (kpc, Msun, Myr, ...), longest suffix first.
-const UNITS: [string, string][] = [
-  ['_Msun_kpc3', 'M☉/kpc³'],
-  ['_km_s_Mpc', 'km/s/Mpc'],
-  ['_m_s2', 'm/s²'],
-  ['_km_s', 'km/s'],
-  ['_Msun', 'M☉'],
-  ['_kpc', 'kpc'],
-  ['_Myr', 'Myr'],
-  ['_deg', '°'],
-];
-
-export function unitOf(key: string): string | undefined {
-  if (key === 'snapshotEvery' || key === 'diagnosticsEvery') return 'steps';
-  return UNITS.find(([suffix]) => key.endsWith(suffix))?.[1];
-}
-
-const LABELS: Record<string, string> = {
-  n: 'Particles N',
-  mass_Msun: 'Mass',
-  scale_kpc: 'Scale radius a',
-  truncationRadius_kpc: 'Truncation radius',
-  scaleLength_kpc: 'Scale length R_d',
-  scaleHeight_kpc: 'Scale height z₀',
-  toomreQ: 'Toomre Q',
-  mass1_Msun: 'Mass 1',
-  mass2_Msun: 'Mass 2',
-  semiMajorAxis_kpc: 'Semi-major axis',
-  eccentricity: 'Eccentricity',
-  pericentre_kpc: 'Pericentre',
-  initialSeparation_kpc: 'Starting separation',
-  primaryTilt_deg: 'Primary tilt',
-  secondaryTilt_deg: 'Secondary tilt',
-  timestep_Myr: 'Timestep Δt',
-  duration_Myr: 'Duration',
-  softening_kpc: 'Softening ε',
-  snapshotEvery: 'Snapshot every',
-  diagnosticsEvery: 'Diagnostics every',
-  seed: 'Random seed',
-  theta: 'Opening angle θ',
-  a0_m_s2: 'a0',
-  H0_km_s_Mpc: 'H0',
-  alpha: 'Strength α',
-  lambda_kpc: 'Range λ',
-  density_Msun_kpc3: 'Density ρ₀',
-};
-
-export const labelOf = (key: string) => LABELS[key] ?? key;
+import { labelOf, unitOf } from '../spec/labels';
 
 export interface SpecNumberProps {
   /** The object the path starts from (the draft spec, or `{ law }` for a pair's second law). */

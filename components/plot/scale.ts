@@ -1,69 +1,52 @@
-// Small linear and log scales with readable ticks, for the plots.
+import { scaleLinear, scaleLog } from 'd3-scale';
+
+// Linear and log scales for the plots. Tick positions and round domains come from d3-scale;
+// only the tick labels are Infall's own.
+
+export interface AxisTick {
+  value: number;
+  /** A log axis puts a tick at every 1…9 × 10ⁿ but labels only some of them. */
+  labelled: boolean;
+}
 
 export interface Scale {
   (v: number): number;
   domain: [number, number];
   log: boolean;
-  ticks(count?: number): number[];
+  ticks(count?: number): AxisTick[];
 }
 
-function niceStep(span: number, count: number): number {
-  const raw = span / Math.max(1, count);
-  const power = 10 ** Math.floor(Math.log10(raw));
-  const err = raw / power;
-  return power * (err >= 7.07 ? 10 : err >= 3.16 ? 5 : err >= 1.41 ? 2 : 1);
-}
-
-export function linearTicks(lo: number, hi: number, count = 5): number[] {
-  if (!(hi > lo)) return [lo];
-  const step = niceStep(hi - lo, count);
-  const out: number[] = [];
-  // Rounding to the step's precision keeps 0.30000000000000004 out of labels.
-  const digits = Math.max(0, -Math.floor(Math.log10(step)) + 1);
-  for (let v = Math.ceil(lo / step) * step; v <= hi + step * 1e-9; v += step) out.push(Number(v.toFixed(digits)));
-  return out;
-}
-
-export function logTicks(lo: number, hi: number): number[] {
-  const a = Math.floor(Math.log10(lo));
-  const b = Math.ceil(Math.log10(hi));
-  const decades = b - a;
-  const mult = decades <= 1 ? [1, 2, 5] : decades <= 3 ? [1, 3] : [1];
-  const every = decades > 8 ? Math.ceil(decades / 6) : 1;
-  const out: number[] = [];
-  for (let e = a; e <= b; e += every) for (const m of mult) {
-    const v = Number(`${m}e${e}`); // exact: 1 * 10 ** -5 is 9.999999999999999e-6
-    if (v >= lo * (1 - 1e-9) && v <= hi * (1 + 1e-9)) out.push(v);
-  }
-  return out;
-}
-
-/** Widens a linear domain to round ends; a log domain is kept, only guarded against zero width. */
+/** Rounds a linear domain outwards to tick steps and a log one to whole decades; guards against zero width. */
 export function niceDomain(lo: number, hi: number, log: boolean): [number, number] {
   if (!Number.isFinite(lo) || !Number.isFinite(hi)) return log ? [1, 10] : [0, 1];
   if (log) {
     if (hi <= lo) return [lo / 2, lo * 2];
-    return [lo, hi];
+    const [a, b] = scaleLog().domain([lo, hi]).nice().domain();
+    return [a, b];
   }
   if (hi === lo) {
     const pad = lo === 0 ? 1 : Math.abs(lo) * 0.1;
     return [lo - pad, hi + pad];
   }
-  const step = niceStep(hi - lo, 5);
-  // The tolerance keeps 200.0000001 from widening the axis to 250.
-  return [Math.floor(lo / step + 1e-6) * step, Math.ceil(hi / step - 1e-6) * step];
+  // Pulling the ends in by a hair keeps 200.0000001 from widening the axis to 220.
+  const hair = (hi - lo) * 1e-7;
+  const [a, b] = scaleLinear().domain([lo + hair, hi - hair]).nice(5).domain();
+  return [a, b];
 }
 
 export function makeScale(domain: [number, number], range: [number, number], log = false): Scale {
-  const [d0, d1] = domain;
-  const [r0, r1] = range;
-  const t = log ? Math.log10 : (v: number) => v;
-  const t0 = t(d0);
-  const span = t(d1) - t0 || 1;
-  const s = ((v: number) => r0 + ((t(v) - t0) / span) * (r1 - r0)) as Scale;
+  const d3s = log ? scaleLog().domain(domain).range(range) : scaleLinear().domain(domain).range(range);
+  const s = ((v: number) => d3s(v)) as Scale;
   s.domain = domain;
   s.log = log;
-  s.ticks = (count = 5) => (log ? logTicks(d0, d1) : linearTicks(d0, d1, count));
+  s.ticks = (count = 5) => {
+    const values = d3s.ticks(count);
+    if (!log) return values.map((value) => ({ value, labelled: true }));
+    // d3's log tick format leaves out the labels of crowded sub-decade ticks; asked for half as
+    // many labels as ticks, it labels 1, 2 and 10 within one decade, only powers of ten beyond.
+    const keep = scaleLog().domain(domain).tickFormat(count / 2);
+    return values.map((value) => ({ value, labelled: keep(value) !== '' }));
+  };
   return s;
 }
 

@@ -3,7 +3,7 @@ import { StyleSheet, View, useWindowDimensions } from 'react-native';
 import { seriesColors, space, WIDE_BREAKPOINT } from '../../constants/theme';
 import { diagnosticColumns, magnitude, usesPotentialVirial, type RunOutputView } from '../../hooks/runOutput';
 import { ChoiceChips } from '../fields';
-import { LinePlot, type PlotSeries } from '../LinePlot';
+import { LinePlot, type PlotMark, type PlotSeries } from '../LinePlot';
 import { Panel } from '../Panel';
 import { CentreDriftPlot } from './CentreDriftPlot';
 
@@ -15,6 +15,8 @@ export interface PlottedRun {
 }
 
 type DriftScale = 'log' | 'signed';
+
+const RADIUS_MARKS: PlotMark[] = ['triangle', 'circle', 'square'];
 
 /** Energy, momentum, structure and virial plots for one run, or several overlaid. */
 export function DiagnosticsPlots({ runs, markerTime, columns }: { runs: PlottedRun[]; markerTime?: number; columns?: 1 | 2 }) {
@@ -36,8 +38,8 @@ export function DiagnosticsPlots({ runs, markerTime, columns }: { runs: PlottedR
     }));
 
     const momentum: PlotSeries[] = data.flatMap(({ run, c }) => [
-      { id: `${run.id}-p`, label: single ? 'momentum |ΔP| / Σm|v|' : `${run.label} · momentum`, color: single ? seriesColors[0] : run.color, x: c.time_Myr, y: c.momentumDrift },
-      { id: `${run.id}-l`, label: single ? 'angular momentum |ΔL| / Σm|r×v|' : `${run.label} · angular momentum`, color: single ? seriesColors[1] : run.color, x: c.time_Myr, y: c.angularMomentumDrift, dashed: true },
+      { id: `${run.id}-p`, label: single ? 'momentum |ΔP| / Σm|v|' : `${run.label} · momentum`, color: single ? seriesColors[0] : run.color, x: c.time_Myr, y: c.momentumDrift, mark: 'circle' as const, group: single ? undefined : run.label },
+      { id: `${run.id}-l`, label: single ? 'angular momentum |ΔL| / Σm|r×v|' : `${run.label} · angular momentum`, color: single ? seriesColors[1] : run.color, x: c.time_Myr, y: c.angularMomentumDrift, dashed: true, mark: 'square' as const, group: single ? undefined : run.label },
     ]);
 
     const radii: PlotSeries[] = data.flatMap(({ run, c }) =>
@@ -48,6 +50,8 @@ export function DiagnosticsPlots({ runs, markerTime, columns }: { runs: PlottedR
         x: c.time_Myr,
         y: c[key],
         dashed: !single && key !== 'r50_kpc',
+        mark: RADIUS_MARKS[k],
+        group: single ? undefined : run.label,
       })),
     );
 
@@ -86,7 +90,7 @@ export function DiagnosticsPlots({ runs, markerTime, columns }: { runs: PlottedR
           />
         )}
       </Panel>
-      <Panel style={twoUp ? styles.half : undefined} title="Momentum drift" note="Change of total linear (solid) and angular (dashed) momentum, relative to their t = 0 scale.">
+      <Panel style={twoUp ? styles.half : undefined} title="Momentum drift" note="Change of total linear (solid, round marks) and angular (dashed, square marks) momentum, relative to their t = 0 scale.">
         <LinePlot series={momentum} xLabel="time [Myr]" yLabel="relative drift (log scale)" yLog markerX={markerTime} accessibilityLabel="Momentum and angular momentum drift against time" testID="plot-momentum" />
       </Panel>
       <Panel style={twoUp ? styles.half : undefined} title="Lagrangian radii" note="Radii about the density centre holding 10, 50 and 90% of the mass.">

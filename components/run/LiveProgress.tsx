@@ -18,13 +18,13 @@ const STREAM_WORDS: Record<RunStream['state'], string> = {
 };
 
 /** Where a queued or running run stands, updated from its event stream. */
-export function LiveProgress({ run, stream, hasPotential }: { run: RunDetail; stream: RunStream; hasPotential: boolean }) {
+export function LiveProgress({ run, stream, hasPotential, lawLabel, color = lawColor(run.lawKind) }: { run: RunDetail; stream: RunStream; hasPotential: boolean; lawLabel?: string; color?: string }) {
   const p = stream.progress;
   const percent = p ? p.percent : run.progress * 100;
-  const color = lawColor(run.lawKind);
+  const doing = run.status === 'queued' ? 'Waiting for a worker' : 'Integrating';
   const drift = stream.drift;
   return (
-    <Panel title={run.status === 'queued' ? 'Waiting for a worker' : 'Integrating'} right={<Txt variant="caption" color={stream.state === 'open' ? colors.ok : colors.textMuted} accessibilityLiveRegion="polite">● {STREAM_WORDS[stream.state]}</Txt>}>
+    <Panel title={lawLabel ? `${doing} · ${lawLabel}` : doing} right={<Txt variant="caption" color={stream.state === 'open' ? colors.ok : colors.textMuted} accessibilityLiveRegion="polite">● {STREAM_WORDS[stream.state]}</Txt>}>
       <View style={styles.big}>
         <Txt style={styles.percent} accessibilityLabel={`${Math.floor(percent)} percent done`} testID="live-percent">
           {Math.floor(percent)}%
@@ -42,6 +42,7 @@ export function LiveProgress({ run, stream, hasPotential }: { run: RunDetail; st
           xLabel="time [Myr]"
           yLabel="|ΔE| / (K₀+|W₀|) (log scale)"
           yLog
+          xFromZero
           height={180}
           accessibilityLabel="Live energy drift of the running integration"
           emptyText={run.status === 'queued' ? 'The drift appears once the run starts' : 'Waiting for the first drift sample'}

@@ -4,9 +4,13 @@ import { ChoiceChips } from '../fields';
 import { formatValue } from '../format';
 import { LinePlot, type PlotSeries } from '../LinePlot';
 import { Panel } from '../Panel';
+import { Txt } from '../Txt';
 import type { PlottedRun } from './DiagnosticsPlots';
 
 type When = 'now' | 'initial' | 'final';
+
+const GROUPS = { forces: 'from the law’s field (forces)', measured: 'measured from particles', analytic: 'analytic, initial mass model' };
+const MAX_SHOWN = 4;
 
 /** The curve at the snapshot on screen, per run id: circular speed from the law's field. */
 export type FrameCurves = Record<string, { time_Myr: number; radii_kpc: number[]; circular_km_s: number[] } | null>;
@@ -23,32 +27,38 @@ export function RotationCurvePlot({ runs, atFrame }: { runs: PlottedRun[]; atFra
   const picked = choice ?? (frameReady ? 'now' : 'final');
   const when: When = picked === 'now' && !frameReady ? 'final' : picked;
   const single = runs.length === 1;
-  const series: PlotSeries[] = [];
-  let newtonShown = false;
+  // Each kind of curve has its own group, line and mark, so they are told apart without colour.
+  const forces: PlotSeries[] = [];
+  const analytic: PlotSeries[] = [];
+  const measured: PlotSeries[] = [];
+  let reference: PlotSeries | null = null;
   let t = 0;
   for (const r of runs) {
     const tag = single ? '' : `${r.label} · `;
     if (when === 'now') {
       const c = atFrame![r.id]!;
       t = c.time_Myr;
-      series.push({ id: `${r.id}-now`, label: `${tag}√(R g) at this snapshot`, color: r.color, x: c.radii_kpc, y: c.circular_km_s });
+      forces.push({ id: `${r.id}-now`, label: `${tag}√(R g) at this snapshot`, color: r.color, x: c.radii_kpc, y: c.circular_km_s, mark: 'square', group: GROUPS.forces });
     } else {
-      const measured = r.out.rotationCurves[when];
-      t = measured.time_Myr;
+      const m = r.out.rotationCurves[when];
+      t = m.time_Myr;
+      forces.push({ id: `${r.id}-vc`, label: `${tag}√(R g)`, color: r.color, x: m.radii_kpc, y: m.circular_km_s, mark: 'square', group: GROUPS.forces });
       // Each bin at its particles' mass-weighted radius (runs stored before that existed: the bin centre).
-      series.push({ id: `${r.id}-vphi`, label: `${tag}mean v_φ of particles`, color: r.color, x: measured.meanRadius_kpc ?? measured.radii_kpc, y: measured.meanAzimuthal_km_s });
-      (measured.byComponent ?? []).forEach((part, k) =>
-        series.push({ id: `${r.id}-vphi-${part.label}`, label: `${tag}mean v_φ, ${part.label}`, color: single ? seriesColors[(k + 2) % seriesColors.length] : r.color, x: part.meanRadius_kpc, y: part.meanAzimuthal_km_s, dashed: !single }),
+      measured.push({ id: `${r.id}-vphi`, label: `${tag}mean v_φ`, color: r.color, x: m.meanRadius_kpc ?? m.radii_kpc, y: m.meanAzimuthal_km_s, mark: 'circle', group: GROUPS.measured });
+      (m.byComponent ?? []).forEach((part, k) =>
+        measured.push({ id: `${r.id}-vphi-${part.label}`, label: `${tag}mean v_φ, ${part.label}`, color: single ? seriesColors[(k + 2) % seriesColors.length] : r.color, x: part.meanRadius_kpc, y: part.meanAzimuthal_km_s, mark: 'circle', dashed: !single, group: GROUPS.measured }),
       );
-      series.push({ id: `${r.id}-vc`, label: `${tag}√(R g) from forces`, color: r.color, x: measured.radii_kpc, y: measured.circular_km_s, dashed: true });
     }
-    for (const c of r.out.rotationCurves.analytic.curves) {
-      const newton = c.law === 'newton';
-      if (newton && newtonShown) continue;
-      newtonShown ||= newton;
-      series.push({ id: `${r.id}-a-${c.law}`, label: `analytic, ${c.label}`, color: newton ? colors.textFaint : r.color, x: r.out.rotationCurves.analytic.radii_kpc, y: c.v_km_s, dashed: true });
+    const a = r.out.rotationCurves.analytic;
+    for (const c of a.curves) {
+      const curve = { x: a.radii_kpc, y: c.v_km_s, dashed: true, group: GROUPS.analytic };
+      if (c.law === r.out.law.kind) analytic.push({ ...curve, id: `${r.id}-a-${c.law}`, label: c.label, color: r.color, mark: 'triangle' });
+      else if (c.law === 'newton' && !reference && !runs.some((o) => o.out.law.kind === 'newton')) reference = { ...curve, id: 'analytic-newton', label: `${c.label} (reference)`, color: colors.textFaint, mark: 'diamond' };
     }
   }
+  // At most four curves show at first: the laws' own before the particles' and the reference.
+  const byPriority = [...forces, ...analytic, ...measured, ...(reference ? [reference] : [])];
+  const series: PlotSeries[] = byPriority.map((s, k) => ({ ...s, hidden: k >= MAX_SHOWN }));
   const choices = [
     ...(frameReady ? [{ value: 'now' as const, label: 'this snapshot' }] : []),
     { value: 'initial' as const, label: 'start' },
@@ -56,10 +66,12 @@ export function RotationCurvePlot({ runs, atFrame }: { runs: PlottedRun[]; atFra
   ];
   const note =
     when === 'now'
-      ? `At t = ${formatValue(t)} Myr, from the law's field of the stored particles (snapshots keep positions only, so no particle speeds here).`
+      ? `At t = ${formatValue(t)} Myr, from the law's field of the stored particles.`
       : `Measured about the density centre at t = ${formatValue(t)} Myr, from particles within one bin width of its plane (all, and each component on its own); analytic curves are the initial mass model under each law.`;
+  const hiddenCount = series.filter((s) => s.hidden).length;
   return (
     <Panel title="Rotation curve" note={note} right={<ChoiceChips compact value={when} onChange={setChoice} choices={choices} />}>
+      {hiddenCount ? <Txt variant="caption">{`${hiddenCount} of ${series.length} curves start hidden; press a legend entry to show or hide its curve.`}</Txt> : null}
       <LinePlot series={series} xLabel="radius R [kpc]" yLabel="speed [km/s]" yFromZero accessibilityLabel={`Rotation curves ${when === 'now' ? `at t = ${formatValue(t)} Myr` : `at the ${when === 'initial' ? 'start' : 'end'} of the run`}`} testID="plot-rotation" />
     </Panel>
   );

@@ -25,6 +25,7 @@ import { RotationAtPlayhead } from './RotationAtPlayhead';
 import { RunFacts } from './RunFacts';
 import { SnapshotFileButton } from './SnapshotFileButton';
 import { SnapshotPlayer } from './SnapshotPlayer';
+import { SpecTable } from './SpecTable';
 
 function CancelButton({ run }: { run: RunDetail }) {
   const cancel = useCancelRun(run.id);
@@ -96,6 +97,7 @@ export function RunView({ id }: { id: string }) {
   const player = out ? <SnapshotPlayer playback={playback} color={color} label={r.name} /> : null;
   const curves = out ? <RotationAtPlayhead runs={plotted} sources={[{ id: r.id, spec, frames: playback.frames, radii_kpc: out.rotationCurves.final.radii_kpc }]} playhead={playback.playhead} times={playback.times} /> : null;
   const notes = info ? <LawNotes info={info} /> : null;
+  const specTable = spec ? <SpecTable columns={[{ title: r.name, color, spec }]} /> : null;
 
   return (
     <Screen
@@ -125,6 +127,7 @@ export function RunView({ id }: { id: string }) {
           <View style={styles.columns}>
             <View style={styles.left}>
               {player}
+              {specTable}
               {notes}
             </View>
             <View style={styles.right}>
@@ -137,11 +140,15 @@ export function RunView({ id }: { id: string }) {
             {player}
             <RunFacts out={out} />
             {curves}
+            {specTable}
             {notes}
           </>
         )
       ) : (
-        notes
+        <>
+          {specTable}
+          {notes}
+        </>
       )}
       {out ? <PlotsAtPlayhead plotted={plotted} playhead={playback.playhead} times={playback.times} /> : null}
       {out ? <Exports run={r} /> : null}

@@ -6,7 +6,7 @@ import { ApiError } from '../errors';
 import { listRunsQuerySchema } from '../../shared/api/requests';
 import { FINAL_STATUSES, type RunEventName } from '../../shared/api/contract';
 import { Run } from '../db/entities';
-import { submitRuns, listRuns, findVisibleRun, runDetail, snapshotBytes, cancelRun, toSummary } from '../services/runs';
+import { submitRuns, listRuns, findVisibleRun, runDetail, snapshotBytes, cancelRun, toSummary, progressSoFar } from '../services/runs';
 import type { Deps } from '../app';
 
 const em = () => RequestContext.getEntityManager() as EntityManager;
@@ -46,7 +46,8 @@ export function runsRouter({ queue, signals, orm }: Deps): Router {
     res.status(202).json(toSummary(run));
   });
 
-  // Live progress as server-sent events: `state` first, `progress` while it runs, `end` last.
+  // Live progress as server-sent events: `state` first, then for a running run the `history`
+  // of its progress so far, `progress` while it runs, `end` last.
   r.get('/:id/events', async (req, res) => {
     const user = req.user!;
     const run = await findVisibleRun(em(), user, req.params.id);
@@ -76,6 +77,11 @@ export function runsRouter({ queue, signals, orm }: Deps): Router {
     });
     send('state', toSummary(run));
     if (FINAL_STATUSES.includes(run.status)) await finish();
+    else if (run.status === 'running') {
+      // Samples may also arrive as `progress` meanwhile; clients merge the two by step.
+      const history = await progressSoFar(queue, run.id).catch(() => []);
+      if (!closed) send('history', history);
+    }
   });
 
   return r;

@@ -5,7 +5,7 @@ import { ApiError } from '../errors';
 import { Run, RunOutput, RunSnapshot, type User } from '../db/entities';
 import { parseRunSpec, particleCount, stepCount, estimateInteractions, type RunSpec } from '../../shared/spec';
 import { submitRunBodySchema, type ListRunsQuery } from '../../shared/api/requests';
-import type { RunDetail, RunSummary } from '../../shared/api/contract';
+import type { RunDetail, RunProgress, RunSummary } from '../../shared/api/contract';
 import { encodeSnapshots } from '../../shared/api/snapshots';
 import type { RunJobData } from '../queue';
 import { visibleRunsFilter, canSeeRun, canManageRun } from './access';
@@ -27,6 +27,17 @@ function pinEquilibrium(spec: RunSpec): RunSpec {
   return { ...spec, model: pin(m) };
 }
 
+/**
+ * The run's name may come beside the spec (`name`) or inside it (`spec.name`); both are
+ * checked by the same schema. Given twice, they must agree, so neither is silently dropped.
+ */
+function runName(top: string | undefined, inSpec: string | undefined): string | undefined {
+  if (top !== undefined && inSpec !== undefined && top !== inSpec) {
+    throw new ApiError('BAD_REQUEST', `name: "${top}" differs from spec.name "${inSpec}"; give the name once, or the same in both places`, { field: 'name' });
+  }
+  return inSpec ?? top;
+}
+
 /** Validates a submission into one spec, or two sharing initial conditions. */
 export function specsFromBody(body: unknown): { name: string; specs: RunSpec[] } {
   const parsed = submitRunBodySchema.safeParse(body);
@@ -37,9 +48,10 @@ export function specsFromBody(body: unknown): { name: string; specs: RunSpec[] }
   }
   const spec = parseRunSpec(parsed.data.spec);
   if (!spec.ok) throw firstIssue(spec.issues, 'spec');
-  const specs = [spec.spec];
+  const given = runName(parsed.data.name, spec.spec.name);
+  const specs = [given === undefined ? spec.spec : { ...spec.spec, name: given }];
   if (parsed.data.pairLaw !== undefined) {
-    specs[0] = pinEquilibrium(spec.spec);
+    specs[0] = pinEquilibrium(specs[0]);
     const twin = parseRunSpec({ ...specs[0], law: parsed.data.pairLaw });
     if (!twin.ok) throw firstIssue(twin.issues.map((i) => ({ ...i, path: i.path.replace(/^law\.?/, '') })), 'pairLaw');
     if (JSON.stringify(twin.spec.law) === JSON.stringify(spec.spec.law)) {
@@ -47,7 +59,7 @@ export function specsFromBody(body: unknown): { name: string; specs: RunSpec[] }
     }
     specs.push(twin.spec);
   }
-  const name = parsed.data.name ?? `${spec.spec.model.kind} under ${specs.map((s) => s.law.kind).join(' vs ')}`;
+  const name = given ?? `${spec.spec.model.kind} under ${specs.map((s) => s.law.kind).join(' vs ')}`;
   return { name, specs };
 }
 
@@ -140,6 +152,12 @@ export async function runDetail(em: EntityManager, run: Run): Promise<RunDetail>
         }
       : null,
   };
+}
+
+/** The progress samples a running run has reported so far (kept on its job until it ends). */
+export async function progressSoFar(queue: Queue<RunJobData>, runId: string): Promise<RunProgress[]> {
+  const { logs } = await queue.getJobLogs(runId, 0, -1, true);
+  return logs.map((row) => JSON.parse(row) as RunProgress);
 }
 
 export async function snapshotBytes(em: EntityManager, run: Run): Promise<Uint8Array> {

@@ -24,9 +24,12 @@ export function toTemplateDetail(t: CohortTemplate): TemplateDetail {
   return { ...toTemplateSummary(t), spec: t.spec, pairLaw: t.pairLaw ?? null };
 }
 
-/** Stores a template after checking it exactly as a submission would be checked. */
+/**
+ * Stores a template after checking its spec exactly as a submission would be checked. The
+ * template's name is its own title, so it is not held against a name inside the spec.
+ */
 export async function publishTemplate(em: EntityManager, author: User, cohort: Cohort, body: PublishTemplateBody): Promise<CohortTemplate> {
-  const { specs } = specsFromBody({ name: body.name, spec: body.spec, ...(body.pairLaw !== undefined ? { pairLaw: body.pairLaw } : {}) });
+  const { specs } = specsFromBody({ spec: body.spec, ...(body.pairLaw !== undefined ? { pairLaw: body.pairLaw } : {}) });
   const t = em.create(CohortTemplate, {
     cohort,
     name: body.name,

@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { runNameSchema } from '../spec/runSpec';
 
 // Accounts, tokens, cohorts, quotas and templates: request bodies the app and
 // the server both check, and the shapes the server answers with.
@@ -170,7 +171,7 @@ export type InviteBody = z.infer<typeof inviteBodySchema>;
 /** A template is a run submission kept for students to clone: the same spec and optional pairLaw. */
 export const publishTemplateBodySchema = z
   .object({
-    name: name(120),
+    name: runNameSchema,
     description: z.string().trim().max(2000, 'description is at most 2000 characters').default(''),
     spec: z.unknown(),
     pairLaw: z.unknown().optional(),

@@ -87,5 +87,8 @@ export interface RunProgress {
   energyDrift: number | null;
 }
 
-/** Server-sent event names on GET /api/runs/:id/events. */
-export type RunEventName = 'state' | 'progress' | 'end';
+/**
+ * Server-sent event names on GET /api/runs/:id/events. `history` (a running run only) carries
+ * the `RunProgress` samples from before the stream opened, oldest first.
+ */
+export type RunEventName = 'state' | 'history' | 'progress' | 'end';

@@ -1,11 +1,13 @@
 import { z } from 'zod';
+import { runNameSchema } from '../spec/runSpec';
 
 // Body of POST /api/runs. The spec itself is checked by the shared run-spec
 // schema (so its errors name fields like "spec.model.n"); `pairLaw` asks for a
-// second run with the same initial conditions under another force law.
+// second run with the same initial conditions under another force law. The name
+// may sit here or in spec.name; given in both places, the two must agree.
 export const submitRunBodySchema = z
   .object({
-    name: z.string().trim().min(1, 'name must not be empty').max(120, 'name is at most 120 characters').optional(),
+    name: runNameSchema.optional(),
     spec: z.unknown(),
     pairLaw: z.unknown().optional(),
   })

@@ -18,6 +18,15 @@ export const LIMITS = {
   maxDiagnostics: 2_000,
 } as const;
 
+/** The one length limit for run and template names; the API, the form, the CLI and templates all use it. */
+export const NAME_MAX_LENGTH = 120;
+export const runNameSchema = z
+  .string()
+  .trim()
+  .min(1, 'name must not be empty')
+  .max(NAME_MAX_LENGTH, `name is at most ${NAME_MAX_LENGTH} characters`)
+  .describe('free label for the run');
+
 const count = z.number().int().min(2).max(LIMITS.maxParticles).describe('number of particles');
 const mass = z.number().positive().max(1e15);
 const length = z.number().positive().max(1e4);
@@ -128,7 +137,7 @@ export const integratorSchema = z
 export const runSpecSchema = z
   .object({
     version: z.literal(RUN_SPEC_VERSION),
-    name: z.string().max(200).optional(),
+    name: runNameSchema.optional(),
     model: modelSchema,
     law: lawSchema,
     integrator: integratorSchema.default('leapfrog'),
@@ -242,7 +251,6 @@ export function estimateInteractions(spec: RunSpec): number {
 export function defaultRunSpec(): RunSpec {
   const parsed = parseRunSpec({
     version: RUN_SPEC_VERSION,
-    name: 'Plummer sphere (invented example)',
     model: { kind: 'plummer', n: 500, mass_Msun: 1e10, scale_kpc: 1 },
     law: { kind: 'newton' },
     integrator: 'leapfrog',

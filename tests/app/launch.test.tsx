@@ -1,5 +1,6 @@
 import { LaunchForm } from '../../components/launch/LaunchForm';
 import { setCsrfToken } from '../../hooks/api';
+import { NAME_MAX_LENGTH } from '../../shared/spec';
 import { mockApi } from './support/api';
 import { navigation, resetNavigation } from './support/expoRouter';
 import { press, render, settle, type } from './support/render';
@@ -90,6 +91,38 @@ describe('the new-run form', () => {
     await settle();
     expect(view.getAllByText('spec.softening_kpc: too large for this model').length).toBeGreaterThan(0);
     expect(field(container, 'softening_kpc').getAttribute('aria-invalid')).toBe('true');
+  });
+
+  it('puts the typed name in spec.name, and says at the name field when it is too long', async () => {
+    const calls = mockApi({ 'GET /api/account/usage': { body: usage }, 'POST /api/runs': { status: 201, body: { runs: [{ id: 'r1', pairId: null }] } } });
+    const { container, view } = render(<LaunchForm />);
+    await settle();
+    const name = container.querySelector('[data-testid="field-name"]') as HTMLInputElement;
+    type(name, 'x'.repeat(NAME_MAX_LENGTH + 1));
+    await settle();
+    expect(view.getByRole('alert').textContent).toBe(`name is at most ${NAME_MAX_LENGTH} characters`);
+    expect(view.getByTestId('launch').getAttribute('aria-disabled')).toBe('true');
+    type(name, 'Kestrel check (invented)');
+    await settle();
+    expect(view.queryByRole('alert')).toBeNull();
+    press(view.getByTestId('launch'));
+    await settle();
+    const post = calls.find((c) => c.method === 'POST')!;
+    expect(post.body).toEqual(expect.objectContaining({ spec: expect.objectContaining({ name: 'Kestrel check (invented)' }) }));
+    expect((post.body as { name?: string }).name).toBeUndefined();
+  });
+
+  it('shows a name the server refuses at the name field', async () => {
+    mockApi({
+      'GET /api/account/usage': { body: usage },
+      'POST /api/runs': { status: 400, body: { error: { code: 'BAD_REQUEST', message: 'name: "a" differs from spec.name "b"', field: 'name' } } },
+    });
+    const { container, view } = render(<LaunchForm />);
+    await settle();
+    press(view.getByTestId('launch'));
+    await settle();
+    const frame = (container.querySelector('[data-testid="field-name"]') as HTMLElement).parentElement!.parentElement!;
+    expect(frame.querySelector('[role="alert"]')?.textContent).toBe('name: "a" differs from spec.name "b"');
   });
 
   it('gives disks of a pair one law for their velocities', async () => {

@@ -43,6 +43,9 @@ test('a running run follows its event stream, then shows its results when it end
   const { view } = render(<RunView id={ID} />);
   await settle();
   expect(view.getByText('Integrating')).toBeTruthy();
+  // What it runs is on the page from the start, not only once results exist.
+  expect(view.getByTestId('spec-timestep_Myr').textContent).toBe('Timestep Δt0.5 Myr');
+  expect(view.getByTestId('spec-law.kind').textContent).toBe('LawNewtonian');
   const source = FakeEventSource.instances[0];
   expect(source.url).toBe(`/api/runs/${ID}/events`);
 
@@ -72,6 +75,34 @@ test('a running run follows its event stream, then shows its results when it end
   expect(view.getByText(/^At t = 5 Myr, from the law's field/)).toBeTruthy();
   press(view.getByRole('radio', { name: 'end' }));
   expect(view.getByText(/^Measured about the density centre at t = 10 Myr/)).toBeTruthy();
+});
+
+test('a page opened mid-run plots the drift from t = 0: the stored samples first, then the live ones', async () => {
+  mockApi({
+    'GET /api/auth/me': { body: { user: { ...owner, role: 'researcher', email: null }, csrfToken: 't' } },
+    [`GET /api/runs/${ID}`]: { body: { ...summary, status: 'running', progress: 0.3, spec, output: null } },
+  });
+  const { view } = render(<RunView id={ID} />);
+  await settle();
+  const source = FakeEventSource.instances[0];
+  const at = (step: number, energyDrift: number) => ({ percent: step * 5, step, totalSteps: 20, time_Myr: step * 0.5, energyDrift });
+  act(() => {
+    source.onopen?.();
+    source.emit('progress', at(8, 4e-7)); // a live sample can come before the history
+    source.emit('history', [at(0, 0), at(2, 1e-7), at(4, 2e-7), at(6, 3e-7)]);
+    source.emit('progress', at(10, 5e-7));
+  });
+  const plot = view.getByTestId('plot-live-drift');
+  const line = [...plot.querySelectorAll('path')].find((p) => p.getAttribute('fill') === 'none')!;
+  // Steps 2 to 10 in order (the drift of 0 at step 0 has no place on a log axis) ...
+  const xs = (line.getAttribute('d') ?? '').split(/[ML]/).filter(Boolean).map((pt: string) => Number(pt.split(',')[0]));
+  expect(xs).toHaveLength(5);
+  expect(xs).toEqual([...xs].sort((a, b) => a - b));
+  // ... on a time axis that starts at t = 0.
+  const ticks = [...plot.querySelectorAll('text')].map((t) => t.textContent);
+  expect(ticks).toContain('0');
+  expect(ticks).toContain('time [Myr]');
+  expect(view.getByTestId('live-percent').textContent).toBe('50%');
 });
 
 test('a run that is not there says so', async () => {

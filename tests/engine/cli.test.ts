@@ -2,6 +2,7 @@ import { spawnSync } from 'node:child_process';
 import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
+import { NAME_MAX_LENGTH } from '../../shared/spec';
 
 const root = join(__dirname, '..', '..');
 const sim = (...args: string[]) =>
@@ -56,5 +57,12 @@ describe('sim command line', () => {
     const r = sim('run', bad);
     expect(r.status).toBe(2);
     expect(r.stderr).toMatch(/^model\.n: /m);
+  });
+
+  test('a name over the one limit for names exits 2 naming it', () => {
+    const long = write('long-name.json', { ...JSON.parse(readFileSync(good, 'utf8')), name: 'x'.repeat(NAME_MAX_LENGTH + 1) });
+    const r = sim('check', long);
+    expect(r.status).toBe(2);
+    expect(r.stderr).toContain(`name: name is at most ${NAME_MAX_LENGTH} characters`);
   });
 });

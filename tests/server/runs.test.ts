@@ -7,7 +7,9 @@ import { config } from '../../server/config';
 import { redisConnection, type RunJobData } from '../../server/queue';
 import { RunPool } from '../../worker/pool';
 import { runProcessor } from '../../worker/processor';
-import { defaultRunSpec } from '../../shared/spec';
+import { readFileSync } from 'node:fs';
+import { join } from 'node:path';
+import { defaultRunSpec, NAME_MAX_LENGTH } from '../../shared/spec';
 import { decodeSnapshots } from '../../shared/api/snapshots';
 
 jest.setTimeout(90_000);
@@ -99,6 +101,56 @@ describe('submitting runs', () => {
   });
 });
 
+describe('naming runs', () => {
+  // Runs made here are cancelled at once, so the worker of the last test never takes them.
+  async function submit(body: object, expected: number) {
+    const res = await request(s.app).post('/api/runs').set(auth).send(body).expect(expected);
+    if (expected === 201) for (const r of res.body.runs) await request(s.app).post(`/api/runs/${r.id}/cancel`).set(auth).expect(202);
+    return res;
+  }
+
+  test('the README example, submitted as its curl line sends it, is stored under its own name', async () => {
+    const readme = readFileSync(join(__dirname, '../../README.md'), 'utf8');
+    const example = JSON.parse(/```json\n([\s\S]*?)```/.exec(readme)![1]);
+    expect(typeof example.name).toBe('string');
+    const res = await submit({ spec: example }, 201);
+    expect(res.body.runs[0].name).toBe(example.name);
+    const detail = await request(s.app).get(`/api/runs/${res.body.runs[0].id}`).set(auth).expect(200);
+    expect(detail.body.name).toBe(example.name);
+    expect(detail.body.spec.name).toBe(example.name);
+  });
+
+  test('a name beside the spec is kept in the stored spec too; a pair adds each law to it', async () => {
+    const res = await submit({ name: '  Wren pair (invented)  ', spec: small(), pairLaw: { kind: 'mond' } }, 201);
+    expect(res.body.runs.map((r: { name: string }) => r.name)).toEqual(['Wren pair (invented) · newton', 'Wren pair (invented) · mond']);
+    const detail = await request(s.app).get(`/api/runs/${res.body.runs[1].id}`).set(auth).expect(200);
+    expect(detail.body.spec.name).toBe('Wren pair (invented)');
+  });
+
+  test('the same name in both places is accepted; two different names are a 400 and nothing is stored', async () => {
+    const same = await submit({ name: 'Ashfall check', spec: { ...small(), name: 'Ashfall check' } }, 201);
+    expect(same.body.runs[0].name).toBe('Ashfall check');
+    const before = await s.em().count('Run', {});
+    const res = await submit({ name: 'Ashfall check', spec: { ...small(), name: 'Ashfall recheck' } }, 400);
+    expect(res.body.error).toMatchObject({ code: 'BAD_REQUEST', field: 'name' });
+    expect(res.body.error.message).toContain('spec.name');
+    expect(await s.em().count('Run', {})).toBe(before);
+  });
+
+  test('one length limit for names, in the spec and beside it', async () => {
+    const longest = 'n'.repeat(NAME_MAX_LENGTH);
+    expect((await submit({ spec: { ...small(), name: longest } }, 201)).body.runs[0].name).toBe(longest);
+    const inSpec = await submit({ spec: { ...small(), name: `${longest}x` } }, 400);
+    expect(inSpec.body.error).toMatchObject({ code: 'INVALID_SPEC', field: 'spec.name' });
+    expect(inSpec.body.error.message).toContain(`at most ${NAME_MAX_LENGTH} characters`);
+    const beside = await submit({ name: `${longest}x`, spec: small() }, 400);
+    expect(beside.body.error.field).toBe('name');
+    expect(beside.body.error.message).toContain(`at most ${NAME_MAX_LENGTH} characters`);
+    const blank = await submit({ spec: { ...small(), name: '   ' } }, 400);
+    expect(blank.body.error.field).toBe('spec.name');
+  });
+});
+
 describe('reading runs', () => {
   test("another user's run reads as missing, and a malformed id too", async () => {
     const res = await request(s.app).post('/api/runs').set(auth).send({ spec: small() }).expect(201);
@@ -166,5 +218,24 @@ describe('a run from submit to results', () => {
     // A finished run's stream answers at once with its state and end.
     const late = await request(s.app).get(`/api/runs/${id}/events`).set(auth).expect(200);
     expect(parseEvents(late.text).map((e) => e.event)).toEqual(['state', 'state', 'end']);
+  });
+
+  test('a stream opened mid-run starts with the progress so far, from step 0', async () => {
+    const res = await request(s.app).post('/api/runs').set(auth).send({ spec: { ...small(), duration_Myr: 400 } }).expect(201);
+    const id: string = res.body.runs[0].id;
+    // Wait until the worker (from the test above) has reported a few samples.
+    for (let k = 0; k < 400 && (await s.queue.getJobLogs(id)).count < 3; k++) await new Promise((r) => setTimeout(r, 25));
+    const events = parseEvents((await request(s.app).get(`/api/runs/${id}/events`).set(auth).expect(200)).text);
+    expect(events[0]).toMatchObject({ event: 'state', data: { status: 'running' } });
+    const history = events.find((e) => e.event === 'history')!.data as { step: number; time_Myr: number; energyDrift: number }[];
+    expect(history.length).toBeGreaterThanOrEqual(3);
+    expect(history[0]).toMatchObject({ step: 0, time_Myr: 0, energyDrift: 0 });
+    expect(history.every((p, i) => i === 0 || p.step > history[i - 1].step)).toBe(true);
+    // History and live samples together reach the end of the run.
+    const live = events.filter((e) => e.event === 'progress').map((e) => e.data);
+    expect(Math.max(...[...history, ...live].map((p) => p.step))).toBe(2000);
+    expect(events.at(-1)).toMatchObject({ event: 'end', data: { status: 'finished' } });
+    // The samples were kept only while the run ran; its stored diagnostics take over.
+    expect((await s.queue.getJobLogs(id)).count).toBe(0);
   });
 });
