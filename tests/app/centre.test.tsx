@@ -29,7 +29,7 @@ test('the panel plots where the centres went, with units on the axes', () => {
   expect(view.getByText('Centre drift')).toBeTruthy();
   expect(view.getByText('moved [kpc] (log scale)')).toBeTruthy();
   expect(view.getByText('speed [km/s] (log scale)')).toBeTruthy();
-  expect(view.getByLabelText('centre of mass')).toBeTruthy();
+  expect(view.getByLabelText(/^centre of mass, /)).toBeTruthy();
   expect(container.querySelector('[data-testid="plot-centre-speed"]')).toBeTruthy();
 });
 
