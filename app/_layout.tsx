@@ -27,3 +27,6 @@ export default function RootLayout() {
     </QueryClientProvider>
   );
 }
+
+// A screen that throws shows what went wrong and a way back instead of a blank page.
+export { ScreenFailure as ErrorBoundary } from '../components/States';
