@@ -19,14 +19,23 @@ export function linearTicks(lo: number, hi: number, count = 5): number[] {
   const step = niceStep(hi - lo, count);
   const out: number[] = [];
   // Rounding to the step's precision keeps 0.30000000000000004 out of labels.
+  // toFixed takes at most 100 digits; a step under 1e-99 keeps its own value.
   const digits = Math.max(0, -Math.floor(Math.log10(step)) + 1);
-  for (let v = Math.ceil(lo / step) * step; v <= hi + step * 1e-9; v += step) out.push(Number(v.toFixed(digits)));
+  const first = Math.ceil(lo / step) * step;
+  // Counted, not accumulated: at 1e16 adding a step of 1 changes nothing and would never end.
+  for (let i = 0; i <= 4 * count + 2; i++) {
+    const v = first + i * step;
+    if (!(v <= hi + step * 1e-9)) break;
+    out.push(digits <= 100 ? Number(v.toFixed(digits)) : v);
+  }
   return out;
 }
 
 export function logTicks(lo: number, hi: number): number[] {
   const a = Math.floor(Math.log10(lo));
   const b = Math.ceil(Math.log10(hi));
+  // A log axis of zero, negative or infinite ends has no ticks (the loop would never end).
+  if (!Number.isFinite(a) || !Number.isFinite(b)) return [];
   const decades = b - a;
   const mult = decades <= 1 ? [1, 2, 5] : decades <= 3 ? [1, 3] : [1];
   const every = decades > 8 ? Math.ceil(decades / 6) : 1;
@@ -70,6 +79,7 @@ export function makeScale(domain: [number, number], range: [number, number], log
 /** Tick labels: plain numbers when they read well, otherwise powers of ten (all of a log axis alike). */
 export function formatTick(v: number, ticks: number[], log = false): string {
   if (v === 0) return '0';
+  if (!Number.isFinite(v)) return v === Infinity ? '∞' : v === -Infinity ? '−∞' : '—';
   const biggest = Math.max(...ticks.map(Math.abs));
   const smallest = Math.min(...ticks.map(Math.abs));
   if (biggest >= 1e5 || biggest < 1e-3 || (log && (smallest < 1e-2 || biggest >= 1e4))) {
