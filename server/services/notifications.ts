@@ -69,7 +69,7 @@ export async function sendCohortInvitation(cohort: Cohort, instructor: User, to:
   const url = `${config.publicUrl}/cohorts/join?code=${encodeURIComponent(cohort.enrolmentCode)}`;
   const mail = compose(`Join ${cohort.name} on Infall`, [
     `${instructor.name} invites you to the cohort "${cohort.name}" on Infall, where you will run N-body simulations within the cohort's quota.`,
-    `Sign in, then join with the enrolment code ${cohort.enrolmentCode}.`,
+    `The link below joins you (signing you in first if needed); or type the enrolment code ${cohort.enrolmentCode} on your account page.`,
     { text: 'Join the cohort', href: url },
   ]);
   // One message per address, so students don't see each other's addresses.
