@@ -14,7 +14,7 @@ afterAll(async () => {
   await s.close();
 });
 
-type Status = 'finished' | 'failed' | 'running' | 'cancelled';
+type Status = 'finished' | 'failed' | 'running' | 'cancelled' | 'queued';
 async function runOf(user: User, status: Status, error: string | null = null, pair?: { id: string; lawKind: string }): Promise<Run> {
   const em = s.em();
   const spec = defaultRunSpec();
@@ -126,6 +126,18 @@ describe('mail through the local sink', () => {
     const mail = await s.fakes.sink.waitFor((m) => m.to.includes(user.email!));
     expect(mail.text).toContain('newton: finished; yukawa: cancelled.');
     expect(mail.text).toContain(`/compare?pair=${mixed}`);
+  });
+
+  test('cancelling the queued half of a pair whose other half finished sends the pair mail', async () => {
+    const { user, auth } = await userWithToken(s, 'researcher', 'mail');
+    await s.em().nativeUpdate(User, { id: user.id }, { notifyOnFinish: true });
+    const pairId = crypto.randomUUID();
+    await runOf(user, 'finished', null, { id: pairId, lawKind: 'newton' });
+    const queued = await runOf(user, 'queued', null, { id: pairId, lawKind: 'mond' });
+    await request(s.app).post(`/api/runs/${queued.id}/cancel`).set(auth).expect(202);
+    const mail = await s.fakes.sink.waitFor((m) => m.to.includes(user.email!));
+    expect(mail.text).toContain('newton: finished; mond: cancelled.');
+    expect(mail.text).toContain(`/compare?pair=${pairId}`);
   });
 
   test('an instructor invites students by mail with the enrolment code', async () => {
