@@ -9,7 +9,6 @@ import { toAccountUser } from '../services/users';
 import type { MeResponse, SessionResponse } from '../../shared/api/accounts';
 import { safeNext } from '../../shared/api/redirect';
 
-
 function needSession(req: Request): void {
   if (!req.session) throw new ApiError('BAD_REQUEST', 'Sign-in happens in a browser; requests with an API token need none');
 }
