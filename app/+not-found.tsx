@@ -18,3 +18,6 @@ export default function NotFound() {
     </View>
   );
 }
+
+// A screen that throws shows what went wrong and a way back instead of a blank page.
+export { ScreenFailure as ErrorBoundary } from '../components/States';

@@ -1,5 +1,5 @@
 import { useState } from 'react';
-import { View } from 'react-native';
+import { StyleSheet, View } from 'react-native';
 import { Slot } from 'expo-router';
 import { StatusBar } from 'expo-status-bar';
 import { useFonts } from 'expo-font';
@@ -21,9 +21,19 @@ export default function RootLayout() {
     <QueryClientProvider client={client}>
       <StatusBar style="light" />
       <View style={{ flex: 1, backgroundColor: colors.background }}>
-        {/* A font that fails to load falls back to the system face rather than blocking the app. */}
-        {loaded || error ? <Slot /> : <Loading what="Loading Infall" />}
+        {/* The router's Slot is always mounted: mounted late, it forgets a deep link's address
+            and lands on "/". Until the fonts are in (or failed: the system face is then used)
+            a cover hides the first paint. */}
+        <Slot />
+        {loaded || error ? null : (
+          <View style={[StyleSheet.absoluteFill, { backgroundColor: colors.background, justifyContent: 'center' }]}>
+            <Loading what="Loading Infall" />
+          </View>
+        )}
       </View>
     </QueryClientProvider>
   );
 }
+
+// A screen that throws shows what went wrong and a way back instead of a blank page.
+export { ScreenFailure as ErrorBoundary } from '../components/States';

@@ -4,9 +4,7 @@ import { SignInCard } from '../components/SignInCard';
 import { ErrorState, Loading } from '../components/States';
 import { colors, space } from '../constants/theme';
 import { useSession } from '../hooks/session';
-
-// Only same-site paths are followed after sign-in.
-const safeNext = (next: unknown) => (typeof next === 'string' && next.startsWith('/') && !next.startsWith('//') && next !== '/sign-in' ? next : '/');
+import { safeNext } from '../shared/api/redirect';
 
 export default function SignIn() {
   const { next, error } = useLocalSearchParams<{ next?: string; error?: string }>();
@@ -19,3 +17,6 @@ export default function SignIn() {
     </View>
   );
 }
+
+// A screen that throws shows what went wrong and a way back instead of a blank page.
+export { ScreenFailure as ErrorBoundary } from '../components/States';

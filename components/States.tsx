@@ -31,7 +31,7 @@ export function Empty({ title, hint, action }: { title: string; hint?: string; a
 
 export function describeError(error: unknown): string {
   if (error instanceof ApiError) return error.message;
-  if (error instanceof Error) return error.message;
+  if (error instanceof Error && error.message) return error.message;
   return 'Something went wrong.';
 }
 
@@ -51,6 +51,34 @@ export function ErrorState({ error, title = 'That did not work', onRetry }: { er
   );
 }
 
+/**
+ * What a screen shows instead of itself when it threw while drawing: what went wrong, a
+ * retry, and a way back. Route files export it as their ErrorBoundary, so one broken
+ * screen never blanks the whole app.
+ */
+export function ScreenFailure({ error, retry }: { error: unknown; retry?: () => void }) {
+  const message = describeError(error);
+  return (
+    <View style={styles.page} role="main">
+      <View style={[styles.box, styles.framed, styles.error]} role="alert" accessibilityLabel={`This screen could not be shown: ${message}`} testID="screen-failure">
+        <Txt variant="heading" color={colors.danger} role="heading">
+          This screen could not be shown
+        </Txt>
+        <Txt variant="small" style={styles.center}>
+          {message}
+        </Txt>
+        <Txt variant="caption" style={styles.center}>
+          Nothing you stored was changed. Try again, or go back to your runs.
+        </Txt>
+        <View style={styles.actions}>
+          {retry ? <Button label="Try again" tone="secondary" small onPress={retry} /> : null}
+          <Button label="Back to your runs" small href="/" />
+        </View>
+      </View>
+    </View>
+  );
+}
+
 /** An inline message under a form or action. */
 export function Notice({ tone, children }: { tone: 'warning' | 'danger' | 'info' | 'ok'; children: ReactNode }) {
   const color = tone === 'warning' ? colors.warning : tone === 'danger' ? colors.danger : tone === 'ok' ? colors.ok : colors.link;
@@ -66,5 +94,7 @@ const styles = StyleSheet.create({
   framed: { borderWidth: 1, borderStyle: 'dashed', borderColor: colors.border, borderRadius: radius.lg },
   error: { borderStyle: 'solid', borderColor: colors.danger },
   center: { textAlign: 'center', maxWidth: 520 },
+  page: { flex: 1, justifyContent: 'center', padding: space.lg, backgroundColor: colors.background },
+  actions: { flexDirection: 'row', flexWrap: 'wrap', gap: space.sm, justifyContent: 'center' },
   notice: { borderLeftWidth: 3, backgroundColor: colors.surfaceRaised, paddingVertical: space.sm, paddingHorizontal: space.md, borderRadius: radius.sm, gap: space.xs },
 });

@@ -1,21 +1,32 @@
-// How numbers, counts and ages read across the app.
+// How numbers, counts and ages read across the app. Every helper takes any number, finite
+// or not, and any string for dates, without throwing: a stored run with extreme or missing
+// values must still draw (a blank page is worse than a dash).
+
+/** What stands for a number that is missing or not finite. */
+const NONE = '—';
+
+/** ±Infinity as a sign, NaN and missing as a dash. */
+const notFinite = (v: number | null | undefined) => (v === Infinity ? '∞' : v === -Infinity ? '−∞' : NONE);
 
 /** Short number for read-outs: 3 significant digits, powers of ten when far from 1. */
 export function formatValue(v: number | null | undefined, digits = 3): string {
-  if (v === null || v === undefined || !Number.isFinite(v)) return '—';
+  if (v === null || v === undefined || !Number.isFinite(v)) return NONE;
   if (v === 0) return '0';
+  // toPrecision and toExponential throw outside their ranges.
+  const d = Number.isFinite(digits) ? Math.min(21, Math.max(1, Math.round(digits))) : 3;
   const a = Math.abs(v);
-  if (a >= 1e5 || a < 1e-3) return v.toExponential(digits - 1).replace('e+', 'e');
-  return String(Number(v.toPrecision(digits)));
+  if (a >= 1e5 || a < 1e-3) return v.toExponential(d - 1).replace('e+', 'e');
+  return String(Number(v.toPrecision(d)));
 }
 
-function trimmedExponent(v: number): string {
-  const [m, e] = v.toExponential(6).split('e');
+function trimmedExponent(v: number, digits = 7): string {
+  const [m, e] = v.toExponential(digits - 1).split('e');
   return `${Number(m)}e${Number(e)}`;
 }
 
 /** A range limit: 100 000, 1e15, 1.2e-10, 0.5. */
 export function formatBound(v: number): string {
+  if (!Number.isFinite(v)) return notFinite(v);
   const a = Math.abs(v);
   if (Number.isInteger(v) && a < 1e9) return formatCount(v);
   if (a >= 1e5 || (a > 0 && a < 1e-3)) return trimmedExponent(v);
@@ -29,13 +40,17 @@ export function formatInput(v: number | undefined): string {
   return a >= 1e6 || (a > 0 && a < 1e-3) ? trimmedExponent(v) : String(v);
 }
 
-/** Whole counts with thin grouping: 5 000, 1 200 000. */
+/** Whole counts with thin grouping: 5 000, 1 200 000 (beyond 1e21, e-notation). */
 export function formatCount(n: number): string {
+  if (!Number.isFinite(n)) return notFinite(n);
+  if (Math.abs(n) >= 1e21) return trimmedExponent(n);
   return Math.round(n).toString().replace(/\B(?=(\d{3})+(?!\d))/g, '\u2009');
 }
 
 /** Pair interactions in words people can compare: 3.2 M, 1.5 G. */
 export function formatInteractions(n: number): string {
+  if (!Number.isFinite(n)) return notFinite(n);
+  if (Math.abs(n) >= 1e15) return trimmedExponent(n, 3);
   const units: [number, string][] = [
     [1e12, 'T'],
     [1e9, 'G'],
@@ -46,7 +61,13 @@ export function formatInteractions(n: number): string {
   return String(Math.round(n));
 }
 
+/** A date as its ISO day, or the dash when it does not parse. */
+function isoDay(ms: number): string {
+  return Number.isFinite(ms) && Math.abs(ms) <= 8.64e15 ? new Date(ms).toISOString().slice(0, 10) : NONE;
+}
+
 export function formatAge(iso: string, now = Date.now()): string {
+  if (!Number.isFinite(Date.parse(iso)) || !Number.isFinite(now)) return NONE;
   const s = Math.max(0, Math.round((now - Date.parse(iso)) / 1000));
   if (s < 60) return 'just now';
   const m = Math.round(s / 60);
@@ -55,24 +76,27 @@ export function formatAge(iso: string, now = Date.now()): string {
   if (h < 36) return `${h} h ago`;
   const d = Math.round(h / 24);
   if (d < 60) return `${d} days ago`;
-  return new Date(iso).toISOString().slice(0, 10);
+  return isoDay(Date.parse(iso));
 }
 
 /** A token's expiry as people read it: 'expires in 12 days', 'expired 2026-11-30'. */
 export function formatExpiry(iso: string, now = Date.now()): string {
   const ms = Date.parse(iso) - now;
-  if (ms <= 0) return `expired ${new Date(iso).toISOString().slice(0, 10)}`;
+  if (!Number.isFinite(ms)) return NONE;
+  if (ms <= 0) return `expired ${isoDay(Date.parse(iso))}`;
   const h = Math.round(ms / 3_600_000);
   if (h < 36) return `expires in ${Math.max(1, h)} h`;
   const d = Math.round(h / 24);
-  return d < 60 ? `expires in ${d} days` : `expires ${new Date(iso).toISOString().slice(0, 10)}`;
+  return d < 60 ? `expires in ${d} days` : `expires ${isoDay(Date.parse(iso))}`;
 }
 
 export function formatDuration(ms: number): string {
-  const s = Math.round(ms / 1000);
+  if (!Number.isFinite(ms)) return notFinite(ms);
+  const s = Math.max(0, Math.round(ms / 1000)); // clocks that disagree give no negative times
   if (s < 90) return `${s} s`;
   const m = Math.round(s / 60);
-  return m < 90 ? `${m} min` : `${(m / 60).toFixed(1)} h`;
+  const h = m / 60;
+  return m < 90 ? `${m} min` : `${h < 1e5 ? h.toFixed(1) : formatValue(h)} h`;
 }
 
 /** Model kinds as people say them. */

@@ -63,7 +63,7 @@ async function send(path: string, opts: RequestOptions): Promise<Response> {
 }
 
 async function refreshCsrf(): Promise<boolean> {
-  const res = await send('/api/auth/me', {});
+  const res = await send('/api/auth/session', {});
   if (!res.ok) return false;
   const me = (await res.json()) as { csrfToken?: string };
   setCsrfToken(me.csrfToken ?? null);

@@ -1,5 +1,5 @@
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
-import type { AccountUser, MeResponse } from '../shared/api/accounts';
+import type { AccountUser, SessionResponse } from '../shared/api/accounts';
 import { api, ApiError, setCsrfToken } from './api';
 
 export type SessionUser = AccountUser;
@@ -7,24 +7,16 @@ export type SessionUser = AccountUser;
 export const sessionKey = ['session'] as const;
 
 /**
- * The signed-in user, or null when nobody is signed in (401 is an answer here, not an error).
- * Also keeps the CSRF token that every write sends.
+ * The signed-in user, or null when nobody is signed in: the probe answers 200 either way, so
+ * a signed-out page load logs no failed request. Also keeps the CSRF token that every write sends.
  */
 export function useSession() {
   return useQuery({
     queryKey: sessionKey,
     queryFn: async (): Promise<SessionUser | null> => {
-      try {
-        const me = await api<MeResponse>('/api/auth/me');
-        setCsrfToken(me.csrfToken);
-        return me.user;
-      } catch (e) {
-        if (e instanceof ApiError && e.status === 401) {
-          setCsrfToken(null);
-          return null;
-        }
-        throw e;
-      }
+      const me = await api<SessionResponse>('/api/auth/session');
+      setCsrfToken(me.csrfToken);
+      return me.user;
     },
     staleTime: 60_000,
     retry: (count, e) => !(e instanceof ApiError && e.status < 500) && count < 2,

@@ -13,3 +13,6 @@ export default function AdminScreen() {
     );
   return <AdminView />;
 }
+
+// A screen that throws shows what went wrong and a way back instead of a blank page.
+export { ScreenFailure as ErrorBoundary } from '../../components/States';

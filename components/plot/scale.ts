@@ -40,6 +40,10 @@ export function makeScale(domain: [number, number], range: [number, number], log
   s.domain = domain;
   s.log = log;
   s.ticks = (count = 5) => {
+    // An axis whose width overflows, or a log axis reaching zero or subnormal numbers, gets no
+    // ticks (d3 would throw).
+    const [a, b] = domain;
+    if (!(Number.isFinite(b - a) && b - a > 1e-290 && (!log || (a >= 1e-300 && b <= 1e300)))) return [];
     const values = d3s.ticks(count);
     if (!log) return values.map((value) => ({ value, labelled: true }));
     // d3's log tick format leaves out the labels of crowded sub-decade ticks; asked for half as
@@ -52,6 +56,7 @@ export function makeScale(domain: [number, number], range: [number, number], log
 
 /** Tick labels: plain numbers when they read well, otherwise powers of ten (all of a log axis alike). */
 export function formatTick(v: number, ticks: number[], log = false): string {
+  if (!Number.isFinite(v)) return '—';
   if (v === 0) return '0';
   const biggest = Math.max(...ticks.map(Math.abs));
   const smallest = Math.min(...ticks.map(Math.abs));

@@ -6,14 +6,8 @@ import { csrfTokenFor } from '../auth/csrf';
 import { SESSION_COOKIE } from '../auth/session';
 import { STRATEGY } from '../auth/passport';
 import { toAccountUser } from '../services/users';
-import type { MeResponse } from '../../shared/api/accounts';
-
-/** Only same-site relative paths: "/runs/1" yes; "//evil.example", "https://…", "/\\x" no. */
-export function safeNext(raw: unknown): string {
-  if (typeof raw !== 'string' || raw.length > 500) return '/';
-  if (!raw.startsWith('/') || raw.startsWith('//') || raw.startsWith('/\\') || /[\u0000-\u001f\\]/.test(raw)) return '/';
-  return raw;
-}
+import type { MeResponse, SessionResponse } from '../../shared/api/accounts';
+import { safeNext } from '../../shared/api/redirect';
 
 function needSession(req: Request): void {
   if (!req.session) throw new ApiError('BAD_REQUEST', 'Sign-in happens in a browser; requests with an API token need none');
@@ -24,6 +18,15 @@ export function authRouter(auth: PassportStatic): Router {
 
   r.get('/me', requireUser, (req, res) => {
     const body: MeResponse = { user: toAccountUser(req.user!), csrfToken: req.authVia === 'session' ? csrfTokenFor(req) : null };
+    res.set('Cache-Control', 'no-store').json(body);
+  });
+
+  // The app's probe: who is signed in, if anyone. Signed out is an answer (200, user null),
+  // not an error, so a signed-out page load logs no failed request.
+  r.get('/session', (req, res) => {
+    const body: SessionResponse = req.user
+      ? { user: toAccountUser(req.user), csrfToken: req.authVia === 'session' ? csrfTokenFor(req) : null }
+      : { user: null, csrfToken: null };
     res.set('Cache-Control', 'no-store').json(body);
   });
 

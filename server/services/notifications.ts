@@ -7,26 +7,24 @@ const fmt = (n: number) => n.toExponential(2).replace('e+', 'e');
 
 export type NotifyOutcome = 'sent' | 'skipped' | 'failed';
 
+const ENDED = new Set(['finished', 'failed', 'cancelled']);
+const OPTED_IN = 'You get this mail because run notifications are on in your account settings.';
+
 /**
- * Tells a run's owner by mail that it finished or failed, if they opted in.
- * Called by the worker after the run's final state is stored. Never throws for a
- * mail problem: a run's outcome must not depend on the mail relay.
+ * Tells a run's owner by mail that it finished or failed, if they opted in; the two runs of
+ * a pair send one mail, once both have ended, that links to their comparison. Called by the
+ * worker after the run's final state is stored. Never throws for a mail problem: a run's
+ * outcome must not depend on the mail relay.
  */
 export async function notifyRunEnded(em: EntityManager, runId: string): Promise<NotifyOutcome> {
-  const run = await em.findOne(Run, { id: runId }, { populate: ['owner'] });
-  if (!run || (run.status !== 'finished' && run.status !== 'failed')) return 'skipped';
+  const run = await em.findOne(Run, { id: runId }, { populate: ['owner'], refresh: true });
+  if (!run || !ENDED.has(run.status)) return 'skipped';
   const owner = run.owner as User;
   if (!owner.notifyOnFinish || !owner.email) return 'skipped';
-  const url = `${config.publicUrl}/runs/${run.id}`;
-  const finished = run.status === 'finished';
-  const mail = compose(finished ? `Run finished: ${run.name}` : `Run failed: ${run.name}`, [
-    `Hello ${owner.name},`,
-    finished
-      ? `Your run "${run.name}" (${run.modelKind} under ${run.lawKind}, ${run.particles} particles, ${run.steps} steps) has finished.`
-      : `Your run "${run.name}" (${run.modelKind} under ${run.lawKind}) failed: ${run.error ?? 'no reason was recorded'}.`,
-    { text: finished ? 'See its diagnostics' : 'See the run', href: url },
-    'You get this mail because run notifications are on in your account settings.',
-  ]);
+  const mail = run.pairId ? await pairMail(em, run, owner) : run.status === 'cancelled' ? null : runMail(run, owner);
+  // The claim is one conditional update: of two callers for the same mail, one wins.
+  if (!mail || (await em.nativeUpdate(Run, run.pairId ? { pairId: run.pairId, notifiedAt: null } : { id: run.id, notifiedAt: null }, { notifiedAt: new Date() })) === 0)
+    return 'skipped';
   try {
     await sendMail({ to: owner.email, ...mail });
     return 'sent';
@@ -36,11 +34,42 @@ export async function notifyRunEnded(em: EntityManager, runId: string): Promise<
   }
 }
 
+function runMail(run: Run, owner: User) {
+  const finished = run.status === 'finished';
+  return compose(finished ? `Run finished: ${run.name}` : `Run failed: ${run.name}`, [
+    `Hello ${owner.name},`,
+    finished
+      ? `Your run "${run.name}" (${run.modelKind} under ${run.lawKind}, ${run.particles} particles, ${run.steps} steps) has finished.`
+      : `Your run "${run.name}" (${run.modelKind} under ${run.lawKind}) failed: ${run.error ?? 'no reason was recorded'}.`,
+    { text: finished ? 'See its diagnostics' : 'See the run', href: `${config.publicUrl}/runs/${run.id}` },
+    OPTED_IN,
+  ]);
+}
+
+/** The pair's one mail, or null while its other run is still going (that run's end sends it). */
+async function pairMail(em: EntityManager, run: Run, owner: User) {
+  const runs = await em.find(Run, { pairId: run.pairId }, { orderBy: { createdAt: 'asc', id: 'asc' }, refresh: true });
+  if (runs.some((r) => !ENDED.has(r.status)) || runs.every((r) => r.status === 'cancelled')) return null;
+  const first = runs[0];
+  const suffix = ` · ${first.lawKind}`;
+  const name = first.name.endsWith(suffix) ? first.name.slice(0, -suffix.length) : first.name;
+  const allFinished = runs.every((r) => r.status === 'finished');
+  const outcome = (r: Run) =>
+    r.status === 'finished' ? `${r.lawKind}: finished` : r.status === 'failed' ? `${r.lawKind}: failed: ${r.error ?? 'no reason was recorded'}` : `${r.lawKind}: cancelled`;
+  return compose(allFinished ? `Pair finished: ${name}` : `Pair ended: ${name}`, [
+    `Hello ${owner.name},`,
+    `Both runs of your pair "${name}" (${first.modelKind}, ${first.particles} particles, ${first.steps} steps, under ${runs.map((r) => r.lawKind).join(' and ')}) have ended.`,
+    runs.map(outcome).join('; ') + '.',
+    { text: 'Compare the two runs', href: `${config.publicUrl}/compare?pair=${encodeURIComponent(run.pairId!)}` },
+    OPTED_IN,
+  ]);
+}
+
 export async function sendCohortInvitation(cohort: Cohort, instructor: User, to: string[]): Promise<void> {
   const url = `${config.publicUrl}/cohorts/join?code=${encodeURIComponent(cohort.enrolmentCode)}`;
   const mail = compose(`Join ${cohort.name} on Infall`, [
     `${instructor.name} invites you to the cohort "${cohort.name}" on Infall, where you will run N-body simulations within the cohort's quota.`,
-    `Sign in, then join with the enrolment code ${cohort.enrolmentCode}.`,
+    `The link below joins you (signing you in first if needed); or type the enrolment code ${cohort.enrolmentCode} on your account page.`,
     { text: 'Join the cohort', href: url },
   ]);
   // One message per address, so students don't see each other's addresses.

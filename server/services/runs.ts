@@ -11,6 +11,7 @@ import type { RunJobData } from '../queue';
 import { visibleRunsFilter, canSeeRun, canManageRun } from './access';
 import { admitRuns } from './admission';
 import { refundUncomputed } from './runResults';
+import { notifyRunEnded } from './notifications';
 
 function firstIssue(issues: { path: string; message: string }[], prefix: string): ApiError {
   const first = issues[0];
@@ -192,5 +193,8 @@ export async function cancelRun(em: EntityManager, queue: Queue<RunJobData>, use
     }
   }
   await em.flush();
+  // No worker sees a queued run that ends here: if its twin has already ended, the pair's
+  // one mail goes out now (in the background; a mail problem never fails the cancel).
+  if (endedNow && run.pairId) void notifyRunEnded(em.fork(), run.id);
   return { endedNow };
 }

@@ -21,6 +21,12 @@ export interface MeResponse {
   csrfToken: string | null;
 }
 
+/** GET /api/auth/session: the app's probe; user null when nobody is signed in. */
+export interface SessionResponse {
+  user: AccountUser | null;
+  csrfToken: string | null;
+}
+
 export interface QuotaLimits {
   maxParticles: number;
   maxSteps: number;

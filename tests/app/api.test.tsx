@@ -20,11 +20,11 @@ describe('the API client', () => {
     let tries = 0;
     const calls = mockApi({
       'POST /api/tokens': (c) => (c.headers['X-CSRF-Token'] === 'fresh' ? { status: 201, body: { ok: true } } : (tries++, { status: 403, body: { error: { code: 'CSRF_REJECTED', message: 'bad token' } } })),
-      'GET /api/auth/me': { body: { user: { id: 1 }, csrfToken: 'fresh' } },
+      'GET /api/auth/session': { body: { user: { id: 1 }, csrfToken: 'fresh' } },
     });
     await expect(api('/api/tokens', { method: 'POST', body: { name: 'x' } })).resolves.toEqual({ ok: true });
     expect(tries).toBe(1);
-    expect(calls.map((c) => c.method + ' ' + c.path)).toEqual(['POST /api/tokens', 'GET /api/auth/me', 'POST /api/tokens']);
+    expect(calls.map((c) => c.method + ' ' + c.path)).toEqual(['POST /api/tokens', 'GET /api/auth/session', 'POST /api/tokens']);
   });
 
   it('reports an unreachable server as a network error', async () => {

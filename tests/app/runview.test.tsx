@@ -36,7 +36,7 @@ beforeEach(() => {
 test('a running run follows its event stream, then shows its results when it ends', async () => {
   let finished = false;
   mockApi({
-    'GET /api/auth/me': { body: { user: { ...owner, role: 'researcher', email: null }, csrfToken: 't' } },
+    'GET /api/auth/session': { body: { user: { ...owner, role: 'researcher', email: null }, csrfToken: 't' } },
     [`GET /api/runs/${ID}`]: () => ({ body: finished ? { ...summary, status: 'finished', progress: 1, spec, output: finishedOutput() } : { ...summary, status: 'running', progress: 0.1, spec, output: null } }),
     [`GET /api/runs/${ID}/snapshots`]: { bytes: snapshots },
   });
@@ -106,7 +106,7 @@ test('a page opened mid-run plots the drift from t = 0: the stored samples first
 });
 
 test('a run that is not there says so', async () => {
-  mockApi({ 'GET /api/auth/me': { status: 401, body: { error: { code: 'UNAUTHENTICATED', message: 'Sign in first' } } } });
+  mockApi({ 'GET /api/auth/session': { body: { user: null, csrfToken: null } } });
   const { view } = render(<RunView id={ID} />);
   await settle();
   expect(view.getByRole('alert').textContent).toContain('No such run');
@@ -114,7 +114,7 @@ test('a run that is not there says so', async () => {
 
 test('cancelling asks twice, then posts with the CSRF token', async () => {
   const calls = mockApi({
-    'GET /api/auth/me': { body: { user: { ...owner, role: 'researcher', email: null }, csrfToken: 'tok-1' } },
+    'GET /api/auth/session': { body: { user: { ...owner, role: 'researcher', email: null }, csrfToken: 'tok-1' } },
     [`GET /api/runs/${ID}`]: { body: { ...summary, status: 'queued', progress: 0, spec, output: null } },
     [`POST /api/runs/${ID}/cancel`]: { status: 202, body: { ...summary, status: 'cancelled', progress: 0 } },
   });

@@ -6,3 +6,6 @@ export default function NewRunScreen() {
   const t = Number(template);
   return <LaunchScreen from={typeof from === 'string' ? from : undefined} template={Number.isInteger(t) && t > 0 ? t : undefined} />;
 }
+
+// A screen that throws shows what went wrong and a way back instead of a blank page.
+export { ScreenFailure as ErrorBoundary } from '../../../components/States';

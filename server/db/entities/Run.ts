@@ -26,6 +26,8 @@ export const Run = defineEntity({
     createdAt: p.datetime().onCreate(() => new Date()),
     startedAt: p.datetime().nullable(),
     finishedAt: p.datetime().nullable(),
+    // Set when the owner's end-of-run mail is claimed (for a pair: on both runs at once).
+    notifiedAt: p.datetime().nullable(),
   },
 });
 export type Run = InferEntity<typeof Run>;

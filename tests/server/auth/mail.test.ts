@@ -14,10 +14,12 @@ afterAll(async () => {
   await s.close();
 });
 
-async function runOf(user: User, status: 'finished' | 'failed' | 'running', error: string | null = null): Promise<Run> {
+type Status = 'finished' | 'failed' | 'running' | 'cancelled' | 'queued';
+async function runOf(user: User, status: Status, error: string | null = null, pair?: { id: string; lawKind: string }): Promise<Run> {
   const em = s.em();
   const spec = defaultRunSpec();
-  const run = em.create(Run, { id: crypto.randomUUID(), owner: user.id, name: 'Invented disk test', spec, modelKind: 'plummer', lawKind: 'newton', particles: 500, steps: 200, costInteractions: 5e7, status, error });
+  const name = pair ? `Invented pair test · ${pair.lawKind}` : 'Invented disk test';
+  const run = em.create(Run, { id: crypto.randomUUID(), owner: user.id, name, spec, modelKind: 'plummer', lawKind: pair?.lawKind ?? 'newton', particles: 500, steps: 200, costInteractions: 5e7, status, error, pairId: pair?.id ?? null });
   await em.flush();
   return run;
 }
@@ -69,6 +71,73 @@ describe('mail through the local sink', () => {
       config.mail.smtpPort = port;
       quiet.mockRestore();
     }
+  });
+
+  test('a pair sends one mail, once both runs have ended, that links to its comparison', async () => {
+    const { user } = await userWithToken(s, 'researcher', 'mail');
+    await s.em().nativeUpdate(User, { id: user.id }, { notifyOnFinish: true });
+    const pairId = crypto.randomUUID();
+    const newton = await runOf(user, 'finished', null, { id: pairId, lawKind: 'newton' });
+    const mond = await runOf(user, 'running', null, { id: pairId, lawKind: 'mond' });
+    // The first to end waits for its twin.
+    expect(await notifyRunEnded(s.em(), newton.id)).toBe('skipped');
+    await s.em().nativeUpdate(Run, { id: mond.id }, { status: 'failed', error: 'energy ran away' });
+    expect(await notifyRunEnded(s.em(), mond.id)).toBe('sent');
+    // A retried hook, from either run, sends nothing more.
+    expect(await notifyRunEnded(s.em(), newton.id)).toBe('skipped');
+    expect(await notifyRunEnded(s.em(), mond.id)).toBe('skipped');
+
+    const mail = await s.fakes.sink.waitFor((m) => m.to.includes(user.email!));
+    expect(mail.subject).toBe('Pair ended: Invented pair test');
+    expect(mail.text).toContain('newton: finished; mond: failed: energy ran away.');
+    expect(mail.text).toContain(`${config.publicUrl}/compare?pair=${pairId}`);
+    expect(mail.html).toContain(`href="${config.publicUrl}/compare?pair=${pairId}"`);
+    expect(mail.text).not.toContain('/runs/');
+    await new Promise((r) => setTimeout(r, 300));
+    expect(s.fakes.sink.messages().filter((m) => m.to.includes(user.email!))).toHaveLength(1);
+  });
+
+  test('two halves of a pair ending at the same moment send exactly one mail between them', async () => {
+    const { user } = await userWithToken(s, 'researcher', 'mail');
+    await s.em().nativeUpdate(User, { id: user.id }, { notifyOnFinish: true });
+    const pairId = crypto.randomUUID();
+    const a = await runOf(user, 'finished', null, { id: pairId, lawKind: 'newton' });
+    const b = await runOf(user, 'finished', null, { id: pairId, lawKind: 'emergent' });
+    // Each on its own entity manager, as two worker processes would.
+    const outcomes = await Promise.all([notifyRunEnded(s.em(), a.id), notifyRunEnded(s.em(), b.id)]);
+    expect(outcomes.sort()).toEqual(['sent', 'skipped']);
+    const mail = await s.fakes.sink.waitFor((m) => m.to.includes(user.email!));
+    expect(mail.subject).toBe('Pair finished: Invented pair test');
+    await new Promise((r) => setTimeout(r, 300));
+    expect(s.fakes.sink.messages().filter((m) => m.to.includes(user.email!))).toHaveLength(1);
+  });
+
+  test('a pair whose runs were both cancelled sends nothing; one cancelled beside a finished one still mails', async () => {
+    const { user } = await userWithToken(s, 'researcher', 'mail');
+    await s.em().nativeUpdate(User, { id: user.id }, { notifyOnFinish: true });
+    const both = crypto.randomUUID();
+    const c1 = await runOf(user, 'cancelled', null, { id: both, lawKind: 'newton' });
+    await runOf(user, 'cancelled', null, { id: both, lawKind: 'mond' });
+    expect(await notifyRunEnded(s.em(), c1.id)).toBe('skipped');
+    const mixed = crypto.randomUUID();
+    await runOf(user, 'finished', null, { id: mixed, lawKind: 'newton' });
+    const cancelled = await runOf(user, 'cancelled', null, { id: mixed, lawKind: 'yukawa' });
+    expect(await notifyRunEnded(s.em(), cancelled.id)).toBe('sent');
+    const mail = await s.fakes.sink.waitFor((m) => m.to.includes(user.email!));
+    expect(mail.text).toContain('newton: finished; yukawa: cancelled.');
+    expect(mail.text).toContain(`/compare?pair=${mixed}`);
+  });
+
+  test('cancelling the queued half of a pair whose other half finished sends the pair mail', async () => {
+    const { user, auth } = await userWithToken(s, 'researcher', 'mail');
+    await s.em().nativeUpdate(User, { id: user.id }, { notifyOnFinish: true });
+    const pairId = crypto.randomUUID();
+    await runOf(user, 'finished', null, { id: pairId, lawKind: 'newton' });
+    const queued = await runOf(user, 'queued', null, { id: pairId, lawKind: 'mond' });
+    await request(s.app).post(`/api/runs/${queued.id}/cancel`).set(auth).expect(202);
+    const mail = await s.fakes.sink.waitFor((m) => m.to.includes(user.email!));
+    expect(mail.text).toContain('newton: finished; mond: cancelled.');
+    expect(mail.text).toContain(`/compare?pair=${pairId}`);
   });
 
   test('an instructor invites students by mail with the enrolment code', async () => {

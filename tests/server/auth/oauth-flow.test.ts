@@ -67,11 +67,53 @@ describe('sign-in through the OAuth provider', () => {
     expect(stored.lastSignInAt).toBeInstanceOf(Date);
   });
 
-  test.each(['//evil.example/x', 'https://evil.example/', '/\\evil.example', 'runs'])('never redirects off-site after sign-in (next=%s)', async (next) => {
+  test.each([
+    '//evil.example/x',
+    'https://evil.example/',
+    '/\\evil.example',
+    '/runs/\\..\\\\evil.example',
+    '/\t/evil.example',
+    '/\n/evil.example',
+    'javascript:alert(1)',
+    'http:/evil.example',
+    'runs',
+    '/sign-in?next=/runs',
+    `/${'a'.repeat(600)}`,
+  ])('never redirects off-site after sign-in (next=%j)', async (next) => {
     const agent = request.agent(s.app);
     const { params } = await toProvider(agent, next);
     const done = await agent.get(await pick(params, { login: 'teodora-vance' })).expect(302);
     expect(done.headers.location).toBe('/');
+  });
+
+  test('a deep link with a query comes back whole after sign-in', async () => {
+    for (const next of ['/cohorts/join?code=ABCD-2345', '/compare?pair=4b0e2c1a-8d6f-4e0b-9a7c-2f1d3e5b6a70', '/runs/4b0e2c1a-8d6f-4e0b-9a7c-2f1d3e5b6a70']) {
+      const agent = request.agent(s.app);
+      const { params } = await toProvider(agent, next);
+      const done = await agent.get(await pick(params, { login: 'amira-solberg' })).expect(302);
+      expect(done.headers.location).toBe(next);
+    }
+  });
+
+  test('two next values (an array) are refused, not joined', async () => {
+    const agent = request.agent(s.app);
+    const start = await agent.get('/api/auth/signin?next=/runs&next=//evil.example').expect(302);
+    const params = Object.fromEntries(new URL(start.headers.location).searchParams);
+    const done = await agent.get(await pick(params, { login: 'amira-solberg' })).expect(302);
+    expect(done.headers.location).toBe('/');
+  });
+
+  test('the session probe answers 200 signed out (user null) and signed in (user and CSRF token)', async () => {
+    const out = await request(s.app).get('/api/auth/session').expect(200);
+    expect(out.body).toEqual({ user: null, csrfToken: null });
+    expect(out.headers['cache-control']).toBe('no-store');
+    const agent = request.agent(s.app);
+    const { csrfToken } = await signIn(agent, 'amira-solberg');
+    const signedIn = await agent.get('/api/auth/session').expect(200);
+    expect(signedIn.body.user).toMatchObject({ login: 'amira-solberg', role: 'student' });
+    expect(signedIn.body.csrfToken).toBe(csrfToken);
+    // A script's token gets no CSRF token; a bad token is still refused.
+    await request(s.app).get('/api/auth/session').set('Authorization', 'Bearer infall_nope').expect(401);
   });
 
   test('refuses a callback whose state is not the one this browser was given', async () => {
