@@ -1,3 +1,4 @@
+import { createContext, useContext } from 'react';
 import { fieldBounds } from '../../hooks/specSchema';
 import { getIn, type Path } from '../../hooks/runDraft';
 import { NumberField } from '../fields';
@@ -42,8 +43,8 @@ const LABELS: Record<string, string> = {
   diagnosticsEvery: 'Diagnostics every',
   seed: 'Random seed',
   theta: 'Opening angle θ',
-  a0_m_s2: 'a0',
-  H0_km_s_Mpc: 'H0',
+  a0_m_s2: 'a₀',
+  H0_km_s_Mpc: 'H₀',
   alpha: 'Strength α',
   lambda_kpc: 'Range λ',
   density_Msun_kpc3: 'Density ρ₀',
@@ -62,12 +63,16 @@ export interface SpecNumberProps {
   label?: string;
 }
 
+/** The person's own limits for spec fields (from their quota), by issue key: "your limit 2 000". */
+export const QuotaLimitHints = createContext<Record<string, string>>({});
+
 /** A number of the run spec with its unit, range and description taken from the shared schema. */
 export function SpecNumber({ draft, path, onChange, issues, issueKey = path.join('.'), label }: SpecNumberProps) {
   const key = String(path[path.length - 1]);
   const b = fieldBounds(path, draft);
   const value = getIn(draft, path);
   const unit = unitOf(key);
+  const limit = useContext(QuotaLimitHints)[issueKey];
   return (
     <NumberField
       label={label ?? labelOf(key)}
@@ -80,6 +85,7 @@ export function SpecNumber({ draft, path, onChange, issues, issueKey = path.join
       integer={b.integer}
       optional={b.optional}
       hint={b.description}
+      limit={limit}
       error={issues[issueKey]}
       testID={`field-${issueKey}`}
     />
