@@ -65,9 +65,9 @@ export function NumberField({ label, value, onChange, unit, min, max, exclusiveM
   const range = rangeText(min, max, unit, exclusiveMin);
   let local: string | undefined;
   const read = parseNumberText(text);
-  if (read.state === 'empty') local = optional ? undefined : `${label}: required`;
-  else if (read.state === 'invalid') local = `${label}: ${read.problem}`;
-  else if (integer && !Number.isInteger(read.value)) local = `${label}: whole numbers only`;
+  if (read.state === 'empty') local = optional ? undefined : `${label} is empty: enter a number`;
+  else if (read.state === 'invalid') local = `${label} is ${read.problem}`;
+  else if (integer && !Number.isInteger(read.value)) local = `${label} takes whole numbers only`;
   else if ((min !== undefined && (exclusiveMin ? read.value <= min : read.value < min)) || (max !== undefined && read.value > max)) local = `Allowed: ${range}`;
   const shown = local ?? error;
   return (

@@ -3,7 +3,7 @@ import { colors, space } from '../../constants/theme';
 import { useUsage, type Usage } from '../../hooks/account';
 import type { QuotaRefusal } from '../../shared/api/accounts';
 import { describeRefusal, groupDigits, interactionsText } from '../../shared/api/quotaWords';
-import { formatCount, formatInteractions, formatValue } from '../format';
+import { formatBound, formatCount, formatInteractions } from '../format';
 import { Panel } from '../Panel';
 import { ProgressBar } from '../RunCard';
 import { describeError, Loading, Notice } from '../States';
@@ -55,8 +55,8 @@ export function quotaFieldNotes(draft: Record<string, unknown>, cost: Cost | nul
   const nFields = particleFields(draft);
   for (const key of nFields) hints[key] = `your limit ${groupDigits(maxParticles)} particles${nFields.length > 1 ? ' for both together' : ''}`;
   const { timestep_Myr: dt, duration_Myr: duration } = draft;
-  if (finitePositive(dt)) hints.duration_Myr = `your limit ${groupDigits(maxSteps)} steps, ${formatValue(maxSteps * dt)} Myr at this timestep`;
-  if (finitePositive(duration)) hints.timestep_Myr = `your limit ${groupDigits(maxSteps)} steps, so at least ${formatValue(duration / maxSteps)} Myr for this duration`;
+  if (finitePositive(dt)) hints.duration_Myr = `your limit ${groupDigits(maxSteps)} steps, ${formatBound(maxSteps * dt)} Myr at this timestep`;
+  if (finitePositive(duration)) hints.timestep_Myr = `your limit ${groupDigits(maxSteps)} steps, so at least ${formatBound(duration / maxSteps)} Myr for this duration`;
   for (const r of cost ? quotaRefusals(cost, usage) : []) {
     if (r.limit === 'maxParticles') for (const key of nFields) marks[key] = `${groupDigits(r.needed)} particles is over your limit of ${groupDigits(r.max)} per run`;
     if (r.limit === 'maxSteps') for (const key of ['duration_Myr', 'timestep_Myr']) marks[key] = `${groupDigits(r.needed)} steps is over your limit of ${groupDigits(r.max)} per run`;
