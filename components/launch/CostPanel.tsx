@@ -2,6 +2,7 @@ import { StyleSheet, View } from 'react-native';
 import { colors, space } from '../../constants/theme';
 import { useUsage, type Usage } from '../../hooks/account';
 import type { QuotaRefusal } from '../../shared/api/accounts';
+import { particleCount, stepCount, type RunSpec } from '../../shared/spec';
 import { describeRefusal, groupDigits, interactionsText } from '../../shared/api/quotaWords';
 import { formatBound, formatCount, formatInteractions } from '../format';
 import { Panel } from '../Panel';
@@ -57,12 +58,14 @@ export function quotaFieldNotes(draft: Record<string, unknown>, cost: Cost | nul
   const { timestep_Myr: dt, duration_Myr: duration } = draft;
   if (finitePositive(dt)) hints.duration_Myr = `your limit ${groupDigits(maxSteps)} steps, ${formatBound(maxSteps * dt)} Myr at this timestep`;
   if (finitePositive(duration)) hints.timestep_Myr = `your limit ${groupDigits(maxSteps)} steps, so at least ${formatBound(duration / maxSteps)} Myr for this duration`;
-  for (const r of cost ? quotaRefusals(cost, usage) : []) {
-    if (r.limit === 'maxParticles') for (const key of nFields) marks[key] = `${groupDigits(r.needed)} particles is over your limit of ${groupDigits(r.max)} per run`;
-    if (r.limit === 'maxSteps') for (const key of ['duration_Myr', 'timestep_Myr']) marks[key] = `${groupDigits(r.needed)} steps is over your limit of ${groupDigits(r.max)} per run`;
-    if (r.limit === 'dailyInteractions')
-      for (const key of nFields) marks[key] ??= `${interactionsText(r.needed)} pair interactions is more than the ${interactionsText(r.remaining)} left of your budget today`;
-  }
+  // Particles and steps are checked on the draft itself, so the field is marked even while
+  // another field is still being typed; the daily budget needs the whole cost.
+  const particles = particleCount(draft as unknown as RunSpec);
+  if (particles > maxParticles) for (const key of nFields) marks[key] = `${groupDigits(particles)} particles is over your limit of ${groupDigits(maxParticles)} per run`;
+  const steps = finitePositive(dt) && finitePositive(duration) ? stepCount({ timestep_Myr: dt, duration_Myr: duration } as RunSpec) : 0;
+  if (steps > maxSteps) for (const key of ['duration_Myr', 'timestep_Myr']) marks[key] = `${groupDigits(steps)} steps is over your limit of ${groupDigits(maxSteps)} per run`;
+  if (cost && Math.ceil(cost.interactions) > usage.remaining.interactionsToday)
+    for (const key of nFields) marks[key] ??= `${interactionsText(cost.interactions)} pair interactions is more than the ${interactionsText(usage.remaining.interactionsToday)} left of your budget today`;
   return { hints, marks };
 }
 

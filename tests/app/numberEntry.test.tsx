@@ -193,6 +193,12 @@ describe('the person\u2019s own limits in the new-run form', () => {
     expect(fieldText(n)).toContain('5\u2009000 particles is over your limit of 2\u2009000 per run');
     expect(view.getByText('Would be refused. This run has 5\u2009000 particles; your limit is 2\u2009000 particles per run.', { normalizer: exact })).toBeTruthy();
 
+    // The mark stays while another field is half-typed (and the cost cannot be counted).
+    typeKeys(input(container, 'field-softening_kpc'), '0,');
+    await settle();
+    expect(fieldText(n)).toContain('5\u2009000 particles is over your limit of 2\u2009000 per run');
+    typeKeys(input(container, 'field-softening_kpc'), '0.05');
+
     typeKeys(n, '500');
     typeKeys(input(container, 'field-snapshotEvery'), '100');
     typeKeys(input(container, 'field-duration_Myr'), '3000');
