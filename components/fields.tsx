@@ -34,8 +34,9 @@ export interface NumberFieldProps {
   /** The minimum itself is not allowed (e.g. a mass must be > 0). */
   exclusiveMin?: boolean;
   integer?: boolean;
-  /** Empty means "use the default". */
+  /** Empty is allowed: it means "use the default", or what `emptyMeans` says. */
   optional?: boolean;
+  emptyMeans?: string;
   hint?: string;
   /** The person's own limit for this field (from their quota), shown beside the range. */
   limit?: string;
@@ -56,7 +57,7 @@ export function rangeText(min?: number, max?: number, unit?: string, exclusiveMi
  * A number with its unit and allowed range. The text stays exactly as typed: while it does not
  * parse the field says why and hands NaN up; range errors show at once; the schema has the last word.
  */
-export function NumberField({ label, value, onChange, unit, min, max, exclusiveMin, integer, optional, hint, limit, error, testID }: NumberFieldProps) {
+export function NumberField({ label, value, onChange, unit, min, max, exclusiveMin, integer, optional, emptyMeans = 'default', hint, limit, error, testID }: NumberFieldProps) {
   const [text, setText] = useState(formatInput(value));
   useEffect(() => {
     // Follow outside changes (a preset, a clone); a value this text already stands for is our own.
@@ -71,7 +72,7 @@ export function NumberField({ label, value, onChange, unit, min, max, exclusiveM
   else if ((min !== undefined && (exclusiveMin ? read.value <= min : read.value < min)) || (max !== undefined && read.value > max)) local = `Allowed: ${range}`;
   const shown = local ?? error;
   return (
-    <FieldFrame label={label} hint={[hint, range && `Range ${range}`, limit, optional && 'empty = default'].filter(Boolean).join(' · ')} error={shown}>
+    <FieldFrame label={label} hint={[hint, range && `Range ${range}`, limit, optional && `empty = ${emptyMeans}`].filter(Boolean).join(' · ')} error={shown}>
       <View style={[styles.inputRow, shown ? styles.inputError : null]}>
         <TextInput
           value={text}

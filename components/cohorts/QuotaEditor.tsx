@@ -10,7 +10,7 @@ export const QUOTA_FIELDS: { key: keyof QuotaLimits; label: string; unit?: strin
   { key: 'maxParticles', label: 'Max particles per run' },
   { key: 'maxSteps', label: 'Max steps per run', unit: 'steps' },
   { key: 'maxConcurrentRuns', label: 'Runs at a time' },
-  { key: 'dailyInteractions', label: 'Daily compute', unit: 'interactions' },
+  { key: 'dailyInteractions', label: 'Daily compute, in pair interactions' },
 ];
 
 type Draft = { [K in keyof QuotaLimits]: number | undefined | null };
@@ -41,7 +41,7 @@ export function QuotaEditor({ value, onSave, saving, error, nullable, ceiling = 
             max={ceiling[key]}
             integer
             optional={nullable}
-            hint={nullable ? 'empty: role or cohort limit applies' : undefined}
+            emptyMeans="the role or cohort limit"
             testID={`quota-${key}`}
           />
         ))}

@@ -18,7 +18,7 @@ import { styles as formStyles } from './formStyles';
 import { LawEditor } from './LawEditor';
 import { ModelEditor } from './ModelEditor';
 import { ChecksPreview, CurvePreview } from './PreviewPanels';
-import { QuotaLimitHints, SpecNumber } from './SpecField';
+import { labelOf, QuotaLimitHints, SpecNumber } from './SpecField';
 
 const INTEGRATOR_LABELS: Record<string, { label: string; note: string }> = {
   leapfrog: { label: 'Leapfrog (KDK)', note: 'Second order, symplectic: energy error stays bounded. The usual choice.' },
@@ -64,7 +64,9 @@ export function LaunchForm({ start }: { start?: LaunchStart }) {
   };
 
   const submitError = submit.error ? describeError(submit.error) : null;
-  const problems = Object.keys(form.issues).length;
+  // Named, because on a phone the marked field may be a long way above the button.
+  const problemNames = [...new Set(Object.keys(form.issues).map((k) => (k === 'pairLaw' ? 'Second law' : labelOf(k.split('.').pop()!))))];
+  const problems = problemNames.length;
 
   const formColumn = (
     <View style={styles.column}>
@@ -126,7 +128,7 @@ export function LaunchForm({ start }: { start?: LaunchStart }) {
       <View style={styles.submit}>
         {problems ? (
           <Txt variant="small" color={colors.danger} accessibilityLiveRegion="polite">
-            {problems === 1 ? '1 field needs attention.' : `${problems} fields need attention.`}
+            {`${problems === 1 ? '1 field needs' : `${problems} fields need`} attention: ${problemNames.join(', ')}.`}
           </Txt>
         ) : null}
         {submitError ? <Notice tone="danger">{submitError}</Notice> : null}

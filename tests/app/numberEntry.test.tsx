@@ -143,7 +143,7 @@ describe('numbers typed key by key into the new-run form', () => {
     expect(input(container, 'field-duration_Myr').value).toBe('abc');
     expect(view.getByText(/^Duration is not a number/)).toBeTruthy();
     expect(view.queryByText(/Required/i)).toBeNull();
-    expect(view.getByText('3 fields need attention.')).toBeTruthy();
+    expect(view.getByText('3 fields need attention: Mass, Duration, Softening ε.')).toBeTruthy();
 
     // Finishing the exponent makes it a number again, without rewriting what was typed.
     typeKeys(mass, '10', { clear: false });
