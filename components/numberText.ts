@@ -18,7 +18,8 @@ export function parseNumberText(text: string): NumberText {
   if (trimmed === '') return { state: 'empty' };
   // A minus sign pasted from typeset text reads as a hyphen-minus.
   const s = trimmed.replace(/\u2212/g, '-').replace(SEPARATOR_BETWEEN_DIGITS, '$1');
-  if (s.includes(',')) return { state: 'invalid', problem: 'not a number: use a point for decimals (0.25), not a comma; to group digits, use a space or _ (1 000 or 1_000)' };
+  if (/^[+-]?\d{1,3}(,\d{3})+$/.test(s)) return { state: 'invalid', problem: `not a number: group digits with a space or _ (${s.replace(/,/g, ' ')}) and write decimals with a point; commas are not used` };
+  if (s.includes(',')) return { state: 'invalid', problem: `not a number: use a point for decimals (${/^[^,]*,[^,]*$/.test(s) ? s.replace(',', '.') : '0.25'}), not a comma` };
   if (OPEN_EXPONENT.test(s)) return { state: 'invalid', problem: 'not a number yet: put the power of ten after the e, as in 4e10 or 1.2e-10' };
   if (/[ \u00a0\u2009\u202f_]/.test(s)) return { state: 'invalid', problem: 'not a number: a space or _ may only sit between two digits (1 000 or 1_000)' };
   if (!DECIMAL.test(s)) return { state: 'invalid', problem: 'not a number: type digits with an optional point and power of ten, as in 2.5, .5 or 4e10' };

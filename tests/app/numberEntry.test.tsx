@@ -66,7 +66,9 @@ describe('reading typed numbers', () => {
 
   test.each([
     ['0,25', /use a point for decimals \(0\.25\), not a comma/],
-    ['1,000', /not a comma/],
+    ['1,000', /^not a number: group digits with a space or _ \(1 000\) and write decimals with a point; commas are not used$/],
+    ['2,5e3', /use a point for decimals \(2\.5e3\), not a comma/],
+    ['1,2,3', /use a point for decimals \(0\.25\), not a comma/],
     ['4e', /put the power of ten after the e/],
     ['1.2e-', /put the power of ten after the e/],
     ['abc', /^not a number: type digits/],
