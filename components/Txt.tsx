@@ -11,8 +11,9 @@ const VARIANTS: Record<Variant, TextStyle> = {
   small: { fontFamily: fonts.body, fontSize: sizes.small, color: colors.textMuted, lineHeight: 19 },
   caption: { fontFamily: fonts.body, fontSize: sizes.caption, color: colors.textMuted },
   mono: { fontFamily: fonts.mono, fontSize: sizes.small, color: colors.text },
-  // Small caps-like labels above fields and panels.
-  label: { fontFamily: fonts.bodySemi, fontSize: sizes.caption, color: colors.textMuted, letterSpacing: 1, textTransform: 'uppercase' },
+  // Labels above fields and panels, in the case they are written: symbols such as ε, a₀ and Δt
+  // change meaning when upper-cased.
+  label: { fontFamily: fonts.bodySemi, fontSize: sizes.caption, color: colors.textMuted, letterSpacing: 0.3 },
 };
 
 export interface TxtProps extends TextProps {

@@ -2,6 +2,7 @@ import { Children, Fragment, isValidElement, useEffect, useState, type ReactElem
 import { Pressable, StyleSheet, TextInput, View } from 'react-native';
 import { colors, fonts, radius, space, type as sizes } from '../constants/theme';
 import { formatBound, formatInput } from './format';
+import { numberOfText, parseNumberText } from './numberText';
 import { Txt } from './Txt';
 
 function FieldFrame({ label, hint, error, children, nativeID }: { label: string; hint?: string; error?: string; children: ReactNode; nativeID?: string }) {
@@ -24,6 +25,7 @@ function FieldFrame({ label, hint, error, children, nativeID }: { label: string;
 
 export interface NumberFieldProps {
   label: string;
+  /** NaN while the text does not parse, so the form holding it is invalid until it does. */
   value: number | undefined;
   onChange: (v: number | undefined) => void;
   unit?: string;
@@ -32,9 +34,12 @@ export interface NumberFieldProps {
   /** The minimum itself is not allowed (e.g. a mass must be > 0). */
   exclusiveMin?: boolean;
   integer?: boolean;
-  /** Empty means "use the default". */
+  /** Empty is allowed: it means "use the default", or what `emptyMeans` says. */
   optional?: boolean;
+  emptyMeans?: string;
   hint?: string;
+  /** The person's own limit for this field (from their quota), shown beside the range. */
+  limit?: string;
   error?: string;
   testID?: string;
 }
@@ -48,33 +53,39 @@ export function rangeText(min?: number, max?: number, unit?: string, exclusiveMi
   return '';
 }
 
-/** A number with its unit and allowed range; range errors show at once, the schema has the last word. */
-export function NumberField({ label, value, onChange, unit, min, max, exclusiveMin, integer, optional, hint, error, testID }: NumberFieldProps) {
+/**
+ * A number with its unit and allowed range. The text stays exactly as typed: while it does not
+ * parse the field says why and hands NaN up; range errors show at once; the schema has the last word.
+ */
+export function NumberField({ label, value, onChange, unit, min, max, exclusiveMin, integer, optional, emptyMeans = 'default', hint, limit, error, testID }: NumberFieldProps) {
   const [text, setText] = useState(formatInput(value));
   useEffect(() => {
-    // Follow outside changes (a preset, a clone) without fighting the user's typing.
-    setText((t) => (Number(t) === value && t.trim() !== '' ? t : formatInput(value)));
+    // Follow outside changes (a preset, a clone); a value this text already stands for is our own.
+    setText((t) => (Object.is(numberOfText(t), value) ? t : formatInput(value)));
   }, [value]);
   const range = rangeText(min, max, unit, exclusiveMin);
   let local: string | undefined;
-  const n = Number(text);
-  if (text.trim() === '') local = optional ? undefined : 'Required';
-  else if (!Number.isFinite(n)) local = 'Not a number';
-  else if (integer && !Number.isInteger(n)) local = 'Whole numbers only';
-  else if ((min !== undefined && (exclusiveMin ? n <= min : n < min)) || (max !== undefined && n > max)) local = `Allowed: ${range}`;
+  const read = parseNumberText(text);
+  if (read.state === 'empty') local = optional ? undefined : `${label} is empty: enter a number`;
+  else if (read.state === 'invalid') local = `${label} is ${read.problem}`;
+  else if (integer && !Number.isInteger(read.value)) local = `${label} takes whole numbers only`;
+  else if ((min !== undefined && (exclusiveMin ? read.value <= min : read.value < min)) || (max !== undefined && read.value > max)) local = `Allowed: ${range}`;
   const shown = local ?? error;
   return (
-    <FieldFrame label={label} hint={[hint, range && `Range ${range}`, optional && 'empty = default'].filter(Boolean).join(' · ')} error={shown}>
+    <FieldFrame label={label} hint={[hint, range && `Range ${range}`, limit, optional && `empty = ${emptyMeans}`].filter(Boolean).join(' · ')} error={shown}>
       <View style={[styles.inputRow, shown ? styles.inputError : null]}>
         <TextInput
           value={text}
           onChangeText={(t) => {
             setText(t);
-            const v = Number(t);
-            onChange(t.trim() === '' || !Number.isFinite(v) ? undefined : v);
+            onChange(numberOfText(t));
           }}
-          inputMode="decimal"
-          keyboardType="decimal-pad"
+          // Not a decimal pad: that has no "e", and 4e10 must be typeable on a phone.
+          keyboardType="numbers-and-punctuation"
+          autoCapitalize="none"
+          autoCorrect={false}
+          autoComplete="off"
+          spellCheck={false}
           accessibilityLabel={unit ? `${label} in ${unit}` : label}
           accessibilityHint={range ? `Allowed range ${range}` : undefined}
           aria-invalid={Boolean(shown)}

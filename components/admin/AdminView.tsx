@@ -1,6 +1,6 @@
 import { useState } from 'react';
 import { Pressable, StyleSheet, View, useWindowDimensions } from 'react-native';
-import { ROLES, type AdminUser, type Role } from '../../shared/api/accounts';
+import { LIMIT_CEILINGS, ROLES, type AdminUser, type Role } from '../../shared/api/accounts';
 import { colors, radius, space, WIDE_BREAKPOINT } from '../../constants/theme';
 import { useAdminUser, useAdminUsers, useGrantRole, useSetAllocation } from '../../hooks/admin';
 import { ChoiceChips, TextField } from '../fields';
@@ -32,7 +32,7 @@ function UserDetail({ user }: { user: AdminUser }) {
         {detail.data ? <Fact label="used today" value={formatInteractions(detail.data.usage.used.interactionsToday)} /> : null}
       </View>
       <Txt variant="label">Allocation (overrides role and cohort limits)</Txt>
-      <QuotaEditor key={`${current.id}-${JSON.stringify(current.allocation)}`} nullable value={current.allocation} onSave={(a) => allocate.mutate(a)} saving={allocate.isPending} error={allocate.error} saveLabel="Save allocation" />
+      <QuotaEditor key={`${current.id}-${JSON.stringify(current.allocation)}`} nullable ceiling={LIMIT_CEILINGS} value={current.allocation} onSave={(a) => allocate.mutate(a)} saving={allocate.isPending} error={allocate.error} saveLabel="Save allocation" />
     </Panel>
   );
 }

@@ -1,6 +1,6 @@
 import { useState } from 'react';
 import { View } from 'react-native';
-import { LIMIT_CEILINGS, type QuotaLimits } from '../../shared/api/accounts';
+import { COHORT_CEILING, type QuotaLimits } from '../../shared/api/accounts';
 import { space } from '../../constants/theme';
 import { Button } from '../Button';
 import { FieldRow, NumberField } from '../fields';
@@ -10,21 +10,22 @@ export const QUOTA_FIELDS: { key: keyof QuotaLimits; label: string; unit?: strin
   { key: 'maxParticles', label: 'Max particles per run' },
   { key: 'maxSteps', label: 'Max steps per run', unit: 'steps' },
   { key: 'maxConcurrentRuns', label: 'Runs at a time' },
-  { key: 'dailyInteractions', label: 'Daily compute', unit: 'interactions' },
+  { key: 'dailyInteractions', label: 'Daily compute, in pair interactions' },
 ];
 
 type Draft = { [K in keyof QuotaLimits]: number | undefined | null };
 
 /**
- * Four limits with the server's ceilings. With `nullable`, an empty field means "no override"
- * (the admin's per-person allocation); otherwise every limit is required (a cohort's quota).
+ * Four limits with the server's ceilings (a cohort's by default: what instructors have). With
+ * `nullable`, an empty field means "no override" (the admin's per-person allocation); otherwise
+ * every limit is required. A field whose text does not parse holds NaN, which blocks saving.
  */
-export function QuotaEditor({ value, onSave, saving, error, nullable, saveLabel = 'Save quota' }: { value: Draft; onSave: (v: Draft) => void; saving: boolean; error: unknown; nullable?: boolean; saveLabel?: string }) {
+export function QuotaEditor({ value, onSave, saving, error, nullable, ceiling = COHORT_CEILING, saveLabel = 'Save quota' }: { value: Draft; onSave: (v: Draft) => void; saving: boolean; error: unknown; nullable?: boolean; ceiling?: QuotaLimits; saveLabel?: string }) {
   const [draft, setDraft] = useState<Draft>(value);
   const bad = QUOTA_FIELDS.some(({ key }) => {
     const v = draft[key];
     if (v === undefined || v === null) return !nullable;
-    return !Number.isInteger(v) || v < 1 || v > LIMIT_CEILINGS[key];
+    return !Number.isInteger(v) || v < 1 || v > ceiling[key];
   });
   return (
     <View style={{ gap: space.md }}>
@@ -37,10 +38,10 @@ export function QuotaEditor({ value, onSave, saving, error, nullable, saveLabel 
             value={draft[key] ?? undefined}
             onChange={(v) => setDraft((d) => ({ ...d, [key]: v === undefined && nullable ? null : v }))}
             min={1}
-            max={LIMIT_CEILINGS[key]}
+            max={ceiling[key]}
             integer
             optional={nullable}
-            hint={nullable ? 'empty: role or cohort limit applies' : undefined}
+            emptyMeans="the role or cohort limit"
             testID={`quota-${key}`}
           />
         ))}

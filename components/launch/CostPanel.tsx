@@ -1,7 +1,10 @@
 import { StyleSheet, View } from 'react-native';
 import { colors, space } from '../../constants/theme';
 import { useUsage, type Usage } from '../../hooks/account';
-import { formatCount, formatInteractions } from '../format';
+import type { QuotaRefusal } from '../../shared/api/accounts';
+import { particleCount, stepCount, type RunSpec } from '../../shared/spec';
+import { describeRefusal, groupDigits, interactionsText } from '../../shared/api/quotaWords';
+import { formatBound, formatCount, formatInteractions } from '../format';
 import { Panel } from '../Panel';
 import { ProgressBar } from '../RunCard';
 import { describeError, Loading, Notice } from '../States';
@@ -14,16 +17,56 @@ export interface Cost {
   runs: number;
 }
 
-/** Why a submission would be refused, in the same terms as the server's quota check. */
-export function refusals(cost: Cost, usage: Usage): string[] {
-  const out: string[] = [];
-  if (cost.particles > usage.limits.maxParticles) out.push(`${formatCount(cost.particles)} particles is over your limit of ${formatCount(usage.limits.maxParticles)}.`);
-  if (cost.steps > usage.limits.maxSteps) out.push(`${formatCount(cost.steps)} steps is over your limit of ${formatCount(usage.limits.maxSteps)}.`);
-  if (cost.runs > usage.remaining.concurrentRuns)
-    out.push(`This needs ${cost.runs} run slot${cost.runs > 1 ? 's' : ''}; you have ${usage.remaining.concurrentRuns} free of ${usage.limits.maxConcurrentRuns} (wait for a run to end, or cancel one).`);
-  if (cost.interactions > usage.remaining.interactionsToday)
-    out.push(`It costs ${formatInteractions(cost.interactions)} interactions; ${formatInteractions(usage.remaining.interactionsToday)} of today's ${formatInteractions(usage.limits.dailyInteractions)} are left.`);
+/** What the server's quota check would refuse, in its own terms. */
+export function quotaRefusals(cost: Cost, usage: Usage): QuotaRefusal[] {
+  const { limits, remaining } = usage;
+  const out: QuotaRefusal[] = [];
+  if (cost.particles > limits.maxParticles) out.push({ limit: 'maxParticles', max: limits.maxParticles, needed: cost.particles, remaining: limits.maxParticles });
+  if (cost.steps > limits.maxSteps) out.push({ limit: 'maxSteps', max: limits.maxSteps, needed: cost.steps, remaining: limits.maxSteps });
+  if (cost.runs > remaining.concurrentRuns) out.push({ limit: 'maxConcurrentRuns', max: limits.maxConcurrentRuns, needed: cost.runs, remaining: remaining.concurrentRuns });
+  if (cost.interactions > remaining.interactionsToday) out.push({ limit: 'dailyInteractions', max: limits.dailyInteractions, needed: Math.ceil(cost.interactions), remaining: remaining.interactionsToday });
   return out;
+}
+
+/** Why a submission would be refused, in the same sentences the server answers with. */
+export function refusals(cost: Cost, usage: Usage): string[] {
+  return quotaRefusals(cost, usage).map((r) => describeRefusal(r, cost.runs));
+}
+
+/** The fields that set the particle count: N of the model, or of both systems of an encounter. */
+function particleFields(draft: Record<string, unknown>): string[] {
+  const kind = (draft.model as { kind?: string } | undefined)?.kind;
+  if (kind === 'encounter') return ['model.primary.n', 'model.secondary.n'];
+  if (kind === 'table') return ['model.particles'];
+  if (kind === 'kepler') return [];
+  return ['model.n'];
+}
+
+const finitePositive = (v: unknown): v is number => typeof v === 'number' && Number.isFinite(v) && v > 0;
+
+/**
+ * The person's own limits beside the fields that set them (`hints`), and the fields that break
+ * one (`marks`), by issue key; both are empty until their usage has loaded.
+ */
+export function quotaFieldNotes(draft: Record<string, unknown>, cost: Cost | null, usage: Usage | undefined): { hints: Record<string, string>; marks: Record<string, string> } {
+  const hints: Record<string, string> = {};
+  const marks: Record<string, string> = {};
+  if (!usage) return { hints, marks };
+  const { maxParticles, maxSteps } = usage.limits;
+  const nFields = particleFields(draft);
+  for (const key of nFields) hints[key] = `your limit ${groupDigits(maxParticles)} particles${nFields.length > 1 ? ' for both together' : ''}`;
+  const { timestep_Myr: dt, duration_Myr: duration } = draft;
+  if (finitePositive(dt)) hints.duration_Myr = `your limit ${groupDigits(maxSteps)} steps, ${formatBound(maxSteps * dt)} Myr at this timestep`;
+  if (finitePositive(duration)) hints.timestep_Myr = `your limit ${groupDigits(maxSteps)} steps, so at least ${formatBound(duration / maxSteps)} Myr for this duration`;
+  // Particles and steps are checked on the draft itself, so the field is marked even while
+  // another field is still being typed; the daily budget needs the whole cost.
+  const particles = particleCount(draft as unknown as RunSpec);
+  if (particles > maxParticles) for (const key of nFields) marks[key] = `${groupDigits(particles)} particles is over your limit of ${groupDigits(maxParticles)} per run`;
+  const steps = finitePositive(dt) && finitePositive(duration) ? stepCount({ timestep_Myr: dt, duration_Myr: duration } as RunSpec) : 0;
+  if (steps > maxSteps) for (const key of ['duration_Myr', 'timestep_Myr']) marks[key] = `${groupDigits(steps)} steps is over your limit of ${groupDigits(maxSteps)} per run`;
+  if (cost && Math.ceil(cost.interactions) > usage.remaining.interactionsToday)
+    for (const key of nFields) marks[key] ??= `${interactionsText(cost.interactions)} pair interactions is more than the ${interactionsText(usage.remaining.interactionsToday)} left of your budget today`;
+  return { hints, marks };
 }
 
 function Meter({ label, need, left, total, unit }: { label: string; need: number; left: number; total: number; unit: (n: number) => string }) {
@@ -72,7 +115,7 @@ export function CostPanel({ cost }: { cost: Cost | null }) {
               </Txt>
               {refusals(cost, usage.data).map((r) => (
                 <Notice key={r} tone="danger">
-                  {`Would be refused: ${r}`}
+                  {`Would be refused. ${r}`}
                 </Notice>
               ))}
             </>

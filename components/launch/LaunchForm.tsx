@@ -5,27 +5,22 @@ import { colors, space, WIDE_BREAKPOINT } from '../../constants/theme';
 import { ApiError } from '../../hooks/api';
 import { LAW_PRESETS, useRunDraft } from '../../hooks/runDraft';
 import { useSubmitRun } from '../../hooks/runs';
+import { useUsage } from '../../hooks/account';
 import { enumOptions } from '../../hooks/specSchema';
 import { Button } from '../Button';
 import { ChoiceChips, FieldRow, TextField, Toggle } from '../fields';
-import { formatCount } from '../format';
 import { Panel } from '../Panel';
 import { Screen } from '../Screen';
 import { describeError, Notice } from '../States';
 import { Txt } from '../Txt';
-import { INTEGRATOR_LABELS, SOLVER_LABELS } from '../spec/labels';
-import { CostPanel } from './CostPanel';
+import { INTEGRATOR_LABELS, labelOf, SOLVER_LABELS } from '../spec/labels';
+import { CostPanel, quotaFieldNotes } from './CostPanel';
 import { styles as formStyles } from './formStyles';
 import { LawEditor } from './LawEditor';
 import { ModelEditor } from './ModelEditor';
 import { ChecksPreview, CurvePreview } from './PreviewPanels';
-import { SpecNumber } from './SpecField';
+import { QuotaLimitHints, SpecNumber } from './SpecField';
 
-function quotaMessage(e: ApiError): string {
-  const d = e.details as { limit?: string; max?: number; needed?: number; remaining?: number } | undefined;
-  if (!d || d.needed === undefined) return e.message;
-  return `${e.message} (limit: ${d.limit}; needed ${formatCount(d.needed)}, ${formatCount(d.remaining ?? 0)} left of ${formatCount(d.max ?? 0)})`;
-}
 
 export interface LaunchStart {
   spec: RunSpecInput;
@@ -42,7 +37,11 @@ export function LaunchForm({ start }: { start?: LaunchStart }) {
   const submit = useSubmitRun();
   const { width } = useWindowDimensions();
   const wide = width >= WIDE_BREAKPOINT;
-  const { draft, set, issues } = form;
+  const usage = useUsage();
+  const { draft, set } = form;
+  // Fields that break the person's quota are marked too; only schema problems block launching.
+  const quota = quotaFieldNotes(draft, form.cost, usage.data);
+  const issues = { ...quota.marks, ...form.issues };
   const law = draft.law as LawSpec;
   const solver = draft.solver as { kind: string; theta?: number };
 
@@ -60,8 +59,10 @@ export function LaunchForm({ start }: { start?: LaunchStart }) {
     });
   };
 
-  const submitError = submit.error instanceof ApiError && submit.error.code === 'QUOTA_EXCEEDED' ? quotaMessage(submit.error) : submit.error ? describeError(submit.error) : null;
-  const problems = Object.keys(issues).length;
+  const submitError = submit.error ? describeError(submit.error) : null;
+  // Named, because on a phone the marked field may be a long way above the button.
+  const problemNames = [...new Set(Object.keys(form.issues).map((k) => (k === 'pairLaw' ? 'Second law' : labelOf(k.split('.').pop()!))))];
+  const problems = problemNames.length;
 
   const formColumn = (
     <View style={styles.column}>
@@ -120,7 +121,7 @@ export function LaunchForm({ start }: { start?: LaunchStart }) {
       <View style={styles.submit}>
         {problems ? (
           <Txt variant="small" color={colors.danger} accessibilityLiveRegion="polite">
-            {problems === 1 ? '1 field needs attention.' : `${problems} fields need attention.`}
+            {`${problems === 1 ? '1 field needs' : `${problems} fields need`} attention: ${problemNames.join(', ')}.`}
           </Txt>
         ) : null}
         {submitError ? <Notice tone="danger">{submitError}</Notice> : null}
@@ -130,19 +131,21 @@ export function LaunchForm({ start }: { start?: LaunchStart }) {
   );
 
   return (
-    <Screen title="Launch a run" subtitle={start?.origin ?? 'Choose the initial conditions, the force law (or two), and how to integrate. Everything is checked against the same schema the server uses.'}>
-      {wide ? (
-        <View style={styles.columns}>
-          <View style={{ flex: 6 }}>{formColumn}</View>
-          <View style={{ flex: 5 }}>{sideColumn}</View>
-        </View>
-      ) : (
-        <>
-          {formColumn}
-          {sideColumn}
-        </>
-      )}
-    </Screen>
+    <QuotaLimitHints.Provider value={quota.hints}>
+      <Screen title="Launch a run" subtitle={start?.origin ?? 'Choose the initial conditions, the force law (or two), and how to integrate. Everything is checked against the same schema the server uses.'}>
+        {wide ? (
+          <View style={styles.columns}>
+            <View style={{ flex: 6 }}>{formColumn}</View>
+            <View style={{ flex: 5 }}>{sideColumn}</View>
+          </View>
+        ) : (
+          <>
+            {formColumn}
+            {sideColumn}
+          </>
+        )}
+      </Screen>
+    </QuotaLimitHints.Provider>
   );
 }
 

@@ -5,6 +5,7 @@ import { colors, fonts, radius, space } from '../../constants/theme';
 import { getIn, hasDisk, MODEL_PRESETS, SYSTEM_KINDS, withEquilibriumLaw, type Path } from '../../hooks/runDraft';
 import { ChoiceChips, FieldRow, Toggle } from '../fields';
 import { LAW_LABELS, MODEL_LABELS } from '../format';
+import { parseNumberText } from '../numberText';
 import { Txt } from '../Txt';
 import { styles as formStyles } from './formStyles';
 import { SpecNumber } from './SpecField';
@@ -62,15 +63,23 @@ function SystemFields({ draft, base, set, issues }: { draft: unknown; base: Path
   );
 }
 
-/** Parses pasted particle rows; returns the particles or the first line that is wrong. */
+const COLUMNS = ['x', 'y', 'z', 'vx', 'vy', 'vz', 'mass'];
+
+/** Parses pasted particle rows (columns split by spaces, commas or semicolons); returns the particles or the first line that is wrong. */
 export function parseParticleTable(text: string): { particles: Record<string, number>[] } | { error: string } {
   const particles: Record<string, number>[] = [];
   const lines = text.split(/\r?\n/);
   for (let i = 0; i < lines.length; i++) {
     const line = lines[i].trim();
     if (!line || line.startsWith('#')) continue;
-    const v = line.split(/[\s,;]+/).map(Number);
-    if (v.length !== 7 || v.some((x) => !Number.isFinite(x))) return { error: `Line ${i + 1}: expected 7 numbers (x y z vx vy vz mass), got "${line.slice(0, 60)}"` };
+    const words = line.split(/[\s,;]+/);
+    if (words.length !== 7) return { error: `Line ${i + 1}: expected 7 numbers (x y z vx vy vz mass), got ${words.length}: "${line.slice(0, 60)}"` };
+    const v: number[] = [];
+    for (const [j, word] of words.entries()) {
+      const read = parseNumberText(word);
+      if (read.state !== 'number') return { error: `Line ${i + 1}, ${COLUMNS[j]} "${word.slice(0, 30)}": ${read.state === 'invalid' ? read.problem : 'missing'}` };
+      v.push(read.value);
+    }
     const [x_kpc, y_kpc, z_kpc, vx_km_s, vy_km_s, vz_km_s, mass_Msun] = v;
     particles.push({ x_kpc, y_kpc, z_kpc, vx_km_s, vy_km_s, vz_km_s, mass_Msun });
   }

@@ -1,3 +1,4 @@
+import { createContext, useContext } from 'react';
 import { fieldBounds } from '../../hooks/specSchema';
 import { getIn, type Path } from '../../hooks/runDraft';
 import { NumberField } from '../fields';
@@ -14,12 +15,16 @@ export interface SpecNumberProps {
   label?: string;
 }
 
+/** The person's own limits for spec fields (from their quota), by issue key: "your limit 2 000". */
+export const QuotaLimitHints = createContext<Record<string, string>>({});
+
 /** A number of the run spec with its unit, range and description taken from the shared schema. */
 export function SpecNumber({ draft, path, onChange, issues, issueKey = path.join('.'), label }: SpecNumberProps) {
   const key = String(path[path.length - 1]);
   const b = fieldBounds(path, draft);
   const value = getIn(draft, path);
   const unit = unitOf(key);
+  const limit = useContext(QuotaLimitHints)[issueKey];
   return (
     <NumberField
       label={label ?? labelOf(key)}
@@ -32,6 +37,7 @@ export function SpecNumber({ draft, path, onChange, issues, issueKey = path.join
       integer={b.integer}
       optional={b.optional}
       hint={b.description}
+      limit={limit}
       error={issues[issueKey]}
       testID={`field-${issueKey}`}
     />

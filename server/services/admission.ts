@@ -2,31 +2,24 @@ import type { EntityManager } from '@mikro-orm/postgresql';
 import { ApiError } from '../errors';
 import { UsageEntry, type User } from '../db/entities';
 import { particleCount, stepCount, type RunSpec } from '../../shared/spec';
-import type { QuotaLimits, QuotaRefusal } from '../../shared/api/accounts';
+import type { QuotaRefusal } from '../../shared/api/accounts';
+import { describeRefusal } from '../../shared/api/quotaWords';
 import { activeRuns, budgetDay, effectiveLimits, interactionsOn, lockAllocation } from './quotas';
 import { afterCommit } from './after-commit';
 import { sendQuotaWarning } from './notifications';
 
 export const WARN_FRACTION = 0.8;
 
-const LABEL: Record<keyof QuotaLimits, string> = {
-  maxParticles: 'particles per run',
-  maxSteps: 'steps per run',
-  maxConcurrentRuns: 'concurrent runs',
-  dailyInteractions: 'daily budget (pair interactions)',
-};
-
 // 403 when the run can never fit the limit, 429 when it would fit later.
-function refuse(r: QuotaRefusal, status: 403 | 429): ApiError {
-  const tail = status === 429 ? (r.limit === 'dailyInteractions' ? '; the budget resets at 00:00 UTC' : '; wait for a run to end or cancel one') : '';
-  return new ApiError('QUOTA_EXCEEDED', `${LABEL[r.limit]}: limit ${r.max}, this submission needs ${r.needed}, ${r.remaining} left${tail}`, { status, details: r });
+function refuse(r: QuotaRefusal, status: 403 | 429, runs: number): ApiError {
+  return new ApiError('QUOTA_EXCEEDED', describeRefusal(r, runs), { status, details: r });
 }
 
 /**
  * Decides inside the submission transaction whether these runs may start, and charges
  * the ledger. The user's allocation row stays locked until the transaction ends, so
  * parallel submissions are decided one after another against committed usage.
- * Throws QUOTA_EXCEEDED naming the limit, the need and what is left.
+ * Throws QUOTA_EXCEEDED with a sentence naming the need, the limit and what is left.
  */
 export async function admitRuns(em: EntityManager, user: User, specs: RunSpec[], costs: number[]): Promise<void> {
   const allocation = await lockAllocation(em, user.id);
@@ -34,15 +27,15 @@ export async function admitRuns(em: EntityManager, user: User, specs: RunSpec[],
 
   for (const spec of specs) {
     const n = particleCount(spec);
-    if (n > limits.maxParticles) throw refuse({ limit: 'maxParticles', max: limits.maxParticles, needed: n, remaining: limits.maxParticles }, 403);
+    if (n > limits.maxParticles) throw refuse({ limit: 'maxParticles', max: limits.maxParticles, needed: n, remaining: limits.maxParticles }, 403, 1);
     const steps = stepCount(spec);
-    if (steps > limits.maxSteps) throw refuse({ limit: 'maxSteps', max: limits.maxSteps, needed: steps, remaining: limits.maxSteps }, 403);
+    if (steps > limits.maxSteps) throw refuse({ limit: 'maxSteps', max: limits.maxSteps, needed: steps, remaining: limits.maxSteps }, 403, 1);
   }
 
   const active = await activeRuns(em, user.id);
   const slots = Math.max(0, limits.maxConcurrentRuns - active);
   if (specs.length > slots) {
-    throw refuse({ limit: 'maxConcurrentRuns', max: limits.maxConcurrentRuns, needed: specs.length, remaining: slots }, specs.length > limits.maxConcurrentRuns ? 403 : 429);
+    throw refuse({ limit: 'maxConcurrentRuns', max: limits.maxConcurrentRuns, needed: specs.length, remaining: slots }, specs.length > limits.maxConcurrentRuns ? 403 : 429, specs.length);
   }
 
   const day = budgetDay();
@@ -50,7 +43,7 @@ export async function admitRuns(em: EntityManager, user: User, specs: RunSpec[],
   const needed = costs.reduce((sum, c) => sum + Math.ceil(c), 0);
   const left = Math.max(0, limits.dailyInteractions - used);
   if (needed > left) {
-    throw refuse({ limit: 'dailyInteractions', max: limits.dailyInteractions, needed, remaining: left }, needed > limits.dailyInteractions ? 403 : 429);
+    throw refuse({ limit: 'dailyInteractions', max: limits.dailyInteractions, needed, remaining: left }, needed > limits.dailyInteractions ? 403 : 429, specs.length);
   }
 
   em.create(UsageEntry, { user: user.id, day, interactions: needed, runs: specs.length });

@@ -1,19 +1,10 @@
 import type { EntityManager } from '@mikro-orm/postgresql';
 import { Allocation, Cohort, CohortMember, Run, type User } from '../db/entities';
-import type { AccountUsage, QuotaLimits, Role } from '../../shared/api/accounts';
+import { ROLE_LIMITS, type AccountUsage, type QuotaLimits, type Role } from '../../shared/api/accounts';
 
 // Quotas come from three places, most specific first: an admin's per-user grant,
 // then (for students) the most generous of their cohorts' quotas, then the role.
-// The numbers are our own choice for a small shared machine, not from any source.
-export const ROLE_LIMITS: Record<Role, QuotaLimits> = {
-  student: { maxParticles: 2_000, maxSteps: 5_000, maxConcurrentRuns: 2, dailyInteractions: 5e10 },
-  instructor: { maxParticles: 10_000, maxSteps: 20_000, maxConcurrentRuns: 4, dailyInteractions: 1e12 },
-  researcher: { maxParticles: 50_000, maxSteps: 100_000, maxConcurrentRuns: 8, dailyInteractions: 2e13 },
-  admin: { maxParticles: 100_000, maxSteps: 200_000, maxConcurrentRuns: 16, dailyInteractions: 1e14 },
-};
-
-/** An instructor can give a cohort at most what instructors have themselves. */
-export const COHORT_CEILING = ROLE_LIMITS.instructor;
+export { COHORT_CEILING, ROLE_LIMITS } from '../../shared/api/accounts';
 
 export const LIMIT_KEYS = ['maxParticles', 'maxSteps', 'maxConcurrentRuns', 'dailyInteractions'] as const satisfies readonly (keyof QuotaLimits)[];
 

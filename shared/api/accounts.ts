@@ -1,5 +1,7 @@
 import { z } from 'zod';
 import { runNameSchema } from '../spec/runSpec';
+import { LIMITS } from '../spec/runSpec';
+import { groupDigits, interactionsText } from './quotaWords';
 
 // Accounts, tokens, cohorts, quotas and templates: request bodies the app and
 // the server both check, and the shapes the server answers with.
@@ -118,22 +120,54 @@ export interface AdminUser extends AccountUser {
   limits: QuotaLimits;
 }
 
-// Ceilings on what any quota may be set to, so a typo can't grant unbounded compute.
+/** Each limit in words, for messages and forms. */
+export const LIMIT_WORDS: Record<keyof QuotaLimits, string> = {
+  maxParticles: 'particles per run',
+  maxSteps: 'steps per run',
+  maxConcurrentRuns: 'runs at a time',
+  dailyInteractions: 'pair interactions a day',
+};
+
+// The numbers are our own choice for a small shared machine, not from any source.
+export const ROLE_LIMITS: Record<Role, QuotaLimits> = {
+  student: { maxParticles: 2_000, maxSteps: 5_000, maxConcurrentRuns: 2, dailyInteractions: 5e10 },
+  instructor: { maxParticles: 10_000, maxSteps: 20_000, maxConcurrentRuns: 4, dailyInteractions: 1e12 },
+  researcher: { maxParticles: 50_000, maxSteps: 100_000, maxConcurrentRuns: 8, dailyInteractions: 2e13 },
+  admin: { maxParticles: 100_000, maxSteps: 200_000, maxConcurrentRuns: 16, dailyInteractions: 1e14 },
+};
+
+/**
+ * Ceilings on what any allocation may be set to: particles and steps no higher than the engine
+ * takes, the others so a typo can't grant unbounded compute.
+ */
 export const LIMIT_CEILINGS: QuotaLimits = {
-  maxParticles: 1_000_000,
-  maxSteps: 10_000_000,
+  maxParticles: LIMITS.maxParticles,
+  maxSteps: LIMITS.maxSteps,
   maxConcurrentRuns: 64,
   dailyInteractions: 1e15,
 };
 
-const limitField = (key: keyof QuotaLimits) => z.number().int(`${key} must be a whole number`).min(1, `${key} must be at least 1`).max(LIMIT_CEILINGS[key], `${key} is at most ${LIMIT_CEILINGS[key]}`);
+/** An instructor can give a cohort at most what instructors have themselves. */
+export const COHORT_CEILING: QuotaLimits = ROLE_LIMITS.instructor;
 
+const limitField = (key: keyof QuotaLimits, ceiling: QuotaLimits, why: string) =>
+  z
+    .number(`${LIMIT_WORDS[key]} must be a number`)
+    .int(`${LIMIT_WORDS[key]} must be a whole number`)
+    .min(1, `${LIMIT_WORDS[key]} must be at least 1`)
+    .max(ceiling[key], `${LIMIT_WORDS[key]} can be at most ${key === 'dailyInteractions' ? interactionsText(ceiling[key]) : groupDigits(ceiling[key])} (${why})`);
+
+const COHORT = 'what instructors have themselves';
+const allocationField = (key: keyof QuotaLimits) =>
+  limitField(key, LIMIT_CEILINGS, key === 'maxParticles' || key === 'maxSteps' ? "the engine's limit" : 'the most any allocation may give').nullable().optional();
+
+/** A cohort's quota: every limit, none above what instructors have (itself within the engine's limits). */
 export const quotaLimitsSchema = z
   .object({
-    maxParticles: limitField('maxParticles'),
-    maxSteps: limitField('maxSteps'),
-    maxConcurrentRuns: limitField('maxConcurrentRuns'),
-    dailyInteractions: limitField('dailyInteractions'),
+    maxParticles: limitField('maxParticles', COHORT_CEILING, COHORT),
+    maxSteps: limitField('maxSteps', COHORT_CEILING, COHORT),
+    maxConcurrentRuns: limitField('maxConcurrentRuns', COHORT_CEILING, COHORT),
+    dailyInteractions: limitField('dailyInteractions', COHORT_CEILING, COHORT),
   })
   .strict();
 
@@ -191,10 +225,10 @@ export type GrantRoleBody = z.infer<typeof grantRoleBodySchema>;
 // null clears an override; a missing key leaves it as it is.
 export const allocationBodySchema = z
   .object({
-    maxParticles: limitField('maxParticles').nullable().optional(),
-    maxSteps: limitField('maxSteps').nullable().optional(),
-    maxConcurrentRuns: limitField('maxConcurrentRuns').nullable().optional(),
-    dailyInteractions: limitField('dailyInteractions').nullable().optional(),
+    maxParticles: allocationField('maxParticles'),
+    maxSteps: allocationField('maxSteps'),
+    maxConcurrentRuns: allocationField('maxConcurrentRuns'),
+    dailyInteractions: allocationField('dailyInteractions'),
   })
   .strict();
 export type AllocationBody = z.infer<typeof allocationBodySchema>;

@@ -46,9 +46,11 @@ describe('quota refusals before submitting', () => {
   it('names every limit the run would break', () => {
     const r = refusals({ particles: 2000, steps: 400, interactions: 5e8, runs: 2 }, usage);
     expect(r).toHaveLength(3);
-    expect(r[0]).toMatch(/particles is over your limit/);
-    expect(r[1]).toMatch(/needs 2 run slots; you have 1 free of 2/);
-    expect(r[2]).toMatch(/costs 500 M interactions; 100 M of today's 1 G are left/);
+    expect(r).toEqual([
+      'This run has 2\u2009000 particles; your limit is 1\u2009000 particles per run.',
+      'These 2 runs need 2 run slots; 1 of your 2 is free. Wait for a run to end, or cancel one.',
+      'These 2 runs need 5e8 pair interactions; 1e8 of your 1e9 are left today. The budget resets at 00:00 UTC.',
+    ]);
   });
   it('finds nothing to refuse within the budget', () => {
     expect(refusals({ particles: 500, steps: 400, interactions: 1e7, runs: 1 }, usage)).toEqual([]);

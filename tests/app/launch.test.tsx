@@ -30,7 +30,7 @@ describe('the new-run form', () => {
     expect(view.getByTestId('cost-total').textContent).toContain('N = 500');
     type(field(container, 'model.n'), '5000');
     await settle();
-    expect(view.getByText(/Would be refused: 5 000 particles is over your limit of 2 000/)).toBeTruthy();
+    expect(view.getByText(/Would be refused\. This run has 5 000 particles; your limit is 2 000 particles per run\./)).toBeTruthy();
   });
 
   it('offers the engine\'s suggested timestep when the chosen one is too coarse', async () => {

@@ -110,6 +110,32 @@ describe('a cohort from creation to a cloned template', () => {
     expect(malformed.body.error.field).toBe('code');
   });
 
+  test('a cohort quota can never exceed the engine\'s limits or what instructors have, and nothing is stored when refused', async () => {
+    const created = await instructor.post('/api/cohorts').set('X-CSRF-Token', instructorCsrf).send({ name: 'Capped (invented)' }).expect(201);
+    const id = created.body.cohort.id;
+    const before = created.body.cohort.quota;
+    const put = (quota: object) => instructor.put(`/api/cohorts/${id}/quota`).set('X-CSRF-Token', instructorCsrf).send({ ...before, ...quota });
+
+    // Above the engine's limits (100 000 particles, 200 000 steps per run).
+    const engine = await put({ maxParticles: 150_000 }).expect(400);
+    expect(engine.body.error.field).toBe('maxParticles');
+    expect(engine.body.error.message).toContain('particles per run can be at most 10\u2009000 (what instructors have themselves)');
+    const steps = await put({ maxSteps: 1e6 }).expect(400);
+    expect(steps.body.error.message).toContain('steps per run can be at most 20\u2009000');
+    // Within the engine's limits but above an instructor's own.
+    await put({ maxParticles: 10_001 }).expect(400);
+    const daily = await put({ dailyInteractions: 2e12 }).expect(400);
+    expect(daily.body.error.message).toContain('pair interactions a day can be at most 1e12');
+    const fraction = await put({ maxConcurrentRuns: 1.5 }).expect(400);
+    expect(fraction.body.error.message).toContain('runs at a time must be a whole number');
+
+    expect((await instructor.get(`/api/cohorts/${id}`).expect(200)).body.cohort.quota).toEqual(before);
+
+    await put({ maxParticles: 10_000, maxSteps: 20_000 }).expect(200);
+    const listed = await instructor.get('/api/cohorts').expect(200);
+    expect(listed.body.cohorts.find((c: { id: number }) => c.id === id).quota).toEqual({ ...before, maxParticles: 10_000, maxSteps: 20_000 });
+  });
+
   test('the seeded demo cohort has its three invented students and its quota', async () => {
     const { cohort } = s.seeded;
     const members = await instructor.get(`/api/cohorts/${cohort.id}/members`).expect(200);

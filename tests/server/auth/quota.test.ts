@@ -18,7 +18,7 @@ const spec = (over: Partial<RunSpec> & { n?: number } = {}): RunSpec => {
   const { n, ...rest } = over;
   return { ...base, ...rest, model: { ...base.model, ...(n ? { n } : {}) } as RunSpec['model'] };
 };
-const COST = estimateInteractions(defaultRunSpec()); // 500^2 x 200 steps = 5e7
+const COST = estimateInteractions(defaultRunSpec()); // 500^2 x 250 steps = 6.25e7
 
 async function ledger(userId: number) {
   const rows = await s.em().find(UsageEntry, { user: userId, day: budgetDay() });
@@ -27,15 +27,16 @@ async function ledger(userId: number) {
 
 const submit = (auth: Record<string, string>, body: object) => request(s.app).post('/api/runs').set(auth).send(body);
 
-describe('quota refusals name the limit, the need and what is left', () => {
+describe('quota refusals say in a sentence, with units, what the run needs and what is left', () => {
   test('particles and steps beyond the role quota are refused with 403, and nothing is charged', async () => {
     const { user, auth } = await userWithToken(s);
     const big = await submit(auth, { spec: spec({ n: 5000 }) }).expect(403);
     expect(big.body.error).toMatchObject({ code: 'QUOTA_EXCEEDED', details: { limit: 'maxParticles', max: 2000, needed: 5000, remaining: 2000 } });
-    expect(big.body.error.message).toMatch(/particles per run: limit 2000, this submission needs 5000/);
+    expect(big.body.error.message).toBe('This run has 5\u2009000 particles; your limit is 2\u2009000 particles per run.');
 
     const long = await submit(auth, { spec: spec({ duration_Myr: 6000, timestep_Myr: 1, snapshotEvery: 100 }) }).expect(403);
     expect(long.body.error.details).toEqual({ limit: 'maxSteps', max: 5000, needed: 6000, remaining: 5000 });
+    expect(long.body.error.message).toBe('This run takes 6\u2009000 steps (duration ÷ timestep); your limit is 5\u2009000 steps per run. Use a longer timestep or a shorter duration.');
     expect(await ledger(user.id)).toEqual({ interactions: 0, runs: 0 });
   });
 
@@ -45,9 +46,11 @@ describe('quota refusals name the limit, the need and what is left', () => {
     await submit(auth, { spec: spec() }).expect(201);
     const later = await submit(auth, { spec: spec() }).expect(429);
     expect(later.body.error.details).toEqual({ limit: 'dailyInteractions', max: 1.5 * COST, needed: COST, remaining: 0.5 * COST });
-    expect(later.body.error.message).toMatch(/resets at 00:00 UTC/);
+    // 6.25e7 interactions a run (500² × 250 steps), 9.375e7 a day: three significant digits.
+    expect(later.body.error.message).toBe('This run needs 6.25e7 pair interactions; 3.13e7 of your 9.38e7 are left today. The budget resets at 00:00 UTC.');
     const never = await submit(auth, { spec: spec({ n: 1000 }) }).expect(403);
     expect(never.body.error.details).toMatchObject({ limit: 'dailyInteractions', needed: 4 * COST });
+    expect(never.body.error.message).toBe('This run needs 2.5e8 pair interactions, more than your whole daily budget of 9.38e7. Use fewer particles or steps, or the tree solver.');
 
     const usage = await request(s.app).get('/api/account/usage').set(auth).expect(200);
     expect(usage.body).toMatchObject({
@@ -64,6 +67,22 @@ describe('quota refusals name the limit, the need and what is left', () => {
     await submit(auth, { spec: spec() }).expect(201);
     const pair = await submit(auth, { spec: spec(), pairLaw: { kind: 'mond', interpolation: 'simple' } }).expect(429);
     expect(pair.body.error.details).toEqual({ limit: 'maxConcurrentRuns', max: 2, needed: 2, remaining: 1 });
+    expect(pair.body.error.message).toBe('These 2 runs need 2 run slots; 1 of your 2 is free. Wait for a run to end, or cancel one.');
+  });
+});
+
+describe('refusal wording for big numbers', () => {
+  test('a daily budget in the hundreds of billions reads with powers of ten, and counts with digit groups', async () => {
+    const { user, auth } = await userWithToken(s, 'researcher');
+    // A 24 000-particle direct-sum run of 250 steps costs 24 000² × 250 = 1.44e11 pair interactions.
+    await setAllocation(s.em(), user, { dailyInteractions: 9.96e10 });
+    const big = spec({ n: 24_000, duration_Myr: 50, timestep_Myr: 0.2, snapshotEvery: 25 });
+    expect(estimateInteractions(big)).toBe(1.44e11);
+    const res = await submit(auth, { spec: big }).expect(403);
+    expect(res.body.error.message).toBe('This run needs 1.44e11 pair interactions, more than your whole daily budget of 9.96e10. Use fewer particles or steps, or the tree solver.');
+    const wide = await submit(auth, { spec: spec({ n: 60_000 }) }).expect(403);
+    expect(wide.body.error.message).toBe('This run has 60\u2009000 particles; your limit is 50\u2009000 particles per run.');
+    expect(await ledger(user.id)).toEqual({ interactions: 0, runs: 0 });
   });
 });
 

@@ -1,0 +1,37 @@
+import type { QuotaRefusal } from './accounts';
+
+// Quota refusals as sentences, the same on the server (the QUOTA_EXCEEDED message) and in the
+// new-run form (before submitting): units, digits in groups, what to change.
+
+/** Whole counts in groups of three split by thin spaces: 5 000, 1 200 000. */
+export function groupDigits(n: number): string {
+  return Math.round(n).toString().replace(/\B(?=(\d{3})+(?!\d))/g, '\u2009');
+}
+
+/** Pair interactions: grouped digits up to a million, then three significant digits and a power of ten (1.42e11). */
+export function interactionsText(n: number): string {
+  if (Math.abs(n) < 1e6) return groupDigits(n);
+  const [mantissa, exponent] = n.toExponential(2).split('e');
+  return `${Number(mantissa)}e${Number(exponent)}`;
+}
+
+/** Why a submission is refused; `runs` is how many runs it starts (2 for a pair). */
+export function describeRefusal(r: QuotaRefusal, runs = 1): string {
+  // Over the limit itself it never fits; otherwise it fits later (a slot frees, the day turns).
+  const never = r.needed > r.max;
+  const subject = runs > 1 ? `These ${runs} runs` : 'This run';
+  switch (r.limit) {
+    case 'maxParticles':
+      return `This run has ${groupDigits(r.needed)} particles; your limit is ${groupDigits(r.max)} particles per run.`;
+    case 'maxSteps':
+      return `This run takes ${groupDigits(r.needed)} steps (duration ÷ timestep); your limit is ${groupDigits(r.max)} steps per run. Use a longer timestep or a shorter duration.`;
+    case 'maxConcurrentRuns':
+      return never
+        ? `${subject} would need ${r.needed} run slots at once; your limit is ${r.max}.`
+        : `${subject} need${runs > 1 ? '' : 's'} ${r.needed} run slot${r.needed > 1 ? 's' : ''}; ${r.remaining} of your ${r.max} ${r.remaining === 1 ? 'is' : 'are'} free. Wait for a run to end, or cancel one.`;
+    case 'dailyInteractions':
+      return never
+        ? `${subject} need${runs > 1 ? '' : 's'} ${interactionsText(r.needed)} pair interactions, more than your whole daily budget of ${interactionsText(r.max)}. Use fewer particles or steps, or the tree solver.`
+        : `${subject} need${runs > 1 ? '' : 's'} ${interactionsText(r.needed)} pair interactions; ${interactionsText(r.remaining)} of your ${interactionsText(r.max)} are left today. The budget resets at 00:00 UTC.`;
+  }
+}
