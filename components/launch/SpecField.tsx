@@ -43,6 +43,7 @@ const LABELS: Record<string, string> = {
   seed: 'Random seed',
   theta: 'Opening angle θ',
   a0_m_s2: 'a0',
+  box_kpc: 'Grid box side',
   H0_km_s_Mpc: 'H0',
   alpha: 'Strength α',
   lambda_kpc: 'Range λ',

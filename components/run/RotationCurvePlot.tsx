@@ -42,7 +42,15 @@ export function RotationCurvePlot({ runs, atFrame }: { runs: PlottedRun[]; atFra
       const newton = c.law === 'newton';
       if (newton && newtonShown) continue;
       newtonShown ||= newton;
-      series.push({ id: `${r.id}-a-${c.law}`, label: `analytic, ${c.label}`, color: newton ? colors.textFaint : r.color, x: r.out.rotationCurves.analytic.radii_kpc, y: c.v_km_s, dashed: true });
+      // The field form has no closed-form curve: its preview is the algebraic form, so the gap to the
+      // curve from forces is the field form's own effect (largest for disks), shown rather than hidden.
+      const label = c.law === 'qumond' ? `algebraic form (preview of ${c.label})` : `analytic, ${c.label}`;
+      series.push({ id: `${r.id}-a-${c.law}`, label, color: newton ? colors.textFaint : r.color, x: r.out.rotationCurves.analytic.radii_kpc, y: c.v_km_s, dashed: true });
+      const measured = when === 'now' ? null : r.out.rotationCurves[when];
+      const radii = r.out.rotationCurves.analytic.radii_kpc;
+      if (c.law === 'qumond' && measured && measured.radii_kpc.length === radii.length && measured.radii_kpc.every((R, k) => Math.abs(R - radii[k]) <= 1e-9 * R)) {
+        series.push({ id: `${r.id}-qumond-gap`, label: `${tag}field form − algebraic form`, color: colors.textMuted, x: radii, y: radii.map((_, k) => measured.circular_km_s[k] - c.v_km_s[k]) });
+      }
     }
   }
   const choices = [
