@@ -7,7 +7,7 @@ import { IsolatedPoisson } from '../../shared/engine/solvers/grid';
 import type { Points, Sources } from '../../shared/engine/state';
 import { allocateAccelerations } from '../../shared/engine/state';
 import { G } from '../../shared/engine/units';
-import { parseRunSpec, type LawSpec } from '../../shared/spec';
+import { estimateInteractions, parseRunSpec, type LawSpec } from '../../shared/spec';
 import { M_PER_KPC, specWith } from './helpers';
 
 /** a0 = 1.2e-10 m/s^2 in (km/s)^2/kpc, from the IAU kpc written out in the helpers. */
@@ -135,6 +135,15 @@ describe('QUMOND on a grid', () => {
     expect(Number.isFinite(result.summary.maxAbsEnergyDrift)).toBe(true);
     console.log(`QUMOND Plummer, 1000 leapfrog steps, grid 32: max |dE/E| = ${result.summary.maxAbsEnergyDrift}, momentum drift = ${result.summary.finalMomentumDrift}`);
   }, 600_000);
+
+  test('the quota counts the grid: 60 g^3 log2(2g) pair interactions per evaluation on top of the pair sum', () => {
+    const base = { model: { kind: 'plummer', n: 1000, mass_Msun: 1e9, scale_kpc: 1 }, integrator: 'yoshida4', timestep_Myr: 1, duration_Myr: 10 };
+    const newton = estimateInteractions(specWith({ ...base, law: { kind: 'newton' } }));
+    for (const g of [32, 64, 128]) {
+      const field = estimateInteractions(specWith({ ...base, law: qumond({ grid: g }) }));
+      expect(field - newton).toBe(Math.round(60 * g ** 3 * Math.log2(2 * g) * 3 * 10));
+    }
+  });
 
   test('bad grid options are refused with a message naming the field', () => {
     const r = parseRunSpec({ ...specWith({}), law: { kind: 'qumond', grid: 48 } });
