@@ -148,8 +148,8 @@ class PhantomGrid {
   private readonly poisson: IsolatedPoisson;
   private readonly mass: Float64Array;
   private readonly phi: Float64Array;
+  /** The grid's g_N, overwritten by the bracket w once that is formed. */
   private readonly gN: GridVectors;
-  private readonly w: GridVectors;
   /** Phantom field at the nodes after `solve`. */
   readonly gP: GridVectors;
   private readonly a0: number;
@@ -164,7 +164,6 @@ class PhantomGrid {
     this.mass = new Float64Array(n * n * n);
     this.phi = new Float64Array(n * n * n);
     this.gN = allocateGridVectors(n);
-    this.w = allocateGridVectors(n);
     this.gP = allocateGridVectors(n);
     this.a0 = accelFromSI(p.a0_m_s2);
     const e = p.externalField_m_s2 ?? [0, 0, 0];
@@ -183,7 +182,8 @@ class PhantomGrid {
   /** Phantom field at the nodes from the sources. */
   solve(src: Sources, inside: Uint8Array): void {
     this.newtonian(src, inside);
-    const { gN, w, a0, ge, nuE, p } = this;
+    const { gN, a0, ge, nuE, p } = this;
+    const w = gN; // formed in place, node by node
     const [ex, ey, ez] = ge;
     for (let q = 0; q < gN.x.length; q++) {
       const gx = gN.x[q] + ex, gy = gN.y[q] + ey, gz = gN.z[q] + ez;
