@@ -40,7 +40,7 @@ describe('isolated FFT Poisson solver', () => {
     // Two masses in opposite corners: a periodic solve would make each feel the other's image at distance ~h.
     mass[(0 * n + 1) * n + 0] = 3;
     mass[((n - 1) * n + (n - 2)) * n + (n - 1)] = 2;
-    solver.potential(mass, h, phi);
+    solver.potential(mass, h, phi, solver.kernel(0, false)); // the plain sampled kernel, no window correction
     let worst = 0;
     for (const [i, j, k] of [[0, 0, 0], [5, 9, 2], [15, 15, 15], [8, 0, 15]]) {
       const r1 = h * Math.hypot(i, j - 1, k), r2 = h * Math.hypot(i - (n - 1), j - (n - 2), k - (n - 1));
@@ -64,17 +64,44 @@ describe('QUMOND on a grid', () => {
     });
   });
 
-  test('for a point mass (spherical) the field equals the algebraic form within 1% from 12 cells to the ball edge, 25% from 2 cells (Milgrom 2010: they coincide in spherical symmetry)', () => {
+  test('a resolved sphere: the field equals the algebraic form within 1% from 3 cells to the ball edge, 4% at 2 cells (Milgrom 2010: they coincide in spherical symmetry)', () => {
+    // A Plummer sphere (scale a = 4 cells) laid on a lattice one cell apart, so the test has no sampling noise.
+    const M = 1e9, box = 40, h = box / 63, a = 4 * h, eps = h;
+    const x: number[] = [], y: number[] = [], z: number[] = [], m: number[] = [];
+    const K = Math.ceil((6 * a) / h);
+    for (let i = -K; i <= K; i++) for (let j = -K; j <= K; j++) for (let k = -K; k <= K; k++) {
+      const px = (i + 0.5) * h, py = (j + 0.5) * h, pz = (k + 0.5) * h, r2 = px * px + py * py + pz * pz;
+      if (r2 > 36 * a * a) continue;
+      x.push(px); y.push(py); z.push(pz);
+      m.push(((3 * M) / (4 * Math.PI * a ** 3)) * (1 + r2 / (a * a)) ** -2.5 * h ** 3);
+    }
+    const sphere: Sources = { x: Float64Array.from(x), y: Float64Array.from(y), z: Float64Array.from(z), m: Float64Array.from(m) };
+    const cells = [2, 3, 4, 6, 10, 15, 20, 25, 29.5];
+    // Probes relative to the first lattice point; shift them to the sphere's centre.
+    const c = [-sphere.x[0], -sphere.y[0], -sphere.z[0]];
+    const rel = cells.flatMap((q) => DIRECTIONS.map((d) => d.map((v, k) => v * q * h + 0.013 + c[k])));
+    const field = fieldAt(qumond({ box_kpc: box }), sphere, rel, eps);
+    const newton = fieldAt({ kind: 'newton' }, sphere, rel, eps);
+    rel.forEach((_, k) => {
+      const q = cells[Math.floor(k / DIRECTIONS.length)];
+      const algebraic = mondAcceleration({ kind: 'mond', interpolation: 'simple', a0_m_s2: 1.2e-10 }, Math.hypot(...newton[k]));
+      const err = Math.abs(Math.hypot(...field[k]) / algebraic - 1);
+      // Measured: at most 3.6% at 2 cells, 0.9% from 3 cells; the grid smooths the phantom part on the cell scale.
+      expect(err).toBeLessThan(q >= 3 ? 0.01 : 0.04);
+    });
+  });
+
+  test('an unresolved point mass: within 1% of the algebraic form from 8 cells to the ball edge, 15% from 2 cells', () => {
     const M = 1e8, box = 40, h = box / 63;
-    const radii = [2, 3, 5, 8, 12, 16, 20, 25, 29.5].map((c) => c * h);
-    const rel = radii.flatMap((r) => DIRECTIONS.map((d) => d.map((c) => c * r)));
+    const cells = [2, 3, 5, 8, 12, 16, 20, 25, 29.5];
+    const rel = cells.flatMap((q) => DIRECTIONS.map((d) => d.map((v) => v * q * h)));
     const g = fieldAt(qumond({ box_kpc: box }), pointMass(M), rel);
     rel.forEach((p, k) => {
+      const q = cells[Math.floor(k / DIRECTIONS.length)];
       const r = Math.hypot(p[0], p[1], p[2]);
       const algebraic = mondAcceleration({ kind: 'mond', interpolation: 'simple', a0_m_s2: 1.2e-10 }, (G * M) / (r * r));
-      const err = Math.abs(Math.hypot(...g[k]) / algebraic - 1);
-      // Inside 12 cells the grid's finite differences of an unresolved mass limit the phantom part (measured 18% at 2 cells, 3% at 5).
-      expect(err).toBeLessThan(r >= 12 * h - 1e-9 ? 0.01 : 0.25);
+      // A mass inside one cell is not resolved by the grid's phantom part (measured 11% at 2 cells, 4% at 3).
+      expect(Math.abs(Math.hypot(...g[k]) / algebraic - 1)).toBeLessThan(q >= 8 ? 0.01 : 0.15);
     });
   });
 

@@ -146,6 +146,8 @@ export function defaultGridBox(src: Sources): { side_kpc: number; cx: number; cy
 class PhantomGrid {
   readonly geo: GridGeometry;
   private readonly poisson: IsolatedPoisson;
+  /** The pair sum's softening on the grid, so the phantom part follows the same softened g_N. */
+  private readonly softened: Float64Array;
   private readonly mass: Float64Array;
   private readonly phi: Float64Array;
   /** The grid's g_N, overwritten by the bracket w once that is formed. */
@@ -156,11 +158,12 @@ class PhantomGrid {
   private readonly ge: [number, number, number];
   private readonly nuE: number;
 
-  constructor(private readonly p: QumondParams, box: { side_kpc: number; cx: number; cy: number; cz: number }) {
+  constructor(private readonly p: QumondParams, box: { side_kpc: number; cx: number; cy: number; cz: number }, softening_kpc: number) {
     const n = p.grid;
     const h = box.side_kpc / (n - 1);
     this.geo = { n, h, x0: box.cx - box.side_kpc / 2, y0: box.cy - box.side_kpc / 2, z0: box.cz - box.side_kpc / 2 };
     this.poisson = new IsolatedPoisson(n);
+    this.softened = softening_kpc > 0 ? this.poisson.kernel(softening_kpc / h) : this.poisson.plain;
     this.mass = new Float64Array(n * n * n);
     this.phi = new Float64Array(n * n * n);
     this.gN = allocateGridVectors(n);
@@ -175,7 +178,7 @@ class PhantomGrid {
   /** Grid g_N from the sources; `inside` flags the sources that lie in the grid. */
   newtonian(src: Sources, inside: Uint8Array): void {
     depositMass(this.geo, src, this.mass, inside);
-    this.poisson.potential(this.mass, this.geo.h, this.phi);
+    this.poisson.potential(this.mass, this.geo.h, this.phi, this.softened);
     negativeGradient(this.geo, this.phi, this.gN);
   }
 
@@ -267,7 +270,7 @@ export const qumondLaw = defineLaw({
       if (!grid) {
         const box = defaultGridBox(initial ?? src);
         if (params.box_kpc) box.side_kpc = params.box_kpc;
-        grid = new PhantomGrid(params, box);
+        grid = new PhantomGrid(params, box, softening_kpc);
       }
       return grid;
     };

@@ -91,33 +91,37 @@ export function interpolateVectors(g: GridGeometry, f: GridVectors, pts: Points,
 }
 
 /**
- * g = -grad(phi) on the nodes: central differences inside, one-sided (three
- * nodes) on the faces of the grid: second order in h throughout.
+ * d/dx along one axis at node idx (position pos of n, stride s): fourth-order
+ * central differences inside, second-order central one node from a face, and
+ * second-order one-sided (three nodes) on the faces.
  */
+function derivative(f: Float64Array, idx: number, pos: number, n: number, s: number, h: number): number {
+  if (pos >= 2 && pos <= n - 3) return (8 * (f[idx + s] - f[idx - s]) - (f[idx + 2 * s] - f[idx - 2 * s])) / (12 * h);
+  if (pos === 0) return (4 * f[idx + s] - 3 * f[idx] - f[idx + 2 * s]) / (2 * h);
+  if (pos === n - 1) return (3 * f[idx] - 4 * f[idx - s] + f[idx - 2 * s]) / (2 * h);
+  return (f[idx + s] - f[idx - s]) / (2 * h);
+}
+
+/** g = -grad(phi) on the nodes (see `derivative` for the stencils). */
 export function negativeGradient(g: GridGeometry, phi: Float64Array, out: GridVectors): void {
-  const n = g.n, inv2h = 0.5 / g.h;
+  const n = g.n;
   const strides = [n * n, n, 1];
   const comps = [out.x, out.y, out.z];
   for (let axis = 0; axis < 3; axis++) {
     const s = strides[axis], o = comps[axis];
-    for (let idx = 0; idx < phi.length; idx++) {
-      const pos = floor(idx / s) % n;
-      if (pos === 0) o[idx] = -(4 * phi[idx + s] - 3 * phi[idx] - phi[idx + 2 * s]) * inv2h;
-      else if (pos === n - 1) o[idx] = -(3 * phi[idx] - 4 * phi[idx - s] + phi[idx - 2 * s]) * inv2h;
-      else o[idx] = -(phi[idx + s] - phi[idx - s]) * inv2h;
-    }
+    for (let idx = 0; idx < phi.length; idx++) o[idx] = -derivative(phi, idx, floor(idx / s) % n, n, s, g.h);
   }
 }
 
-/** div(w) at interior nodes by central differences; zero on the faces (no source is placed beyond the interior). */
+/** div(w) at interior nodes (stencils as in `derivative`); zero on the faces (no source is placed beyond the interior). */
 export function divergence(g: GridGeometry, w: GridVectors, out: Float64Array): void {
-  const n = g.n, inv2h = 0.5 / g.h, nn = n * n;
+  const n = g.n, nn = n * n, h = g.h;
   out.fill(0);
   for (let i = 1; i < n - 1; i++) {
     for (let j = 1; j < n - 1; j++) {
       for (let k = 1; k < n - 1; k++) {
         const idx = (i * n + j) * n + k;
-        out[idx] = (w.x[idx + nn] - w.x[idx - nn] + w.y[idx + n] - w.y[idx - n] + w.z[idx + 1] - w.z[idx - 1]) * inv2h;
+        out[idx] = derivative(w.x, idx, i, n, nn, h) + derivative(w.y, idx, j, n, n, h) + derivative(w.z, idx, k, n, 1, h);
       }
     }
   }
@@ -125,16 +129,16 @@ export function divergence(g: GridGeometry, w: GridVectors, out: Float64Array): 
 
 /**
  * Isolated Poisson solver on an n^3 node grid (n a power of two): the node
- * masses are convolved with the free-space Green's function -G/r sampled on
- * the nodes, by FFT over a grid doubled in every direction and zero-padded
+ * masses are convolved with the free-space Green's function -G/r (optionally
+ * softened) sampled on the nodes, by FFT over a grid doubled in every direction and zero-padded
  * (the method of Hockney & Eastwood 1981, from memory), so no periodic images
  * act. Transforms run line by line and skip lines known to be zero, so the
  * working array holds n * 2n * 2n complex values rather than (2n)^3.
  */
 export class IsolatedPoisson {
   readonly n: number;
-  /** Transform of 1/r (unit spacing) on the doubled grid; real and even, so (n+1)^3 values hold it. */
-  private readonly green: Float64Array;
+  /** Transform of 1/r (unit spacing) on the doubled grid, window divided out; real and even, so (n+1)^3 values hold it. */
+  readonly plain: Float64Array;
   private readonly work: Float64Array;
   private readonly fft: FFT;
   private readonly a: Float64Array;
@@ -148,16 +152,21 @@ export class IsolatedPoisson {
     this.a = new Float64Array(2 * m);
     this.b = new Float64Array(2 * m);
     this.work = new Float64Array(n * m * m * 2);
-    this.green = this.greenTransform();
+    this.plain = this.kernel(0);
   }
 
-  /** The kernel is even in each axis, so each 1-D transform maps a half line [0, n] to a real half line [0, n]. */
-  private greenTransform(): Float64Array {
-    const n = this.n, m = 2 * n, s = n + 1;
+  /**
+   * Transform of the Plummer-softened kernel 1/sqrt(r^2 + e^2), e in node spacings (0: plain
+   * 1/r). The self-term blends the cube's 1/r average with 1/e, so it tends to each in its limit.
+   * With `deconvolve` the cloud-in-cell window is divided out (see below).
+   * The kernel is even in each axis, so each 1-D transform maps a half line [0, n] to a real half line [0, n].
+   */
+  kernel(e: number, deconvolve = true): Float64Array {
+    const n = this.n, m = 2 * n, s = n + 1, e2 = e * e;
     const k = new Float64Array(s * s * s);
     for (let i = 0; i <= n; i++) for (let j = 0; j <= n; j++) for (let l = 0; l <= n; l++) {
-      const r = sqrt(i * i + j * j + l * l);
-      k[(i * s + j) * s + l] = r === 0 ? CUBE_CENTRE_POTENTIAL : 1 / r;
+      const r2 = i * i + j * j + l * l;
+      k[(i * s + j) * s + l] = r2 === 0 ? 1 / sqrt(e2 + 1 / (CUBE_CENTRE_POTENTIAL * CUBE_CENTRE_POTENTIAL)) : 1 / sqrt(r2 + e2);
     }
     const { a, b } = this;
     const strides = [s * s, s, 1];
@@ -170,13 +179,23 @@ export class IsolatedPoisson {
         for (let q = 0; q <= n; q++) k[base + q * st] = b[2 * q];
       }
     }
+    if (!deconvolve) return k;
+    // Divide out the cloud-in-cell window, sinc^2(k h / 2) per axis, once: a common-practice
+    // correction that undoes the smoothing of the deposit (first solve) or of the
+    // interpolation that follows (second solve), so fields stay sharp a few cells from a mass.
+    const window = new Float64Array(s);
+    for (let q = 0; q <= n; q++) {
+      const x = (Math.PI * q) / m;
+      window[q] = q === 0 ? 1 : (Math.sin(x) / x) ** 2;
+    }
+    for (let i = 0; i <= n; i++) for (let j = 0; j <= n; j++) for (let l = 0; l <= n; l++) k[(i * s + j) * s + l] /= window[i] * window[j] * window[l];
     return k;
   }
 
-  /** Potential per unit mass, (km/s)^2, at the nodes due to node masses (Msun), for node spacing h (kpc). */
-  potential(mass: Float64Array, h: number, out: Float64Array): void {
+  /** Potential per unit mass, (km/s)^2, at the nodes due to node masses (Msun), for node spacing h (kpc), with a kernel from `kernel`. */
+  potential(mass: Float64Array, h: number, out: Float64Array, green: Float64Array = this.plain): void {
     const n = this.n, m = 2 * n, s = n + 1;
-    const { work: W, a, b, fft, green } = this;
+    const { work: W, a, b, fft } = this;
     const rowX = m * m * 2, rowY = m * 2;
     W.fill(0);
     // z lines of the occupied octant.
