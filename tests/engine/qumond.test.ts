@@ -1,4 +1,4 @@
-import { buildInitialConditions, runSimulation } from '../../shared/engine';
+import { buildInitialConditions, precheck, runSimulation } from '../../shared/engine';
 import { mondAcceleration, mondNu } from '../../shared/engine/laws/mond';
 import { phantomEnergyDensity } from '../../shared/engine/laws/qumond';
 import { createLaw } from '../../shared/engine/laws/registry';
@@ -170,6 +170,15 @@ describe('QUMOND on a grid', () => {
       const field = estimateInteractions(specWith({ ...base, law: qumond({ grid: g }) }));
       expect(field - newton).toBe(Math.round(60 * g ** 3 * Math.log2(2 * g) * 3 * 10));
     }
+  });
+
+  test('the precheck says when the grid is coarse for the model or leaves particles outside', () => {
+    const model = { kind: 'plummer', n: 500, mass_Msun: 1e10, scale_kpc: 1 };
+    const codes = (law: Record<string, unknown>) => precheck(specWith({ model, law: qumond(law) })).warnings.map((w) => w.code);
+    expect(codes({})).not.toContain('outside-grid');
+    expect(codes({ box_kpc: 3 })).toContain('outside-grid');
+    expect(codes({ grid: 32, box_kpc: 80 })).toContain('grid-coarse');
+    expect(codes({ grid: 64, box_kpc: 20 })).not.toContain('grid-coarse');
   });
 
   test('bad grid options are refused with a message naming the field', () => {

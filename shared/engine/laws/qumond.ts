@@ -9,6 +9,7 @@ import { accelFromSI, G } from '../units';
 import { mondLaw, mondNu } from './mond';
 import { pairPotentialEnergy, scratchFor } from './pairwise';
 import { defineLaw, type LawInfo } from './types';
+import type { EngineWarning } from '../timescales';
 
 const { hypot, log10, sqrt } = Math;
 
@@ -128,6 +129,41 @@ export function defaultGridBox(src: Sources): { side_kpc: number; cx: number; cy
   let rMax = 0;
   for (let i = 0; i < n; i++) rMax = Math.max(rMax, hypot(src.x[i] - cx, src.y[i] - cy, src.z[i] - cz));
   return { side_kpc: 2.5 * (rMax || 1), cx, cy, cz };
+}
+
+/** The grid a run will use: its box (from the initial particles unless set), spacing and ball radius. */
+function gridGeometryFor(params: QumondParams, initial: Sources) {
+  const box = defaultGridBox(initial);
+  if (params.box_kpc) box.side_kpc = params.box_kpc;
+  const h = box.side_kpc / (params.grid - 1);
+  return { box, h, ballRadius_kpc: ((params.grid - 1) / 2 - 1) * h };
+}
+
+/** What the precheck says about a field-form run's grid, from the run's initial particles. */
+export function qumondGridNotes(params: QumondParams, initial: Sources, halfMassRadius_kpc: number): EngineWarning[] {
+  const notes: EngineWarning[] = [];
+  const { box, h, ballRadius_kpc } = gridGeometryFor(params, initial);
+  if (h > 0.5 * halfMassRadius_kpc) {
+    notes.push({
+      code: 'grid-coarse',
+      severity: 'warning',
+      message: `the grid spacing ${h.toPrecision(3)} kpc is more than half the half-mass radius (${halfMassRadius_kpc.toPrecision(3)} kpc): the phantom field is smoothed over the system's own structure (within 3 cells of a mass it is good to a few percent only); use a smaller box_kpc or a larger grid`,
+      source: 'this engine (tests/engine/qumond.test.ts)',
+    });
+  }
+  let outside = 0;
+  for (let i = 0; i < initial.m.length; i++) {
+    if (hypot(initial.x[i] - box.cx, initial.y[i] - box.cy, initial.z[i] - box.cz) > ballRadius_kpc) outside++;
+  }
+  if (outside > 0) {
+    notes.push({
+      code: 'outside-grid',
+      severity: 'warning',
+      message: `${outside} particles start outside the grid's ball (radius ${ballRadius_kpc.toPrecision(3)} kpc): they get the algebraic form, and momentum is then not exactly conserved`,
+      source: 'this engine',
+    });
+  }
+  return notes;
 }
 
 /**
@@ -267,11 +303,7 @@ export const qumondLaw = defineLaw({
     let grid: PhantomGrid | undefined;
     // The box is fixed once, from the run's initial particles when known, so a resumed run uses the same grid.
     const gridFor = (src: Sources): PhantomGrid => {
-      if (!grid) {
-        const box = defaultGridBox(initial ?? src);
-        if (params.box_kpc) box.side_kpc = params.box_kpc;
-        grid = new PhantomGrid(params, box, softening_kpc);
-      }
+      grid ??= new PhantomGrid(params, gridGeometryFor(params, initial ?? src).box, softening_kpc);
       return grid;
     };
     const atSources = scratchVectors();
