@@ -132,8 +132,9 @@ export function divergence(g: GridGeometry, w: GridVectors, out: Float64Array): 
  * masses are convolved with the free-space Green's function -G/r (optionally
  * softened) sampled on the nodes, by FFT over a grid doubled in every direction and zero-padded
  * (the method of Hockney & Eastwood 1981, from memory), so no periodic images
- * act. Transforms run line by line and skip lines known to be zero, so the
- * working array holds n * 2n * 2n complex values rather than (2n)^3.
+ * act. Transforms run line by line, skip lines known to be zero and keep half
+ * the spectrum along z (the input is real), so the working array holds
+ * n * 2n * (n + 1) complex values rather than (2n)^3.
  */
 export class IsolatedPoisson {
   readonly n: number;
@@ -151,7 +152,7 @@ export class IsolatedPoisson {
     this.fft = new FFT(m);
     this.a = new Float64Array(2 * m);
     this.b = new Float64Array(2 * m);
-    this.work = new Float64Array(n * m * m * 2);
+    this.work = new Float64Array(n * m * (n + 1) * 2);
     this.plain = this.kernel(0);
   }
 
@@ -196,7 +197,9 @@ export class IsolatedPoisson {
   potential(mass: Float64Array, h: number, out: Float64Array, green: Float64Array = this.plain): void {
     const n = this.n, m = 2 * n, s = n + 1;
     const { work: W, a, b, fft } = this;
-    const rowX = m * m * 2, rowY = m * 2;
+    // W holds x < n, every y (ky), and kz = 0..n: the masses are real, so the
+    // value at 2n - kz is the conjugate of that at kz and is rebuilt at the end.
+    const rowY = s * 2, rowX = m * rowY;
     W.fill(0);
     // z lines of the occupied octant.
     for (let x = 0; x < n; x++) for (let y = 0; y < n; y++) {
@@ -204,10 +207,10 @@ export class IsolatedPoisson {
       const src = (x * n + y) * n;
       for (let z = 0; z < n; z++) a[2 * z] = mass[src + z];
       fft.transform(b, a);
-      W.set(b, x * rowX + y * rowY);
+      W.set(b.subarray(0, rowY), x * rowX + y * rowY);
     }
     // y lines (the upper half in y is still zero on input).
-    for (let x = 0; x < n; x++) for (let kz = 0; kz < m; kz++) {
+    for (let x = 0; x < n; x++) for (let kz = 0; kz <= n; kz++) {
       const base = x * rowX + 2 * kz;
       a.fill(0);
       for (let y = 0; y < n; y++) { a[2 * y] = W[base + y * rowY]; a[2 * y + 1] = W[base + y * rowY + 1]; }
@@ -215,9 +218,9 @@ export class IsolatedPoisson {
       for (let y = 0; y < m; y++) { W[base + y * rowY] = b[2 * y]; W[base + y * rowY + 1] = b[2 * y + 1]; }
     }
     // x lines: forward, multiply by the kernel's transform, back; only x < n is kept.
-    for (let ky = 0; ky < m; ky++) for (let kz = 0; kz < m; kz++) {
+    for (let ky = 0; ky < m; ky++) for (let kz = 0; kz <= n; kz++) {
       const base = ky * rowY + 2 * kz;
-      const gBase = (min(ky, m - ky) * s + min(kz, m - kz));
+      const gBase = min(ky, m - ky) * s + kz;
       a.fill(0);
       for (let x = 0; x < n; x++) { a[2 * x] = W[base + x * rowX]; a[2 * x + 1] = W[base + x * rowX + 1]; }
       fft.transform(b, a);
@@ -228,7 +231,7 @@ export class IsolatedPoisson {
       fft.inverseTransform(a, b);
       for (let x = 0; x < n; x++) { W[base + x * rowX] = a[2 * x]; W[base + x * rowX + 1] = a[2 * x + 1]; }
     }
-    for (let x = 0; x < n; x++) for (let kz = 0; kz < m; kz++) {
+    for (let x = 0; x < n; x++) for (let kz = 0; kz <= n; kz++) {
       const base = x * rowX + 2 * kz;
       for (let y = 0; y < m; y++) { a[2 * y] = W[base + y * rowY]; a[2 * y + 1] = W[base + y * rowY + 1]; }
       fft.inverseTransform(b, a);
@@ -237,7 +240,8 @@ export class IsolatedPoisson {
     const scale = -G / h;
     for (let x = 0; x < n; x++) for (let y = 0; y < n; y++) {
       const at = x * rowX + y * rowY;
-      for (let q = 0; q < 2 * m; q++) a[q] = W[at + q];
+      for (let q = 0; q < rowY; q++) a[q] = W[at + q];
+      for (let kz = n + 1; kz < m; kz++) { a[2 * kz] = W[at + 2 * (m - kz)]; a[2 * kz + 1] = -W[at + 2 * (m - kz) + 1]; }
       fft.inverseTransform(b, a);
       const dst = (x * n + y) * n;
       for (let z = 0; z < n; z++) out[dst + z] = scale * b[2 * z];
