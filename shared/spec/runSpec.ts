@@ -243,13 +243,13 @@ export function estimateInteractions(spec: RunSpec): number {
 /**
  * Grid work of the field form of MOND per force evaluation, in pair
  * interactions: two isolated FFT solves on a doubled grid cost about
- * 60 g^3 log2(2g) pair interactions for g nodes per side (our own
- * measurement against the direct sum, g = 32-128, on a busy machine).
+ * 30 g^3 log2(2g) pair interactions for g nodes per side (our own
+ * measurement against the direct sum, best of four at g = 32 and 64, on a busy machine).
  */
 export function gridInteractions(spec: RunSpec): number {
   if (spec.law.kind !== 'qumond') return 0;
   const g = spec.law.grid;
-  return 60 * g ** 3 * Math.log2(2 * g);
+  return 30 * g ** 3 * Math.log2(2 * g);
 }
 
 /** A small valid run: a 500-particle Plummer sphere under Newton for about 4 crossing times. */

@@ -28,7 +28,7 @@ const schema = z
       .optional()
       .describe('constant external Newtonian field (x, y, z) in m/s^2, each component within +-1e-8; none means an isolated system'),
     grid: z
-      .union([z.literal(32), z.literal(64), z.literal(128)])
+      .literal(QUMOND_GRID_SIZES)
       .default(64)
       .describe('grid nodes per side for the phantom field'),
     box_kpc: z
@@ -56,7 +56,7 @@ const info = (p: QumondParams): LawInfo => ({
   conservesAngularMomentum: false,
   hasPotential: true,
   validity:
-    'The field equations of MOND in their quasi-linear form, for any geometry inside the grid box. The phantom part is smoothed on the grid spacing (box / (grid - 1)); particles outside the box get the algebraic form instead. A constant external field stands for a distant host; tides are not included.',
+    'The field equations of MOND in their quasi-linear form, for any geometry inside the grid box. The phantom part is smoothed on the grid spacing (box / (grid - 1)); particles outside the ball inscribed in the grid get the algebraic form instead. A constant external field stands for a distant host; tides are not included.',
   notes:
     'Newtonian part from the pairwise sum (exact momentum balance with the direct solver), phantom part from two isolated FFT Poisson solves on the grid. The grid part\'s small net force is removed each evaluation, so total momentum is conserved. Energy (QUMOND has a potential) is the pair energy plus the grid\'s phantom energy; its drift includes grid error. Angular momentum is not exactly conserved on a cubic grid.',
 });
