@@ -1,11 +1,11 @@
-import { buildInitialConditions, precheck, runSimulation } from '../../shared/engine';
+import { buildInitialConditions, precheck, runSimulation, Simulation } from '../../shared/engine';
 import { mondAcceleration, mondNu } from '../../shared/engine/laws/mond';
 import { phantomEnergyDensity } from '../../shared/engine/laws/qumond';
 import { createLaw } from '../../shared/engine/laws/registry';
 import { directSolver } from '../../shared/engine/solvers/direct';
 import { IsolatedPoisson } from '../../shared/engine/solvers/grid';
 import type { Points, Sources } from '../../shared/engine/state';
-import { allocateAccelerations } from '../../shared/engine/state';
+import { allocateAccelerations, cloneParticles } from '../../shared/engine/state';
 import { G } from '../../shared/engine/units';
 import { estimateInteractions, parseRunSpec, type LawSpec } from '../../shared/spec';
 import { M_PER_KPC, specWith } from './helpers';
@@ -170,6 +170,17 @@ describe('QUMOND on a grid', () => {
       const field = estimateInteractions(specWith({ ...base, law: qumond({ grid: g }) }));
       expect(field - newton).toBe(Math.round(30 * g ** 3 * Math.log2(2 * g) * 3 * 10));
     }
+  });
+
+  test('a run resumed from a checkpoint continues bit for bit: the grid box comes from the initial particles, not the resumed ones', () => {
+    const spec = specWith({ model: { kind: 'plummer', n: 200, mass_Msun: 1e9, scale_kpc: 1 }, law: qumond({ grid: 32 }), softening_kpc: 0.1, timestep_Myr: 1, duration_Myr: 20 });
+    const full = new Simulation(spec);
+    for (let k = 0; k < 5; k++) full.advance();
+    const checkpoint = { particles: cloneParticles(full.particles), step: full.state.step, rng: full.state.rng.slice() };
+    for (let k = 0; k < 5; k++) full.advance();
+    const resumed = new Simulation(spec, checkpoint);
+    for (let k = 0; k < 5; k++) resumed.advance();
+    for (const key of ['x', 'y', 'z', 'vx', 'vy', 'vz'] as const) expect(Array.from(resumed.particles[key])).toEqual(Array.from(full.particles[key]));
   });
 
   test('the precheck says when the grid is coarse for the model or leaves particles outside', () => {
