@@ -64,13 +64,14 @@ describe('QUMOND on a grid', () => {
     });
   });
 
-  test('a resolved sphere: the field equals the algebraic form within 1% from 3 cells to the ball edge, 4% at 2 cells (Milgrom 2010: they coincide in spherical symmetry)', () => {
-    // A Plummer sphere (scale a = 4 cells) laid on a lattice one cell apart, so the test has no sampling noise.
+  test('a resolved sphere: the field equals the algebraic form within 1% from 6 cells to the ball edge, 3% from 3 cells, 6% at 2 (Milgrom 2010: they coincide in spherical symmetry)', () => {
+    // A Plummer sphere (scale a = 4 cells) laid on a lattice one cell apart, so the test has no sampling
+    // noise; the lattice sits midway between grid nodes, the least favourable place for the deposit.
     const M = 1e9, box = 40, h = box / 63, a = 4 * h, eps = h;
     const x: number[] = [], y: number[] = [], z: number[] = [], m: number[] = [];
     const K = Math.ceil((6 * a) / h);
     for (let i = -K; i <= K; i++) for (let j = -K; j <= K; j++) for (let k = -K; k <= K; k++) {
-      const px = (i + 0.5) * h, py = (j + 0.5) * h, pz = (k + 0.5) * h, r2 = px * px + py * py + pz * pz;
+      const px = i * h, py = j * h, pz = k * h, r2 = px * px + py * py + pz * pz;
       if (r2 > 36 * a * a) continue;
       x.push(px); y.push(py); z.push(pz);
       m.push(((3 * M) / (4 * Math.PI * a ** 3)) * (1 + r2 / (a * a)) ** -2.5 * h ** 3);
@@ -86,8 +87,8 @@ describe('QUMOND on a grid', () => {
       const q = cells[Math.floor(k / DIRECTIONS.length)];
       const algebraic = mondAcceleration({ kind: 'mond', interpolation: 'simple', a0_m_s2: 1.2e-10 }, Math.hypot(...newton[k]));
       const err = Math.abs(Math.hypot(...field[k]) / algebraic - 1);
-      // Measured: at most 3.6% at 2 cells, 0.9% from 3 cells; the grid smooths the phantom part on the cell scale.
-      expect(err).toBeLessThan(q >= 3 ? 0.01 : 0.04);
+      // Measured: at most 5.4% at 2 cells, 2.4% at 3, 1.5% at 4, 0.7% from 6; the grid smooths the phantom part on the cell scale.
+      expect(err).toBeLessThan(q >= 6 ? 0.01 : q >= 3 ? 0.03 : 0.06);
     });
   });
 
