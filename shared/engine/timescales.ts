@@ -169,7 +169,7 @@ function modelAndMethodNotes(spec: RunSpec, n: number): EngineWarning[] {
     notes.push({
       code: 'algebraic-mond-approximate',
       severity: 'info',
-      message: 'algebraic MOND is exact only for symmetric configurations; for disks and encounters it approximates the field equations (QUMOND, Milgrom 2010)',
+      message: 'algebraic MOND is exact only for symmetric configurations; for disks and encounters it approximates the field equations (QUMOND, Milgrom 2010), which law qumond solves',
       source: 'Milgrom 2010',
     });
   }

@@ -54,7 +54,7 @@ const info = (p: MondParams): LawInfo => ({
   conservesAngularMomentum: false,
   hasPotential: false,
   validity:
-    'The algebraic form is exact only for symmetric (spherical, cylindrical, planar) configurations; elsewhere it approximates the field equations (QUMOND, Milgrom 2010), which this engine does not solve.',
+    'The algebraic form is exact only for symmetric (spherical, cylindrical, planar) configurations; elsewhere it approximates the field equations (QUMOND, Milgrom 2010), which the field-form law (qumond) solves.',
   notes: 'No pairwise potential: energy and momentum are not conserved and their drift measures the law, not the integrator.',
 });
 
