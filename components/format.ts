@@ -113,7 +113,8 @@ export const MODEL_LABELS: Record<string, string> = {
 export const LAW_LABELS: Record<string, string> = {
   newton: 'Newton',
   halo: 'Newton + halo',
-  mond: 'MOND',
+  mond: 'MOND (algebraic)',
+  qumond: 'MOND (field, QUMOND)',
   emergent: 'Emergent',
   yukawa: 'Yukawa',
 };

@@ -44,6 +44,8 @@ const LAW_COLORS: Record<string, string> = {
   newton: '#9FB7FF',
   halo: '#C59BFF',
   mond: palette.infall,
+  // A deeper shade of MOND's colour: the same theory in its field form.
+  qumond: '#E07B3A',
   emergent: palette.drift,
   yukawa: '#F28DC0',
 };

@@ -8,7 +8,9 @@ import type { RunSpec } from '../shared/spec';
 // in proportion to mass), so a snapshot's positions alone give back its mass distribution.
 const EQUAL_MASS_MODELS = new Set(['plummer', 'hernquist', 'disk']);
 
-export const canMeasureFrames = (spec: RunSpec | null) => Boolean(spec && EQUAL_MASS_MODELS.has(spec.model.kind));
+// The field form of MOND solves on a grid for a second or more per field: too slow to repeat in
+// the browser at every frame, so its runs show the curves the engine measured at start and end.
+export const canMeasureFrames = (spec: RunSpec | null) => Boolean(spec && EQUAL_MASS_MODELS.has(spec.model.kind) && spec.law.kind !== 'qumond');
 
 /**
  * Circular speed √(R g) at the given radii from the law's own field of one stored snapshot:

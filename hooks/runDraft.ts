@@ -39,6 +39,7 @@ export const LAW_PRESETS: Record<string, LawSpec> = {
   newton: { kind: 'newton' },
   halo: { kind: 'halo', profile: 'nfw', scale_kpc: 15, density_Msun_kpc3: 7e6 },
   mond: { kind: 'mond', interpolation: 'simple', a0_m_s2: 1.2e-10 },
+  qumond: { kind: 'qumond', interpolation: 'simple', a0_m_s2: 1.2e-10, grid: 64 },
   emergent: { kind: 'emergent', H0_km_s_Mpc: 70 },
   yukawa: { kind: 'yukawa', alpha: 0.5, lambda_kpc: 10 },
 };

@@ -52,7 +52,8 @@ export function schemaAt(path: readonly (string | number)[], draft: unknown, roo
       if (!member) return null;
       s = unwrap(member).schema;
     }
-    schema = def(s).shape?.[String(key)] ?? null;
+    // A tuple (the external field vector) is walked by index.
+    schema = def(s).shape?.[String(key)] ?? (def(s) as Def & { items?: AnySchema[] }).items?.[Number(key)] ?? null;
     value = (value as Record<string, unknown> | undefined)?.[key as string];
   }
   return schema;

@@ -94,7 +94,7 @@ function Meter({ label, need, left, total, unit }: { label: string; need: number
 export function CostPanel({ cost }: { cost: Cost | null }) {
   const usage = useUsage();
   return (
-    <Panel title="Cost" note="Counted in pair interactions: particles × particles (direct sum) or the tree's estimate, × force evaluations per step × steps.">
+    <Panel title="Cost" note="Counted in pair interactions: particles × particles (direct sum) or the tree's estimate, plus the grid's share for field-form MOND, × force evaluations per step × steps.">
       {!cost ? (
         <Txt variant="small">Fix the highlighted fields to see the cost.</Txt>
       ) : (

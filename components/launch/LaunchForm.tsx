@@ -77,7 +77,7 @@ export function LaunchForm({ start }: { start?: LaunchStart }) {
         <Toggle
           label="Run as a pair under a second law"
           value={Boolean(form.pairLaw)}
-          onChange={(on) => form.setPairLaw(on ? LAW_PRESETS[law.kind === 'mond' ? 'newton' : 'mond'] : null)}
+          onChange={(on) => form.setPairLaw(on ? LAW_PRESETS[law.kind === 'mond' || law.kind === 'qumond' ? 'newton' : 'qumond'] : null)}
           hint="Same initial particles, same seed, two laws: the compare page shows them side by side."
         />
         {form.pairLaw ? (

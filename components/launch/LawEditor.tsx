@@ -1,6 +1,7 @@
 import { View } from 'react-native';
 import type { LawSpec } from '../../shared/spec';
 import { lawInfo } from '../../shared/engine';
+import { QUMOND_GRID_SIZES } from '../../shared/engine/laws/qumond';
 import { space } from '../../constants/theme';
 import { LAW_PRESETS, type Path } from '../../hooks/runDraft';
 import { enumOptions } from '../../hooks/specSchema';
@@ -51,6 +52,36 @@ export function LawEditor({ label, law, onChange, issues, issuePrefix, exclude, 
         <>
           <ChoiceChips label="Interpolating function" value={law.interpolation} onChange={(p) => onChange({ ...law, interpolation: p as typeof law.interpolation })} choices={enumOptions(['law', 'interpolation'], holder).map((p) => ({ value: p, label: INTERPOLATION_LABELS[p] ?? p }))} />
           <FieldRow>{num('a0_m_s2')}</FieldRow>
+        </>
+      ) : law.kind === 'qumond' ? (
+        <>
+          <ChoiceChips label="Interpolating function" value={law.interpolation} onChange={(p) => onChange({ ...law, interpolation: p as typeof law.interpolation })} choices={enumOptions(['law', 'interpolation'], holder).map((p) => ({ value: p, label: INTERPOLATION_LABELS[p] ?? p }))} />
+          <ChoiceChips label="Grid nodes per side" value={law.grid} onChange={(g) => onChange({ ...law, grid: g })} choices={QUMOND_GRID_SIZES.map((g) => ({ value: g, label: `${g}³` }))} />
+          <FieldRow>
+            {num('a0_m_s2')}
+            {num('box_kpc')}
+          </FieldRow>
+          <ChoiceChips
+            label="External field"
+            value={law.externalField_m_s2 ? 'constant' : 'none'}
+            onChange={(v) => onChange({ ...law, externalField_m_s2: v === 'constant' ? [1.2e-10, 0, 0] : undefined })}
+            choices={[{ value: 'none', label: 'none (isolated)' }, { value: 'constant', label: 'constant vector' }]}
+          />
+          {law.externalField_m_s2 ? (
+            <FieldRow>
+              {(['x', 'y', 'z'] as const).map((axis, i) => (
+                <SpecNumber
+                  key={axis}
+                  draft={holder}
+                  path={['law', 'externalField_m_s2', i]}
+                  label={`External field ${axis} (m/s²)`}
+                  onChange={(_, v) => onChange({ ...law, externalField_m_s2: law.externalField_m_s2!.map((c, k) => (k === i ? (v ?? 0) : c)) as [number, number, number] })}
+                  issues={issues}
+                  issueKey={`${issuePrefix}externalField_m_s2.${i}`}
+                />
+              ))}
+            </FieldRow>
+          ) : null}
         </>
       ) : law.kind === 'emergent' ? (
         <FieldRow>{num('H0_km_s_Mpc')}</FieldRow>

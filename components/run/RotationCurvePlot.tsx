@@ -52,8 +52,16 @@ export function RotationCurvePlot({ runs, atFrame }: { runs: PlottedRun[]; atFra
     const a = r.out.rotationCurves.analytic;
     for (const c of a.curves) {
       const curve = { x: a.radii_kpc, y: c.v_km_s, dashed: true, group: GROUPS.analytic };
-      if (c.law === r.out.law.kind) analytic.push({ ...curve, id: `${r.id}-a-${c.law}`, label: c.label, color: r.color, mark: 'triangle' });
-      else if (c.law === 'newton' && !reference && !runs.some((o) => o.out.law.kind === 'newton')) reference = { ...curve, id: 'analytic-newton', label: `${c.label} (reference)`, color: colors.textFaint, mark: 'diamond' };
+      if (c.law === r.out.law.kind) {
+        // The field form has no closed-form curve: its preview is the algebraic form, so the gap to the
+        // curve from forces is the field form's own effect (largest for disks), shown rather than hidden.
+        const label = c.law === 'qumond' ? `algebraic form (preview of ${c.label})` : c.label;
+        analytic.push({ ...curve, id: `${r.id}-a-${c.law}`, label, color: r.color, mark: 'triangle' });
+        const fromForces = when === 'now' ? null : r.out.rotationCurves[when];
+        if (c.law === 'qumond' && fromForces && fromForces.radii_kpc.length === a.radii_kpc.length && fromForces.radii_kpc.every((R, k) => Math.abs(R - a.radii_kpc[k]) <= 1e-9 * R)) {
+          analytic.push({ id: `${r.id}-qumond-gap`, label: `${tag}field form − algebraic form`, color: colors.textMuted, x: a.radii_kpc, y: a.radii_kpc.map((_, k) => fromForces.circular_km_s[k] - c.v_km_s[k]), group: GROUPS.analytic, mark: 'diamond' });
+        }
+      } else if (c.law === 'newton' && !reference && !runs.some((o) => o.out.law.kind === 'newton')) reference = { ...curve, id: 'analytic-newton', label: `${c.label} (reference)`, color: colors.textFaint, mark: 'diamond' };
     }
   }
   // At most four curves show at first: the laws' own before the particles' and the reference.

@@ -51,6 +51,7 @@ const LABELS: Record<string, string> = {
   seed: 'Random seed',
   theta: 'Opening angle θ',
   a0_m_s2: 'a₀',
+  box_kpc: 'Grid box side',
   H0_km_s_Mpc: 'H₀',
   alpha: 'Strength α',
   lambda_kpc: 'Range λ',

@@ -36,7 +36,7 @@ export class Simulation {
     // Initial conditions always come from a fresh generator, so a resumed run knows its t = 0 too.
     const icRng = seedRng(spec.seed);
     this.initial = buildInitialConditions(spec, icRng);
-    this.law = createLaw(spec.law, { solver, softening_kpc: spec.softening_kpc });
+    this.law = createLaw(spec.law, { solver, softening_kpc: spec.softening_kpc, initial: this.initial.particles });
     this.totalSteps = stepCount(spec);
     this.dt = myrToInternal(spec.timestep_Myr);
     this.integrator = makeIntegrator(spec.integrator, this.initial.particles.n);

@@ -1,6 +1,7 @@
 import type { RunSpec } from '../spec/runSpec';
 import { estimateInteractions, FORCE_EVALUATIONS_PER_STEP, particleCount, stepCount } from '../spec/runSpec';
 import { lagrangianRadii } from './diagnostics';
+import { qumondGridNotes } from './laws/qumond';
 import { lawInfo, modelAcceleration } from './laws/registry';
 import type { InitialConditions } from './models';
 import { totalMass } from './state';
@@ -128,6 +129,7 @@ export function timescalesFor(spec: RunSpec, ic: InitialConditions): { timescale
     });
   }
   warnings.push(...modelAndMethodNotes(spec, n));
+  if (spec.law.kind === 'qumond') warnings.push(...qumondGridNotes(spec.law, p, rHalf));
   const steps = stepCount(spec);
   return {
     timescales: {
@@ -168,6 +170,14 @@ function modelAndMethodNotes(spec: RunSpec, n: number): EngineWarning[] {
       code: 'algebraic-mond-approximate',
       severity: 'info',
       message: 'algebraic MOND is exact only for symmetric configurations; for disks and encounters it approximates the field equations (QUMOND, Milgrom 2010), and the momentum, energy and centre drift of such a run are artefacts of the algebraic form: read its curves and short-time structure only, or use the field form',
+      source: 'Milgrom 2010',
+    });
+  }
+  if (spec.law.kind === 'qumond' && flattened) {
+    notes.push({
+      code: 'disk-set-up-algebraically',
+      severity: 'info',
+      message: 'disk velocities balance the algebraic form of MOND (the field form has no closed-form curve), which differs from the field form for disks: the disk starts slightly out of balance',
       source: 'Milgrom 2010',
     });
   }

@@ -235,16 +235,30 @@ export const FORCE_EVALUATIONS_PER_STEP: Record<IntegratorKind, number> = { leap
  * N * 48 * log2(N) * (0.6 / theta)^2 per evaluation, calibrated on this
  * engine's walk (Plummer spheres and disks of 1e3-2e4 particles interact
  * with 25-75 cells and leaf particles per log2 N at theta 0.6, and the count
- * grows roughly as theta^-2); never more than the direct cost. Both are multiplied by
+ * grows roughly as theta^-2); never more than the direct cost. The grid of the
+ * field form of MOND adds its own share (gridInteractions). All are multiplied by
  * force evaluations per step and by steps.
  */
 export function estimateInteractions(spec: RunSpec): number {
   const n = particleCount(spec);
-  const perEval =
+  const pairs =
     spec.solver.kind === 'direct'
       ? n * n
       : Math.min(n * n, n * 48 * Math.log2(Math.max(2, n)) * (0.6 / spec.solver.theta) ** 2);
+  const perEval = pairs + gridInteractions(spec);
   return Math.round(perEval * FORCE_EVALUATIONS_PER_STEP[spec.integrator] * stepCount(spec));
+}
+
+/**
+ * Grid work of the field form of MOND per force evaluation, in pair
+ * interactions: two isolated FFT solves on a doubled grid cost about
+ * 30 g^3 log2(2g) pair interactions for g nodes per side (our own
+ * measurement against the direct sum, best of four at g = 32 and 64, on a busy machine).
+ */
+export function gridInteractions(spec: RunSpec): number {
+  if (spec.law.kind !== 'qumond') return 0;
+  const g = spec.law.grid;
+  return 30 * g ** 3 * Math.log2(2 * g);
 }
 
 /** A small valid run: a 500-particle Plummer sphere under Newton for about 4 crossing times. */

@@ -135,6 +135,6 @@ describe('the new-run form', () => {
     press(view.getByTestId('launch'));
     await settle();
     const post = calls.find((c) => c.method === 'POST')!;
-    expect(post.body).toMatchObject({ spec: { model: { kind: 'disk', equilibriumLaw: { kind: 'newton' } } }, pairLaw: { kind: 'mond' } });
+    expect(post.body).toMatchObject({ spec: { model: { kind: 'disk', equilibriumLaw: { kind: 'newton' } } }, pairLaw: { kind: 'qumond' } });
   });
 });

@@ -3,6 +3,7 @@
 import os from 'node:os';
 import { benchDirect, type DirectFigures } from './direct';
 import { benchTree, type TreeFigure } from './tree';
+import { benchQumond, qumondKey, type QumondFigure } from './qumond';
 import { benchThreads, type ThreadFigures } from './threads';
 import { benchEndToEnd, benchSnapshots, type EndToEndFigures, type SnapshotFigures, type StackTarget } from './stack';
 import type { ClientFigures } from './client';
@@ -11,18 +12,21 @@ export interface PureSizes {
   direct: { n: number; repeats: number };
   tree: { sizes: number[]; thetas: number[]; sampleTargets: number; repeats: number };
   threads: { n: number; steps: number; threads: number; spinIterations: number; repeats: number };
+  qumond: { grids: QumondFigure['grid'][]; sizes: number[]; repeats: number };
 }
 
 export const FULL_SIZES: PureSizes = {
   direct: { n: 4096, repeats: 7 },
   tree: { sizes: [1_000, 10_000, 100_000], thetas: [0.5, 0.7], sampleTargets: 1_000, repeats: 3 },
   threads: { n: 6_000, steps: 25, threads: 2, spinIterations: 2e8, repeats: 3 },
+  qumond: { grids: [64, 128], sizes: [10_000, 100_000], repeats: 2 },
 };
 
 export interface PureReport {
   directSum: DirectFigures;
   tree: TreeFigure[];
   threads: ThreadFigures;
+  qumond: QumondFigure[];
 }
 
 export interface StackReport {
@@ -44,7 +48,9 @@ export async function benchPure(sizes: PureSizes = FULL_SIZES): Promise<PureRepo
   const tree = benchTree(sizes.tree);
   log(`threads: one ${sizes.threads.n}-particle run on 1 and ${sizes.threads.threads} threads`);
   const threads = await benchThreads(sizes.threads);
-  return { directSum, tree, threads };
+  log(`field-form MOND: grid ${sizes.qumond.grids.join(', ')} at N = ${sizes.qumond.sizes.join(', ')}`);
+  const qumond = benchQumond(sizes.qumond);
+  return { directSum, tree, threads, qumond };
 }
 
 export async function benchStackSections(
@@ -68,6 +74,7 @@ export function toJson(r: BenchReport): Record<string, unknown> {
     directSum: r.directSum ?? { interactionsPerSecond: null, referenceInteractionsPerSecond: null, ratio: null },
     tree: r.tree ?? [],
     threads: r.threads ?? { speedup: null },
+    ...Object.fromEntries((r.qumond ?? []).map((f) => [qumondKey(f), { msPerEval: f.msPerEval, pairMsPerEval: f.pairMsPerEval }])),
     e2e: r.e2e ?? { firstProgressMs: null, diskRunSeconds: null },
     snapshot: r.snapshot ?? { bytesPerParticle: null },
     client: r.client ?? { fps: null },
@@ -101,6 +108,9 @@ export function toTable(r: BenchReport): string {
     rows.push([`threads: ${t.n}-particle run, ${t.steps} steps, 1 -> ${t.threads} threads, best of ${t.repeats}`, `${fmt(t.singleSeconds)} s -> ${fmt(t.splitSeconds)} s`, t.identical ? 'bit-identical' : 'RESULTS DIFFER', mark(t.identical)]);
     rows.push(['threads: speed-up', `${fmt(t.speedup)}x`, '>= 1.7x', mark(t.speedup >= 1.7)]);
     rows.push([`threads: plain loop on ${t.threads} threads, same moment`, `${fmt(t.machineSpeedup)}x`, 'the most this machine gave', '']);
+  }
+  for (const f of r.qumond ?? []) {
+    rows.push([`field-form MOND grid=${f.grid}^3 N=${f.n}: ms per force evaluation`, fmt(f.msPerEval), `pair sum alone (tree, theta 0.7): ${fmt(f.pairMsPerEval)} ms`, '']);
   }
   if (r.e2e) {
     rows.push(['end to end: submit -> first progress', `${fmt(r.e2e.firstProgressMs)} ms`, '< 1000 ms', mark(r.e2e.firstProgressMs < 1000)]);

@@ -8,6 +8,7 @@ const TINY: PureSizes = {
   direct: { n: 64, repeats: 2 },
   tree: { sizes: [300, 600], thetas: [0.5, 0.7], sampleTargets: 50, repeats: 1 },
   threads: { n: 200, steps: 2, threads: 2, spinIterations: 1e5, repeats: 2 },
+  qumond: { grids: [32], sizes: [300], repeats: 1 },
 };
 
 const finite = (v: unknown) => typeof v === 'number' && Number.isFinite(v);
@@ -23,6 +24,7 @@ test('the pure sections give every JSON key a finite number, and the table names
     for (const key of ['n', 'theta', 'msPerStep', 'medianError', 'p99Error']) expect(finite(row[key])).toBe(true);
   }
   expect(finite(json.threads.speedup)).toBe(true);
+  expect(finite((json['qumond[grid=32,n=300]'] as unknown as Record<string, unknown>).msPerEval)).toBe(true);
   expect(finite(report.threads.machineSpeedup)).toBe(true);
   expect(report.threads.identical).toBe(true);
   // Without a stack (skipped here; tests/server/bench-stack.test.ts covers those sections) the keys are present and null.

@@ -3,6 +3,7 @@ import { emergentLaw } from './emergent';
 import { haloLaw } from './halo';
 import { mondLaw } from './mond';
 import { newtonLaw } from './newton';
+import { qumondLaw } from './qumond';
 import type { ForceLaw, LawContext, LawInfo, LawModule } from './types';
 import { yukawaLaw } from './yukawa';
 import type { MassModel } from '../models/massModel';
@@ -12,6 +13,7 @@ export const LAW_MODULES = [
   newtonLaw,
   haloLaw,
   mondLaw,
+  qumondLaw,
   emergentLaw,
   yukawaLaw,
 ] as const;

@@ -36,6 +36,8 @@ export interface ForceLaw {
 export interface LawContext {
   solver: FieldSolver;
   softening_kpc: number;
+  /** The run's initial particles, for laws whose defaults follow the model (the grid box of the field form of MOND). */
+  initial?: Sources;
 }
 
 type LawSchema = z.ZodObject<{ kind: z.ZodLiteral<string> } & z.ZodRawShape>;

@@ -1,0 +1,362 @@
+import { z } from 'zod';
+import {
+  allocateGridVectors, depositMass, divergence, interpolateVectors, IsolatedPoisson, negativeGradient,
+  type GridGeometry, type GridVectors,
+} from '../solvers/grid';
+import { newtonKernel } from '../solvers/types';
+import type { Points, Sources } from '../state';
+import { accelFromSI, G } from '../units';
+import { mondLaw, mondNu } from './mond';
+import { pairPotentialEnergy, scratchFor } from './pairwise';
+import { defineLaw, type LawInfo } from './types';
+import type { EngineWarning } from '../timescales';
+
+const { hypot, log10, sqrt } = Math;
+
+const fieldComponent = z.number().min(-1e-8).max(1e-8);
+
+/** Node counts per side the grid offers: powers of two (the FFT needs them); 256 would need about 1.6 GB. */
+export const QUMOND_GRID_SIZES = [32, 64, 128] as const;
+
+const schema = z
+  .object({
+    kind: z.literal('qumond'),
+    interpolation: mondLaw.schema.shape.interpolation,
+    a0_m_s2: mondLaw.schema.shape.a0_m_s2,
+    externalField_m_s2: z
+      .tuple([fieldComponent, fieldComponent, fieldComponent])
+      .optional()
+      .describe('constant external Newtonian field (x, y, z) in m/s^2, each component within +-1e-8; none means an isolated system'),
+    grid: z
+      .literal(QUMOND_GRID_SIZES)
+      .default(64)
+      .describe('grid nodes per side for the phantom field'),
+    box_kpc: z
+      .number()
+      .positive()
+      .max(1e5)
+      .optional()
+      .describe('side of the cubic grid, centred on the initial centre of mass; default 2.5 times the initial distance of the farthest particle'),
+  })
+  .describe('MOND, quasi-linear field form (QUMOND, Milgrom 2010): Newtonian pair forces plus a phantom field solved on a grid');
+
+export type QumondParams = z.infer<typeof schema>;
+
+const LABELS: Record<QumondParams['interpolation'], string> = {
+  simple: 'QUMOND (simple nu)',
+  standard: 'QUMOND (standard nu)',
+  rar: 'QUMOND (RAR nu)',
+};
+
+const info = (p: QumondParams): LawInfo => ({
+  kind: 'qumond',
+  label: p.externalField_m_s2 ? `${LABELS[p.interpolation]}, external field` : LABELS[p.interpolation],
+  conservesEnergy: true,
+  conservesMomentum: true,
+  conservesAngularMomentum: false,
+  hasPotential: true,
+  validity:
+    'The field equations of MOND in their quasi-linear form, for any geometry inside the grid box. The phantom part is smoothed on the grid spacing (box / (grid - 1)); particles outside the ball inscribed in the grid get the algebraic form instead. A constant external field stands for a distant host; tides are not included.',
+  notes:
+    'Newtonian part from the pairwise sum (exact momentum balance with the direct solver), phantom part from two isolated FFT Poisson solves on the grid. The grid part\'s small net force is removed each evaluation, so total momentum is conserved. Energy (QUMOND has a potential) is the pair energy plus the grid\'s phantom energy; its drift includes grid error. Angular momentum is not exactly conserved on a cubic grid.',
+});
+
+// --- Phantom energy density ------------------------------------------------
+// The QUMOND potential energy is -(a0^2 / 8 pi G) * integral of Q(|g_N|^2 / a0^2)
+// with dQ/dz = nu(sqrt z) (Milgrom 2010). The pair sum supplies the Newtonian
+// part Q = z; the grid integrates the rest, P(y) = Q(y^2) - y^2 with
+// dP/dy = 2 y (nu(y) - 1), tabulated once per interpolating function.
+
+const LOG_Y_MIN = -8, LOG_Y_MAX = 8, STEPS_PER_DECADE = 100;
+const tables = new Map<QumondParams['interpolation'], Float64Array>();
+
+const dPdy = (interp: QumondParams['interpolation'], y: number): number => 2 * y * (mondNu(interp, y) - 1);
+
+function tableFor(interp: QumondParams['interpolation']): Float64Array {
+  let t = tables.get(interp);
+  if (t) return t;
+  const count = (LOG_Y_MAX - LOG_Y_MIN) * STEPS_PER_DECADE + 1;
+  t = new Float64Array(count);
+  // Below y = 1e-8 every offered nu is y^(-1/2) to leading order, so P = (4/3) y^(3/2).
+  t[0] = (4 / 3) * 10 ** (1.5 * LOG_Y_MIN);
+  const dl = Math.LN10 / STEPS_PER_DECADE;
+  for (let k = 1; k < count; k++) {
+    // Simpson's rule in ln y over each step, four panels: dP = y dP/dy d(ln y).
+    const l0 = (LOG_Y_MIN + (k - 1) / STEPS_PER_DECADE) * Math.LN10;
+    let s = 0;
+    for (let q = 0; q <= 4; q++) {
+      const y = Math.exp(l0 + (q * dl) / 4);
+      s += (q === 0 || q === 4 ? 1 : q % 2 ? 4 : 2) * y * dPdy(interp, y);
+    }
+    t[k] = t[k - 1] + (s * dl) / 12;
+  }
+  tables.set(interp, t);
+  return t;
+}
+
+/** P(y) = Q(y^2) - y^2 by cubic Hermite interpolation of the table (slopes exact). */
+export function phantomEnergyDensity(interp: QumondParams['interpolation'], y: number): number {
+  if (y <= 0) return 0;
+  const t = tableFor(interp);
+  const u = (log10(y) - LOG_Y_MIN) * STEPS_PER_DECADE;
+  if (u < 0) return (4 / 3) * y * sqrt(y);
+  const last = t.length - 1;
+  if (u >= last) {
+    const yMax = 10 ** LOG_Y_MAX;
+    return t[last] + (y - yMax) * dPdy(interp, yMax);
+  }
+  const k = Math.floor(u);
+  const ya = 10 ** (LOG_Y_MIN + k / STEPS_PER_DECADE), yb = 10 ** (LOG_Y_MIN + (k + 1) / STEPS_PER_DECADE);
+  const d = yb - ya, s = (y - ya) / d;
+  const h00 = (1 + 2 * s) * (1 - s) * (1 - s), h10 = s * (1 - s) * (1 - s), h01 = s * s * (3 - 2 * s), h11 = s * s * (s - 1);
+  return h00 * t[k] + h10 * d * dPdy(interp, ya) + h01 * t[k + 1] + h11 * d * dPdy(interp, yb);
+}
+
+// --- The grid ----------------------------------------------------------------
+
+/**
+ * Default grid: a cube centred on the centre of mass whose inscribed ball (where
+ * the phantom field is solved) holds every source with a quarter of its radius to spare.
+ */
+export function defaultGridBox(src: Sources): { side_kpc: number; cx: number; cy: number; cz: number } {
+  let M = 0, cx = 0, cy = 0, cz = 0;
+  const n = src.m.length;
+  for (let i = 0; i < n; i++) {
+    const m = src.m[i];
+    M += m; cx += m * src.x[i]; cy += m * src.y[i]; cz += m * src.z[i];
+  }
+  cx /= M; cy /= M; cz /= M;
+  let rMax = 0;
+  for (let i = 0; i < n; i++) rMax = Math.max(rMax, hypot(src.x[i] - cx, src.y[i] - cy, src.z[i] - cz));
+  return { side_kpc: 2.5 * (rMax || 1), cx, cy, cz };
+}
+
+/** The grid a run will use: its box (from the initial particles unless set), spacing and ball radius. */
+function gridGeometryFor(params: QumondParams, initial: Sources) {
+  const box = defaultGridBox(initial);
+  if (params.box_kpc) box.side_kpc = params.box_kpc;
+  const h = box.side_kpc / (params.grid - 1);
+  return { box, h, ballRadius_kpc: ((params.grid - 1) / 2 - 1) * h };
+}
+
+/** What the precheck says about a field-form run's grid, from the run's initial particles. */
+export function qumondGridNotes(params: QumondParams, initial: Sources, halfMassRadius_kpc: number): EngineWarning[] {
+  const notes: EngineWarning[] = [];
+  const { box, h, ballRadius_kpc } = gridGeometryFor(params, initial);
+  if (h > 0.5 * halfMassRadius_kpc) {
+    notes.push({
+      code: 'grid-coarse',
+      severity: 'warning',
+      message: `the grid spacing ${h.toPrecision(3)} kpc is more than half the half-mass radius (${halfMassRadius_kpc.toPrecision(3)} kpc): the phantom field is smoothed over the system's own structure (within 3 cells of a mass it is good to a few percent only); use a smaller box_kpc or a larger grid`,
+      source: 'this engine (tests/engine/qumond.test.ts)',
+    });
+  }
+  let outside = 0;
+  for (let i = 0; i < initial.m.length; i++) {
+    if (hypot(initial.x[i] - box.cx, initial.y[i] - box.cy, initial.z[i] - box.cz) > ballRadius_kpc) outside++;
+  }
+  if (outside > 0) {
+    notes.push({
+      code: 'outside-grid',
+      severity: 'warning',
+      message: `${outside} particles start outside the grid's ball (radius ${ballRadius_kpc.toPrecision(3)} kpc): they get the algebraic form, and momentum is then not exactly conserved`,
+      source: 'this engine',
+    });
+  }
+  return notes;
+}
+
+/**
+ * How the field is split: the Newtonian field g_N comes from the run's pair
+ * solver (direct or tree), exact down to the softening length. The grid
+ * supplies only the phantom field g_P = g - g_N, which obeys
+ *   div g_P = div[(nu(|g_N + g_e| / a0) - 1)(g_N + g_e) - (nu(|g_e| / a0) - 1) g_e]
+ * (QUMOND, Milgrom 2010, with the external field g_e's own uniform MOND field
+ * taken out: the system falls freely with it, so particles feel only the
+ * difference). The bracket vanishes far from the system, so the isolated,
+ * zero-padded solve suits it. Steps per evaluation: cloud-in-cell deposit,
+ * Poisson solve for the grid's Phi_N, g_N by differences, the bracket and its
+ * divergence, a second Poisson solve for Phi_P, g_P by differences, and
+ * cloud-in-cell interpolation to the targets.
+ */
+class PhantomGrid {
+  readonly geo: GridGeometry;
+  private readonly poisson: IsolatedPoisson;
+  /** The pair sum's softening on the grid, so the phantom part follows the same softened g_N. */
+  private readonly softened: Float64Array;
+  private readonly mass: Float64Array;
+  private readonly phi: Float64Array;
+  /** The grid's g_N, overwritten by the bracket w once that is formed. */
+  private readonly gN: GridVectors;
+  /** Phantom field at the nodes after `solve`. */
+  readonly gP: GridVectors;
+  private readonly a0: number;
+  private readonly ge: [number, number, number];
+  private readonly nuE: number;
+
+  constructor(private readonly p: QumondParams, box: { side_kpc: number; cx: number; cy: number; cz: number }, softening_kpc: number) {
+    const n = p.grid;
+    const h = box.side_kpc / (n - 1);
+    this.geo = { n, h, x0: box.cx - box.side_kpc / 2, y0: box.cy - box.side_kpc / 2, z0: box.cz - box.side_kpc / 2 };
+    this.poisson = new IsolatedPoisson(n);
+    this.softened = softening_kpc > 0 ? this.poisson.kernel(softening_kpc / h) : this.poisson.plain;
+    this.mass = new Float64Array(n * n * n);
+    this.phi = new Float64Array(n * n * n);
+    this.gN = allocateGridVectors(n);
+    this.gP = allocateGridVectors(n);
+    this.a0 = accelFromSI(p.a0_m_s2);
+    const e = p.externalField_m_s2 ?? [0, 0, 0];
+    this.ge = [accelFromSI(e[0]), accelFromSI(e[1]), accelFromSI(e[2])];
+    const geMag = hypot(...this.ge);
+    this.nuE = geMag > 0 ? mondNu(p.interpolation, geMag / this.a0) : 1;
+  }
+
+  /** Grid g_N from the sources; `inside` flags the sources that lie in the grid. */
+  newtonian(src: Sources, inside: Uint8Array): void {
+    depositMass(this.geo, src, this.mass, inside);
+    this.poisson.potential(this.mass, this.geo.h, this.phi, this.softened);
+    negativeGradient(this.geo, this.phi, this.gN);
+  }
+
+  /** Phantom field at the nodes from the sources. */
+  solve(src: Sources, inside: Uint8Array): void {
+    this.newtonian(src, inside);
+    const { gN, a0, ge, nuE, p } = this;
+    const w = gN; // formed in place, node by node
+    const [ex, ey, ez] = ge;
+    for (let q = 0; q < gN.x.length; q++) {
+      const gx = gN.x[q] + ex, gy = gN.y[q] + ey, gz = gN.z[q] + ez;
+      const g = sqrt(gx * gx + gy * gy + gz * gz);
+      // (nu - 1) g -> sqrt(a0 g) -> 0 as g -> 0, so a null field contributes nothing.
+      const f = g > 0 ? mondNu(p.interpolation, g / a0) - 1 : 0;
+      w.x[q] = f * gx - (nuE - 1) * ex;
+      w.y[q] = f * gy - (nuE - 1) * ey;
+      w.z[q] = f * gz - (nuE - 1) * ez;
+    }
+    // lap Phi_P = -div w, i.e. a phantom mass -div(w) h^3 / (4 pi G) per node.
+    const source = this.mass;
+    divergence(this.geo, w, source);
+    const toMass = -(this.geo.h ** 3) / (4 * Math.PI * G);
+    // Phantom mass only inside the ball: what a sphere leaves out acts on no point within it
+    // when it is spherically distributed, as it is far from any bound system; a cube's corners would not.
+    const { n } = this.geo, c = (n - 1) / 2, r2Max = (c - 1) * (c - 1);
+    for (let i = 0, q = 0; i < n; i++) for (let j = 0; j < n; j++) for (let k = 0; k < n; k++, q++) {
+      const r2 = (i - c) * (i - c) + (j - c) * (j - c) + (k - c) * (k - c);
+      source[q] = r2 <= r2Max ? source[q] * toMass : 0;
+    }
+    this.poisson.potential(source, this.geo.h, this.phi);
+    negativeGradient(this.geo, this.phi, this.gP);
+  }
+
+  /** The phantom part of the QUMOND energy, -(a0^2 / 8 pi G) sum h^3 [P(|g|/a0) - P(|g_e|/a0) - 2 (nu_e - 1) g_e.g_N / a0^2]. */
+  phantomEnergy(src: Sources, inside: Uint8Array): number {
+    this.newtonian(src, inside);
+    const { gN, a0, ge, nuE, p } = this;
+    const [ex, ey, ez] = ge;
+    const pE = phantomEnergyDensity(p.interpolation, hypot(ex, ey, ez) / a0);
+    let sum = 0;
+    for (let q = 0; q < gN.x.length; q++) {
+      const gx = gN.x[q], gy = gN.y[q], gz = gN.z[q];
+      const y = hypot(gx + ex, gy + ey, gz + ez) / a0;
+      sum += phantomEnergyDensity(p.interpolation, y) - pE - (2 * (nuE - 1) * (ex * gx + ey * gy + ez * gz)) / (a0 * a0);
+    }
+    return (-(a0 * a0) / (8 * Math.PI * G)) * this.geo.h ** 3 * sum;
+  }
+
+  /** Whether a point lies in the ball where the phantom field is solved. */
+  inBall(x: number, y: number, z: number): boolean {
+    const { n, h, x0, y0, z0 } = this.geo, c = ((n - 1) / 2) * h, r = c - h;
+    const dx = x - x0 - c, dy = y - y0 - c, dz = z - z0 - c;
+    return dx * dx + dy * dy + dz * dz <= r * r;
+  }
+
+  /** Phantom acceleration of the algebraic form on a point whose Newtonian field is (gx, gy, gz). */
+  algebraicPhantom(gx: number, gy: number, gz: number, out: number[]): void {
+    const [ex, ey, ez] = this.ge;
+    const tx = gx + ex, ty = gy + ey, tz = gz + ez;
+    const g = sqrt(tx * tx + ty * ty + tz * tz);
+    const f = g > 0 ? mondNu(this.p.interpolation, g / this.a0) - 1 : 0;
+    out[0] = f * tx - (this.nuE - 1) * ex;
+    out[1] = f * ty - (this.nuE - 1) * ey;
+    out[2] = f * tz - (this.nuE - 1) * ez;
+  }
+}
+
+/** Grows per-particle scratch to n entries. */
+function scratchVectors() {
+  let n = -1, x = new Float64Array(0), y = x, z = x, inside = new Uint8Array(0);
+  return (size: number) => {
+    if (size !== n) {
+      n = size; x = new Float64Array(n); y = new Float64Array(n); z = new Float64Array(n); inside = new Uint8Array(n);
+    }
+    return { x, y, z, inside };
+  };
+}
+
+export const qumondLaw = defineLaw({
+  kind: 'qumond',
+  schema,
+  info,
+  create(params, { solver, softening_kpc, initial }) {
+    const kernel = newtonKernel(softening_kpc);
+    const pairScratch = scratchFor();
+    let grid: PhantomGrid | undefined;
+    // The box is fixed once, from the run's initial particles when known, so a resumed run uses the same grid.
+    const gridFor = (src: Sources): PhantomGrid => {
+      grid ??= new PhantomGrid(params, gridGeometryFor(params, initial ?? src).box, softening_kpc);
+      return grid;
+    };
+    const atSources = scratchVectors();
+    const atTargets = scratchVectors();
+    const fallback = [0, 0, 0];
+    return {
+      info: info(params),
+      accelerations(sources: Sources, targets: Points, out) {
+        solver.field(sources, targets, kernel, out);
+        const g = gridFor(sources);
+        const s = atSources(sources.m.length);
+        g.solve(sources, s.inside);
+        interpolateVectors(g.geo, g.gP, sources, s.x, s.y, s.z, s.inside);
+        for (let i = 0; i < sources.m.length; i++) if (s.inside[i] && !g.inBall(sources.x[i], sources.y[i], sources.z[i])) s.inside[i] = 0;
+        // The discrete phantom field leaves a small net force on the particles in the grid;
+        // continuum QUMOND exerts none on an isolated system (Milgrom 2010), so it is
+        // discretisation error and is removed as a uniform acceleration, which leaves
+        // relative motions unchanged.
+        let M = 0, fx = 0, fy = 0, fz = 0;
+        for (let i = 0; i < sources.m.length; i++) {
+          if (!s.inside[i]) continue;
+          const m = sources.m[i];
+          M += m; fx += m * s.x[i]; fy += m * s.y[i]; fz += m * s.z[i];
+        }
+        if (M > 0) { fx /= M; fy /= M; fz /= M; }
+        const t = (targets as Points) === sources ? s : atTargets(targets.x.length);
+        if (t !== s) {
+          interpolateVectors(g.geo, g.gP, targets, t.x, t.y, t.z, t.inside);
+          for (let i = 0; i < targets.x.length; i++) if (t.inside[i] && !g.inBall(targets.x[i], targets.y[i], targets.z[i])) t.inside[i] = 0;
+        }
+        for (let i = 0; i < targets.x.length; i++) {
+          if (t.inside[i]) {
+            out.ax[i] += t.x[i] - fx; out.ay[i] += t.y[i] - fy; out.az[i] += t.z[i] - fz;
+          } else {
+            g.algebraicPhantom(out.ax[i], out.ay[i], out.az[i], fallback);
+            out.ax[i] += fallback[0]; out.ay[i] += fallback[1]; out.az[i] += fallback[2];
+          }
+        }
+      },
+      potentialEnergy(sources) {
+        const g = gridFor(sources);
+        return pairPotentialEnergy(solver, kernel, sources, pairScratch) + g.phantomEnergy(sources, atSources(sources.m.length).inside);
+      },
+    };
+  },
+  // A static model: the algebraic form, which QUMOND equals for spherical models (Milgrom 2010); for disks it is an approximation.
+  modelAcceleration(params, model, R) {
+    const gN = model.newtonAccel(R);
+    const e = params.externalField_m_s2;
+    if (!e) return mondLaw.modelAcceleration({ kind: 'mond', interpolation: params.interpolation, a0_m_s2: params.a0_m_s2 }, model, R);
+    // With an external field, nu is taken at |g_N| and |g_e| added in quadrature: our own rough estimate for a curve preview.
+    const a0 = accelFromSI(params.a0_m_s2);
+    const ge = accelFromSI(hypot(...e));
+    return gN > 0 ? mondNu(params.interpolation, hypot(gN, ge) / a0) * gN : 0;
+  },
+});

@@ -1,0 +1,53 @@
+import { within } from '@testing-library/dom';
+import { LaunchForm } from '../../components/launch/LaunchForm';
+import { setCsrfToken } from '../../hooks/api';
+import { mockApi } from './support/api';
+import { resetNavigation } from './support/expoRouter';
+import { press, render, settle, type } from './support/render';
+
+jest.mock('expo-router', () => require('./support/expoRouter'));
+
+const usage = {
+  limits: { maxParticles: 2000, maxSteps: 10000, maxConcurrentRuns: 2, dailyInteractions: 1e13 },
+  used: { interactionsToday: 0, activeRuns: 0 },
+  remaining: { interactionsToday: 1e13, concurrentRuns: 2 },
+  day: '2026-12-01',
+  resetsAt: '2026-12-02T00:00:00.000Z',
+};
+
+beforeEach(() => {
+  resetNavigation();
+  setCsrfToken('csrf-abc');
+});
+
+describe('the field form of MOND in the new-run form', () => {
+  it('is offered with its grid, box and external field, and states where it holds', async () => {
+    mockApi({ 'GET /api/account/usage': { body: usage } });
+    const { container, view } = render(<LaunchForm />);
+    await settle();
+    const first = within(view.getByTestId('law-first'));
+    press(first.getByLabelText('MOND (field, QUMOND)'));
+    await settle();
+    expect(first.getByLabelText('64³').getAttribute('aria-checked')).toBe('true');
+    expect(first.getByText(/QUMOND \(simple nu\): energy conserved, momentum conserved/)).toBeTruthy();
+    expect(first.getByText(/Valid: The field equations of MOND in their quasi-linear form/)).toBeTruthy();
+    press(first.getByLabelText('constant vector'));
+    await settle();
+    const gx = container.querySelector('[data-testid="field-law.externalField_m_s2.0"]') as HTMLInputElement;
+    expect(Number(gx.value)).toBeCloseTo(1.2e-10);
+    type(gx, '5e-8');
+    await settle();
+    // The schema's own limit, read from the tuple member, shows at the field and blocks launching.
+    expect(view.getByTestId('launch').getAttribute('aria-disabled')).toBe('true');
+  });
+
+  it('gives a new pair under Newton the field form as its MOND member', async () => {
+    mockApi({ 'GET /api/account/usage': { body: usage } });
+    const { view } = render(<LaunchForm />);
+    await settle();
+    press(view.getByLabelText('Run as a pair under a second law'));
+    await settle();
+    const second = within(view.getByTestId('law-second'));
+    expect(second.getByLabelText('MOND (field, QUMOND)').getAttribute('aria-checked')).toBe('true');
+  });
+});
