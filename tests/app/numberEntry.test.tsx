@@ -108,7 +108,7 @@ describe('numbers typed key by key into the new-run form', () => {
     typeKeys(mass, '4e10');
     expect(mass.value).toBe('4e10');
     typeKeys(input(container, 'field-model.scale_kpc'), '.5');
-    press(view.getByRole('radio', { name: 'MOND' }));
+    press(view.getByRole('radio', { name: 'MOND (algebraic)' }));
     await settle();
     const a0 = input(container, 'field-law.a0_m_s2');
     typeKeys(a0, '1.2e-10');
@@ -172,7 +172,7 @@ describe('numbers typed key by key into the new-run form', () => {
 
   test('labels keep the case of their symbols', async () => {
     const { view } = await openForm();
-    press(view.getByRole('radio', { name: 'MOND' }));
+    press(view.getByRole('radio', { name: 'MOND (algebraic)' }));
     await settle();
     for (const label of ['a₀', 'Softening ε', 'Timestep Δt']) {
       const el = view.getByText(label);

@@ -40,7 +40,7 @@ describe('the spec a run ran', () => {
     expect(text(container, 'model.bulge.mass_Msun')).toBe('Bulge · Mass8e9 M☉');
     expect(text(container, 'model.equilibriumLaw')).toMatch(/^Velocities balanced for.*\(Halo profile NFW, Scale radius a 15 kpc, Density ρ₀ 8e6 M☉\/kpc³\)$/);
     expect(text(container, 'law.interpolation')).toBe('Interpolating functionsimple ν');
-    expect(text(container, 'law.a0_m_s2')).toBe('a01.2e-10 m/s²');
+    expect(text(container, 'law.a0_m_s2')).toBe('a₀1.2e-10 m/s²');
     expect(text(container, 'integrator')).toBe('IntegratorLeapfrog (KDK)');
     expect(text(container, 'solver.kind')).toBe('Force solverBarnes–Hut tree');
     expect(text(container, 'solver.theta')).toBe('Opening angle θ0.6');
@@ -119,8 +119,8 @@ describe('the compare page', () => {
     await settle();
     // The law and MOND's two parameters: everything else is shared.
     expect(view.getByText('3 fields differ (marked ≠); every other field is the same.')).toBeTruthy();
-    expect(label(container, 'law.kind')).toMatch(/^Law: Newton Newtonian; MOND MOND.*; differs$/);
+    expect(label(container, 'law.kind')).toMatch(/^Law: Newton Newtonian; MOND \(algebraic\) MOND.*; differs$/);
     expect(view.getByText('Integrating · Newton')).toBeTruthy();
-    expect(view.getByText('Integrating · MOND')).toBeTruthy();
+    expect(view.getByText('Integrating · MOND (algebraic)')).toBeTruthy();
   });
 });
