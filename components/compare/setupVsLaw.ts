@@ -1,7 +1,6 @@
 import type { RunOutputView } from '../../hooks/runOutput';
 import type { EquilibriumRecord } from '../../shared/engine';
 import { describeDifferences } from './differences';
-import { formatValue } from '../format';
 
 // Splits the written comparison of two runs into what their set-ups differ in
 // and what their evolutions differ in, so a difference is never credited to
@@ -24,6 +23,9 @@ export interface SetupVsLawText {
 
 /** A Clausius ratio this far from 1 means the run starts visibly out of equilibrium (our threshold, beside the 3% the engine's own checks hold). */
 const OUT_OF_EQUILIBRIUM = 0.05;
+
+// Three decimals: the ratio's distance from 1 is the point.
+const clausius = (q: number): string => q.toFixed(3);
 
 // Runs stored before the record existed have none.
 const recordOf = (out: RunOutputView): EquilibriumRecord | null => (out.summary as { equilibrium?: EquilibriumRecord }).equilibrium ?? null;
@@ -52,10 +54,10 @@ const balancedText = (r: EquilibriumRecord): string =>
 
 function caution(s: SetupSide, r: EquilibriumRecord | null): string | null {
   if (!r) return `${s.label}: this run was stored before Infall recorded what its velocities were balanced for, so its start cannot be vouched for.`;
-  if (r.ownLaw === null) return `${s.label}: uploaded velocities, not balanced by Infall for this law (initial Clausius ratio ${formatValue(r.initialClausiusRatio, 3)}, 1 is equilibrium).`;
+  if (r.ownLaw === null) return `${s.label}: uploaded velocities, not balanced by Infall for this law (initial Clausius ratio ${clausius(r.initialClausiusRatio)}, 1 is equilibrium).`;
   if (r.ownLaw) return null;
   const others = r.balancedFor.filter((b) => !b.ownLaw).map((b) => `${b.system} for ${b.label}`).join(', ');
-  return `${s.label} was not balanced for its own law (${others}); it starts with initial Clausius ratio ${formatValue(r.initialClausiusRatio, 3)} under it (1 is equilibrium), so its evolution includes relaxing from that start.`;
+  return `${s.label} was not balanced for its own law (${others}); it starts with initial Clausius ratio ${clausius(r.initialClausiusRatio)} under it (1 is equilibrium), so its evolution includes relaxing from that start.`;
 }
 
 export function setupVsLaw(a: SetupSide, b: SetupSide): SetupVsLawText {
@@ -78,7 +80,7 @@ export function setupVsLaw(a: SetupSide, b: SetupSide): SetupVsLawText {
         : `Velocities balanced for ${va} (${a.label}) and for ${vb} (${b.label}): each start differs by design.`,
     );
     setup.push(
-      `Initial Clausius ratio 2K/|Σ m r·a| under each run's own law: ${formatValue(ra.initialClausiusRatio, 3)} (${a.label}), ${formatValue(rb.initialClausiusRatio, 3)} (${b.label}); 1 is equilibrium.`,
+      `Initial Clausius ratio 2K/|Σ m r·a| under each run's own law: ${clausius(ra.initialClausiusRatio)} (${a.label}), ${clausius(rb.initialClausiusRatio)} (${b.label}); 1 is equilibrium.`,
     );
   }
   const other = diffs.filter((d) => !modelDiffs.includes(d));

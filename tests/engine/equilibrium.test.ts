@@ -1,0 +1,138 @@
+import { buildInitialConditions, runSimulation } from '../../shared/engine';
+import { lagrangianRadii, sampleDiagnostics } from '../../shared/engine/diagnostics';
+import { plummerProfile } from '../../shared/engine/models/plummer';
+import { softenedSphericalModel } from '../../shared/engine/models/isotropic';
+import { Simulation } from '../../shared/engine/simulation';
+import { timescalesFor } from '../../shared/engine/timescales';
+import { G } from '../../shared/engine/units';
+import { parseRunSpec, type RunSpec } from '../../shared/spec';
+import { specWith } from './helpers';
+
+// Spheres balanced for each law. The sphere is chosen so every law matters:
+// at its scale radius the Newtonian pull is about a0 (MOND) and a_M (emergent),
+// the halo holds a few tenths of its mass, and the Yukawa range equals the scale.
+const M = 1e10, A = 2;
+const LAWS = [
+  { kind: 'newton' },
+  { kind: 'halo', profile: 'nfw', scale_kpc: 10, density_Msun_kpc3: 3e7 },
+  { kind: 'mond' },
+  { kind: 'emergent' },
+  { kind: 'yukawa', alpha: 1, lambda_kpc: A },
+] as const;
+
+const sphereSpec = (law: (typeof LAWS)[number], n: number, model: 'plummer' | 'hernquist' = 'plummer', extra: Record<string, unknown> = {}): RunSpec =>
+  specWith({ model: { kind: model, n, mass_Msun: M, scale_kpc: A }, law, solver: { kind: 'tree', theta: 0.6 }, softening_kpc: 0.1, seed: 3, ...extra });
+
+/** 2K / |sum m r . a| at t = 0, with the law's own forces on the particles. */
+function initialClausius(spec: RunSpec): number {
+  const sim = new Simulation(spec);
+  return sampleDiagnostics(sim.particles, sim.law, 0, 0, null, null).sample.clausiusVirialRatio;
+}
+
+describe('spheres balanced for their law', () => {
+  // Virial theorem 2K + sum m r . a = 0 for a steady state (Binney & Tremaine 2008, sec. 4.8.3), whatever the field.
+  // Tolerance 3% (the requirement); sampling noise of K at 20,000 particles is about 0.6%.
+  test.each(LAWS.map((l) => [l.kind, l] as const))('%s: a Plummer sphere of 20,000 particles has Clausius ratio 1 within 3% at t = 0', (_k, law) => {
+    expect(Math.abs(initialClausius(sphereSpec(law, 20_000)) - 1)).toBeLessThan(0.03);
+  });
+
+  test.each(LAWS.map((l) => [l.kind, l] as const))('%s: so does a Hernquist sphere of 20,000 particles (cusp included; within 3%)', (_k, law) => {
+    expect(Math.abs(initialClausius(sphereSpec(law, 20_000, 'hernquist')) - 1)).toBeLessThan(0.03);
+  });
+
+  // 10/50/90% radii about the centre of mass after 10 crossing times, tolerance 5% (the requirement).
+  // 40 steps per crossing time and softening a/20 keep the integration error well below that
+  // (common practice); two-body relaxation at N = 4,000 takes about 60 crossing times
+  // (N / (8 ln N), Binney & Tremaine 2008 eq. 1.38), so it stays small too.
+  test.each(LAWS.map((l) => [l.kind, l] as const))('%s: the 10/50/90%% radii of a 4,000-particle Plummer sphere change by less than 5%% over 10 crossing times', (_k, law) => {
+    const probe = sphereSpec(law, 4000);
+    const tCross = timescalesFor(probe, buildInitialConditions(probe)).timescales.crossingTime_Myr;
+    const spec = { ...probe, timestep_Myr: tCross / 40, duration_Myr: 10 * tCross, snapshotEvery: 400, diagnosticsEvery: 400 };
+    const sim = new Simulation(spec);
+    const before = lagrangianRadii(sim.particles, [0.1, 0.5, 0.9]);
+    while (!sim.done) sim.advance();
+    const after = lagrangianRadii(sim.particles, [0.1, 0.5, 0.9]);
+    after.forEach((r, k) => expect(Math.abs(r / before[k] - 1)).toBeLessThan(0.05));
+  }, 300_000);
+});
+
+describe('the field the velocities are balanced in', () => {
+  test('a softened Plummer sphere pulls like a Plummer sphere of scale sqrt(a^2 + eps^2) (a property of the Plummer kernel; within 0.2% inside 5 a, the rest being the 99.9% truncation and quadrature)', () => {
+    const eps = 0.5;
+    const field = softenedSphericalModel(plummerProfile({ mass_Msun: M, scale_kpc: A }), eps);
+    for (const r of [0.05, 0.3, 1, 2, 4, 10]) {
+      const expected = (G * M * r) / (r * r + A * A + eps * eps) ** 1.5;
+      expect(Math.abs(field.newtonAccel(r) / expected - 1)).toBeLessThan(2e-3);
+    }
+  });
+
+  test('positions do not depend on the law the velocities are balanced for; velocities do (spheres, disks with bulge, encounters)', () => {
+    const models = [
+      { kind: 'plummer', n: 500, mass_Msun: M, scale_kpc: A },
+      { kind: 'hernquist', n: 500, mass_Msun: M, scale_kpc: A },
+      { kind: 'disk', n: 600, mass_Msun: 3e10, scaleLength_kpc: 3, scaleHeight_kpc: 0.3, bulge: { mass_Msun: 5e9, scale_kpc: 0.6 } },
+      { kind: 'encounter', primary: { kind: 'plummer', n: 300, mass_Msun: M, scale_kpc: A }, secondary: { kind: 'hernquist', n: 200, mass_Msun: M / 2, scale_kpc: 1 }, pericentre_kpc: 10, initialSeparation_kpc: 40 },
+    ];
+    for (const model of models) {
+      const under = (law: Record<string, unknown>) => buildInitialConditions(specWith({ model, law, softening_kpc: 0.1 })).particles;
+      const newton = under({ kind: 'newton' }), mond = under({ kind: 'mond' });
+      for (const axis of ['x', 'y', 'z'] as const) expect(Buffer.from(mond[axis].buffer).equals(Buffer.from(newton[axis].buffer))).toBe(true);
+      expect(Buffer.from(mond.vx.buffer).equals(Buffer.from(newton.vx.buffer))).toBe(false);
+    }
+  });
+
+  test('under MOND a sphere balanced for MOND is hotter than one balanced for Newton, and the Newton-balanced one starts out of equilibrium under MOND', () => {
+    const mond = sphereSpec(LAWS[2], 4000);
+    const forNewton = { ...mond, model: { ...mond.model, equilibriumLaw: { kind: 'newton' as const } } } as RunSpec;
+    const k = (s: RunSpec) => {
+      const p = buildInitialConditions(s).particles;
+      let sum = 0;
+      for (let i = 0; i < p.n; i++) sum += p.m[i] * (p.vx[i] ** 2 + p.vy[i] ** 2 + p.vz[i] ** 2);
+      return sum;
+    };
+    expect(k(mond)).toBeGreaterThan(1.2 * k(forNewton));
+    expect(initialClausius(forNewton)).toBeLessThan(0.9);
+  });
+});
+
+describe('spec versions and the run record', () => {
+  const v1 = {
+    version: 1,
+    model: { kind: 'plummer', n: 300, mass_Msun: M, scale_kpc: A },
+    law: { kind: 'mond' },
+    timestep_Myr: 1,
+    duration_Myr: 2,
+    softening_kpc: 0.1,
+    snapshotEvery: 1,
+  };
+
+  test('a version-1 spec still parses and runs; its sphere is balanced for Newton, as version 1 meant, and the run says so', () => {
+    const parsed = parseRunSpec(v1);
+    if (!parsed.ok) throw new Error(JSON.stringify(parsed.issues));
+    const r = runSimulation(parsed.spec);
+    expect(r.summary.equilibrium.balancedFor).toEqual([{ system: 'plummer', law: 'newton', label: 'Newtonian', ownLaw: false }]);
+    expect(r.summary.equilibrium.ownLaw).toBe(false);
+    expect(r.summary.equilibrium.initialClausiusRatio).toBe(r.diagnostics[0].clausiusVirialRatio);
+  });
+
+  test('version 2: a sphere is balanced for the run\'s own law unless equilibriumLaw says otherwise; an encounter is recorded per system', () => {
+    const own = runSimulation(specWith({ ...v1, version: 2 }));
+    expect(own.summary.equilibrium.ownLaw).toBe(true);
+    expect(own.summary.equilibrium.balancedFor[0].law).toBe('mond');
+    const enc = runSimulation(
+      specWith({
+        ...v1,
+        version: 2,
+        model: { kind: 'encounter', primary: { kind: 'plummer', n: 150, mass_Msun: M, scale_kpc: A }, secondary: { kind: 'plummer', n: 150, mass_Msun: M, scale_kpc: A, equilibriumLaw: { kind: 'newton' } }, pericentre_kpc: 10, initialSeparation_kpc: 40 },
+      }),
+    );
+    expect(enc.summary.equilibrium.balancedFor.map((s) => [s.system, s.law, s.ownLaw])).toEqual([['primary', 'mond', true], ['secondary', 'newton', false]]);
+    expect(enc.summary.equilibrium.ownLaw).toBe(false);
+  });
+
+  test('a version outside 1 and 2 is refused, naming the field', () => {
+    const r = parseRunSpec({ ...v1, version: 3 });
+    expect(r.ok).toBe(false);
+    if (!r.ok) expect(r.issues[0].path).toBe('version');
+  });
+});
