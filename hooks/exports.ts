@@ -1,4 +1,5 @@
 import type { RunDetail } from '../shared/api/contract';
+import type { EquilibriumRecord } from '../shared/engine';
 import { diagnosticColumns, readOutput, type RunOutputView } from './runOutput';
 
 // Exports of a finished run: the diagnostics series and rotation curves as CSV
@@ -22,9 +23,15 @@ export function diagnosticsCsv(out: RunOutputView): string {
     'r10_kpc',
     'r50_kpc',
     'r90_kpc',
+    'velocities_balanced_for',
+    'balanced_for_own_law',
   ];
+  // The same on every row, so a row read alone still says what the run started from (empty for runs stored before it was recorded).
+  const eq = (out.summary as { equilibrium?: EquilibriumRecord }).equilibrium;
+  const balanced = eq ? eq.balancedFor.map((b) => `${b.system}: ${b.label}`).join('; ') || 'uploaded velocities' : null;
+  const own = eq?.ownLaw == null ? null : String(eq.ownLaw);
   const rows = c.step.map((_, i) =>
-    [c.step[i], c.time_Myr[i], c.kineticEnergy[i], c.potentialEnergy[i], c.totalEnergy[i], c.energyDrift[i], c.momentumDrift[i], c.angularMomentumDrift[i], c.virialRatio[i], c.clausiusVirialRatio[i], c.r10_kpc[i], c.r50_kpc[i], c.r90_kpc[i]]
+    [c.step[i], c.time_Myr[i], c.kineticEnergy[i], c.potentialEnergy[i], c.totalEnergy[i], c.energyDrift[i], c.momentumDrift[i], c.angularMomentumDrift[i], c.virialRatio[i], c.clausiusVirialRatio[i], c.r10_kpc[i], c.r50_kpc[i], c.r90_kpc[i], balanced, own]
       .map(cell)
       .join(','),
   );

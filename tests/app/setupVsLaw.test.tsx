@@ -1,6 +1,7 @@
 import { SetupVsLaw } from '../../components/compare/SetupVsLaw';
 import type { SetupSide } from '../../components/compare/setupVsLaw';
 import type { RunOutputView } from '../../hooks/runOutput';
+import { diagnosticsCsv } from '../../hooks/exports';
 import { render } from './support/render';
 
 const lawInfo = (kind: string, label: string, hasPotential: boolean) => ({ kind, label, conservesEnergy: hasPotential, conservesMomentum: hasPotential, conservesAngularMomentum: hasPotential, hasPotential, validity: 'v', notes: 'n' });
@@ -68,4 +69,13 @@ test('different settings are set-up differences, and a run stored before the rec
   expect(view.getByText(/stored before Infall recorded what its velocities were balanced for/)).toBeTruthy();
   expect(view.getByText(/Different initial positions: model.n 2000 vs 3000/)).toBeTruthy();
   expect(view.getByText(/Other settings differ: softening_kpc 0.1 vs 0.2; version 2 vs 1/)).toBeTruthy();
+});
+
+test('the diagnostics CSV carries what the velocities were balanced for on every row (empty for a run stored before the record)', () => {
+  const mond = output('mond', 'MOND (simple nu)', false, { balancedFor: [{ system: 'plummer', law: 'newton', label: 'Newtonian', ownLaw: false }], ownLaw: false, initialClausiusRatio: 0.77 }, 0.77);
+  const [header, ...rows] = diagnosticsCsv(mond).trim().split('\n');
+  expect(header.split(',').slice(-2)).toEqual(['velocities_balanced_for', 'balanced_for_own_law']);
+  for (const r of rows) expect(r.endsWith(',"plummer: Newtonian","false"')).toBe(true);
+  const [, first] = diagnosticsCsv(output('newton', 'Newtonian', true, null, 1)).trim().split('\n');
+  expect(first.endsWith(',,')).toBe(true);
 });
