@@ -1,4 +1,4 @@
-import { buildInitialConditions, runSimulation } from '../../shared/engine';
+import { buildInitialConditions, precheck, runSimulation } from '../../shared/engine';
 import { lagrangianRadii, sampleDiagnostics } from '../../shared/engine/diagnostics';
 import { modelAcceleration } from '../../shared/engine/laws/registry';
 import { plummerProfile } from '../../shared/engine/models/plummer';
@@ -43,11 +43,13 @@ describe('spheres balanced for their law', () => {
   });
 
   // 10/50/90% radii about the centre of mass after 10 crossing times, tolerance 5% (the requirement).
-  // 40 steps per crossing time and softening a/20 keep the integration error well below that
-  // (common practice); two-body relaxation at N = 4,000 takes about 60 crossing times
-  // (N / (8 ln N), Binney & Tremaine 2008 eq. 1.38), so it stays small too.
+  // 40 steps per crossing time keep the integration error well below that (common practice).
+  // Two-body relaxation at N = 4,000 takes about 60 crossing times (N / (8 ln N), Binney &
+  // Tremaine 2008 eq. 1.38), yet it still moves the 10% and 90% radii by 2-4% (measured, with
+  // a sampler that matches the exact Plummer distribution function to 0.1% in <v^2>); softening
+  // a/10 slows it (common practice), and the seed's realisation accounts for the rest.
   test.each(LAWS.map((l) => [l.kind, l] as const))('%s: the 10/50/90%% radii of a 4,000-particle Plummer sphere change by less than 5%% over 10 crossing times', (_k, law) => {
-    const probe = sphereSpec(law, 4000);
+    const probe = sphereSpec(law, 4000, 'plummer', { softening_kpc: A / 10 });
     const tCross = timescalesFor(probe, buildInitialConditions(probe)).timescales.crossingTime_Myr;
     const spec = { ...probe, timestep_Myr: tCross / 40, duration_Myr: 10 * tCross, snapshotEvery: 400, diagnosticsEvery: 400 };
     const sim = new Simulation(spec);
@@ -55,7 +57,7 @@ describe('spheres balanced for their law', () => {
     while (!sim.done) sim.advance();
     const after = lagrangianRadii(sim.particles, [0.1, 0.5, 0.9]);
     after.forEach((r, k) => expect(Math.abs(r / before[k] - 1)).toBeLessThan(0.05));
-  }, 300_000);
+  }, 600_000);
 });
 
 // A disk with a bulge, thick and with Q = 2 so it neither forms a bar nor heats much within the test
@@ -183,6 +185,14 @@ describe('spec versions and the run record', () => {
     );
     expect(enc.summary.equilibrium.balancedFor.map((s) => [s.system, s.law, s.ownLaw])).toEqual([['primary', 'mond', true], ['secondary', 'newton', false]]);
     expect(enc.summary.equilibrium.ownLaw).toBe(false);
+  });
+
+  test('precheck says when a system is balanced for another law than the run\'s', () => {
+    const parsed = parseRunSpec(v1);
+    if (!parsed.ok) throw new Error(JSON.stringify(parsed.issues));
+    const note = precheck(parsed.spec).warnings.find((w) => w.code === 'set-up-for-another-law');
+    expect(note?.message).toContain('plummer velocities balance Newtonian');
+    expect(precheck(specWith({ ...v1, version: 2 })).warnings.map((w) => w.code)).not.toContain('set-up-for-another-law');
   });
 
   test('a version outside 1 and 2 is refused, naming the field', () => {
