@@ -80,19 +80,23 @@ function thickDiskPull(d: DiskSpec, eps2: number, R: number, pull: PairPull): nu
         const phi = PI * u * u;
         const c = cos(phi);
         return (R - s * c) * pull(R * R + s * s - 2 * R * s * c + h2) * 2 * PI * u;
-      }, 96);
+      }, 64);
       return 2 * ring * diskSurfaceDensity(d, s) * s;
     };
     // A window symmetric about s = R pairs the rings just inside and just outside R,
     // whose pulls nearly cancel (a principal value when the layer is thin); the rest is smooth.
     const w = Math.min(R, Rt - R);
-    let sum = w > 0 ? simpson01((t) => (ringPull(R - w * t * t) + ringPull(R + w * t * t)) * 2 * w * t, 128) : 0;
+    let sum = w > 0 ? simpson01((t) => (ringPull(R - w * t * t) + ringPull(R + w * t * t)) * 2 * w * t, 96) : 0;
     if (R - w > 0) sum += simpson01((t) => ringPull((R - w) * t) * (R - w), 64);
-    if (R + w < Rt) sum += simpson01((t) => ringPull(R + w + (Rt - R - w) * t) * (Rt - R - w), 128);
+    if (R + w < Rt) sum += simpson01((t) => ringPull(R + w + (Rt - R - w) * t) * (Rt - R - w), 96);
     total += LAYER.w[l] * sum;
   }
   return total;
 }
+
+/** Pull tables by disk geometry, softening and range: a spec's model is rebuilt often (preview, precheck, run), its tables need not be. */
+const TABLES = new Map<string, Float64Array>();
+const MAX_TABLES = 32;
 
 /**
  * The exponential disk (Freeman 1970) as the particles realise it: sech^2
@@ -107,12 +111,14 @@ export function thickDiskModel(d: DiskSpec, softening_kpc: number): MassModel {
   const lo = log(1e-2 * Rd), hi = log(2 * Rt);
   const NODES = 64;
   const lnR = Float64Array.from({ length: NODES }, (_, k) => lo + ((hi - lo) * k) / (NODES - 1));
-  const tables = new Map<number, Float64Array>();
+  const geometry = `${M}|${Rd}|${d.scaleHeight_kpc}|${Rt}|${eps2}`;
   const table = (lambda: number, pull: PairPull) => {
-    let t = tables.get(lambda);
+    const key = `${geometry}|${lambda}`;
+    let t = TABLES.get(key);
     if (!t) {
       t = lnR.map((l) => G * thickDiskPull(d, eps2, exp(l), pull));
-      tables.set(lambda, t);
+      if (TABLES.size >= MAX_TABLES) TABLES.clear();
+      TABLES.set(key, t);
     }
     return t;
   };
