@@ -37,7 +37,7 @@ const plummerSchema = z
     truncationRadius_kpc: truncation,
     equilibriumLaw,
   })
-  .describe('Plummer sphere: positions as Aarseth, Henon & Wielen (1974), isotropic Jeans velocities');
+  .describe('Plummer sphere: radii as Aarseth, Henon & Wielen (1974), isotropic velocities from the distribution function in the equilibrium law\'s field');
 
 const hernquistSchema = z
   .object({
@@ -48,7 +48,7 @@ const hernquistSchema = z
     truncationRadius_kpc: truncation,
     equilibriumLaw,
   })
-  .describe('Hernquist (1990) sphere with isotropic Jeans velocities');
+  .describe('Hernquist (1990) sphere, isotropic velocities from the distribution function in the equilibrium law\'s field');
 
 const diskSchema = z
   .object({
