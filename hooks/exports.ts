@@ -2,6 +2,7 @@ import type { RunDetail } from '../shared/api/contract';
 import { SNAPSHOT_FILE } from '../shared/api/snapshots';
 import { RESULT_UNITS } from '../shared/engine';
 import { api } from './api';
+import type { EquilibriumRecord } from '../shared/engine';
 import { diagnosticColumns, readOutput, type RunOutputView } from './runOutput';
 
 // Exports of a finished run: the diagnostics series and rotation curves as CSV
@@ -27,10 +28,16 @@ export function diagnosticsCsv(out: RunOutputView): string {
     'r50_kpc',
     'r90_kpc',
     ...['cm_x_kpc', 'cm_y_kpc', 'cm_z_kpc', 'cm_vx_km_s', 'cm_vy_km_s', 'cm_vz_km_s', 'density_centre_x_kpc', 'density_centre_y_kpc', 'density_centre_z_kpc'],
+    'velocities_balanced_for',
+    'balanced_for_own_law',
   ];
   const xyz = (v: { x: number; y: number; z: number } | null) => (v ? [v.x, v.y, v.z] : [null, null, null]);
+  // The same on every row, so a row read alone still says what the run started from (empty for runs stored before it was recorded).
+  const eq = (out.summary as { equilibrium?: EquilibriumRecord }).equilibrium;
+  const balanced = eq ? eq.balancedFor.map((b) => `${b.system}: ${b.label}`).join('; ') || 'uploaded velocities' : null;
+  const own = eq?.ownLaw == null ? null : String(eq.ownLaw);
   const rows = c.step.map((_, i) =>
-    [c.step[i], c.time_Myr[i], c.kineticEnergy[i], c.potentialEnergy[i], c.totalEnergy[i], c.energyDrift[i], c.momentumDrift[i], c.angularMomentumDrift[i], c.virialRatio[i], c.clausiusVirialRatio[i], c.r10_kpc[i], c.r50_kpc[i], c.r90_kpc[i], ...xyz(c.centreOfMass_kpc[i]), ...xyz(c.centreOfMassVelocity_km_s[i]), ...xyz(c.densityCentre_kpc[i])]
+    [c.step[i], c.time_Myr[i], c.kineticEnergy[i], c.potentialEnergy[i], c.totalEnergy[i], c.energyDrift[i], c.momentumDrift[i], c.angularMomentumDrift[i], c.virialRatio[i], c.clausiusVirialRatio[i], c.r10_kpc[i], c.r50_kpc[i], c.r90_kpc[i], ...xyz(c.centreOfMass_kpc[i]), ...xyz(c.centreOfMassVelocity_km_s[i]), ...xyz(c.densityCentre_kpc[i]), balanced, own]
       .map(cell)
       .join(','),
   );

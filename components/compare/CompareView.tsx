@@ -25,7 +25,7 @@ import { RotationAtPlayhead } from '../run/RotationAtPlayhead';
 import { RotationCurvePlot } from '../run/RotationCurvePlot';
 import { SpecTable } from '../run/SpecTable';
 import { ComparePicker } from './ComparePicker';
-import { describeDifferences } from './differences';
+import { SetupVsLaw } from './SetupVsLaw';
 
 // Each side in its law's colour; two runs of the same law kind fall back to the second accent.
 function sideColor(run: RunDetail, other: RunDetail): string {
@@ -128,7 +128,7 @@ function ComparePair({ a, b }: { a: RunDetail; b: RunDetail }) {
         ))}
       </View>
       <ModelCaution />
-      <Txt variant="small">{sameIC ? 'Same initial particles (same spec and seed), two force laws: differences below come from the laws, up to integration error.' : 'These runs were not launched as a pair, so their initial conditions may differ as well as their laws.'}</Txt>
+      <Txt variant="small">{sameIC ? 'Launched as a pair: same model and seed, two force laws. What each run started from is set out below.' : 'These runs were not launched as a pair, so their initial conditions may differ as well as their laws.'}</Txt>
       {[a, b].some((r) => !isFinal(r.status)) ? (
         <View style={[styles.players, wide && styles.playersWide]}>
           {[a, b].map((r, k) => (
@@ -140,13 +140,7 @@ function ComparePair({ a, b }: { a: RunDetail; b: RunDetail }) {
       ) : null}
       {done ? (
         <>
-          <Panel title="How they differ" accessibilityLabel="Summary of differences">
-            {describeDifferences({ label: labelA, out: outA }, { label: labelB, out: outB }).map((line) => (
-              <Txt key={line} variant="body">
-                • {line}
-              </Txt>
-            ))}
-          </Panel>
+          <SetupVsLaw a={{ label: labelA, spec: a.spec, out: outA }} b={{ label: labelB, spec: b.spec, out: outB }} />
           {specs}
           <SyncedPlayers runs={[{ run: a, out: outA }, { run: b, out: outB }]} plotted={plotted} />
           <View style={[styles.players, wide && styles.playersWide]}>

@@ -3,8 +3,9 @@ import { particleCount } from '../spec/runSpec';
 import type { DensityCentre } from './centre';
 import { analyticCurves, CURVE_BINS, type AnalyticCurves } from './analytic';
 import { sampleDiagnostics, type DiagnosticSample, type DriftReference } from './diagnostics';
+import { lawInfo } from './laws/registry';
 import type { LawInfo } from './laws/types';
-import type { Component } from './models';
+import { balancedSystems, type Component } from './models';
 import { measureRotationCurve, type RotationCurve } from './rotationCurves';
 import { Simulation } from './simulation';
 import type { FieldSolver } from './solvers';
@@ -61,6 +62,17 @@ export interface RunSummary {
   finalAngularMomentumDrift: number;
   /** What the law says about each quantity, so a drift can be read as integrator error or as physics. */
   quantities: { energy: QuantityMeaning; momentum: QuantityMeaning; angularMomentum: QuantityMeaning };
+  equilibrium: EquilibriumRecord;
+}
+
+/** What the initial velocities were balanced for, so a pair's differences can be told apart (set-up or law). */
+export interface EquilibriumRecord {
+  /** Per system: the law whose field its velocities balance (kind and label). */
+  balancedFor: { system: string; law: string; label: string; ownLaw: boolean }[];
+  /** Every system balanced for the run's own law; null when the velocities were uploaded. */
+  ownLaw: boolean | null;
+  /** 2K / |sum m r . a| at t = 0 under the run's law: 1 for a system in equilibrium under it. */
+  initialClausiusRatio: number;
 }
 
 export interface RunResult {
@@ -93,6 +105,15 @@ const DEFAULT_DIAGNOSTIC_SAMPLES = 200;
 /** Toomre Q is profiled in this many bins out to this many scale lengths (where the disk has particles enough). */
 const TOOMRE_BINS = 10;
 const TOOMRE_RANGE_SCALE_LENGTHS = 4;
+
+function equilibriumRecord(spec: RunSpec, initialClausiusRatio: number): EquilibriumRecord {
+  const systems = balancedSystems(spec);
+  return {
+    balancedFor: systems.map((s) => ({ system: s.system, law: s.law.kind, label: lawInfo(s.law).label, ownLaw: s.ownLaw })),
+    ownLaw: systems.length ? systems.every((s) => s.ownLaw) : null,
+    initialClausiusRatio,
+  };
+}
 
 /** An evenly spread subset of indices, the same for every snapshot. */
 function snapshotSubset(n: number, max: number): Uint32Array {
@@ -214,6 +235,7 @@ export function runSimulation(spec: RunSpec, hooks: RunHooks = {}): RunResult {
         momentum: meaning(info.conservesMomentum),
         angularMomentum: meaning(info.conservesAngularMomentum),
       },
+      equilibrium: equilibriumRecord(spec, diagnostics[0].clausiusVirialRatio),
     },
     units: { ...RESULT_UNITS },
   };

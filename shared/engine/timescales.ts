@@ -3,7 +3,7 @@ import { estimateInteractions, FORCE_EVALUATIONS_PER_STEP, particleCount, stepCo
 import { lagrangianRadii } from './diagnostics';
 import { qumondGridNotes } from './laws/qumond';
 import { lawInfo, modelAcceleration } from './laws/registry';
-import type { InitialConditions } from './models';
+import { balancedSystems, type InitialConditions } from './models';
 import { totalMass } from './state';
 import { G, internalToMyr } from './units';
 
@@ -189,11 +189,11 @@ function modelAndMethodNotes(spec: RunSpec, n: number): EngineWarning[] {
       source: 'this engine',
     });
   }
-  if (m.kind === 'disk' && m.equilibriumLaw && m.equilibriumLaw.kind !== spec.law.kind) {
+  for (const s of balancedSystems(spec).filter((b) => !b.ownLaw)) {
     notes.push({
-      code: 'disk-set-up-for-another-law',
+      code: 'set-up-for-another-law',
       severity: 'info',
-      message: `disk velocities balance ${lawInfo(m.equilibriumLaw).label}, not the run's law, so runs under both laws start from identical particles`,
+      message: `${s.system} velocities balance ${lawInfo(s.law).label}, not the run's law, so the run starts out of equilibrium under its law (and a run under that law starts from identical particles)`,
       source: 'this engine',
     });
   }

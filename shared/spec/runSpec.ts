@@ -1,12 +1,14 @@
 import { z } from 'zod';
-import { lawSchema } from '../engine/laws/registry';
+import { lawSchema, type LawSpec } from '../engine/laws/registry';
 
 /**
  * The run spec: one versioned document that fully determines a run. The same
  * spec (seed included) gives bit-identical results. Units sit in field names:
  * kpc, km/s, Msun, Myr at the interface.
  */
-export const RUN_SPEC_VERSION = 1 as const;
+export const RUN_SPEC_VERSION = 2 as const;
+// Version 1 is still read. It differs in one meaning only: a sphere with no
+// equilibriumLaw is balanced for Newton (version 2: for the run's law).
 
 /** Hard limits: the engine refuses anything beyond them. */
 export const LIMITS = {
@@ -31,6 +33,9 @@ const count = z.number().int().min(2).max(LIMITS.maxParticles).describe('number 
 const mass = z.number().positive().max(1e15);
 const length = z.number().positive().max(1e4);
 const truncation = length.optional().describe('no particle is placed beyond this radius; defaults per model');
+const equilibriumLaw = lawSchema
+  .optional()
+  .describe("law whose field the velocities are balanced in; defaults to the run's law (set it to compare laws from identical initial conditions)");
 
 const plummerSchema = z
   .object({
@@ -39,8 +44,9 @@ const plummerSchema = z
     mass_Msun: mass,
     scale_kpc: length.describe('Plummer radius a'),
     truncationRadius_kpc: truncation,
+    equilibriumLaw,
   })
-  .describe('Plummer sphere, sampled as Aarseth, Henon & Wielen (1974)');
+  .describe('Plummer sphere: radii as Aarseth, Henon & Wielen (1974), isotropic velocities from the distribution function in the equilibrium law\'s field');
 
 const hernquistSchema = z
   .object({
@@ -49,8 +55,9 @@ const hernquistSchema = z
     mass_Msun: mass,
     scale_kpc: length.describe('Hernquist scale radius a'),
     truncationRadius_kpc: truncation,
+    equilibriumLaw,
   })
-  .describe('Hernquist (1990) sphere with its isotropic distribution function');
+  .describe('Hernquist (1990) sphere, isotropic velocities from the distribution function in the equilibrium law\'s field');
 
 const diskSchema = z
   .object({
@@ -65,9 +72,7 @@ const diskSchema = z
       .object({ mass_Msun: mass, scale_kpc: length.describe('Hernquist scale radius of the bulge') })
       .optional()
       .describe('optional Hernquist bulge; particles are shared out in proportion to mass'),
-    equilibriumLaw: lawSchema
-      .optional()
-      .describe('law whose circular speed sets the disk velocities; defaults to the run\'s law (set it to compare laws from identical initial conditions)'),
+    equilibriumLaw,
   })
   .describe('Exponential disk (Freeman 1970) with sech^2 vertical profile');
 
@@ -136,7 +141,7 @@ export const integratorSchema = z
 
 export const runSpecSchema = z
   .object({
-    version: z.literal(RUN_SPEC_VERSION),
+    version: z.union([z.literal(1), z.literal(RUN_SPEC_VERSION)]).describe('2 is current; 1 is read with its own default for equilibriumLaw'),
     name: runNameSchema.optional(),
     model: modelSchema,
     law: lawSchema,
@@ -193,6 +198,14 @@ export type DiskSpec = z.infer<typeof diskSchema>;
 export type SolverSpec = RunSpec['solver'];
 export type IntegratorKind = RunSpec['integrator'];
 export type { LawSpec, LawKind } from '../engine/laws/registry';
+
+const NEWTON: LawSpec = { kind: 'newton' };
+
+/** The law a system's velocities are balanced for: its own equilibriumLaw, else the run's law (a version-1 sphere: Newton). */
+export function equilibriumLawOf(system: SystemSpec, spec: Pick<RunSpec, 'version' | 'law'>): LawSpec {
+  if (system.equilibriumLaw) return system.equilibriumLaw;
+  return spec.version === 1 && system.kind !== 'disk' ? NEWTON : spec.law;
+}
 
 export type SpecIssue = { path: string; message: string };
 

@@ -59,13 +59,25 @@ describe('exponential disk (Freeman 1970)', () => {
     expect(Math.abs(best - 2.15)).toBeLessThan(0.01);
   });
 
-  test("the engine's analytic Newtonian curve of a disk spec matches the bessel-package curve (to 1e-6 relative) and peaks at 2.15 R_d", () => {
-    const spec = specWith({ model: diskModel(), law: { kind: 'newton' }, softening_kpc: 0.2 });
-    const radii = Array.from({ length: 301 }, (_, k) => RD * (0.1 + 0.01 * k));
+  test("the engine's disk model, made thin and unsoftened, tends to the bessel-package curve (within 1% from 0.3 to 6 R_d: quadrature, a layer of 0.001 R_d and the 10 R_d cut) and peaks at 2.15 R_d (within 0.03 R_d)", () => {
+    const spec = specWith({ model: diskModel({ scaleHeight_kpc: 1e-3 * RD }), law: { kind: 'newton' }, softening_kpc: 0 });
+    const radii = Array.from({ length: 58 }, (_, k) => RD * (0.3 + 0.1 * k));
     const v = analyticCurves(spec, { radii_kpc: radii }).curves[0].v_km_s;
-    radii.forEach((R, k) => expect(Math.abs(v[k] ** 2 / freemanV2(R) - 1)).toBeLessThan(1e-6));
-    const peak = radii[v.indexOf(Math.max(...v))] / RD;
-    expect(Math.abs(peak - 2.15)).toBeLessThan(0.01);
+    radii.forEach((R, k) => expect(Math.abs(v[k] ** 2 / freemanV2(R) - 1)).toBeLessThan(0.01));
+    const fine = Array.from({ length: 101 }, (_, k) => RD * (1.7 + 0.01 * k));
+    const vf = analyticCurves(spec, { radii_kpc: fine }).curves[0].v_km_s;
+    expect(Math.abs(fine[vf.indexOf(Math.max(...vf))] / RD - 2.15)).toBeLessThan(0.03);
+  });
+
+  test('thickness and softening weaken the midplane pull most near the centre (a thick softened disk is below the thin curve inside 2 R_d and within 2% of it at 5 R_d)', () => {
+    const spec = specWith({ model: diskModel(), law: { kind: 'newton' }, softening_kpc: 0.2 });
+    const radii = [0.5, 1, 2, 5].map((x) => x * RD);
+    const v = analyticCurves(spec, { radii_kpc: radii }).curves[0].v_km_s;
+    const ratio = radii.map((R, k) => v[k] ** 2 / freemanV2(R));
+    expect(ratio[0]).toBeLessThan(ratio[1]);
+    expect(ratio[1]).toBeLessThan(1);
+    expect(ratio[2]).toBeLessThan(1);
+    expect(Math.abs(ratio[3] - 1)).toBeLessThan(0.02);
   });
 
   const big = buildInitialConditions(specWith({ model: diskModel({ n: 20_000 }), law: { kind: 'newton' }, softening_kpc: 0.2 })).particles;
@@ -94,14 +106,14 @@ describe('exponential disk (Freeman 1970)', () => {
     expect(Math.abs(quantile(inner, 0.5) / 1.5 - 1)).toBeLessThan(0.2);
   });
 
-  test('the circular speed sampled from particle forces follows the analytic curve between 1 and 4 R_d (mean ratio within 6%, each bin within 12%: graininess of 3000 particles, and thickness and softening weaken the midplane pull; our tolerances)', () => {
+  test('the circular speed sampled from particle forces follows the analytic (thick, softened) curve between 1 and 4 R_d (mean ratio within 3%, each bin within 12%: graininess of 3000 particles; our tolerances)', () => {
     const r = runSimulation(specWith({ model: diskModel(), law: { kind: 'newton' }, softening_kpc: 0.3, timestep_Myr: 1, duration_Myr: 1, snapshotEvery: 1 }));
     const { radii_kpc, circular_km_s } = r.rotationCurves.initial;
     const analytic = r.rotationCurves.analytic.curves[0].v_km_s;
     const ratios = radii_kpc.flatMap((R, k) => (R >= RD && R <= 4 * RD ? [circular_km_s[k] / analytic[k]] : []));
     expect(ratios.length).toBeGreaterThan(10);
     for (const q of ratios) expect(Math.abs(q - 1)).toBeLessThan(0.12);
-    expect(Math.abs(ratios.reduce((a, b) => a + b, 0) / ratios.length - 1)).toBeLessThan(0.06);
+    expect(Math.abs(ratios.reduce((a, b) => a + b, 0) / ratios.length - 1)).toBeLessThan(0.03);
   });
 
   test('velocities balance the chosen law: a MOND disk rotates faster than a Newtonian one, unless both are set up for the same equilibrium law (then particles are bit-identical)', () => {

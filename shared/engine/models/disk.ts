@@ -1,11 +1,12 @@
 import type { DiskSpec, LawSpec } from '../../spec/runSpec';
-import { modelAcceleration } from '../laws/registry';
+import { createLaw, modelAcceleration } from '../laws/registry';
+import type { LawContext } from '../laws/types';
 import type { RngState } from '../rng';
-import { isotropicDirection, normal, uniform, uniformOpen } from '../rng';
-import { i0e, i1e, k0e, k1e } from '../special';
-import type { ParticleState } from '../state';
+import { normal, uniform, uniformOpen } from '../rng';
+import { allocateAccelerations, type ParticleState, type Sources } from '../state';
 import { G } from '../units';
-import { hernquistModel, sampleHernquistRadius } from './hernquist';
+import { hernquistProfile, sampleHernquistPositions } from './hernquist';
+import { assignIsotropicVelocities, interpolate, isotropicSpeedSampler, softenedSphericalModel } from './isotropic';
 import { combinedModel, type MassModel } from './massModel';
 import type { Component } from './types';
 
@@ -30,88 +31,118 @@ function simpson01(f: (t: number) => number, intervals: number): number {
   return sum / (3 * intervals);
 }
 
-/**
- * In-plane pull of the Yukawa term of a thin exponential disk, per unit
- * alpha, by summing rings. The disk's thickness and the run's softening
- * smooth the kernel (s^2 = d^2 + z0^2 + eps^2): an approximation, stated in
- * the SPEC. Nodes cluster at the target radius, where the kernel peaks.
- */
-function diskScreenedPull(d: DiskSpec, smoothing2: number, R: number, lambda: number): number {
-  const Rt = diskTruncation(d);
-  const ringPull = (s: number): number => {
-    // Azimuth phi = pi u^2 clusters nodes at the near side of the ring; the far half mirrors it.
-    const ring = simpson01((u) => {
-      const phi = PI * u * u;
-      const c = cos(phi);
-      const S2 = R * R + s * s - 2 * R * s * c + smoothing2;
-      const S = sqrt(S2);
-      const x = S / lambda;
-      return ((R - s * c) * exp(-x) * (1 + x)) / (S2 * S) * 2 * PI * u;
-    }, 64);
-    return 2 * ring * diskSurfaceDensity(d, s) * s;
-  };
-  const inner = R > 0 ? simpson01((t) => ringPull(R - R * t * t) * 2 * R * t, 128) : 0;
-  const outer = R < Rt ? simpson01((t) => ringPull(R + (Rt - R) * t * t) * 2 * (Rt - R) * t, 128) : 0;
-  return G * (inner + outer);
+/** Gauss-Legendre nodes and weights on (0, 1), roots found by Newton's method on P_n. */
+function gaussLegendre01(n: number): { u: Float64Array; w: Float64Array } {
+  const u = new Float64Array(n), w = new Float64Array(n);
+  for (let i = 0; i < n; i++) {
+    let x = cos((PI * (i + 0.75)) / (n + 0.5));
+    let dp = 1;
+    for (let it = 0; it < 100; it++) {
+      let p0 = 1, p1 = x;
+      for (let k = 2; k <= n; k++) [p0, p1] = [p1, ((2 * k - 1) * x * p1 - (k - 1) * p0) / k];
+      dp = (n * (x * p1 - p0)) / (x * x - 1);
+      const dx = p1 / dp;
+      x -= dx;
+      if (Math.abs(dx) < 1e-15) break;
+    }
+    u[i] = 0.5 * (1 - x);
+    w[i] = 1 / ((1 - x * x) * dp * dp);
+  }
+  return { u, w };
 }
 
-/** The razor-thin exponential disk (Freeman 1970): g = 2 pi G Sigma0 y [I0 K0 - I1 K1](y), y = R / (2 R_d). */
-export function freemanDiskModel(d: DiskSpec, softening_kpc: number): MassModel {
+/** Heights of the sech^2 layer at which its vertical integrals are taken: u = tanh(z/z0) is uniform in mass. */
+const LAYER = gaussLegendre01(6);
+
+/** Pair pull along the separation divided by the separation, for D^2 = separation^2 + eps^2. */
+type PairPull = (D2: number) => number;
+const newtonPull: PairPull = (D2) => 1 / (D2 * sqrt(D2));
+const screenedPull = (lambda: number): PairPull => (D2) => {
+  const D = sqrt(D2);
+  return (exp(-D / lambda) * (1 + D / lambda)) / (D2 * D);
+};
+
+/**
+ * Midplane inward pull at R of the thick, truncated exponential disk through
+ * the engine's softened pair force, per G: rings of the surface density at
+ * each height of the sech^2 layer, summed numerically. Nodes cluster at the
+ * target radius and azimuth, where the kernel peaks.
+ */
+function thickDiskPull(d: DiskSpec, eps2: number, R: number, pull: PairPull): number {
+  const Rt = diskTruncation(d), z0 = d.scaleHeight_kpc;
+  let total = 0;
+  for (let l = 0; l < LAYER.u.length; l++) {
+    const zeta = z0 * Math.atanh(LAYER.u[l]);
+    const h2 = zeta * zeta + eps2;
+    const ringPull = (s: number): number => {
+      // Azimuth phi = pi u^2 clusters nodes at the near side of the ring; the far half mirrors it.
+      const ring = simpson01((u) => {
+        const phi = PI * u * u;
+        const c = cos(phi);
+        return (R - s * c) * pull(R * R + s * s - 2 * R * s * c + h2) * 2 * PI * u;
+      }, 64);
+      return 2 * ring * diskSurfaceDensity(d, s) * s;
+    };
+    // A window symmetric about s = R pairs the rings just inside and just outside R,
+    // whose pulls nearly cancel (a principal value when the layer is thin); the rest is smooth.
+    const w = Math.min(R, Rt - R);
+    let sum = w > 0 ? simpson01((t) => (ringPull(R - w * t * t) + ringPull(R + w * t * t)) * 2 * w * t, 96) : 0;
+    if (R - w > 0) sum += simpson01((t) => ringPull((R - w) * t) * (R - w), 64);
+    if (R + w < Rt) sum += simpson01((t) => ringPull(R + w + (Rt - R - w) * t) * (Rt - R - w), 96);
+    total += LAYER.w[l] * sum;
+  }
+  return total;
+}
+
+/** Pull tables by disk geometry, softening and range: a spec's model is rebuilt often (preview, precheck, run), its tables need not be. */
+const TABLES = new Map<string, Float64Array>();
+const MAX_TABLES = 32;
+
+/**
+ * The exponential disk (Freeman 1970) as the particles realise it: sech^2
+ * thickness, truncation and the run's softening included, so its curve is
+ * the one the particles feel. Each pull gets one table over ln R, made on
+ * first use and interpolated after (the ring sums are costly).
+ */
+export function thickDiskModel(d: DiskSpec, softening_kpc: number): MassModel {
   const Rd = d.scaleLength_kpc, M = d.mass_Msun;
-  const sigma0 = M / (2 * Math.PI * Rd * Rd);
-  const smoothing2 = d.scaleHeight_kpc ** 2 + softening_kpc ** 2;
-  // The ring sum is costly, so each lambda gets one table over ln R, interpolated after.
-  const tables = new Map<number, { lnR: Float64Array; g: Float64Array }>();
+  const eps2 = softening_kpc ** 2;
   const Rt = diskTruncation(d);
-  const lo = log(1e-3 * Rd), hi = log(2 * Rt);
-  const NODES = 96;
-  const screened = (R: number, lambda: number): number => {
-    if (R === 0) return 0;
-    let t = tables.get(lambda);
+  const lo = log(1e-2 * Rd), hi = log(2 * Rt);
+  const NODES = 64;
+  const lnR = Float64Array.from({ length: NODES }, (_, k) => lo + ((hi - lo) * k) / (NODES - 1));
+  const geometry = `${M}|${Rd}|${d.scaleHeight_kpc}|${Rt}|${eps2}`;
+  const table = (lambda: number, pull: PairPull) => {
+    const key = `${geometry}|${lambda}`;
+    let t = TABLES.get(key);
     if (!t) {
-      const lnR = Float64Array.from({ length: NODES }, (_, k) => lo + ((hi - lo) * k) / (NODES - 1));
-      t = { lnR, g: lnR.map((l) => diskScreenedPull(d, smoothing2, exp(l), lambda)) };
-      tables.set(lambda, t);
+      t = lnR.map((l) => G * thickDiskPull(d, eps2, exp(l), pull));
+      if (TABLES.size >= MAX_TABLES) TABLES.clear();
+      TABLES.set(key, t);
     }
-    return interpolate(t.lnR, t.g, log(R));
+    return t;
   };
+  const R0 = exp(lo);
+  // Inside the first node the pull falls linearly to zero at the centre.
+  const lookup = (t: Float64Array, R: number) => (R <= 0 ? 0 : R < R0 ? (t[0] * R) / R0 : interpolate(lnR, t, log(R)));
   return {
     totalMass_Msun: M,
     extent_kpc: Math.min(5 * Rd, Rt),
-    newtonAccel(R) {
-      if (R === 0) return 0;
-      const y = R / (2 * Rd);
-      return 2 * Math.PI * G * sigma0 * y * (i0e(y) * k0e(y) - i1e(y) * k1e(y));
-    },
-    screenedAccel: screened,
+    newtonAccel: (R) => lookup(table(Infinity, newtonPull), R),
+    screenedAccel: (R, lambda) => lookup(table(lambda, screenedPull(lambda)), R),
     enclosedMass: (R) => M * (1 - (1 + R / Rd) * exp(-R / Rd)),
     enclosedMassSlope: (R) => ((M * R) / (Rd * Rd)) * exp(-R / Rd),
   };
 }
 
-/** Linear interpolation on an increasing grid, clamped at both ends. */
-function interpolate(xs: Float64Array, ys: Float64Array, x: number): number {
-  if (x <= xs[0]) return ys[0];
-  const last = xs.length - 1;
-  if (x >= xs[last]) return ys[last];
-  let lo = 0, hi = last;
-  while (hi - lo > 1) {
-    const mid = (lo + hi) >> 1;
-    if (xs[mid] <= x) lo = mid;
-    else hi = mid;
-  }
-  const f = (x - xs[lo]) / (xs[hi] - xs[lo]);
-  return ys[lo] + f * (ys[hi] - ys[lo]);
-}
-
 const bulgeParams = (d: DiskSpec) => (d.bulge ? { mass_Msun: d.bulge.mass_Msun, scale_kpc: d.bulge.scale_kpc } : null);
 
-/** Disk plus optional bulge. */
+/** Disk plus optional bulge, both softened as the run softens them. */
 export function diskGalaxyModel(d: DiskSpec, softening_kpc: number): MassModel {
   const b = bulgeParams(d);
-  const disk = freemanDiskModel(d, softening_kpc);
+  const disk = thickDiskModel(d, softening_kpc);
   if (!b) return disk;
-  const combined = combinedModel([disk, hernquistModel(b)]);
+  const combined = combinedModel([disk, softenedSphericalModel(hernquistProfile(b), softening_kpc)]);
   return { ...combined, extent_kpc: disk.extent_kpc };
 }
 
@@ -174,78 +205,91 @@ function diskKinematics(d: DiskSpec, law: LawSpec, model: MassModel) {
   };
 }
 
+/** Probe radii for the vertical field, in scale lengths: where the disk has particles to speak of. */
+const PROBE_RADII = 24, PROBE_INNER = 0.1, PROBE_OUTER = 8;
+/** Azimuths per probe ring: the local vertical pull is grainy, so it is averaged round the ring and above and below. */
+const PROBE_AZIMUTHS = 32;
+const PROBE_LAYER = gaussLegendre01(4);
+
 /**
- * Isotropic Jeans dispersion of the bulge in the whole model's field under
- * `law`, treated as spherical: sigma^2(r) = (1/rho) int_r^inf rho g dr'.
- * Gaussian velocities from these moments are an approximation in common use
- * for composite galaxy models (Hernquist 1993, from memory).
+ * Vertical dispersion of an isothermal sech^2 layer from the vertical Jeans
+ * equation at the midplane (Binney & Tremaine 2008, eq. 4.222 with the radial
+ * term dropped): sigma_z^2 = (1/rho(0)) int_0^inf rho g_z dz = z0 int_0^1 g_z du
+ * with u = tanh(z/z0). g_z is the law's own pull on probes among the sampled
+ * particles, so disk, bulge, softening and the law's boost all count. For a
+ * lone self-gravitating sheet it gives pi G Sigma z0 (Spitzer 1942).
  */
-function bulgeDispersion(scale: number, law: LawSpec, model: MassModel): (r: number) => number {
-  const NODES = 256;
-  // rho g falls at least as r^-5 under every law here, so 1e4 scale radii stand in for infinity.
-  const lo = log(1e-3 * scale), hi = log(1e4 * scale);
-  const lnR = Float64Array.from({ length: NODES }, (_, k) => lo + ((hi - lo) * k) / (NODES - 1));
-  const rho = (r: number) => 1 / (r * (r + scale) ** 3); // Hernquist shape; the normalisation cancels
-  const integrand = lnR.map((l) => {
-    const r = exp(l);
-    return rho(r) * modelAcceleration(law, model, r) * r; // d r = r d ln r
-  });
-  const sigma = new Float64Array(NODES);
-  let integral = 0;
-  for (let k = NODES - 2; k >= 0; k--) {
-    integral += 0.5 * (integrand[k] + integrand[k + 1]) * (lnR[k + 1] - lnR[k]);
-    sigma[k] = sqrt(integral / rho(exp(lnR[k])));
+function verticalDispersion(d: DiskSpec, law: LawSpec, ctx: LawContext, sources: Sources): (R: number) => number {
+  const Rd = d.scaleLength_kpc, z0 = d.scaleHeight_kpc;
+  const outer = Math.min(PROBE_OUTER * Rd, diskTruncation(d));
+  const lnR = Float64Array.from({ length: PROBE_RADII }, (_, k) => log(PROBE_INNER * Rd) + ((log(outer) - log(PROBE_INNER * Rd)) * k) / (PROBE_RADII - 1));
+  const layers = PROBE_LAYER.u.length;
+  const n = PROBE_RADII * layers * 2 * PROBE_AZIMUTHS;
+  const probes = { x: new Float64Array(n), y: new Float64Array(n), z: new Float64Array(n) };
+  let k = 0;
+  for (let r = 0; r < PROBE_RADII; r++)
+    for (let l = 0; l < layers; l++)
+      for (const side of [1, -1])
+        for (let j = 0; j < PROBE_AZIMUTHS; j++, k++) {
+          const phi = (2 * PI * (j + 0.5 * (l % 2))) / PROBE_AZIMUTHS;
+          probes.x[k] = exp(lnR[r]) * cos(phi); probes.y[k] = exp(lnR[r]) * Math.sin(phi);
+          probes.z[k] = side * z0 * Math.atanh(PROBE_LAYER.u[l]);
+        }
+  const acc = allocateAccelerations(n);
+  createLaw(law, ctx).accelerations(sources, probes, acc);
+  const sigma = new Float64Array(PROBE_RADII);
+  k = 0;
+  for (let r = 0; r < PROBE_RADII; r++) {
+    let s2 = 0;
+    for (let l = 0; l < layers; l++) {
+      let gz = 0;
+      for (const side of [1, -1]) for (let j = 0; j < PROBE_AZIMUTHS; j++, k++) gz -= side * acc.az[k];
+      s2 += PROBE_LAYER.w[l] * (gz / (2 * PROBE_AZIMUTHS));
+    }
+    sigma[r] = sqrt(Math.max(0, z0 * s2));
   }
-  return (r) => interpolate(lnR, sigma, log(Math.max(r, 1e-300)));
+  return (R) => interpolate(lnR, sigma, log(Math.max(R, 1e-300)));
 }
 
 /**
  * Fills particles start..start+n-1 with the disk (first) and its bulge. The
- * disk lies in the x-y plane rotating counter-clockwise seen from +z.
+ * disk lies in the x-y plane rotating counter-clockwise seen from +z. Every
+ * position is drawn before any velocity, so a seed gives the same positions
+ * whatever law the velocities are balanced for.
  */
-export function sampleDiskGalaxy(
-  d: DiskSpec,
-  runLaw: LawSpec,
-  softening_kpc: number,
-  rng: RngState,
-  out: ParticleState,
-  start: number,
-): Component[] {
-  const law = d.equilibriumLaw ?? runLaw;
-  const model = diskGalaxyModel(d, softening_kpc);
+export function sampleDiskGalaxy(d: DiskSpec, law: LawSpec, ctx: LawContext, rng: RngState, out: ParticleState, start: number): Component[] {
+  const model = diskGalaxyModel(d, ctx.softening_kpc);
   const split = diskParticleSplit(d);
-  const kin = diskKinematics(d, law, model);
   const Rd = d.scaleLength_kpc, z0 = d.scaleHeight_kpc;
   const Fmax = 1 - (1 + diskTruncation(d) / Rd) * exp(-diskTruncation(d) / Rd);
   const mDisk = d.mass_Msun / split.disk;
-  for (let i = start; i < start + split.disk; i++) {
+  const diskEnd = start + split.disk, end = start + d.n;
+  for (let i = start; i < diskEnd; i++) {
     const R = Rd * exponentialRadius(uniformOpen(rng) * Fmax);
     const phi = 2 * Math.PI * uniform(rng);
-    const z = z0 * Math.atanh(2 * uniformOpen(rng) - 1); // inverse of the sech^2 cumulative
-    const k = kin(R);
-    const sigmaZ = sqrt(Math.PI * G * diskSurfaceDensity(d, R) * z0); // isothermal sheet (Spitzer 1942)
-    const vR = k.sigmaR * normal(rng);
-    const vT = k.vPhi + k.sigmaPhi * normal(rng);
-    const c = cos(phi), s = Math.sin(phi);
-    out.x[i] = R * c; out.y[i] = R * s; out.z[i] = z;
-    out.vx[i] = vR * c - vT * s; out.vy[i] = vR * s + vT * c; out.vz[i] = sigmaZ * normal(rng);
+    out.x[i] = R * cos(phi); out.y[i] = R * Math.sin(phi);
+    out.z[i] = z0 * Math.atanh(2 * uniformOpen(rng) - 1); // inverse of the sech^2 cumulative
     out.m[i] = mDisk;
   }
-  const components: Component[] = [{ label: 'disk', start, count: split.disk }];
   const b = bulgeParams(d);
+  if (b) sampleHernquistPositions(b, rng, out, diskEnd, split.bulge);
+
+  const view = (a: Float64Array) => a.subarray(start, end);
+  const sigmaZ = verticalDispersion(d, law, ctx, { x: view(out.x), y: view(out.y), z: view(out.z), m: view(out.m) });
+  const kin = diskKinematics(d, law, model);
+  for (let i = start; i < diskEnd; i++) {
+    const R = Math.hypot(out.x[i], out.y[i]);
+    const c = out.x[i] / R, s = out.y[i] / R;
+    const k = kin(R);
+    const vR = k.sigmaR * normal(rng);
+    const vT = k.vPhi + k.sigmaPhi * normal(rng);
+    out.vx[i] = vR * c - vT * s; out.vy[i] = vR * s + vT * c; out.vz[i] = sigmaZ(R) * normal(rng);
+  }
+  const components: Component[] = [{ label: 'disk', start, count: split.disk }];
   if (b) {
-    const bStart = start + split.disk;
-    const sigma = bulgeDispersion(b.scale_kpc, law, model);
-    const mBulge = b.mass_Msun / split.bulge;
-    for (let i = bStart; i < bStart + split.bulge; i++) {
-      const r = sampleHernquistRadius(b, rng);
-      const [ux, uy, uz] = isotropicDirection(rng);
-      out.x[i] = r * ux; out.y[i] = r * uy; out.z[i] = r * uz;
-      const sr = sigma(r);
-      out.vx[i] = sr * normal(rng); out.vy[i] = sr * normal(rng); out.vz[i] = sr * normal(rng);
-      out.m[i] = mBulge;
-    }
-    components.push({ label: 'bulge', start: bStart, count: split.bulge });
+    // The bulge is treated as spherical in the whole galaxy's field: an approximation in common use for composite models.
+    assignIsotropicVelocities(out, diskEnd, split.bulge, isotropicSpeedSampler(hernquistProfile(b), model, law), rng);
+    components.push({ label: 'bulge', start: diskEnd, count: split.bulge });
   }
   return components;
 }

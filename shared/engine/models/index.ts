@@ -1,12 +1,15 @@
-import type { RunSpec, SystemSpec } from '../../spec/runSpec';
+import type { LawSpec, RunSpec, SystemSpec } from '../../spec/runSpec';
+import { equilibriumLawOf } from '../../spec/runSpec';
 import { seedRng, type RngState } from '../rng';
+import { makeSolver } from '../solvers';
 import { allocateParticles, shiftToCentreOfMassFrame, type ParticleState } from '../state';
 import { diskGalaxyModel, sampleDiskGalaxy } from './disk';
 import { placeOnOrbit, tiltAboutX } from './encounter';
-import { hernquistModel, sampleHernquist } from './hernquist';
+import { hernquistModel, hernquistProfile, sampleHernquistPositions } from './hernquist';
+import { assignIsotropicVelocities, isotropicSpeedSampler, softenedSphericalModel } from './isotropic';
 import { keplerModel, placeKeplerPair } from './kepler';
 import type { MassModel } from './massModel';
-import { plummerModel, samplePlummer } from './plummer';
+import { plummerModel, plummerProfile, samplePlummerPositions } from './plummer';
 import { tableModel, tableParticles } from './table';
 import type { Component, InitialConditions } from './types';
 
@@ -26,20 +29,25 @@ function systemModel(s: SystemSpec, softening_kpc: number): MassModel {
 
 const systemMass = (s: SystemSpec): number => s.mass_Msun + (s.kind === 'disk' && s.bulge ? s.bulge.mass_Msun : 0);
 
-/** Samples one system into out[start..start+n), centred on its own centre of mass. */
+/**
+ * Samples one system into out[start..start+n), centred on its own centre of
+ * mass, with velocities balanced in its own field under its equilibrium law.
+ */
 function sampleSystem(s: SystemSpec, spec: RunSpec, rng: RngState, out: ParticleState, start: number, label: string): Component[] {
+  const law = equilibriumLawOf(s, spec);
   let parts: Component[];
   switch (s.kind) {
     case 'plummer':
-      samplePlummer(s, rng, out, start, s.n);
-      parts = [{ label: 'Plummer sphere', start, count: s.n }];
+    case 'hernquist': {
+      const profile = s.kind === 'plummer' ? plummerProfile(s) : hernquistProfile(s);
+      (s.kind === 'plummer' ? samplePlummerPositions : sampleHernquistPositions)(s, rng, out, start, s.n);
+      const speed = isotropicSpeedSampler(profile, softenedSphericalModel(profile, spec.softening_kpc), law);
+      assignIsotropicVelocities(out, start, s.n, speed, rng);
+      parts = [{ label: s.kind === 'plummer' ? 'Plummer sphere' : 'Hernquist sphere', start, count: s.n }];
       break;
-    case 'hernquist':
-      sampleHernquist(s, rng, out, start, s.n);
-      parts = [{ label: 'Hernquist sphere', start, count: s.n }];
-      break;
+    }
     case 'disk':
-      parts = sampleDiskGalaxy(s, spec.law, spec.softening_kpc, rng, out, start);
+      parts = sampleDiskGalaxy(s, law, { solver: makeSolver(spec.solver), softening_kpc: spec.softening_kpc }, rng, out, start);
       break;
   }
   // Centre this system alone: a view of the subarrays is a particle set of its own.
@@ -49,6 +57,36 @@ function sampleSystem(s: SystemSpec, spec: RunSpec, rng: RngState, out: Particle
     m: view(out.m), ax: view(out.ax), ay: view(out.ay), az: view(out.az),
   });
   return label ? parts.map((c) => ({ ...c, label: `${label} ${c.label}` })) : parts;
+}
+
+/** The law one system's velocities were balanced for, and whether it is the run's own. */
+export interface BalancedSystem {
+  system: string;
+  law: LawSpec;
+  ownLaw: boolean;
+}
+
+// Parsed law specs carry their keys in schema order, so equal laws serialise equally.
+const sameLaw = (a: LawSpec, b: LawSpec): boolean => JSON.stringify(a) === JSON.stringify(b);
+
+/**
+ * Which law each system's initial velocities balance: spheres, disks and each
+ * side of an encounter per their equilibrium law; a Kepler pair is a Newtonian
+ * orbit; uploaded particles keep their own velocities (no entry).
+ */
+export function balancedSystems(spec: RunSpec): BalancedSystem[] {
+  const entry = (system: string, law: LawSpec): BalancedSystem => ({ system, law, ownLaw: sameLaw(law, spec.law) });
+  const model = spec.model;
+  switch (model.kind) {
+    case 'kepler':
+      return [entry('Kepler pair', { kind: 'newton' })];
+    case 'table':
+      return [];
+    case 'encounter':
+      return [entry('primary', equilibriumLawOf(model.primary, spec)), entry('secondary', equilibriumLawOf(model.secondary, spec))];
+    default:
+      return [entry(model.kind, equilibriumLawOf(model, spec))];
+  }
 }
 
 /**

@@ -1,8 +1,7 @@
 import type { RngState } from '../rng';
 import { isotropicDirection, uniform } from '../rng';
 import type { ParticleState } from '../state';
-import { G } from '../units';
-import { sphericalModel, type MassModel } from './massModel';
+import { sphericalModel, type MassModel, type SphericalProfile } from './massModel';
 
 export interface PlummerParams {
   mass_Msun: number;
@@ -21,46 +20,37 @@ export function plummerTruncation(p: PlummerParams): number {
 }
 
 /** The truncated profile, renormalised to mass_Msun inside the truncation radius. */
-export function plummerModel(p: PlummerParams): MassModel {
+export function plummerProfile(p: PlummerParams): SphericalProfile {
   const a = p.scale_kpc, rt = plummerTruncation(p);
   const Xc = massFraction(rt, a);
   const M = p.mass_Msun;
-  return sphericalModel({
+  return {
     totalMass_Msun: M,
     outerRadius_kpc: rt,
     scale_kpc: a,
     extent_kpc: Math.min(5 * a, rt),
     enclosedMass: (r) => (r >= rt ? M : (M * massFraction(r, a)) / Xc),
     enclosedMassSlope: (r) => (r >= rt ? 0 : (M * 3 * a * a * r * r) / ((r * r + a * a) ** 2.5 * Xc)),
-  });
+  };
 }
 
+export const plummerModel = (p: PlummerParams): MassModel => sphericalModel(plummerProfile(p));
+
 /**
- * Fills particles start..start+count-1 with a Plummer sphere, following
- * Aarseth, Henon & Wielen (1974): radius from the inverted mass profile, speed
- * v = q v_esc with q drawn by rejection from q^2 (1 - q^2)^(7/2), isotropic
- * directions.
+ * Positions of particles start..start+count-1 of a Plummer sphere: radius
+ * from the inverted mass profile (Aarseth, Henon & Wielen 1974), isotropic
+ * direction. Velocities are set apart (see isotropic.ts).
  */
-export function samplePlummer(p: PlummerParams, rng: RngState, out: ParticleState, start: number, count: number): void {
+export function samplePlummerPositions(p: PlummerParams, rng: RngState, out: ParticleState, start: number, count: number): void {
   const a = p.scale_kpc;
   const Xc = massFraction(plummerTruncation(p), a);
   const m = p.mass_Msun / count;
-  const vScale = Math.sqrt((2 * G * p.mass_Msun) / a);
   for (let i = start; i < start + count; i++) {
     let X = 0;
     while (X === 0) X = uniform(rng) * Xc;
     const r = radiusOfFraction(X, a);
     const [ux, uy, uz] = isotropicDirection(rng);
-    // 0.1 bounds q^2 (1-q^2)^(7/2), whose maximum is about 0.092.
-    let q = 0;
-    for (;;) {
-      q = uniform(rng);
-      if (0.1 * uniform(rng) < q * q * (1 - q * q) ** 3.5) break;
-    }
-    const v = q * vScale * (1 + (r * r) / (a * a)) ** -0.25;
-    const [wx, wy, wz] = isotropicDirection(rng);
     out.x[i] = r * ux; out.y[i] = r * uy; out.z[i] = r * uz;
-    out.vx[i] = v * wx; out.vy[i] = v * wy; out.vz[i] = v * wz;
     out.m[i] = m;
   }
 }
