@@ -19,9 +19,11 @@ let choice: DirectKernelChoice = 'wasm';
 /** undefined: not tried yet in this thread; null: unavailable here. */
 let loaded: WasmDirect | null | undefined;
 
-/** Picks the direct-sum kernel for this thread: 'js' forces the typed-array loops (tests, comparisons). */
-export function setDirectKernel(next: DirectKernelChoice): void {
+/** Picks the direct-sum kernel for this thread: 'js' forces the typed-array loops (tests, comparisons). Returns the previous choice. */
+export function setDirectKernel(next: DirectKernelChoice): DirectKernelChoice {
+  const previous = choice;
   choice = next;
+  return previous;
 }
 
 /**
