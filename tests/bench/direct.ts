@@ -76,70 +76,80 @@ function findCompiler(): string | null {
   return null;
 }
 
-/** Compiles and runs the C loop on the same particles; null with the reason when it can't. */
-function runNative(s: Sources, eps2: number, repeats: number): { seconds: number; out: Accelerations } | { note: string } {
+/** Builds the C loop into `dir`; the executable's path, or the reason it can't be built. */
+function buildNative(dir: string): { exe: string } | { note: string } {
   const cc = findCompiler();
   if (!cc) return { note: 'no C compiler found (cc, gcc, clang): native reference skipped' };
-  const dir = mkdtempSync(path.join(os.tmpdir(), 'infall-bench-'));
+  const exe = path.join(dir, 'direct');
   try {
-    const exe = path.join(dir, 'direct');
-    try {
-      execFileSync(cc, [...NATIVE_FLAGS, NATIVE_SOURCE, '-o', exe, '-lm'], { stdio: ['ignore', 'ignore', 'pipe'] });
-    } catch (err) {
-      return { note: `${cc} could not build the native reference: ${String((err as { stderr?: Buffer }).stderr ?? err).trim().split('\n')[0]}` };
-    }
-    const n = s.m.length;
-    const input = Buffer.alloc(16 + 32 * n);
-    input.writeInt32LE(n, 0); input.writeInt32LE(repeats, 4); input.writeDoubleLE(eps2, 8);
-    [s.x, s.y, s.z, s.m].forEach((a, k) => Buffer.from(a.buffer, a.byteOffset, a.byteLength).copy(input, 16 + 8 * n * k));
-    const output = execFileSync(exe, { input, maxBuffer: 8 * (1 + 3 * n) + 1024 });
-    const values = new Float64Array(output.buffer.slice(output.byteOffset, output.byteOffset + output.byteLength));
-    const scaled = (k: number) => values.subarray(1 + k * n, 1 + (k + 1) * n).map((v) => G * v);
-    return { seconds: values[0], out: { ax: scaled(0), ay: scaled(1), az: scaled(2) } };
-  } finally {
-    rmSync(dir, { recursive: true, force: true });
+    execFileSync(cc, [...NATIVE_FLAGS, NATIVE_SOURCE, '-o', exe, '-lm'], { stdio: ['ignore', 'ignore', 'pipe'] });
+  } catch (err) {
+    return { note: `${cc} could not build the native reference: ${String((err as { stderr?: Buffer }).stderr ?? err).trim().split('\n')[0]}` };
   }
+  return { exe };
 }
 
-/** Best of `repeats` timings, alternating the engine's kernels and the plain loop so all see the same machine load. */
+/** One timed pass of the C loop on the same particles: its seconds and its field. */
+function runNative(exe: string, s: Sources, eps2: number): { seconds: number; out: Accelerations } {
+  const n = s.m.length;
+  const input = Buffer.alloc(16 + 32 * n);
+  input.writeInt32LE(n, 0); input.writeInt32LE(1, 4); input.writeDoubleLE(eps2, 8);
+  [s.x, s.y, s.z, s.m].forEach((a, k) => Buffer.from(a.buffer, a.byteOffset, a.byteLength).copy(input, 16 + 8 * n * k));
+  const output = execFileSync(exe, { input, maxBuffer: 8 * (1 + 3 * n) + 1024 });
+  const values = new Float64Array(output.buffer.slice(output.byteOffset, output.byteOffset + output.byteLength));
+  const scaled = (k: number) => values.subarray(1 + k * n, 1 + (k + 1) * n).map((v) => G * v);
+  return { seconds: values[0], out: { ax: scaled(0), ay: scaled(1), az: scaled(2) } };
+}
+
+/** Best of `repeats` timings, alternating the engine's kernels, the plain loop and the C loop so all see the same machine load. */
 export function benchDirect({ n = 4096, repeats = 7, softening_kpc = 0.05 } = {}): DirectFigures {
   const p = plummerParticles(n);
   const kernel = newtonKernel(softening_kpc);
   const engineOut = allocateAccelerations(n), jsOut = allocateAccelerations(n), refOut = allocateAccelerations(n);
   const used = directKernelInUse();
-  let engineBest = Infinity, jsBest = Infinity, refBest = Infinity;
-  const time = (f: () => void) => {
-    const t = performance.now();
-    f();
-    return performance.now() - t;
-  };
-  for (let r = 0; r < repeats; r++) {
-    engineBest = Math.min(engineBest, time(() => directSolver.field(p, p, kernel, engineOut)));
-    const previous = setDirectKernel('js');
-    try {
-      jsBest = Math.min(jsBest, time(() => directSolver.field(p, p, kernel, jsOut)));
-    } finally {
-      setDirectKernel(previous);
+  const dir = mkdtempSync(path.join(os.tmpdir(), 'infall-bench-'));
+  try {
+    const native = buildNative(dir);
+    let nativeOut: Accelerations | null = null;
+    let engineBest = Infinity, jsBest = Infinity, refBest = Infinity, nativeBest = Infinity;
+    const time = (f: () => void) => {
+      const t = performance.now();
+      f();
+      return performance.now() - t;
+    };
+    for (let r = 0; r < repeats; r++) {
+      engineBest = Math.min(engineBest, time(() => directSolver.field(p, p, kernel, engineOut)));
+      const previous = setDirectKernel('js');
+      try {
+        jsBest = Math.min(jsBest, time(() => directSolver.field(p, p, kernel, jsOut)));
+      } finally {
+        setDirectKernel(previous);
+      }
+      refBest = Math.min(refBest, time(() => referenceField(p, kernel.softening2_kpc2, refOut)));
+      if ('exe' in native) {
+        const c = runNative(native.exe, p, kernel.softening2_kpc2);
+        nativeBest = Math.min(nativeBest, 1000 * c.seconds);
+        nativeOut = c.out;
+      }
     }
-    refBest = Math.min(refBest, time(() => referenceField(p, kernel.softening2_kpc2, refOut)));
+    const perSecond = (ms: number) => (n * n) / (ms / 1000);
+    const interactionsPerSecond = perSecond(engineBest);
+    const nativeReferenceInteractionsPerSecond = nativeOut ? perSecond(nativeBest) : null;
+    return {
+      n,
+      kernel: used,
+      interactionsPerSecond,
+      jsInteractionsPerSecond: perSecond(jsBest),
+      referenceInteractionsPerSecond: perSecond(refBest),
+      ratio: interactionsPerSecond / perSecond(refBest),
+      nativeReferenceInteractionsPerSecond,
+      nativeRatio: nativeReferenceInteractionsPerSecond === null ? null : interactionsPerSecond / nativeReferenceInteractionsPerSecond,
+      nativeNote: 'exe' in native ? `cc ${NATIVE_FLAGS.join(' ')}` : native.note,
+      maxRelativeDifference: maxRelative(engineOut, refOut),
+      fallbackMaxRelativeDifference: maxRelative(jsOut, engineOut),
+      nativeMaxRelativeDifference: nativeOut ? maxRelative(nativeOut, refOut) : null,
+    };
+  } finally {
+    rmSync(dir, { recursive: true, force: true });
   }
-  const native = runNative(p, kernel.softening2_kpc2, repeats);
-  const pairs = n * n;
-  const perSecond = (ms: number) => pairs / (ms / 1000);
-  const interactionsPerSecond = perSecond(engineBest);
-  const nativeReferenceInteractionsPerSecond = 'seconds' in native ? pairs / native.seconds : null;
-  return {
-    n,
-    kernel: used,
-    interactionsPerSecond,
-    jsInteractionsPerSecond: perSecond(jsBest),
-    referenceInteractionsPerSecond: perSecond(refBest),
-    ratio: interactionsPerSecond / perSecond(refBest),
-    nativeReferenceInteractionsPerSecond,
-    nativeRatio: nativeReferenceInteractionsPerSecond === null ? null : interactionsPerSecond / nativeReferenceInteractionsPerSecond,
-    nativeNote: 'seconds' in native ? `cc ${NATIVE_FLAGS.join(' ')}` : native.note,
-    maxRelativeDifference: maxRelative(engineOut, refOut),
-    fallbackMaxRelativeDifference: maxRelative(jsOut, engineOut),
-    nativeMaxRelativeDifference: 'seconds' in native ? maxRelative(native.out, refOut) : null,
-  };
 }

@@ -1,6 +1,6 @@
 /* The bench's native reference: the softened direct sum as a C compiler vectorises it
  * (cc -O3 -march=native -ffast-math), one thread, float64, nothing hoisted but the target.
- * stdin: int32 n, int32 repeats, float64 eps2, then x, y, z, m (n float64 each).
+ * stdin: int32 n, int32 repeats (the bench passes 1 and alternates it with its other loops), float64 eps2, then x, y, z, m (n float64 each).
  * stdout: float64 best seconds of the repeats, then ax, ay, az (n each, before the factor G). */
 #include <math.h>
 #include <stdint.h>
