@@ -5,7 +5,7 @@ import { join } from 'node:path';
 import { NAME_MAX_LENGTH } from '../../shared/spec';
 
 const root = join(__dirname, '..', '..');
-const simWith = (env: NodeJS.ProcessEnv, ...args: string[]) =>
+const simWith = (env: Record<string, string>, ...args: string[]) =>
   spawnSync(process.execPath, [require.resolve('tsx/cli'), join(root, 'shared/engine/cli.ts'), ...args], { cwd: root, encoding: 'utf8', env: { ...process.env, ...env } });
 const sim = (...args: string[]) => simWith({}, ...args);
 
