@@ -11,6 +11,7 @@ if ! command -v chromium >/dev/null 2>&1; then
   DEBIAN_FRONTEND=noninteractive apt-get install -y -qq chromium >/dev/null
 fi
 ensure_node_modules
+build_wasm_kernel
 
 throwaway_env test "${INFALL_TEST_PG_PORT:-55432}" "${INFALL_TEST_REDIS_PORT:-56379}" "${INFALL_TEST_PORT:-58080}" \
   "${INFALL_TEST_OAUTH_PORT:-58091}" "${INFALL_TEST_SMTP_PORT:-58025}" "${INFALL_TEST_OUTBOX_PORT:-58092}"

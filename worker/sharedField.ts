@@ -3,7 +3,8 @@
 // The run's own thread copies positions and masses into SharedArrayBuffer-backed
 // arrays, opens a round, and then claims chunks of the target range alongside
 // any helper threads; every chunk is computed by `directFieldRange`, whose
-// per-target summation order does not depend on how the range is cut, so the
+// per-target summation order does not depend on how the range is cut (in the
+// WebAssembly kernel and the JS one alike, which give the same bits), so the
 // result is bit-identical to one thread's. Chunks are claimed with an atomic
 // counter, so a round finishes even when no helper is there (not started yet,
 // or dismissed to make room for another run): the run's thread then claims

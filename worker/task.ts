@@ -3,9 +3,12 @@
 // MessagePort and cancelling comes in through a shared flag the parent sets.
 // `fieldHelper` lends its thread to another task's split force sum.
 import type { MessagePort } from 'node:worker_threads';
-import { runSimulation, type RunResult } from '../shared/engine';
+import { applyDirectKernelSetting, runSimulation, type RunResult } from '../shared/engine';
 import type { RunSpec } from '../shared/spec';
 import { serveSharedField, SplitDirectSolver, stopSharedField, type SharedField } from './sharedField';
+
+// Each pool thread picks its direct-sum kernel once; INFALL_DIRECT_KERNEL=js forces the typed-array one.
+applyDirectKernelSetting(process.env.INFALL_DIRECT_KERNEL);
 
 export interface RunTask {
   spec: RunSpec;

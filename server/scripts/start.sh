@@ -18,6 +18,7 @@ fi
 
 ensure_system_packages
 ensure_node_modules
+build_wasm_kernel
 
 pids=()
 started_pg=0

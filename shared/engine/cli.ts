@@ -4,10 +4,11 @@
 //   sim check SPEC.json
 //   sim schema
 // A spec that does not parse exits 2 with one "field: message" line per problem.
+// INFALL_DIRECT_KERNEL=js forces the typed-array direct sum instead of WebAssembly.
 import { readFileSync, writeFileSync } from 'node:fs';
 import { z } from 'zod';
 import { parseRunSpec, runSpecSchema, type RunSpec } from '../spec';
-import { analyticCurves, precheck, runSimulation } from './index';
+import { analyticCurves, applyDirectKernelSetting, precheck, runSimulation } from './index';
 
 const USAGE = `usage:
   sim run SPEC.json [--out RESULT.json] [--max-snapshot-particles N] [--velocities]
@@ -77,6 +78,7 @@ function run(args: string[]): void {
 function main(argv: string[]): number {
   const [command, ...args] = argv;
   try {
+    applyDirectKernelSetting(process.env.INFALL_DIRECT_KERNEL);
     switch (command) {
       case 'run':
         run(args);

@@ -19,8 +19,8 @@ export { Simulation } from './simulation';
 export type { SimulationState } from './simulation';
 export { buildInitialConditions, massModelFor } from './models';
 export type { Component, InitialConditions } from './models';
-export { directFieldRange, directPotentialRange, makeSolver } from './solvers';
-export type { FieldSolver, PairKernel } from './solvers';
+export { applyDirectKernelSetting, directFieldRange, directKernelInUse, directPotentialRange, makeSolver, setDirectKernel } from './solvers';
+export type { DirectKernelChoice, FieldSolver, PairKernel } from './solvers';
 export * as units from './units';
 
 /** Timescales and warnings for a spec, computed from its initial particles without running. */

@@ -71,7 +71,7 @@ export function machine(): BenchReport['machine'] {
 /** The JSON the issue asks for: every figure under its key; sections not measured are null. */
 export function toJson(r: BenchReport): Record<string, unknown> {
   return {
-    directSum: r.directSum ?? { interactionsPerSecond: null, referenceInteractionsPerSecond: null, ratio: null },
+    directSum: r.directSum ?? { interactionsPerSecond: null, referenceInteractionsPerSecond: null, ratio: null, nativeReferenceInteractionsPerSecond: null, maxRelativeDifference: null },
     tree: r.tree ?? [],
     threads: r.threads ?? { speedup: null },
     ...Object.fromEntries((r.qumond ?? []).map((f) => [qumondKey(f), { msPerEval: f.msPerEval, pairMsPerEval: f.pairMsPerEval }])),
@@ -90,9 +90,16 @@ export function toTable(r: BenchReport): string {
   const rows: [string, string, string, string][] = [];
   const d = r.directSum;
   if (d) {
-    rows.push([`direct sum N=${d.n}: engine kernel`, `${fmt(d.interactionsPerSecond / 1e6)} M pairs/s`, '', '']);
+    const kernelName = d.kernel === 'wasm' ? 'WebAssembly SIMD' : 'JS (WebAssembly did not load)';
+    rows.push([`direct sum N=${d.n}: engine kernel, ${kernelName}`, `${fmt(d.interactionsPerSecond / 1e6)} M pairs/s`, '', '']);
+    rows.push([`direct sum N=${d.n}: engine's JS fallback`, `${fmt(d.jsInteractionsPerSecond / 1e6)} M pairs/s`, `differs from the engine kernel by ${fmt(d.fallbackMaxRelativeDifference)}`, '']);
     rows.push([`direct sum N=${d.n}: plain reference loop`, `${fmt(d.referenceInteractionsPerSecond / 1e6)} M pairs/s`, '', '']);
     rows.push(['direct sum: engine / reference', fmt(d.ratio), '>= 1.0', mark(d.ratio >= 1)]);
+    if (d.nativeReferenceInteractionsPerSecond !== null && d.nativeRatio !== null) {
+      rows.push([`direct sum N=${d.n}: native C reference (${d.nativeNote})`, `${fmt(d.nativeReferenceInteractionsPerSecond / 1e6)} M pairs/s`, `differs from the plain loop by ${fmt(d.nativeMaxRelativeDifference ?? NaN)}`, '']);
+      rows.push(['direct sum: engine / native C reference', fmt(d.nativeRatio), '>= 0.5', mark(d.nativeRatio >= 0.5)]);
+    } else rows.push(['direct sum: native C reference', d.nativeNote, '', '']);
+    rows.push(['direct sum: engine vs float64 plain loop, max relative difference', fmt(d.maxRelativeDifference), '<= 1e-6', mark(d.maxRelativeDifference <= 1e-6)]);
   }
   const tree = r.tree ?? [];
   const perNlogN = (f: TreeFigure) => f.msPerStep / (f.n * Math.log2(f.n));

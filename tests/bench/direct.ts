@@ -1,5 +1,11 @@
-// Direct sum: the engine's kernel against a plain loop written here, the same
-// softened arithmetic on Float64Arrays in one thread, timed in the same run.
+// Direct sum: the engine's kernel (WebAssembly SIMD where it loads), its typed-array
+// fallback, a plain loop written here, and a C build of the same loop, on the same
+// particles in one thread.
+import { execFileSync } from 'node:child_process';
+import { mkdtempSync, rmSync } from 'node:fs';
+import os from 'node:os';
+import path from 'node:path';
+import { directKernelInUse, setDirectKernel, type DirectKernelChoice } from '../../shared/engine/solvers/directWasm';
 import { directSolver } from '../../shared/engine/solvers/direct';
 import { newtonKernel } from '../../shared/engine/solvers/types';
 import { allocateAccelerations, type Accelerations, type Sources } from '../../shared/engine/state';
@@ -8,11 +14,23 @@ import { plummerParticles } from './specs';
 
 export interface DirectFigures {
   n: number;
+  /** The kernel the engine used: 'wasm' unless WebAssembly SIMD failed to load. */
+  kernel: DirectKernelChoice;
   interactionsPerSecond: number;
+  /** The engine with its typed-array kernel forced. */
+  jsInteractionsPerSecond: number;
   referenceInteractionsPerSecond: number;
   ratio: number;
-  /** Largest |engine - reference| / |reference| over all targets: the two must compute the same thing. */
+  /** The C loop at cc -O3 -march=native -ffast-math; null (with a note) when no C compiler is found. */
+  nativeReferenceInteractionsPerSecond: number | null;
+  nativeRatio: number | null;
+  nativeNote: string;
+  /** Largest |engine - reference| / |reference| over all targets, against the float64 plain loop: the two must compute the same thing. */
   maxRelativeDifference: number;
+  /** The same for the JS fallback against the engine's kernel: 0 when they give the same bits. */
+  fallbackMaxRelativeDifference: number;
+  /** The same for the C build against the plain loop (-ffast-math may reorder sums). */
+  nativeMaxRelativeDifference: number | null;
 }
 
 /** a_i = G sum_j m_j r_ij / (r_ij^2 + eps^2)^(3/2), skipping coincident points: the textbook loop, nothing hoisted but the target. */
@@ -33,27 +51,105 @@ export function referenceField(s: Sources, eps2: number, out: Accelerations): vo
   }
 }
 
-/** Best of `repeats` timings, alternating the two so both see the same machine load. */
+function maxRelative(a: Accelerations, b: Accelerations): number {
+  let worst = 0;
+  for (let i = 0; i < a.ax.length; i++) {
+    const d = Math.hypot(a.ax[i] - b.ax[i], a.ay[i] - b.ay[i], a.az[i] - b.az[i]);
+    worst = Math.max(worst, d / Math.hypot(b.ax[i], b.ay[i], b.az[i]));
+  }
+  return worst;
+}
+
+const NATIVE_SOURCE = path.join(__dirname, 'native', 'direct.c');
+export const NATIVE_FLAGS = ['-O3', '-march=native', '-ffast-math'];
+
+function findCompiler(): string | null {
+  for (const cc of [process.env.CC, 'cc', 'gcc', 'clang']) {
+    if (!cc) continue;
+    try {
+      execFileSync(cc, ['--version'], { stdio: 'ignore' });
+      return cc;
+    } catch {
+      // not this one
+    }
+  }
+  return null;
+}
+
+/** Builds the C loop into `dir`; the executable's path, or the reason it can't be built. */
+function buildNative(dir: string): { exe: string } | { note: string } {
+  const cc = findCompiler();
+  if (!cc) return { note: 'no C compiler found (cc, gcc, clang): native reference skipped' };
+  const exe = path.join(dir, 'direct');
+  try {
+    execFileSync(cc, [...NATIVE_FLAGS, NATIVE_SOURCE, '-o', exe, '-lm'], { stdio: ['ignore', 'ignore', 'pipe'] });
+  } catch (err) {
+    return { note: `${cc} could not build the native reference: ${String((err as { stderr?: Buffer }).stderr ?? err).trim().split('\n')[0]}` };
+  }
+  return { exe };
+}
+
+/** One timed pass of the C loop on the same particles: its seconds and its field. */
+function runNative(exe: string, s: Sources, eps2: number): { seconds: number; out: Accelerations } {
+  const n = s.m.length;
+  const input = Buffer.alloc(16 + 32 * n);
+  input.writeInt32LE(n, 0); input.writeInt32LE(1, 4); input.writeDoubleLE(eps2, 8);
+  [s.x, s.y, s.z, s.m].forEach((a, k) => Buffer.from(a.buffer, a.byteOffset, a.byteLength).copy(input, 16 + 8 * n * k));
+  const output = execFileSync(exe, { input, maxBuffer: 8 * (1 + 3 * n) + 1024 });
+  const values = new Float64Array(output.buffer.slice(output.byteOffset, output.byteOffset + output.byteLength));
+  const scaled = (k: number) => values.subarray(1 + k * n, 1 + (k + 1) * n).map((v) => G * v);
+  return { seconds: values[0], out: { ax: scaled(0), ay: scaled(1), az: scaled(2) } };
+}
+
+/** Best of `repeats` timings, alternating the engine's kernels, the plain loop and the C loop so all see the same machine load. */
 export function benchDirect({ n = 4096, repeats = 7, softening_kpc = 0.05 } = {}): DirectFigures {
   const p = plummerParticles(n);
   const kernel = newtonKernel(softening_kpc);
-  const engineOut = allocateAccelerations(n), refOut = allocateAccelerations(n);
-  let engineBest = Infinity, refBest = Infinity;
-  for (let r = 0; r < repeats; r++) {
-    let t = performance.now();
-    directSolver.field(p, p, kernel, engineOut);
-    engineBest = Math.min(engineBest, performance.now() - t);
-    t = performance.now();
-    referenceField(p, kernel.softening2_kpc2, refOut);
-    refBest = Math.min(refBest, performance.now() - t);
+  const engineOut = allocateAccelerations(n), jsOut = allocateAccelerations(n), refOut = allocateAccelerations(n);
+  const used = directKernelInUse();
+  const dir = mkdtempSync(path.join(os.tmpdir(), 'infall-bench-'));
+  try {
+    const native = buildNative(dir);
+    let nativeOut: Accelerations | null = null;
+    let engineBest = Infinity, jsBest = Infinity, refBest = Infinity, nativeBest = Infinity;
+    const time = (f: () => void) => {
+      const t = performance.now();
+      f();
+      return performance.now() - t;
+    };
+    for (let r = 0; r < repeats; r++) {
+      engineBest = Math.min(engineBest, time(() => directSolver.field(p, p, kernel, engineOut)));
+      const previous = setDirectKernel('js');
+      try {
+        jsBest = Math.min(jsBest, time(() => directSolver.field(p, p, kernel, jsOut)));
+      } finally {
+        setDirectKernel(previous);
+      }
+      refBest = Math.min(refBest, time(() => referenceField(p, kernel.softening2_kpc2, refOut)));
+      if ('exe' in native) {
+        const c = runNative(native.exe, p, kernel.softening2_kpc2);
+        nativeBest = Math.min(nativeBest, 1000 * c.seconds);
+        nativeOut = c.out;
+      }
+    }
+    const perSecond = (ms: number) => (n * n) / (ms / 1000);
+    const interactionsPerSecond = perSecond(engineBest);
+    const nativeReferenceInteractionsPerSecond = nativeOut ? perSecond(nativeBest) : null;
+    return {
+      n,
+      kernel: used,
+      interactionsPerSecond,
+      jsInteractionsPerSecond: perSecond(jsBest),
+      referenceInteractionsPerSecond: perSecond(refBest),
+      ratio: interactionsPerSecond / perSecond(refBest),
+      nativeReferenceInteractionsPerSecond,
+      nativeRatio: nativeReferenceInteractionsPerSecond === null ? null : interactionsPerSecond / nativeReferenceInteractionsPerSecond,
+      nativeNote: 'exe' in native ? `cc ${NATIVE_FLAGS.join(' ')}` : native.note,
+      maxRelativeDifference: maxRelative(engineOut, refOut),
+      fallbackMaxRelativeDifference: maxRelative(jsOut, engineOut),
+      nativeMaxRelativeDifference: nativeOut ? maxRelative(nativeOut, refOut) : null,
+    };
+  } finally {
+    rmSync(dir, { recursive: true, force: true });
   }
-  let maxRelativeDifference = 0;
-  for (let i = 0; i < n; i++) {
-    const d = Math.hypot(engineOut.ax[i] - refOut.ax[i], engineOut.ay[i] - refOut.ay[i], engineOut.az[i] - refOut.az[i]);
-    maxRelativeDifference = Math.max(maxRelativeDifference, d / Math.hypot(refOut.ax[i], refOut.ay[i], refOut.az[i]));
-  }
-  const pairs = n * n;
-  const interactionsPerSecond = pairs / (engineBest / 1000);
-  const referenceInteractionsPerSecond = pairs / (refBest / 1000);
-  return { n, interactionsPerSecond, referenceInteractionsPerSecond, ratio: interactionsPerSecond / referenceInteractionsPerSecond, maxRelativeDifference };
 }

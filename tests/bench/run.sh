@@ -12,11 +12,12 @@ no_stack=""
 for a in "$@"; do
   if [ "$a" = "--no-stack" ]; then no_stack=1; else args+=("$a"); fi
 done
-if [ -n "$no_stack" ]; then exec npx tsx tests/bench/run.ts "${args[@]}"; fi
+if [ -n "$no_stack" ]; then build_wasm_kernel >&2; exec npx tsx tests/bench/run.ts "${args[@]}"; fi
 
 {
   ensure_system_packages
   ensure_node_modules
+  build_wasm_kernel
 } >&2
 
 throwaway_env bench "${INFALL_BENCH_PG_PORT:-57432}" "${INFALL_BENCH_REDIS_PORT:-57379}" "${INFALL_BENCH_PORT:-57080}" \

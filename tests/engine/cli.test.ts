@@ -5,8 +5,9 @@ import { join } from 'node:path';
 import { NAME_MAX_LENGTH } from '../../shared/spec';
 
 const root = join(__dirname, '..', '..');
-const sim = (...args: string[]) =>
-  spawnSync(process.execPath, [require.resolve('tsx/cli'), join(root, 'shared/engine/cli.ts'), ...args], { cwd: root, encoding: 'utf8' });
+const simWith = (env: Record<string, string>, ...args: string[]) =>
+  spawnSync(process.execPath, [require.resolve('tsx/cli'), join(root, 'shared/engine/cli.ts'), ...args], { cwd: root, encoding: 'utf8', env: { ...process.env, ...env } });
+const sim = (...args: string[]) => simWith({}, ...args);
 
 const dir = mkdtempSync(join(tmpdir(), 'infall-cli-'));
 const write = (name: string, value: unknown) => {
@@ -50,6 +51,20 @@ describe('sim command line', () => {
     const schema = JSON.parse(r.stdout);
     expect(schema.properties.version.anyOf.map((v: { const: number }) => v.const)).toEqual([1, 2]);
     expect(schema.required).toEqual(expect.arrayContaining(['model', 'law', 'timestep_Myr']));
+  });
+
+  test('INFALL_DIRECT_KERNEL=js runs the JS direct sum to the same bits as the default WebAssembly one; a bad value is named', () => {
+    const newton = write('newton.json', { ...JSON.parse(readFileSync(good, 'utf8')), law: { kind: 'newton' } });
+    const results = ['wasm', 'js'].map((kernel) => {
+      const out = join(dir, `result-${kernel}.json`);
+      const r = simWith({ INFALL_DIRECT_KERNEL: kernel }, 'run', newton, '--out', out);
+      expect(r.status).toBe(0);
+      return readFileSync(out, 'utf8');
+    });
+    expect(results[1]).toBe(results[0]);
+    const bad = simWith({ INFALL_DIRECT_KERNEL: 'fast' }, 'run', newton);
+    expect(bad.status).toBe(1);
+    expect(bad.stderr).toContain('INFALL_DIRECT_KERNEL must be "wasm" or "js", got "fast"');
   });
 
   test('a bad spec exits 2 naming the field', () => {

@@ -17,8 +17,17 @@ test('the pure sections give every JSON key a finite number, and the table names
   const report = { ...(await benchPure(TINY)), machine: machine() };
   const json = toJson(report) as Record<string, Record<string, unknown> & unknown[]>;
   for (const key of ['interactionsPerSecond', 'referenceInteractionsPerSecond', 'ratio']) expect(finite(json.directSum[key])).toBe(true);
-  // The engine's kernel and the bench's plain loop compute the same sums.
+  // The engine's kernel and the bench's plain loop compute the same sums, and the JS fallback gives the engine kernel's bits.
   expect(report.directSum.maxRelativeDifference).toBeLessThan(1e-12);
+  expect(report.directSum.fallbackMaxRelativeDifference).toBe(0);
+  expect(report.directSum.kernel).toBe('wasm');
+  // The C reference runs wherever a compiler is found, and then computes the same field to rounding (-ffast-math reorders).
+  const native = json.directSum.nativeReferenceInteractionsPerSecond;
+  if (native === null) expect(report.directSum.nativeNote).toMatch(/no C compiler|could not build/);
+  else {
+    expect(finite(native)).toBe(true);
+    expect(report.directSum.nativeMaxRelativeDifference).toBeLessThan(1e-10);
+  }
   expect(json.tree).toHaveLength(4);
   for (const row of json.tree as unknown as Record<string, unknown>[]) {
     for (const key of ['n', 'theta', 'msPerStep', 'medianError', 'p99Error']) expect(finite(row[key])).toBe(true);
@@ -32,5 +41,6 @@ test('the pure sections give every JSON key a finite number, and the table names
   expect(json.snapshot).toEqual({ bytesPerParticle: null });
   expect(json.client).toEqual({ fps: null });
   const table = toTable(report);
-  for (const target of ['>= 1.0', '<= 1e-3', '>= 1.7x']) expect(table).toContain(target);
+  for (const target of ['>= 1.0', '<= 1e-3', '>= 1.7x', '<= 1e-6']) expect(table).toContain(target);
+  if (native !== null) expect(table).toContain('>= 0.5');
 });

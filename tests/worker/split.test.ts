@@ -3,6 +3,7 @@
 import path from 'node:path';
 import { Piscina } from 'piscina';
 import { directSolver } from '../../shared/engine/solvers/direct';
+import { directKernelInUse, setDirectKernel } from '../../shared/engine/solvers/directWasm';
 import { newtonKernel, type PairKernel } from '../../shared/engine/solvers/types';
 import { allocateAccelerations, type Points } from '../../shared/engine/state';
 import type { RunResult } from '../../shared/engine';
@@ -51,6 +52,41 @@ test('a force sum split with a helper thread equals the single-thread direct sum
   expect(await helper).toBeGreaterThan(0);
   expect(activeHelpers(shared)).toBe(0);
   await pool.destroy();
+});
+
+test('split with the WebAssembly kernel in every thread, or a helper forced to JS, equals one thread of the JS kernel bit for bit', async () => {
+  const n = 1001;
+  const p = plummerParticles(n);
+  const kernel = newtonKernel(0.05);
+  const want = allocateAccelerations(n);
+  const wantPot = new Float64Array(n);
+  setDirectKernel('js');
+  try {
+    directSolver.field(p, p, kernel, want);
+    directSolver.potential(p, p, kernel, wantPot);
+  } finally {
+    setDirectKernel('wasm');
+  }
+  expect(directKernelInUse()).toBe('wasm');
+  for (const helperKernel of ['wasm', 'js']) {
+    const pool = new Piscina({ filename: taskFile, maxThreads: 1, execArgv: ['--import', 'tsx'], env: { ...process.env, INFALL_DIRECT_KERNEL: helperKernel } });
+    const shared = createSharedField(n, 1);
+    const helper = pool.run({ sharedField: shared }, { name: 'fieldHelper' }) as Promise<number>;
+    try {
+      await until(() => activeHelpers(shared) === 1, 'the helper thread');
+      const split = new SplitDirectSolver(shared);
+      const got = allocateAccelerations(n);
+      const gotPot = new Float64Array(n);
+      split.field(p, p, kernel, got);
+      split.potential(p, p, kernel, gotPot);
+      expect(got).toEqual(want);
+      expect(gotPot).toEqual(wantPot);
+    } finally {
+      stopSharedField(shared);
+    }
+    expect(await helper).toBeGreaterThan(0);
+    await pool.destroy();
+  }
 });
 
 test('a helper leaves when the run ends right after a round, and a small round followed by a large one never mixes their claims', async () => {

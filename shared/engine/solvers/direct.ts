@@ -1,5 +1,6 @@
 import type { Accelerations, Points, Sources } from '../state';
 import { G } from '../units';
+import { wasmDirect } from './directWasm';
 import { sumPotential, sumPull } from './pair';
 import type { FieldSolver, PairKernel } from './types';
 
@@ -12,7 +13,9 @@ const { sqrt } = Math;
  * sums its sources in index order with the same operations whichever path
  * below takes it, so splitting the range across threads over shared arrays
  * gives bit-identical results to one call over the whole range. That is why
- * the pair symmetry (half the work) is deliberately not used.
+ * the pair symmetry (half the work) is deliberately not used. Softened Newton
+ * goes to the WebAssembly SIMD kernel where it loads (directWasm.ts), which
+ * gives the same bits as the loops here.
  */
 export function directFieldRange(
   sources: Sources, targets: Points, kernel: PairKernel, iStart: number, iEnd: number, out: Accelerations,
@@ -23,7 +26,13 @@ export function directFieldRange(
   const tx = targets.x, ty = targets.y, tz = targets.z;
   const eps2 = kernel.softening2_kpc2;
   let i = iStart;
-  if (kernel.yukawaAlpha === 0 && eps2 > 0) {
+  const wasm = kernel.yukawaAlpha === 0 && eps2 > 0 ? wasmDirect() : null;
+  if (wasm) {
+    const even = (iEnd - iStart) & ~1;
+    wasm.field(sources, targets, eps2, iStart, even, ax, ay, az);
+    for (const a of [ax, ay, az]) for (let k = iStart; k < iStart + even; k++) a[k] *= G;
+    i += even;
+  } else if (kernel.yukawaAlpha === 0 && eps2 > 0) {
     // Softened Newton, two targets per pass over the sources: each source is
     // loaded once for both. With eps > 0 a coincident pair adds exactly +0
     // (d = 0 times a finite factor), so the loop needs no test for it.
@@ -62,7 +71,13 @@ export function directPotentialRange(
   const tx = targets.x, ty = targets.y, tz = targets.z;
   const eps2 = kernel.softening2_kpc2;
   let i = iStart;
-  if (kernel.yukawaAlpha === 0 && eps2 > 0) {
+  const wasm = kernel.yukawaAlpha === 0 && eps2 > 0 ? wasmDirect() : null;
+  if (wasm) {
+    const even = (iEnd - iStart) & ~1;
+    wasm.potentialSums(sources, targets, eps2, iStart, even, out);
+    for (let k = iStart; k < iStart + even; k++) out[k] *= -G;
+    i += even;
+  } else if (kernel.yukawaAlpha === 0 && eps2 > 0) {
     // Two targets per pass, as in the field; here a coincident pair must be skipped (it would add m / eps).
     for (; i + 1 < iEnd; i += 2) {
       const xa = tx[i], ya = ty[i], za = tz[i], xb = tx[i + 1], yb = ty[i + 1], zb = tz[i + 1];

@@ -5,6 +5,8 @@ import type { FieldSolver } from './types';
 
 export type { FieldSolver, PairKernel } from './types';
 export { directFieldRange, directPotentialRange } from './direct';
+export { applyDirectKernelSetting, directKernelInUse, setDirectKernel } from './directWasm';
+export type { DirectKernelChoice } from './directWasm';
 export { buildOctree, treeFieldRange, treeGroups, treePotentialRange, treeWorkUnits } from './tree';
 export type { Octree } from './tree';
 

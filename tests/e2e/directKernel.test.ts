@@ -1,0 +1,76 @@
+// The engine's direct sum in Chromium, as the launch page's preview runs it: the WebAssembly
+// SIMD kernel loads on the page's main thread and gives the bits Node's pool threads give.
+import path from 'node:path';
+import { build } from 'esbuild';
+import type { Browser } from 'playwright-core';
+import { directFieldRange, directPotentialRange } from '../../shared/engine/solvers/direct';
+import { directKernelInUse } from '../../shared/engine/solvers/directWasm';
+import { newtonKernel } from '../../shared/engine/solvers/types';
+import { allocateAccelerations } from '../../shared/engine/state';
+import { plummerParticles } from '../bench/specs';
+import { launch } from './support/browser';
+
+jest.setTimeout(120_000);
+
+let browser: Browser;
+beforeAll(async () => {
+  browser = await launch();
+});
+afterAll(async () => {
+  await browser?.close();
+});
+
+test('Chromium runs the WebAssembly kernel and its field and potential equal Node\'s bit for bit, as does the JS fallback there', async () => {
+  const bundle = await build({
+    entryPoints: [path.join(__dirname, 'support/engineBundle.ts')],
+    bundle: true,
+    write: false,
+    format: 'iife',
+    globalName: 'infallEngine',
+    platform: 'browser',
+    target: 'es2022',
+  });
+  const n = 999;
+  const p = plummerParticles(n);
+  const eps2 = newtonKernel(0.05).softening2_kpc2;
+  expect(directKernelInUse()).toBe('wasm');
+  const want = allocateAccelerations(n);
+  const wantPot = new Float64Array(n);
+  directFieldRange(p, p, newtonKernel(0.05), 0, n, want);
+  directPotentialRange(p, p, newtonKernel(0.05), 0, n, wantPot);
+
+  const page = await browser.newPage();
+  try {
+    await page.setContent('<!doctype html><title>kernel</title>');
+    await page.addScriptTag({ content: bundle.outputFiles[0].text });
+    const got = await page.evaluate(
+      ({ x, y, z, m, eps2 }) => {
+        type Engine = typeof import('./support/engineBundle');
+        const engine = (globalThis as unknown as { infallEngine: Engine }).infallEngine;
+        const s = { x: new Float64Array(x), y: new Float64Array(y), z: new Float64Array(z), m: new Float64Array(m) };
+        const k = { softening2_kpc2: eps2, yukawaAlpha: 0, yukawaLambda_kpc: Infinity };
+        const run = () => {
+          const out = { ax: new Float64Array(x.length), ay: new Float64Array(x.length), az: new Float64Array(x.length) };
+          const pot = new Float64Array(x.length);
+          engine.directFieldRange(s, s, k, 0, x.length, out);
+          engine.directPotentialRange(s, s, k, 0, x.length, pot);
+          return [...out.ax, ...out.ay, ...out.az, ...pot];
+        };
+        const kernel = engine.directKernelInUse();
+        const wasm = run();
+        engine.setDirectKernel('js');
+        const js = run();
+        return { kernel, fallback: engine.directKernelInUse(), wasm, js };
+      },
+      { x: [...p.x], y: [...p.y], z: [...p.z], m: [...p.m], eps2 },
+    );
+    expect(got.kernel).toBe('wasm');
+    expect(got.fallback).toBe('js');
+    const expected = [...want.ax, ...want.ay, ...want.az, ...wantPot];
+    // Finite doubles cross page.evaluate exactly, so equality here is equality of bits.
+    expect(got.wasm).toEqual(expected);
+    expect(got.js).toEqual(expected);
+  } finally {
+    await page.close();
+  }
+});
