@@ -100,10 +100,10 @@ ensure_node_modules() {
   fi
 }
 
-# Compiles the WebAssembly direct-sum kernel from assembly/ into the engine's generated module
+# Compiles the WebAssembly direct-sum kernel from shared/engine/solvers/wasm/ into the engine's generated module
 # (rewritten only when the build's bytes change, so an unchanged kernel keeps the web export fresh).
 build_wasm_kernel() {
-  node assembly/build.mjs
+  node server/scripts/build-wasm.mjs
 }
 
 # Exports the web app when the build is missing or any of its sources is newer.

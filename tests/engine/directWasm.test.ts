@@ -121,8 +121,8 @@ test('INFALL_DIRECT_KERNEL takes wasm or js, and names itself when given anythin
   expect(() => applyDirectKernelSetting('simd')).toThrow('INFALL_DIRECT_KERNEL must be "wasm" or "js", got "simd"');
 });
 
-test('the committed module is what the pinned compiler builds from assembly/direct.ts', () => {
+test('the committed module is what the pinned compiler builds from shared/engine/solvers/wasm/direct.ts', () => {
   // Fails when the AssemblyScript source changed without `npm run build:wasm`, or the build stopped being deterministic.
   const root = path.join(__dirname, '..', '..');
-  expect(() => execFileSync(process.execPath, ['assembly/build.mjs', '--check'], { cwd: root, stdio: 'pipe' })).not.toThrow();
+  expect(() => execFileSync(process.execPath, ['server/scripts/build-wasm.mjs', '--check'], { cwd: root, stdio: 'pipe' })).not.toThrow();
 });

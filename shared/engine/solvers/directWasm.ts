@@ -1,4 +1,4 @@
-// The WebAssembly SIMD direct sum (assembly/direct.ts), instantiated once per
+// The WebAssembly SIMD direct sum (wasm/direct.ts), instantiated once per
 // thread on first use. It gives the same bits as the JS kernel in direct.ts
 // (same operations, same per-target order), so which one ran never shows in a
 // result. Where WebAssembly or its SIMD is missing, or the JS kernel is forced,
