@@ -8,7 +8,7 @@ import { componentColor } from '../../constants/theme';
 // The snapshot animation with 50,000 particles in headless Chromium: the run page is served an
 // invented finished run of a disk, bulge and halo (the rest of the app and the session are
 // real), playback starts, and for five seconds the page counts requestAnimationFrame callbacks
-// and canvas redraws. The figures go to tests/artifacts/animation-fps.json; speed is reported
+// and canvas redraws. The figures go to tests/artifacts/animation-fps-VIEWPORT.json; speed is reported
 // here, not asserted (it depends on the machine), but the animation must be redrawing, in the
 // colours of the model's parts.
 
