@@ -54,6 +54,26 @@ export function lawColor(kind: string): string {
   return LAW_COLORS[kind] ?? palette.dust;
 }
 
+// One colour per part of a model, so a disk reads the same in every run's animation. The halo
+// is the dimmest: it is drawn first and the disk and bulge sit on top of it.
+const COMPONENT_COLORS: Record<string, string> = {
+  disk: '#86B4FF',
+  bulge: '#FFC56E',
+  halo: '#8C6FC9',
+  primary: palette.infall,
+  secondary: palette.drift,
+};
+
+/**
+ * The colour of a model part: a named part keeps its own; a run made of one other part keeps
+ * the run's colour (its law's); several other parts take the series colours in turn.
+ */
+export function componentColor(label: string | undefined, index: number, count: number, runColor: string): string {
+  const named = label ? COMPONENT_COLORS[label] : undefined;
+  if (named) return named;
+  return count <= 1 ? runColor : seriesColors[index % seriesColors.length];
+}
+
 /** Colours for the n-th series of a plot that isn't keyed by law. */
 export const seriesColors = [palette.infall, palette.drift, '#9FB7FF', '#F28DC0', palette.corona, palette.bloom, '#C59BFF'];
 

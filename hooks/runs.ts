@@ -1,7 +1,7 @@
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import type { RunDetail, RunStatus, RunSummary } from '../shared/api/contract';
 import { FINAL_STATUSES } from '../shared/api/contract';
-import { decodeSnapshots, type SnapshotFrame } from '../shared/api/snapshots';
+import { decodeSnapshots, SNAPSHOT_WIRE_FORMAT, type SnapshotSet } from '../shared/api/snapshots';
 import { api, queryString } from './api';
 
 export interface RunFilters {
@@ -43,7 +43,7 @@ export function useSnapshots(id: string | undefined, enabled: boolean) {
     queryKey: runKeys.snapshots(id ?? ''),
     enabled: Boolean(id) && enabled,
     staleTime: Infinity, // a finished run's frames never change
-    queryFn: async ({ signal }): Promise<SnapshotFrame[]> => decodeSnapshots(await api<Uint8Array>(`/api/runs/${id}/snapshots`, { signal, as: 'bytes' })),
+    queryFn: async ({ signal }): Promise<SnapshotSet> => decodeSnapshots(await api<Uint8Array>(`/api/runs/${id}/snapshots?format=${SNAPSHOT_WIRE_FORMAT}`, { signal, as: 'bytes' })),
   });
 }
 

@@ -45,8 +45,8 @@ function SyncedPlayers({ runs, plotted }: { runs: { run: RunDetail; out: RunOutp
   const { width } = useWindowDimensions();
   const wide = width >= WIDE_BREAKPOINT;
   const [projection, setProjection] = useState<Projection>('xy');
-  const framesA = useMemo(() => a.data ?? [], [a.data]);
-  const framesB = useMemo(() => b.data ?? [], [b.data]);
+  const framesA = useMemo(() => a.data?.frames ?? [], [a.data]);
+  const framesB = useMemo(() => b.data?.frames ?? [], [b.data]);
   // One playhead over the longer of the two runs' snapshot times drives both views.
   const times = useMemo(() => {
     const ta = framesA.map((f) => f.time_Myr);
@@ -69,7 +69,7 @@ function SyncedPlayers({ runs, plotted }: { runs: { run: RunDetail; out: RunOutp
               {[framesA, framesB].map((frames, k) => (
                 <View key={runs[k].run.id} style={[styles.player, wide && styles.half]}>
                   <LawTag kind={runs[k].run.lawKind} label={runs[k].out.law.label} />
-                  <ParticleView frames={frames} playhead={playhead} projection={projection} color={plotted[k].color} label={runs[k].run.name} maxSize={wide ? 560 : 520} />
+                  <ParticleView frames={frames} parts={[a.data, b.data][k]} playhead={playhead} projection={projection} color={plotted[k].color} label={runs[k].run.name} maxSize={wide ? 560 : 520} />
                 </View>
               ))}
             </View>

@@ -9,7 +9,7 @@ import { Empty, ErrorState, Loading } from '../States';
 
 /** The snapshot animation of one run, with its controls. */
 export function SnapshotPlayer({ playback, color, label }: { playback: ReturnType<typeof useRunPlayback>; color: string; label: string }) {
-  const { snaps, frames, times, playhead } = playback;
+  const { snaps, frames, parts, times, playhead } = playback;
   const [projection, setProjection] = useState<Projection>('xy');
   return (
     <Panel title="Snapshots" note={frames.length ? `${frames.length} stored snapshots of ${frames[0].positions.length / 3} particles.` : undefined}>
@@ -21,7 +21,7 @@ export function SnapshotPlayer({ playback, color, label }: { playback: ReturnTyp
         <Empty title="No snapshots" hint="This run stored no snapshots." />
       ) : (
         <View style={{ gap: space.md }}>
-          <ParticleView frames={frames} playhead={playhead} projection={projection} color={color} label={label} />
+          <ParticleView frames={frames} parts={parts} playhead={playhead} projection={projection} color={color} label={label} />
           <PlaybackControls playhead={playhead} times={times} projection={projection} onProjection={setProjection} />
         </View>
       )}

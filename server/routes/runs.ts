@@ -6,6 +6,7 @@ import { ApiError } from '../errors';
 import { listRunsQuerySchema } from '../../shared/api/requests';
 import { FINAL_STATUSES, type RunEventName } from '../../shared/api/contract';
 import { Run } from '../db/entities';
+import { SNAPSHOT_WIRE_FORMAT } from '../../shared/api/snapshots';
 import { submitRuns, listRuns, findVisibleRun, runDetail, snapshotBytes, cancelRun, toSummary, progressSoFar } from '../services/runs';
 import type { Deps } from '../app';
 
@@ -34,8 +35,14 @@ export function runsRouter({ queue, signals, orm }: Deps): Router {
     res.json(await runDetail(em(), run));
   });
 
+  // The frames' byte layout is versioned (README "Exports"): a client names the format it reads,
+  // and one written for an older format is told so instead of getting bytes it cannot read.
   r.get('/:id/snapshots', async (req, res) => {
     const run = await findVisibleRun(em(), req.user!, req.params.id);
+    const asked = typeof req.query.format === 'string' ? req.query.format : '1';
+    if (asked !== String(SNAPSHOT_WIRE_FORMAT)) {
+      throw new ApiError('BAD_REQUEST', `Snapshot frames are served in wire format ${SNAPSHOT_WIRE_FORMAT} only (asked for ${asked.slice(0, 20)}): reload the page, or add ?format=${SNAPSHOT_WIRE_FORMAT} and read the layout in README "Exports"`, { status: 406 });
+    }
     res.type('application/octet-stream').send(Buffer.from(await snapshotBytes(em(), run)));
   });
 

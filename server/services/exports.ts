@@ -8,7 +8,7 @@ import { ApiError } from '../errors';
 import { RunOutput, RunSnapshot, type Run } from '../db/entities';
 import { SNAPSHOT_FILE } from '../../shared/api/snapshots';
 import { G } from '../../shared/engine/units';
-import type { Component } from '../../shared/engine';
+import { storedParts } from './runs';
 import type { FromThread, SnapshotFileHeader, ToThread } from './snapshotFileThread';
 
 // A run's stored snapshots as one HDF5 file (layout in shared/api/snapshots.ts and README
@@ -62,14 +62,8 @@ export async function planSnapshotFile(em: EntityManager, run: Run, maxBytes: nu
 
 function headerFor(run: Run, plan: Awaited<ReturnType<typeof planSnapshotFile>>, file: string): SnapshotFileHeader {
   const { output, frames, particles, velocities } = plan;
-  const components = (output.components as Component[] | null) ?? null;
-  let identity: SnapshotFileHeader['identity'] = null;
-  if (output.particleIds && output.masses && components) {
-    const ids = bytesAs(Uint32Array, output.particleIds as Uint8Array);
-    const labels = components.map((c) => c.label);
-    const component = Uint8Array.from(ids, (i) => Math.max(0, components.findIndex((c) => i >= c.start && i < c.start + c.count)));
-    identity = { ids, masses: bytesAs(Float64Array, output.masses as Uint8Array), component, labels };
-  }
+  const parts = storedParts(output);
+  const identity: SnapshotFileHeader['identity'] = parts && output.masses ? { ...parts, masses: bytesAs(Float64Array, output.masses as Uint8Array) } : null;
   const complete = velocities && identity !== null;
   return {
     path: file,

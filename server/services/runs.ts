@@ -6,7 +6,8 @@ import { Run, RunOutput, RunSnapshot, type User } from '../db/entities';
 import { parseRunSpec, particleCount, stepCount, estimateInteractions, type RunSpec } from '../../shared/spec';
 import { submitRunBodySchema, type ListRunsQuery } from '../../shared/api/requests';
 import type { RunDetail, RunProgress, RunSummary } from '../../shared/api/contract';
-import { encodeSnapshots } from '../../shared/api/snapshots';
+import { encodeSnapshots, type ParticleParts } from '../../shared/api/snapshots';
+import type { Component } from '../../shared/engine';
 import type { RunJobData } from '../queue';
 import { visibleRunsFilter, canSeeRun, canManageRun } from './access';
 import { admitRuns } from './admission';
@@ -161,16 +162,32 @@ export async function progressSoFar(queue: Queue<RunJobData>, runId: string): Pr
   return logs.map((row) => JSON.parse(row) as RunProgress);
 }
 
+/** Each stored particle's id and component, for runs stored since ids and components were kept. */
+export function storedParts(output: RunOutput): (ParticleParts & { ids: Uint32Array }) | null {
+  const components = (output.components as Component[] | null) ?? null;
+  if (!output.particleIds || !components) return null;
+  const b = output.particleIds as Uint8Array;
+  const copy = new Uint8Array(b.byteLength);
+  copy.set(b); // a Buffer slice may not sit on the 4-byte alignment Uint32Array needs
+  const ids = new Uint32Array(copy.buffer);
+  const component = Uint8Array.from(ids, (i) => Math.max(0, components.findIndex((c) => i >= c.start && i < c.start + c.count)));
+  return { ids, labels: components.map((c) => c.label), component };
+}
+
 export async function snapshotBytes(em: EntityManager, run: Run): Promise<Uint8Array> {
   const rows = await em.find(RunSnapshot, { run: run.id }, { orderBy: { frame: 'asc' } });
-  return encodeSnapshots(
-    rows.map((r) => {
-      const b = r.positions as Uint8Array;
-      const copy = new Uint8Array(b.byteLength);
-      copy.set(b); // Float32Array needs 4-byte alignment, which a Buffer slice may not have
-      return { step: r.step, time_Myr: r.timeMyr, positions: new Float32Array(copy.buffer) };
-    }),
-  );
+  const frames = rows.map((r) => {
+    const b = r.positions as Uint8Array;
+    const copy = new Uint8Array(b.byteLength);
+    copy.set(b); // Float32Array needs 4-byte alignment, which a Buffer slice may not have
+    return { step: r.step, time_Myr: r.timeMyr, positions: new Float32Array(copy.buffer) };
+  });
+  const n = frames.length ? frames[0].positions.length / 3 : 0;
+  const output = await em.findOne(RunOutput, { run: run.id });
+  const parts = output ? storedParts(output) : null;
+  // Runs stored before components were kept are one unnamed component.
+  const known = parts !== null && parts.component.length === n;
+  return encodeSnapshots({ frames, labels: known ? parts.labels : [], component: known ? parts.component : new Uint8Array(n) });
 }
 
 /** Marks a run for cancelling; a queued one ends at once, a running one at its next check. */

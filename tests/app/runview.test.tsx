@@ -26,7 +26,7 @@ function finishedOutput() {
   };
 }
 
-const snapshots = encodeSnapshots([0, 1, 2].map((k) => ({ step: k * 10, time_Myr: k * 5, positions: Float32Array.from([0, 0, 0, 1 + k, 0, 0, 0, 1, 0]) })));
+const snapshots = encodeSnapshots({ labels: ['Plummer sphere'], component: new Uint8Array(3), frames: [0, 1, 2].map((k) => ({ step: k * 10, time_Myr: k * 5, positions: Float32Array.from([0, 0, 0, 1 + k, 0, 0, 0, 1, 0]) })) });
 
 beforeEach(() => {
   FakeEventSource.instances = [];
@@ -38,7 +38,7 @@ test('a running run follows its event stream, then shows its results when it end
   mockApi({
     'GET /api/auth/session': { body: { user: { ...owner, role: 'researcher', email: null }, csrfToken: 't' } },
     [`GET /api/runs/${ID}`]: () => ({ body: finished ? { ...summary, status: 'finished', progress: 1, spec, output: finishedOutput() } : { ...summary, status: 'running', progress: 0.1, spec, output: null } }),
-    [`GET /api/runs/${ID}/snapshots`]: { bytes: snapshots },
+    [`GET /api/runs/${ID}/snapshots?format=2`]: { bytes: snapshots },
   });
   const { view } = render(<RunView id={ID} />);
   await settle();

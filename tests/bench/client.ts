@@ -1,7 +1,10 @@
 // The client's animation in headless Chromium: frames per second while a
-// finished run's snapshots play, counted as requestAnimationFrame callbacks.
+// finished run's snapshots play on the real run page, counted as requestAnimationFrame
+// callbacks. The run is invented (tests/e2e/support/syntheticRun.ts) and served in place of
+// the API's answers, so its size is not bounded by what the bench user may compute.
 import { chromium, type Browser, type Page } from 'playwright-core';
 import { CHROMIUM_FLAGS } from '../e2e/support/browser';
+import { SYNTHETIC_RUN_ID, syntheticRun, syntheticSnapshotBytes, syntheticSnapshots } from '../e2e/support/syntheticRun';
 
 export interface ClientFigures {
   particles: number;
@@ -27,8 +30,19 @@ export async function signInBrowser(url: string, login: string): Promise<SignedI
   return { browser, page, close: () => browser.close() };
 }
 
-/** Opens the run page, starts playback and counts animation frames for `seconds`. */
-export async function benchClient(page: Page, url: string, runId: string, particles: number, seconds = 4): Promise<ClientFigures> {
+/** Serves an invented finished run of `particles` particles to this page (the rest of the app and the session stay real). */
+export async function serveSyntheticRun(page: Page, particles: number, frames = 60): Promise<string> {
+  const set = syntheticSnapshots(particles, frames);
+  const detail = JSON.stringify(syntheticRun(particles, set.frames));
+  const bytes = syntheticSnapshotBytes(set);
+  await page.route((u) => u.pathname === `/api/runs/${SYNTHETIC_RUN_ID}`, (r) => r.fulfill({ status: 200, contentType: 'application/json', body: detail }));
+  await page.route((u) => u.pathname === `/api/runs/${SYNTHETIC_RUN_ID}/snapshots`, (r) => r.fulfill({ status: 200, contentType: 'application/octet-stream', body: bytes }));
+  return SYNTHETIC_RUN_ID;
+}
+
+/** Opens the run page of an invented run, starts playback and counts animation frames for `seconds`. */
+export async function benchClient(page: Page, url: string, particles: number, seconds = 4): Promise<ClientFigures> {
+  const runId = await serveSyntheticRun(page, particles);
   await page.goto(`${url}/runs/${runId}`);
   const play = page.getByTestId('play-toggle');
   await page.getByTestId('particle-cloud').waitFor({ timeout: 60_000 });

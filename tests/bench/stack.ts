@@ -1,7 +1,7 @@
 // End to end through a running stack, as a script with a personal API token
 // would use it: submit, follow the server-sent events, fetch the snapshots.
 import type { RunProgress, RunStatus, RunSummary } from '../../shared/api/contract';
-import { decodeSnapshots } from '../../shared/api/snapshots';
+import { decodeSnapshots, SNAPSHOT_WIRE_FORMAT } from '../../shared/api/snapshots';
 import type { RunSpec } from '../../shared/spec';
 import { diskRun } from './specs';
 
@@ -90,10 +90,10 @@ export async function benchEndToEnd(t: StackTarget, { particles = 2_000, steps =
 
 /** Bytes on the wire per particle per frame of GET /api/runs/:id/snapshots. */
 export async function benchSnapshots(t: StackTarget, runId: string): Promise<SnapshotFigures> {
-  const res = await fetch(`${t.url}/api/runs/${runId}/snapshots`, { headers: { Authorization: `Bearer ${t.token}`, 'Accept-Encoding': 'identity' } });
+  const res = await fetch(`${t.url}/api/runs/${runId}/snapshots?format=${SNAPSHOT_WIRE_FORMAT}`, { headers: { Authorization: `Bearer ${t.token}`, 'Accept-Encoding': 'identity' } });
   if (!res.ok) throw new Error(`snapshots of ${runId} answered ${res.status}`);
   const bytes = new Uint8Array(await res.arrayBuffer());
-  const frames = decodeSnapshots(bytes);
+  const { frames } = decodeSnapshots(bytes);
   const particles = frames.length ? frames[0].positions.length / 3 : 0;
   return { frames: frames.length, particles, bytes: bytes.byteLength, bytesPerParticle: bytes.byteLength / (frames.length * particles) };
 }

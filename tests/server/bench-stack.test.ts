@@ -49,8 +49,8 @@ test('end-to-end and snapshot sections give finite figures through a token-authe
   expect(e2e.firstProgressMs).toBeGreaterThan(0);
   expect(e2e.diskRunSeconds * 1000).toBeGreaterThanOrEqual(e2e.firstProgressMs);
   expect(Number.isFinite(e2e.diskRunSeconds)).toBe(true);
-  // float32 x, y, z: 12 bytes a particle, plus the frame and file headers spread over them.
+  // uint16 x, y, z: 6 bytes a particle, plus the component list and the frame and file headers spread over them.
   expect(snapshot.particles).toBe(150);
-  expect(snapshot.bytesPerParticle).toBeGreaterThan(12);
-  expect(snapshot.bytesPerParticle).toBeLessThan(13);
+  expect(snapshot.bytesPerParticle).toBeGreaterThan(6);
+  expect(snapshot.bytesPerParticle).toBeLessThanOrEqual(8);
 });

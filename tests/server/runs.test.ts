@@ -207,13 +207,20 @@ describe('a run from submit to results', () => {
     const frames = detail.body.output.frames;
     expect(frames.length).toBeGreaterThan(1);
 
-    const snap = await request(s.app).get(`/api/runs/${id}/snapshots`).set(auth).buffer(true).parse((r, cb) => {
+    // A client that names no wire format (one written for format 1) is told what changed.
+    const old = await request(s.app).get(`/api/runs/${id}/snapshots`).set(auth).expect(406);
+    expect(old.body.error.message).toMatch(/wire format 2 only \(asked for 1\): reload the page, or add \?format=2/);
+    await request(s.app).get(`/api/runs/${id}/snapshots?format=3`).set(auth).expect(406);
+
+    const snap = await request(s.app).get(`/api/runs/${id}/snapshots?format=2`).set(auth).buffer(true).parse((r, cb) => {
       const chunks: Buffer[] = [];
       r.on('data', (c: Buffer) => chunks.push(c));
       r.on('end', () => cb(null, Buffer.concat(chunks)));
     }).expect(200);
     const decoded = decodeSnapshots(new Uint8Array(snap.body as Buffer));
-    expect(decoded.map((f) => f.step)).toEqual(frames.map((f: { step: number }) => f.step));
+    expect(decoded.frames.map((f) => f.step)).toEqual(frames.map((f: { step: number }) => f.step));
+    expect(decoded.labels).toEqual(['Plummer sphere']);
+    expect(decoded.component.every((c) => c === 0)).toBe(true);
 
     // A finished run's stream answers at once with its state and end.
     const late = await request(s.app).get(`/api/runs/${id}/events`).set(auth).expect(200);

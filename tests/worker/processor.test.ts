@@ -5,7 +5,7 @@ import { config } from '../../server/config';
 import { redisConnection, type RunJobData } from '../../server/queue';
 import { User, Run, RunOutput, RunSnapshot, UsageEntry } from '../../server/db/entities';
 import { submitRuns, snapshotBytes } from '../../server/services/runs';
-import { decodeSnapshots } from '../../shared/api/snapshots';
+import { decodeSnapshots, quantisationError } from '../../shared/api/snapshots';
 import type { DiagnosticSample } from '../../shared/engine';
 import { defaultRunSpec, type RunSpec } from '../../shared/spec';
 import { RunPool } from '../../worker/pool';
@@ -79,10 +79,20 @@ test('a submitted run is integrated in a pool thread and lands whole in PostgreS
   expect(frames).toBeGreaterThan(1);
 
   // Frames read back through the wire format hold finite positions of every particle kept.
-  const decoded = decodeSnapshots(await snapshotBytes(check, run));
+  const { frames: decoded } = decodeSnapshots(await snapshotBytes(check, run));
   expect(decoded).toHaveLength(frames);
   expect(decoded[0].positions.length).toBe(output.snapshotParticles * 3);
   expect(decoded.every((f) => f.positions.every(Number.isFinite))).toBe(true);
+  // The wire rounds each coordinate to 16 bits of its frame's extent; what is stored keeps float32.
+  const last = await check.findOneOrFail(RunSnapshot, { run: summary.id }, { orderBy: { frame: 'desc' } });
+  const b = last.positions as Uint8Array;
+  const stored = new Float32Array(Uint8Array.from(b).buffer);
+  const sent = decoded[decoded.length - 1].positions;
+  for (let a = 0; a < 3; a++) {
+    const axis = stored.filter((_, i) => i % 3 === a);
+    const bound = quantisationError(Math.max(...axis) - Math.min(...axis)) * (1 + 1e-6) + 1e-6 * Math.max(...axis.map(Math.abs));
+    expect(Math.max(...Array.from(axis, (c, i) => Math.abs(sent[3 * i + a] - c)))).toBeLessThanOrEqual(bound);
+  }
 
   // Progress reached the queue's event stream and climbed to 100 %.
   expect(progress.length).toBeGreaterThan(0);

@@ -1,5 +1,5 @@
 import type { RunDetail } from '../../../shared/api/contract';
-import { encodeSnapshots, type SnapshotFrame } from '../../../shared/api/snapshots';
+import { encodeSnapshots, type SnapshotFrame, type SnapshotSet } from '../../../shared/api/snapshots';
 import { lawInfo } from '../../../shared/engine';
 
 // An invented finished run, served in place of the API's answer, so the animation can be
@@ -7,29 +7,37 @@ import { lawInfo } from '../../../shared/engine';
 
 export const SYNTHETIC_RUN_ID = '00000000-0000-4000-8000-00000000f95a';
 
-/** A rotating, slowly breathing disk of `n` particles over `frames` snapshots (invented). */
-export function syntheticFrames(n: number, frames: number): SnapshotFrame[] {
-  const out: SnapshotFrame[] = [];
+/**
+ * A rotating, slowly breathing galaxy of `n` particles over `frames` snapshots (invented):
+ * 70% disk, 10% bulge, 20% halo, in that order, like the engine's models list their parts.
+ */
+export function syntheticSnapshots(n: number, frames: number): SnapshotSet {
   // Fixed pseudo-random radii and phases so every run of the test draws the same picture.
   let seed = 12345;
   const rand = () => ((seed = (seed * 1103515245 + 12345) % 2147483648) / 2147483648);
-  const r = Float32Array.from({ length: n }, () => -Math.log(1 - rand() * 0.999) * 3);
+  const disk = Math.round(0.7 * n);
+  const bulge = Math.round(0.1 * n);
+  const component = Uint8Array.from({ length: n }, (_, i) => (i < disk ? 0 : i < disk + bulge ? 1 : 2));
+  const scale = [3, 0.4, 9]; // kpc: disk scale length, bulge and halo radii
+  const r = Float32Array.from(component, (c) => -Math.log(1 - rand() * 0.999) * scale[c]);
   const phi = Float32Array.from({ length: n }, () => rand() * 2 * Math.PI);
-  const z = Float32Array.from({ length: n }, () => (rand() - 0.5) * 0.6);
+  // Height above the plane: thin for the disk, as wide as the radius for the bulge and halo.
+  const z = Float32Array.from(component, (c, i) => (c === 0 ? (rand() - 0.5) * 0.6 : (2 * rand() - 1) * r[i]));
+  const out: SnapshotFrame[] = [];
   for (let k = 0; k < frames; k++) {
     const t = k * 5;
     const positions = new Float32Array(3 * n);
     for (let i = 0; i < n; i++) {
-      const omega = 0.2 / (0.5 + r[i]); // faster inside: differential rotation
+      const omega = (component[i] === 2 ? 0.02 : 0.2) / (0.5 + r[i]); // faster inside: differential rotation
       const a = phi[i] + omega * t;
-      const rr = r[i] * (1 + 0.05 * Math.sin(0.1 * t));
+      const rr = Math.sqrt(Math.max(0, r[i] * r[i] - (component[i] === 0 ? 0 : z[i] * z[i]))) * (1 + 0.05 * Math.sin(0.1 * t));
       positions[3 * i] = rr * Math.cos(a);
       positions[3 * i + 1] = rr * Math.sin(a);
       positions[3 * i + 2] = z[i];
     }
     out.push({ step: k * 10, time_Myr: t, positions });
   }
-  return out;
+  return { labels: ['disk', 'bulge', 'halo'], component, frames: out };
 }
 
 export function syntheticRun(n: number, frames: SnapshotFrame[], owner = { id: 0, login: 'invented', name: 'Invented benchmark' }): RunDetail {
@@ -83,4 +91,4 @@ export function syntheticRun(n: number, frames: SnapshotFrame[], owner = { id: 0
   };
 }
 
-export const syntheticSnapshotBytes = (frames: SnapshotFrame[]) => Buffer.from(encodeSnapshots(frames));
+export const syntheticSnapshotBytes = (set: SnapshotSet) => Buffer.from(encodeSnapshots(set));

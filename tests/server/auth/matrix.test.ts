@@ -103,7 +103,7 @@ const rows: Row[] = [
   { route: 'GET /api/runs', expected: e(401, 200, 200, 200, 200) },
   { route: 'GET /api/runs?cohort=:cohort', expected: e(401, 403, 200, 403, 200) },
   { route: 'GET /api/runs/:run', expected: e(401, 200, 200, 404, 200) },
-  { route: 'GET /api/runs/:run/snapshots', expected: e(401, 200, 200, 404, 200) },
+  { route: 'GET /api/runs/:run/snapshots?format=2', expected: e(401, 200, 200, 404, 200) },
   // The run ended without output: whoever may read it is told there is nothing to download.
   { route: 'GET /api/runs/:run/snapshots.h5', expected: e(401, 409, 409, 404, 409) },
   { route: 'GET /api/runs/:run/events', expected: e(401, 200, 200, 404, 200) },
