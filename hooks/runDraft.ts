@@ -58,17 +58,21 @@ export function getIn(obj: unknown, path: Path): unknown {
   return path.reduce<unknown>((o, k) => (o as Record<string | number, unknown> | undefined)?.[k], obj);
 }
 
-/** Every disk in a model (itself, or the members of an encounter) gets its velocities from `law`. */
+/**
+ * Every sampled system of a model (itself, or the members of an encounter) gets its velocities
+ * balanced for `law`; with none, each run balances them for its own law.
+ */
 export function withEquilibriumLaw(model: Record<string, unknown>, law: LawSpec | undefined): Record<string, unknown> {
-  const set = (m: Record<string, unknown>) => (m.kind === 'disk' ? (law ? { ...m, equilibriumLaw: law } : setIn(m, ['equilibriumLaw'], undefined)) : m);
+  const set = (m: Record<string, unknown>) => (law ? { ...m, equilibriumLaw: law } : setIn(m, ['equilibriumLaw'], undefined));
   if (model.kind === 'encounter') return { ...model, primary: set(model.primary as Record<string, unknown>), secondary: set(model.secondary as Record<string, unknown>) };
-  return set(model);
+  return SAMPLED_KINDS.has(String(model.kind)) ? set(model) : model;
 }
 
-export function hasDisk(model: Record<string, unknown>): boolean {
-  if (model.kind === 'disk') return true;
-  if (model.kind === 'encounter') return (model.primary as { kind?: string })?.kind === 'disk' || (model.secondary as { kind?: string })?.kind === 'disk';
-  return false;
+/** Models whose velocities are set by a law's field (uploaded tables bring their own; a Kepler pair is an orbit). */
+const SAMPLED_KINDS = new Set(['plummer', 'hernquist', 'disk', 'encounter']);
+
+export function isSampled(model: Record<string, unknown>): boolean {
+  return SAMPLED_KINDS.has(String(model.kind));
 }
 
 export interface Preview {
@@ -152,16 +156,10 @@ export function useRunDraft(initial?: RunSpecInput, initialPairLaw?: LawSpec | n
     ? { particles: particleCount(spec), steps: stepCount(spec), interactions: estimateInteractions(spec) + (pairSpec ? estimateInteractions(pairSpec) : 0), runs: pairSpec ? 2 : 1 }
     : null;
 
-  /** The POST /api/runs body; with a pair, disks take their velocities from the first law unless told otherwise. */
+  /** The POST /api/runs body; with a pair, each run balances its systems for its own law unless the form pins one law for both. */
   const submission = (): SubmitRunInput | null => {
     if (!valid) return null;
-    let body = draft;
-    if (pairLaw && hasDisk(draft.model as Record<string, unknown>)) {
-      const model = draft.model as Record<string, unknown>;
-      const chosen = (getIn(model, ['equilibriumLaw']) ?? getIn(model, ['primary', 'equilibriumLaw']) ?? getIn(model, ['secondary', 'equilibriumLaw'])) as LawSpec | undefined;
-      body = { ...draft, model: withEquilibriumLaw(model, chosen ?? (draft.law as LawSpec)) };
-    }
-    return { spec: body, ...(pairLaw ? { pairLaw } : {}) };
+    return { spec: draft, ...(pairLaw ? { pairLaw } : {}) };
   };
 
   /** Shows a field error the server reported (its paths start with "spec."). */

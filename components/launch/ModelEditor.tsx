@@ -2,7 +2,7 @@ import { useState } from 'react';
 import { StyleSheet, TextInput, View } from 'react-native';
 import type { LawSpec } from '../../shared/spec';
 import { colors, fonts, radius, space } from '../../constants/theme';
-import { getIn, hasDisk, MODEL_PRESETS, SYSTEM_KINDS, withEquilibriumLaw, type Path } from '../../hooks/runDraft';
+import { getIn, isSampled, MODEL_PRESETS, SYSTEM_KINDS, withEquilibriumLaw, type Path } from '../../hooks/runDraft';
 import { ChoiceChips, FieldRow, Toggle } from '../fields';
 import { LAW_LABELS, MODEL_LABELS } from '../format';
 import { parseNumberText } from '../numberText';
@@ -124,7 +124,7 @@ export function ModelEditor({ draft, set, issues, pairLaw }: Props) {
   const num = (key: string) => <SpecNumber key={key} draft={draft} path={['model', key]} onChange={set} issues={issues} />;
   const law = draft.law as LawSpec;
   const eqLaw = (getIn(model, ['equilibriumLaw']) ?? getIn(model, ['primary', 'equilibriumLaw']) ?? getIn(model, ['secondary', 'equilibriumLaw'])) as LawSpec | undefined;
-  const eqIsPair = Boolean(pairLaw && eqLaw && eqLaw.kind === pairLaw.kind);
+  const eqChoice = !eqLaw ? 'own' : pairLaw && JSON.stringify(eqLaw) === JSON.stringify(pairLaw) ? 'pair' : 'first';
 
   return (
     <View style={formStyles.group}>
@@ -166,13 +166,14 @@ export function ModelEditor({ draft, set, issues, pairLaw }: Props) {
       ) : (
         <SystemFields draft={draft} base={['model']} set={set} issues={issues} />
       )}
-      {pairLaw && hasDisk(model) ? (
+      {pairLaw && isSampled(model) ? (
         <ChoiceChips
-          label="Disk velocities set by"
-          value={eqIsPair ? 'pair' : 'first'}
-          onChange={(which) => set(['model'], withEquilibriumLaw(model, which === 'pair' ? pairLaw : law))}
-          hint="Both runs of a pair start from exactly the same particles, so the disk's rotation comes from one of the two laws; under the other it starts out of equilibrium."
+          label="Velocities balanced for"
+          value={eqChoice}
+          onChange={(which) => set(['model'], withEquilibriumLaw(model, which === 'own' ? undefined : which === 'pair' ? pairLaw : law))}
+          hint="Both runs start from the same positions. Balanced for its own law, each run starts in equilibrium, so what differs later comes from the laws; pinned to one law, both start from identical particles and the other run starts out of equilibrium."
           choices={[
+            { value: 'own', label: 'each run’s own law' },
             { value: 'first', label: `${LAW_LABELS[law.kind] ?? law.kind} (first law)` },
             { value: 'pair', label: `${LAW_LABELS[pairLaw.kind] ?? pairLaw.kind} (second law)` },
           ]}

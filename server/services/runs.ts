@@ -20,15 +20,6 @@ function firstIssue(issues: { path: string; message: string }[], prefix: string)
   return new ApiError('INVALID_SPEC', `${field}: ${first.message}`, { field, details: issues.map((i) => ({ ...i, path: i.path ? `${prefix}.${i.path}` : prefix })) });
 }
 
-// A disk's velocities come from the circular speed of a law; a pair keeps the
-// first run's law for both, so the two runs start from identical particles.
-function pinEquilibrium(spec: RunSpec): RunSpec {
-  const pin = <S extends RunSpec['model']>(m: S): S => (m.kind === 'disk' && !m.equilibriumLaw ? { ...m, equilibriumLaw: spec.law } : m);
-  const m = spec.model;
-  if (m.kind === 'encounter') return { ...spec, model: { ...m, primary: pin(m.primary), secondary: pin(m.secondary) } };
-  return { ...spec, model: pin(m) };
-}
-
 /**
  * The run's name may come beside the spec (`name`) or inside it (`spec.name`); both are
  * checked by the same schema. Given twice, they must agree, so neither is silently dropped.
@@ -40,7 +31,10 @@ function runName(top: string | undefined, inSpec: string | undefined): string | 
   return inSpec ?? top;
 }
 
-/** Validates a submission into one spec, or two sharing initial conditions. */
+/**
+ * Validates a submission into one spec, or two sharing the model and seed (so the same
+ * positions); each balances its velocities for its own law unless the model names one.
+ */
 export function specsFromBody(body: unknown): { name: string; specs: RunSpec[] } {
   const parsed = submitRunBodySchema.safeParse(body);
   if (!parsed.success) {
@@ -53,7 +47,6 @@ export function specsFromBody(body: unknown): { name: string; specs: RunSpec[] }
   const given = runName(parsed.data.name, spec.spec.name);
   const specs = [given === undefined ? spec.spec : { ...spec.spec, name: given }];
   if (parsed.data.pairLaw !== undefined) {
-    specs[0] = pinEquilibrium(specs[0]);
     const twin = parseRunSpec({ ...specs[0], law: parsed.data.pairLaw });
     if (!twin.ok) throw firstIssue(twin.issues.map((i) => ({ ...i, path: i.path.replace(/^law\.?/, '') })), 'pairLaw');
     if (JSON.stringify(twin.spec.law) === JSON.stringify(spec.spec.law)) {

@@ -125,7 +125,7 @@ describe('the new-run form', () => {
     expect(frame.querySelector('[role="alert"]')?.textContent).toBe('name: "a" differs from spec.name "b"');
   });
 
-  it('gives disks of a pair one law for their velocities', async () => {
+  it('balances each run of a pair for its own law, or pins one law for both when asked', async () => {
     const calls = mockApi({ 'GET /api/account/usage': { body: usage }, 'POST /api/runs': { status: 201, body: { runs: [{ id: 'r1', pairId: null }] } } });
     const { view } = render(<LaunchForm />);
     await settle();
@@ -134,7 +134,16 @@ describe('the new-run form', () => {
     await settle();
     press(view.getByTestId('launch'));
     await settle();
-    const post = calls.find((c) => c.method === 'POST')!;
-    expect(post.body).toMatchObject({ spec: { model: { kind: 'disk', equilibriumLaw: { kind: 'newton' } } }, pairLaw: { kind: 'qumond' } });
-  });
+    const own = calls.filter((c) => c.method === 'POST')[0]!.body as { spec: { model: Record<string, unknown> }; pairLaw: { kind: string } };
+    expect(own.pairLaw.kind).toBe('qumond');
+    expect(own.spec.model.kind).toBe('disk');
+    expect(own.spec.model).not.toHaveProperty('equilibriumLaw');
+    press(view.getByRole('radio', { name: /\(first law\)$/ }));
+    await settle();
+    press(view.getByTestId('launch'));
+    await settle();
+    const pinned = calls.filter((c) => c.method === 'POST')[1]!.body;
+    expect(pinned).toMatchObject({ spec: { model: { kind: 'disk', equilibriumLaw: { kind: 'newton' } } }, pairLaw: { kind: 'qumond' } });
+    // Two disk previews (the thick disk's field) on a shared machine take a few seconds.
+  }, 30_000);
 });
