@@ -47,7 +47,7 @@ describe('numbers typed key by key on a phone', () => {
 
     await typeInto(page.getByTestId('field-model.scale_kpc'), '.5');
 
-    await page.getByTestId('law-first').getByRole('radio', { name: 'MOND' }).click();
+    await page.getByTestId('law-first').getByRole('radio', { name: 'MOND (algebraic)' }).click();
     const a0 = page.getByTestId('field-law.a0_m_s2');
     await typeInto(a0, '1.2e-10');
     expect(await a0.inputValue()).toBe('1.2e-10');
