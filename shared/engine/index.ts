@@ -5,7 +5,7 @@ import { buildInitialConditions } from './models';
 import { timescalesFor, type EngineWarning, type Timescales } from './timescales';
 
 export { runSimulation, RESULT_UNITS } from './run';
-export type { RunHooks, RunProgress, RunResult, RunSummary, Snapshot, QuantityMeaning } from './run';
+export type { RunHooks, RunProgress, RunResult, RunSummary, Snapshot, QuantityMeaning, RunCheckpoint } from './run';
 export { analyticCurves, CURVE_BINS } from './analytic';
 export type { AnalyticCurves, AnalyticCurveOptions } from './analytic';
 export { lawInfo, LAW_MODULES, lawSchema } from './laws/registry';
