@@ -58,9 +58,16 @@ export function runsRouter({ queue, signals, orm }: Deps): Router {
       closed = true;
       unsubscribe();
       clearInterval(heartbeat);
-      const fresh = await orm.em.fork().findOne(Run, { id: run.id }, { populate: ['owner'] });
-      if (fresh) send('state', toSummary(fresh));
-      send('end', { status: fresh?.status ?? run.status });
+      try {
+        const fresh = await orm.em.fork().findOne(Run, { id: run.id }, { populate: ['owner'] });
+        if (fresh) send('state', toSummary(fresh));
+        // The queue may say a job ended before the database does (a write still retrying, or the
+        // reconciler about to act): then the stream closes with no end and the client reconnects.
+        if (!fresh || FINAL_STATUSES.includes(fresh.status)) send('end', { status: fresh?.status ?? run.status });
+      } catch (err) {
+        // PostgreSQL away: no end can be told; closing makes the client reconnect and resume.
+        console.error(`[server] event stream of run ${run.id}: ${err instanceof Error ? err.message : String(err)}`);
+      }
       res.end();
     };
     // Subscribe before reading the state so an end in between is not missed.
