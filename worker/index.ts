@@ -1,4 +1,5 @@
 // The worker process: takes runs off the BullMQ queue and hands each to a pool thread.
+import { hostname } from 'node:os';
 import { Worker } from 'bullmq';
 import { config } from '../server/config';
 import { openOrm } from '../server/db/orm';
@@ -25,6 +26,7 @@ runProcess('worker', async () => {
     {
       connection: redisConnection,
       concurrency: config.workerThreads,
+      name: `${hostname()}:${process.pid}`, // recorded on each job it takes
       // A killed worker's runs are handed out again once their lock lapses; after maxStalls deaths, failed.
       lockDuration: r.lockMs,
       stalledInterval: r.lockMs,
