@@ -7,6 +7,7 @@ import { listRunsQuerySchema } from '../../shared/api/requests';
 import { FINAL_STATUSES, type RunEventName } from '../../shared/api/contract';
 import { Run } from '../db/entities';
 import { submitRuns, listRuns, findVisibleRun, runDetail, snapshotBytes, cancelRun, toSummary } from '../services/runs';
+import { extendRun } from '../services/extend';
 import type { Deps } from '../app';
 
 const em = () => RequestContext.getEntityManager() as EntityManager;
@@ -44,6 +45,11 @@ export function runsRouter({ queue, signals, orm }: Deps): Router {
     const { endedNow } = await cancelRun(em(), queue, req.user!, run);
     if (endedNow) signals.announceEnd(run.id);
     res.status(202).json(toSummary(run));
+  });
+
+  r.post('/:id/extend', async (req, res) => {
+    const run = await findVisibleRun(em(), req.user!, req.params.id);
+    res.status(202).json(toSummary(await extendRun(em(), queue, req.user!, run, req.body)));
   });
 
   // Live progress as server-sent events: `state` first, `progress` while it runs, `end` last.
