@@ -24,6 +24,7 @@ import { LiveProgress } from './LiveProgress';
 import { RotationAtPlayhead } from './RotationAtPlayhead';
 import { RunFacts } from './RunFacts';
 import { SnapshotPlayer } from './SnapshotPlayer';
+import { ExtendRun } from './ExtendRun';
 
 function CancelButton({ run }: { run: RunDetail }) {
   const cancel = useCancelRun(run.id);
@@ -102,6 +103,7 @@ export function RunView({ id }: { id: string }) {
       actions={
         <>
           {live && mine ? <CancelButton run={r} /> : null}
+          {r.status === 'finished' && mine ? <ExtendRun run={r} /> : null}
           <Button small tone="secondary" label="Clone" onPress={() => router.push({ pathname: '/runs/new', params: { from: r.id } })} accessibilityHint="Opens the new-run form filled with this run's spec" />
           {r.pairId ? (
             <Button href={{ pathname: '/compare', params: { pair: r.pairId } }} small label="Compare the pair" testID="compare-pair" />
