@@ -20,12 +20,14 @@ export const config = {
   port,
   publicUrl: env.INFALL_PUBLIC_URL ?? `http://${host}:${port}`,
   db: {
-    host,
+    // Other hosts' workers reach the database and Redis by these (README "Workers on several hosts").
+    host: env.INFALL_PG_HOST || host,
+    password: env.INFALL_PG_PASSWORD || undefined,
     port: int('INFALL_PG_PORT', 54329),
     dbName: env.INFALL_PG_DB ?? 'infall',
     user: env.INFALL_PG_USER ?? 'infall',
   },
-  redis: { host, port: int('INFALL_REDIS_PORT', 63799) },
+  redis: { host: env.INFALL_REDIS_HOST || host, port: int('INFALL_REDIS_PORT', 63799), password: env.INFALL_REDIS_PASSWORD || undefined },
   queueName: env.INFALL_QUEUE ?? 'infall-runs',
   workerThreads: Math.max(1, Number(env.INFALL_WORKER_THREADS ?? 2) | 0),
   resilience: resilienceConfig(),

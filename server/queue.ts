@@ -4,7 +4,7 @@ import { config } from './config';
 import type { RunProgress } from '../shared/api/contract';
 
 // BullMQ keeps handed-in ioredis clients open, so it gets options, not clients.
-export const redisConnection: ConnectionOptions = { host: config.redis.host, port: config.redis.port, maxRetriesPerRequest: null };
+export const redisConnection: ConnectionOptions = { host: config.redis.host, port: config.redis.port, password: config.redis.password, maxRetriesPerRequest: null };
 
 export interface RunJobData {
   runId: string;
