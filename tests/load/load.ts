@@ -143,15 +143,18 @@ export async function runLoad(opts: LoadOptions): Promise<LoadReport> {
 
   log(`[load] runs list: ${opts.connections} connections x ${opts.seconds} s with a session cookie`);
   const runsListCookie = await cannon(opts, { Cookie: first.cookie });
+  log(`[load]   p50 ${runsListCookie.p50} ms, ${runsListCookie.requestsPerSecond} req/s, ${runsListCookie.non2xx} non-2xx`);
   log(`[load] runs list: ${opts.connections} connections x ${opts.seconds} s with an API token`);
   const runsListToken = await cannon(opts, { Authorization: `Bearer ${first.token}` });
+  log(`[load]   p50 ${runsListToken.p50} ms, ${runsListToken.requestsPerSecond} req/s, ${runsListToken.non2xx} non-2xx`);
 
   // Watchers: spread over a few runs that take a moment, each watched until it ends.
   log(`[load] ${opts.watchers} event-stream watchers`);
   const watched: { id: string; token: string }[] = [];
   for (let k = 0; k < Math.min(4, crowd.length); k++) {
     const res = await post(`${opts.url}/api/runs`, crowd[k].token, { name: `watched ${k}`, spec: { ...tinySpec(k + 1), duration_Myr: 50 } });
-    if (res.status === 201) watched.push({ id: res.json.runs[0].id, token: crowd[k].token });
+    if (res.status !== 201) throw new Error(`a run to watch was refused: ${res.status} ${JSON.stringify(res.json)}`);
+    watched.push({ id: res.json.runs[0].id, token: crowd[k].token });
   }
   // Each run is watched by its owner, as many times over as there are watchers.
   const streams = await Promise.all(

@@ -11,8 +11,9 @@ async function main(): Promise<void> {
     const report = await runLoad({
       url,
       orm,
-      seconds: 30,
-      connections: 200,
+      // Shorter or smaller with INFALL_LOAD_SECONDS / INFALL_LOAD_CONNECTIONS, when trying things out.
+      seconds: Number(process.env.INFALL_LOAD_SECONDS ?? 30),
+      connections: Number(process.env.INFALL_LOAD_CONNECTIONS ?? 200),
       watchers: 300,
       submissions: 100,
       people: 20,

@@ -15,6 +15,8 @@ throwaway_env load "${INFALL_LOAD_PG_PORT:-57532}" "${INFALL_LOAD_REDIS_PORT:-57
   "${INFALL_LOAD_OAUTH_PORT:-57591}" "${INFALL_LOAD_SMTP_PORT:-57525}" "${INFALL_LOAD_OUTBOX_PORT:-57592}"
 export INFALL_WEB_DIR="$tmp/no-web" # the API alone is measured
 export INFALL_LOAD_URL="http://127.0.0.1:$INFALL_PORT"
+# The whole load comes from one address; the refused-token limit is not what is measured here.
+export INFALL_BAD_TOKEN_LIMIT="${INFALL_BAD_TOKEN_LIMIT:-1000000}"
 trap throwaway_cleanup INT TERM EXIT
 
 throwaway_services_up >&2

@@ -8,7 +8,11 @@ import { config } from '../../server/config';
 import { redisConnection, type RunJobData } from '../../server/queue';
 import { RunPool } from '../../worker/pool';
 import { runProcessor } from '../../worker/processor';
+import request from 'supertest';
 import { formatReport, runLoad } from '../load/load';
+import { signIn } from '../support/auth';
+import { uniqueLogin } from '../support/stack';
+import { Session } from '../../server/db/entities';
 
 jest.setTimeout(120_000);
 
@@ -46,4 +50,15 @@ test('a small load run: cookie and token reads, event-stream watchers and parall
   expect(report.watchers).toMatchObject({ opened: 12, errors: 0, sawEnd: 12 });
   expect(report.submissions).toMatchObject({ accepted: 12, refused: 0, errors: 0, notFinal: 0 });
   expect(report.submissions.finalWithin).toBeGreaterThanOrEqual(12);
+});
+
+test('a cookie-session read writes nothing to the session table (no touch on every request)', async () => {
+  const agent = request.agent(s.app);
+  await signIn(agent, uniqueLogin('touch'));
+  const expiries = async () => (await s.em().find(Session, {}, { fields: ['sid', 'expire'], disableIdentityMap: true })).map((r) => `${r.sid}:${r.expire.toISOString()}`).sort();
+  const before = await expiries();
+  await new Promise((r) => setTimeout(r, 1100)); // a touch would move an expiry by at least this
+  await agent.get('/api/runs').expect(200);
+  await agent.get('/api/runs').expect(200);
+  expect(await expiries()).toEqual(before);
 });
