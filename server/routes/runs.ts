@@ -57,7 +57,11 @@ export function runsRouter({ queue, signals, orm }: Deps): Router {
     const user = req.user!;
     const run = await findVisibleRun(em(), user, req.params.id);
     res.writeHead(200, { 'Content-Type': 'text/event-stream', 'Cache-Control': 'no-cache, no-transform', Connection: 'keep-alive', 'X-Accel-Buffering': 'no' });
-    const send = (event: RunEventName, data: unknown) => res.write(`event: ${event}\ndata: ${JSON.stringify(data)}\n\n`);
+    const send = (event: RunEventName, data: unknown, id?: number) => res.write(`${id === undefined ? '' : `id: ${id}\n`}event: ${event}\ndata: ${JSON.stringify(data)}\n\n`);
+    // Progress events carry their step as the event id: a client that reconnects (after a server
+    // restart, say) sends it back as Last-Event-ID and gets only newer progress, never an older step.
+    const lastEventId = Number(req.get('Last-Event-ID'));
+    let lastStep = Number.isSafeInteger(lastEventId) && lastEventId >= 0 ? lastEventId : -1;
     let closed = false;
     const finish = async () => {
       if (closed) return;
@@ -78,7 +82,11 @@ export function runsRouter({ queue, signals, orm }: Deps): Router {
     };
     // Subscribe before reading the state so an end in between is not missed.
     const unsubscribe = signals.subscribe(run.id, (s) => {
-      if (s.kind === 'progress') send('progress', s.progress);
+      if (s.kind === 'progress') {
+        if (s.progress.step <= lastStep) return;
+        lastStep = s.progress.step;
+        send('progress', s.progress, lastStep);
+      }
       else void finish();
     });
     const heartbeat = setInterval(() => res.write(': still here\n\n'), 15000);

@@ -80,20 +80,33 @@ function freePort(): Promise<number> {
   });
 }
 
-/** An event-stream client: the event names it got, and a promise for the stream's close. */
-function watch(port: number, token: string, runId: string): { events: string[]; closed: Promise<void> } {
+/** An event-stream client: the events it got (name and id), and a promise for the stream's close. */
+function watch(port: number, token: string, runId: string, lastEventId?: string): { events: string[]; ids: number[]; closed: Promise<void> } {
   const events: string[] = [];
+  const ids: number[] = [];
+  const headers: Record<string, string> = { Authorization: `Bearer ${token}`, ...(lastEventId ? { 'Last-Event-ID': lastEventId } : {}) };
   const closed = new Promise<void>((resolve, reject) => {
     http
-      .get({ host: '127.0.0.1', port, path: `/api/runs/${runId}/events`, headers: { Authorization: `Bearer ${token}` } }, (res) => {
+      .get({ host: '127.0.0.1', port, path: `/api/runs/${runId}/events`, headers }, (res) => {
         res.setEncoding('utf8');
-        res.on('data', (chunk: string) => events.push(...[...chunk.matchAll(/^event: (\w+)$/gm)].map((m) => m[1])));
+        let buffer = '';
+        res.on('data', (chunk: string) => {
+          buffer += chunk;
+          const blocks = buffer.split('\n\n');
+          buffer = blocks.pop()!;
+          for (const b of blocks) {
+            const name = /^event: (\w+)$/m.exec(b)?.[1];
+            if (name) events.push(name);
+            const id = /^id: (\d+)$/m.exec(b)?.[1];
+            if (id) ids.push(Number(id));
+          }
+        });
         res.on('end', resolve);
         res.on('error', resolve);
       })
       .on('error', reject);
   });
-  return { events, closed };
+  return { events, ids, closed };
 }
 
 async function submit(spec: RunSpec, name: string): Promise<string> {
@@ -221,4 +234,30 @@ test('Redis restarted during a run: the worker reconnects and the run finishes b
   expect(run.status).toBe('finished');
   await expectSameAsUninterrupted(id, runSimulation(spec));
   expect((await ledger()) - before).toBe(run.costInteractions);
+});
+
+test('a server restarted while event streams are open: the client reconnects with Last-Event-ID, gets only newer progress, and sees the end', async () => {
+  const spec = longSpec(16);
+  const id = await submit(spec, 'server restart');
+  const { secret } = await createToken(stack.orm.em.fork(), user, { name: 'restart', expiresInDays: 1 });
+  const port = await freePort();
+  const env = { INFALL_PORT: String(port), INFALL_WEB_DIR: '/nonexistent' };
+  let server = startProcess('server/index.ts', env);
+  await server.waitFor(/listening on/);
+  startProcess('worker/index.ts', WORKER_ENV);
+  const first = watch(port, secret, id);
+  await poll('some progress', async () => first.ids.length, (n) => n >= 3, 60_000);
+  await killHard(server); // the worst case: no goodbye to the clients
+  await first.closed;
+  expect(first.events).not.toContain('end');
+  const last = first.ids[first.ids.length - 1];
+
+  server = startProcess('server/index.ts', env);
+  await server.waitFor(/listening on/);
+  const again = watch(port, secret, id, String(last));
+  await again.closed;
+  expect(again.events[0]).toBe('state');
+  expect(again.events[again.events.length - 1]).toBe('end');
+  expect(again.ids.every((step) => step > last)).toBe(true);
+  expect((await finalRun(id)).status).toBe('finished');
 });
