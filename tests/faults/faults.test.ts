@@ -261,3 +261,24 @@ test('a server restarted while event streams are open: the client reconnects wit
   expect(again.ids.every((step) => step > last)).toBe(true);
   expect((await finalRun(id)).status).toBe('finished');
 });
+
+test('a run taken by a worker while PostgreSQL is down fails its job; once the database is back the reconciler puts it back and it finishes', async () => {
+  const spec = { ...longSpec(17), duration_Myr: 20 };
+  const w = startProcess('worker/index.ts', WORKER_ENV);
+  await w.waitFor(/taking runs/);
+  await stack.queue.pause(); // the job waits in Redis until the database is gone
+  const before = await ledger();
+  const id = await submit(spec, 'taken during an outage');
+  postgres.stop();
+  try {
+    await stack.queue.resume();
+    await w.waitFor(new RegExp(`job ${id} failed`), 60_000);
+  } finally {
+    postgres.start();
+  }
+  const run = await finalRun(id);
+  expect(run.status).toBe('finished');
+  expect(w.output()).toMatch(/reconciled: 1 requeued/);
+  await expectSameAsUninterrupted(id, runSimulation(spec));
+  expect((await ledger()) - before).toBe(run.costInteractions);
+});
