@@ -119,10 +119,10 @@ function watch(url: string, token: string, runId: string, limitMs: number): Prom
         firstMs ??= performance.now() - t0;
         text += c;
       });
-      res.on('end', () => resolve({ firstMs, sawEnd: /event: end/.test(text), error: false }));
+      res.on('end', () => (clearTimeout(limit), resolve({ firstMs, sawEnd: /event: end/.test(text), error: false })));
     });
-    req.on('error', () => resolve({ firstMs, sawEnd: false, error: true }));
-    setTimeout(() => req.destroy(), limitMs).unref();
+    req.on('error', () => (clearTimeout(limit), resolve({ firstMs, sawEnd: false, error: true })));
+    const limit = setTimeout(() => req.destroy(), limitMs);
   });
 }
 
