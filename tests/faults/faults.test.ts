@@ -152,12 +152,14 @@ test('a run whose worker is killed twice is taken over from its checkpoints and 
 test('a run whose workers keep dying is given up by BullMQ, then failed by the reconciler with the uncomputed part refunded', async () => {
   const env = { ...WORKER_ENV, INFALL_WORKER_MAX_STALLS: '1' };
   const before = await ledger();
-  const id = await submit(longSpec(12), 'keeps dying');
+  // Five times longer than the others: it must still be running at each kill, and is never computed to its end.
+  const id = await submit({ ...longSpec(12), duration_Myr: 1000 }, 'keeps dying');
   let lastStep = 0;
   for (let k = 0; k < 2; k++) {
     const w = startProcess('worker/index.ts', env);
     lastStep = await poll(`checkpoint past step ${lastStep}`, () => checkpointAt(id), (s) => s > lastStep, 90_000);
     await killHard(w);
+    expect((await runRow(id)).status).toBe('running');
   }
   startProcess('worker/index.ts', env);
   const run = await finalRun(id);
