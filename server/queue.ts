@@ -19,6 +19,10 @@ const RUN_ENDED_EVENT = 'run-ended';
 export class RunEndAnnouncer {
   private readonly producer = new QueueEventsProducer(config.queueName, { connection: redisConnection });
 
+  constructor() {
+    this.producer.on('error', (err) => console.error(`[queue] announcer: ${err.message}`));
+  }
+
   async announce(runId: string): Promise<void> {
     await this.producer.publishEvent({ eventName: RUN_ENDED_EVENT, jobId: runId }, 10_000);
   }
