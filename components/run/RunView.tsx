@@ -103,7 +103,6 @@ export function RunView({ id }: { id: string }) {
       actions={
         <>
           {live && mine ? <CancelButton run={r} /> : null}
-          {r.status === 'finished' && mine ? <ExtendRun run={r} /> : null}
           <Button small tone="secondary" label="Clone" onPress={() => router.push({ pathname: '/runs/new', params: { from: r.id } })} accessibilityHint="Opens the new-run form filled with this run's spec" />
           {r.pairId ? (
             <Button href={{ pathname: '/compare', params: { pair: r.pairId } }} small label="Compare the pair" testID="compare-pair" />
@@ -145,6 +144,7 @@ export function RunView({ id }: { id: string }) {
       )}
       {out ? <PlotsAtPlayhead plotted={plotted} playhead={playback.playhead} times={playback.times} /> : null}
       {out ? <Exports run={r} /> : null}
+      {r.status === 'finished' && mine ? <ExtendRun run={r} /> : null}
       {!out && isFinal(r.status) && r.status !== 'failed' ? <Notice tone="info">This run left no output to show.</Notice> : null}
     </Screen>
   );
