@@ -33,6 +33,15 @@ module.exports = {
       testMatch: ['<rootDir>/tests/app/**/*.test.tsx'],
     },
     {
+      // Stops and restarts PostgreSQL and Redis, so it runs alone, after the node project (tests/run.sh).
+      displayName: 'faults',
+      testEnvironment: 'node',
+      roots: ['<rootDir>/tests'],
+      testMatch: ['<rootDir>/tests/faults/**/*.test.ts'],
+      setupFiles: ['<rootDir>/tests/support/env.ts'],
+      transform: { '^.+\\.ts$': tsJest },
+    },
+    {
       displayName: 'e2e',
       testEnvironment: 'node',
       roots: ['<rootDir>/tests'],

@@ -9,6 +9,7 @@ export default defineConfig({
   port: config.db.port,
   dbName: config.db.dbName,
   user: config.db.user,
+  password: config.db.password,
   entities,
   extensions: [Migrator],
   migrations: {

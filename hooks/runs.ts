@@ -74,3 +74,15 @@ export function useCancelRun(id: string) {
     },
   });
 }
+
+/** Carries a finished run on by `more_Myr` from its last state. */
+export function useExtendRun(id: string) {
+  const qc = useQueryClient();
+  return useMutation({
+    mutationFn: (more_Myr: number) => api<RunSummary>(`/api/runs/${id}/extend`, { method: 'POST', body: { more_Myr } }),
+    onSuccess: () => {
+      void qc.invalidateQueries({ queryKey: runKeys.all });
+      void qc.invalidateQueries({ queryKey: ['usage'] });
+    },
+  });
+}

@@ -20,14 +20,17 @@ export const config = {
   port,
   publicUrl: env.INFALL_PUBLIC_URL ?? `http://${host}:${port}`,
   db: {
-    host,
+    // Other hosts' workers reach the database and Redis by these (README "Workers on several hosts").
+    host: env.INFALL_PG_HOST || host,
+    password: env.INFALL_PG_PASSWORD || undefined,
     port: int('INFALL_PG_PORT', 54329),
     dbName: env.INFALL_PG_DB ?? 'infall',
     user: env.INFALL_PG_USER ?? 'infall',
   },
-  redis: { host, port: int('INFALL_REDIS_PORT', 63799) },
+  redis: { host: env.INFALL_REDIS_HOST || host, port: int('INFALL_REDIS_PORT', 63799), password: env.INFALL_REDIS_PASSWORD || undefined },
   queueName: env.INFALL_QUEUE ?? 'infall-runs',
   workerThreads: Math.max(1, Number(env.INFALL_WORKER_THREADS ?? 2) | 0),
+  resilience: resilienceConfig(),
   webDir: env.INFALL_WEB_DIR ?? 'dist',
   // One snapshot download at most this large (the largest run the limits allow needs about 115 MiB).
   exportMaxBytes: count('INFALL_EXPORT_MAX_MB', 160) * 2 ** 20,
@@ -58,6 +61,23 @@ function authConfig() {
     // Per client address and 10 minutes. A classroom behind one address signs in together, hence the room.
     signInLimit: count('INFALL_SIGNIN_LIMIT', 120),
     badTokenLimit: count('INFALL_BAD_TOKEN_LIMIT', 30),
+  };
+}
+
+// How runs survive faults; README "Faults and checkpoints" explains each number.
+function resilienceConfig() {
+  return {
+    // A running run's state goes to PostgreSQL every this many steps or seconds, whichever comes first.
+    checkpointSteps: count('INFALL_CHECKPOINT_STEPS', 5000),
+    checkpointSeconds: count('INFALL_CHECKPOINT_SECONDS', 30),
+    // A worker holds a run's lock this long between renewals; a killed worker's run is taken over after it lapses.
+    lockMs: count('INFALL_WORKER_LOCK_MS', 30_000),
+    // A run whose worker died this many times is failed (and refunded) instead of handed out again.
+    maxStalls: count('INFALL_WORKER_MAX_STALLS', 2),
+    // The reconciler's period; it also runs when a worker starts.
+    reconcileSeconds: count('INFALL_RECONCILE_SECONDS', 60),
+    // How long a worker keeps retrying a result write while PostgreSQL is away.
+    storeRetrySeconds: count('INFALL_STORE_RETRY_SECONDS', 120),
   };
 }
 

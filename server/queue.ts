@@ -1,20 +1,45 @@
-import { Queue, QueueEvents, type ConnectionOptions } from 'bullmq';
+import { Queue, QueueEvents, QueueEventsProducer, type ConnectionOptions } from 'bullmq';
 import { EventEmitter } from 'node:events';
 import { config } from './config';
 import type { RunProgress } from '../shared/api/contract';
 
 // BullMQ keeps handed-in ioredis clients open, so it gets options, not clients.
-export const redisConnection: ConnectionOptions = { host: config.redis.host, port: config.redis.port, maxRetriesPerRequest: null };
+export const redisConnection: ConnectionOptions = { host: config.redis.host, port: config.redis.port, password: config.redis.password, maxRetriesPerRequest: null };
 
 export interface RunJobData {
   runId: string;
+  /** How many times the reconciler has put this run back in the queue (see services/reconciler.ts). */
+  requeues?: number;
+}
+
+/** The queue-stream event that says a run ended outside a worker (cancelled while queued, failed by the reconciler). */
+const RUN_ENDED_EVENT = 'run-ended';
+
+/** Tells every server process's event streams that a run ended, through the queue's Redis event stream. */
+export class RunEndAnnouncer {
+  private readonly producer = new QueueEventsProducer(config.queueName, { connection: redisConnection });
+
+  constructor() {
+    this.producer.on('error', (err) => console.error(`[queue] announcer: ${err.message}`));
+  }
+
+  async announce(runId: string): Promise<void> {
+    await this.producer.publishEvent({ eventName: RUN_ENDED_EVENT, jobId: runId }, 10_000);
+  }
+
+  close(): Promise<void> {
+    return this.producer.close();
+  }
 }
 
 export function openRunQueue(): Queue<RunJobData> {
-  return new Queue<RunJobData>(config.queueName, {
+  const queue = new Queue<RunJobData>(config.queueName, {
     connection: redisConnection,
     defaultJobOptions: { attempts: 1, removeOnComplete: 1000, removeOnFail: 1000 },
   });
+  // A Redis outage is waited out (the connection retries); an unheard 'error' would end the process.
+  queue.on('error', (err) => console.error(`[queue] ${err.message}`));
+  return queue;
 }
 
 export type RunSignal = { kind: 'progress'; progress: RunProgress } | { kind: 'end' };
@@ -26,6 +51,7 @@ export type RunSignal = { kind: 'progress'; progress: RunProgress } | { kind: 'e
 export class RunSignals {
   private readonly events: QueueEvents;
   private readonly hub = new EventEmitter();
+  private readonly announcer = new RunEndAnnouncer();
 
   constructor() {
     this.hub.setMaxListeners(0);
@@ -33,9 +59,11 @@ export class RunSignals {
     this.events.on('progress', ({ jobId, data }) => {
       if (data && typeof data === 'object') this.hub.emit(jobId, { kind: 'progress', progress: data as RunProgress });
     });
-    for (const name of ['completed', 'failed'] as const) {
-      this.events.on(name, ({ jobId }: { jobId: string }) => this.hub.emit(jobId, { kind: 'end' }));
+    for (const name of ['completed', 'failed', RUN_ENDED_EVENT] as const) {
+      this.events.on(name as 'completed', ({ jobId }: { jobId: string }) => this.hub.emit(jobId, { kind: 'end' }));
     }
+    // A Redis outage is waited out (the connection retries); it must not end the process.
+    this.events.on('error', (err) => console.error(`[server] queue events: ${err.message}`));
   }
 
   ready(): Promise<void> {
@@ -47,12 +75,16 @@ export class RunSignals {
     return () => this.hub.off(runId, listener);
   }
 
-  /** Lets a route announce the end of a run that never reached a worker (cancelled while queued). */
+  /**
+   * Lets a route announce the end of a run that never reached a worker (cancelled while queued):
+   * at once here, and through Redis to the other server processes.
+   */
   announceEnd(runId: string): void {
     this.hub.emit(runId, { kind: 'end' });
+    void this.announcer.announce(runId).catch((err) => console.error(`[server] could not announce the end of ${runId}: ${err.message}`));
   }
 
   close(): Promise<void> {
-    return this.events.close();
+    return Promise.all([this.events.close(), this.announcer.close()]).then(() => undefined);
   }
 }

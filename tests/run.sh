@@ -32,6 +32,8 @@ phase() {
 
 status=0
 phase 20m npx jest --selectProjects node app --ci "$@" || status=$?
+# Fault injection stops the shared PostgreSQL and Redis, so it runs on its own.
+if [ "$status" -eq 0 ]; then phase 15m npx jest --selectProjects faults --ci --runInBand || status=$?; fi
 
 # The end-to-end runs need the web build and a whole stack, seeded like a new user's.
 if [ "$status" -eq 0 ] && [ -z "${INFALL_SKIP_E2E:-}" ]; then

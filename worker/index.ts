@@ -1,12 +1,14 @@
 // The worker process: takes runs off the BullMQ queue and hands each to a pool thread.
+import { hostname } from 'node:os';
 import { Worker } from 'bullmq';
 import { config } from '../server/config';
 import { applyDirectKernelSetting, directKernelInUse } from '../shared/engine';
 import { openOrm } from '../server/db/orm';
-import { redisConnection, type RunJobData } from '../server/queue';
+import { openRunQueue, redisConnection, RunEndAnnouncer, type RunJobData } from '../server/queue';
 import { RunPool } from './pool';
 import { runProcessor } from './processor';
 import { notifyRunEnded } from '../server/services/notifications';
+import { reconcile } from '../server/services/reconciler';
 import { runProcess } from '../server/process';
 
 runProcess('worker', async () => {
@@ -14,19 +16,50 @@ runProcess('worker', async () => {
   applyDirectKernelSetting(process.env.INFALL_DIRECT_KERNEL);
   const orm = await openOrm();
   const pool = new RunPool(config.workerThreads);
-  const worker = new Worker<RunJobData>(config.queueName, runProcessor({ orm, pool, onEnded: (runId) => notifyRunEnded(orm.em.fork(), runId).then(() => undefined) }), {
-    connection: redisConnection,
-    concurrency: config.workerThreads,
-  });
+  const r = config.resilience;
+  const worker = new Worker<RunJobData>(
+    config.queueName,
+    runProcessor({
+      orm,
+      pool,
+      onEnded: (runId) => notifyRunEnded(orm.em.fork(), runId).then(() => undefined),
+      checkpointEvery: { steps: r.checkpointSteps, ms: 1000 * r.checkpointSeconds },
+      storeRetryMs: 1000 * r.storeRetrySeconds,
+    }),
+    {
+      connection: redisConnection,
+      concurrency: config.workerThreads,
+      name: `${hostname()}:${process.pid}`, // recorded on each job it takes
+      // A killed worker's runs are handed out again once their lock lapses; after maxStalls deaths, failed.
+      lockDuration: r.lockMs,
+      stalledInterval: r.lockMs,
+      maxStalledCount: r.maxStalls,
+    },
+  );
   worker.on('failed', (job, err) => console.error(`[worker] job ${job?.id} failed: ${err.message}`));
+  // Redis or PostgreSQL away for a while is waited out, not a reason to stop.
+  worker.on('error', (err) => console.error(`[worker] ${err.message}`));
   await worker.waitUntilReady();
   console.log(`[worker] taking runs from "${config.queueName}" with ${config.workerThreads} thread(s), direct sum in ${directKernelInUse() === 'wasm' ? 'WebAssembly SIMD' : 'JS'}`);
 
+  // At start and then periodically: runs the database and the queue disagree on are requeued or failed.
+  const queue = openRunQueue();
+  const announcer = new RunEndAnnouncer();
+  const pass = () =>
+    reconcile(orm, queue, { announceEnd: (id) => announcer.announce(id) }).then(
+      ({ requeued, failed }) => (requeued.length || failed.length) && console.log(`[worker] reconciled: ${requeued.length} requeued, ${failed.length} failed`),
+      (err) => console.error(`[worker] reconcile pass failed: ${err.message}`),
+    );
+  void pass();
+  const timer = setInterval(() => void pass(), 1000 * r.reconcileSeconds);
+
   // Stopping ends the pool's threads first, so the runs they held go back to the queue at once
-  // (the next worker starts them over) instead of holding the stop until they finish.
+  // (the next worker resumes them) instead of holding the stop until they finish.
   return async () => {
+    clearInterval(timer);
     await pool.close();
     await worker.close();
+    await Promise.allSettled([queue.close(), announcer.close()]);
     await orm.close();
   };
 });

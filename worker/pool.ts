@@ -1,10 +1,17 @@
 import path from 'node:path';
 import { MessageChannel } from 'node:worker_threads';
 import { Piscina } from 'piscina';
-import type { RunResult } from '../shared/engine';
+import type { RunCheckpoint, RunResult } from '../shared/engine';
 import { particleCount, type RunSpec } from '../shared/spec';
 import type { RunProgress } from '../shared/api/contract';
 import { createSharedField, dismissHelper, stopSharedField, type SharedField } from './sharedField';
+
+/** Checkpointing of one run: where to start, how often to hand out a new one, and to whom. */
+export interface RunCheckpointing {
+  resumeFrom?: RunCheckpoint;
+  every: { steps: number; ms: number };
+  onCheckpoint(checkpoint: RunCheckpoint): void;
+}
 
 export interface RunHandle {
   result: Promise<RunResult>;
@@ -50,7 +57,7 @@ export class RunPool {
     });
   }
 
-  start(spec: RunSpec, onProgress: (p: RunProgress) => void): RunHandle {
+  start(spec: RunSpec, onProgress: (p: RunProgress) => void, checkpointing?: RunCheckpointing): RunHandle {
     // A run handed in while the pool closes fails like the runs it interrupts (the worker then
     // puts it back in the queue), rather than starting a new thread after the close.
     if (this.closing) return { result: Promise.reject(new Error('The worker is stopping')), cancel: () => undefined, helped: Promise.resolve(0) };
@@ -64,8 +71,13 @@ export class RunPool {
     // the result counts once the task's last message (null) is in, so the final update is not lost.
     let drain: () => void = () => undefined;
     const drained = new Promise<void>((resolve) => (drain = resolve));
-    port1.on('message', (p: RunProgress | null) => (p === null ? drain() : onProgress(p)));
-    const run = this.pool.run({ spec, progressPort: port2, cancelFlag, sharedField }, { transferList: [port2] });
+    port1.on('message', (p: RunProgress | { checkpoint: RunCheckpoint } | null) => {
+      if (p === null) drain();
+      else if ('checkpoint' in p) checkpointing?.onCheckpoint(p.checkpoint);
+      else onProgress(p);
+    });
+    const task = { spec, progressPort: port2, cancelFlag, sharedField, resumeFrom: checkpointing?.resumeFrom, checkpointEvery: checkpointing?.every };
+    const run = this.pool.run(task, { transferList: [port2] });
     const result = this.track(run.then(async (r: RunResult) => (await drained, r))).finally(() => {
       port1.close();
       // Helpers leave even if the run's thread died before it could tell them.

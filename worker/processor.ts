@@ -1,8 +1,12 @@
 import { WaitingError, type Job } from 'bullmq';
 import type { Orm } from '../server/db/orm';
+import { Run } from '../server/db/entities';
 import type { RunJobData } from '../server/queue';
 import type { RunProgress } from '../shared/api/contract';
+import type { RunCheckpoint } from '../shared/engine';
+import { stepCount } from '../shared/spec';
 import { markRunning, markCancelled, markRequeued, recordProgress, isCancelRequested, storeResult, markFailed } from '../server/services/runResults';
+import { loadCheckpoint, saveCheckpoint } from '../server/services/checkpoints';
 import type { RunPool } from './pool';
 
 const PROGRESS_DB_EVERY_MS = 1000; // the database gets coarse progress; live events get every update
@@ -12,10 +16,32 @@ export interface ProcessorDeps {
   orm: Orm;
   pool: RunPool;
   onEnded?: (runId: string) => Promise<void>;
+  /** Checkpoint cadence (see config.resilience); off when absent. */
+  checkpointEvery?: { steps: number; ms: number };
+  /** How long a result write is retried while PostgreSQL is away (default 120 s). */
+  storeRetryMs?: number;
+}
+
+const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
+
+/** Retries `fn` with growing pauses until it succeeds, `stop()` says there is nothing left to do, or time is up. */
+async function retrying(what: string, limitMs: number, fn: () => Promise<void>, stop: () => Promise<boolean>): Promise<void> {
+  const deadline = Date.now() + limitMs;
+  for (let pause = 250; ; pause = Math.min(2 * pause, 5000)) {
+    try {
+      return await fn();
+    } catch (err) {
+      if (Date.now() + pause > deadline) throw err;
+      console.error(`[worker] ${what} failed (${err instanceof Error ? err.message : String(err)}); retrying in ${pause} ms`);
+      await sleep(pause);
+      // A write whose answer was lost may have landed: then it must not be made twice.
+      if (await stop().catch(() => false)) return;
+    }
+  }
 }
 
 /** Carries one queued run from the database through a pool thread and back. */
-export function runProcessor({ orm, pool, onEnded }: ProcessorDeps) {
+export function runProcessor({ orm, pool, onEnded, checkpointEvery, storeRetryMs = 120_000 }: ProcessorDeps) {
   return async (job: Job<RunJobData>, token?: string): Promise<{ status: string }> => {
     const { runId } = job.data;
     const em = orm.em.fork();
@@ -26,24 +52,66 @@ export function runProcessor({ orm, pool, onEnded }: ProcessorDeps) {
       return { status: 'cancelled' };
     }
 
-    let lastDbWrite = 0;
-    const handle = pool.start(run.spec, (p: RunProgress) => {
-      void job.updateProgress(p);
-      // Kept on the job until it ends, so a page opened mid-run can plot from t = 0.
-      void job.log(JSON.stringify(p)).catch(() => undefined);
-      const now = Date.now();
-      if (now - lastDbWrite >= PROGRESS_DB_EVERY_MS) {
-        lastDbWrite = now;
-        void recordProgress(orm.em.fork(), runId, p.percent / 100).catch(() => undefined);
+    // A run taken over from a worker that died (or extended after it finished) carries on from its
+    // last checkpoint; steps before it are neither computed nor stored again.
+    const saved = checkpointEvery ? await loadCheckpoint(em, runId) : null;
+    const resumeFrom = saved && saved.state.step <= stepCount(run.spec) ? saved : undefined;
+    if (resumeFrom) {
+      console.log(`[worker] run ${runId} resumes from its checkpoint at step ${resumeFrom.state.step}`);
+      await recordProgress(em, runId, resumeFrom.state.step / stepCount(run.spec));
+    }
+
+    // Checkpoints are written one at a time; one that arrives during a write replaces any still waiting.
+    let waiting: RunCheckpoint | null = null;
+    let newest: RunCheckpoint | null = null;
+    let writing: Promise<void> | null = null;
+    const writeCheckpoints = async () => {
+      for (let c = waiting; c; c = waiting) {
+        waiting = null;
+        await saveCheckpoint(orm.em.fork(), runId, c).catch((e) => console.error(`[worker] checkpoint of ${runId} not saved: ${e.message}`));
       }
-    });
+      writing = null;
+    };
+    const checkpointing = checkpointEvery && {
+      resumeFrom,
+      every: checkpointEvery,
+      onCheckpoint: (c: RunCheckpoint) => {
+        waiting = newest = c;
+        writing ??= writeCheckpoints();
+      },
+    };
+
+    let lastDbWrite = 0;
+    const handle = pool.start(
+      run.spec,
+      (p: RunProgress) => {
+        void job.updateProgress(p).catch(() => undefined);
+        // Kept on the job until it ends, so a page opened mid-run can plot from t = 0.
+        void job.log(JSON.stringify(p)).catch(() => undefined);
+        const now = Date.now();
+        if (now - lastDbWrite >= PROGRESS_DB_EVERY_MS) {
+          lastDbWrite = now;
+          void recordProgress(orm.em.fork(), runId, p.percent / 100).catch(() => undefined);
+        }
+      },
+      checkpointing || undefined,
+    );
     const poll = setInterval(() => {
       void isCancelRequested(orm.em.fork(), runId).then((yes) => yes && handle.cancel(), () => undefined);
     }, CANCEL_POLL_MS);
 
     try {
       const result = await handle.result;
-      await storeResult(orm.em.fork(), runId, result);
+      await writing;
+      const ended = async () => {
+        const row = await orm.em.fork().findOne(Run, { id: runId }, { fields: ['status'], disableIdentityMap: true });
+        return row !== null && row.status !== 'running';
+      };
+      // PostgreSQL may be away for a while: the finished result waits for it rather than being lost.
+      await retrying(`storing run ${runId}`, storeRetryMs, async () => {
+        if (newest) await saveCheckpoint(orm.em.fork(), runId, newest); // the state an extension starts from
+        await storeResult(orm.em.fork(), runId, result);
+      }, ended);
       return { status: result.cancelled ? 'cancelled' : 'finished' };
     } catch (err) {
       if (pool.closing) {

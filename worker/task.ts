@@ -3,7 +3,7 @@
 // MessagePort and cancelling comes in through a shared flag the parent sets.
 // `fieldHelper` lends its thread to another task's split force sum.
 import type { MessagePort } from 'node:worker_threads';
-import { applyDirectKernelSetting, runSimulation, type RunResult } from '../shared/engine';
+import { applyDirectKernelSetting, runSimulation, type RunCheckpoint, type RunResult } from '../shared/engine';
 import type { RunSpec } from '../shared/spec';
 import { serveSharedField, SplitDirectSolver, stopSharedField, type SharedField } from './sharedField';
 
@@ -16,15 +16,20 @@ export interface RunTask {
   cancelFlag: Int32Array; // over a SharedArrayBuffer; 1 means stop
   /** Present when the pool lent helper threads to this run's direct sum. */
   sharedField?: SharedField;
+  /** Carry on from this checkpoint; new checkpoints go out on the port as `{ checkpoint }`. */
+  resumeFrom?: RunCheckpoint;
+  checkpointEvery?: { steps: number; ms: number };
 }
 
-export default function runTask({ spec, progressPort, cancelFlag, sharedField }: RunTask): RunResult {
+export default function runTask({ spec, progressPort, cancelFlag, sharedField, resumeFrom, checkpointEvery }: RunTask): RunResult {
   try {
     const result = runSimulation(spec, {
       onProgress: (p) => progressPort.postMessage(p),
       shouldCancel: () => Atomics.load(cancelFlag, 0) === 1,
       snapshotVelocities: true, // stored with the frames for export
       ...(sharedField ? { solver: new SplitDirectSolver(sharedField) } : {}),
+      ...(resumeFrom ? { resumeFrom } : {}),
+      ...(checkpointEvery ? { checkpointEvery, onCheckpoint: (checkpoint: RunCheckpoint) => progressPort.postMessage({ checkpoint }) } : {}),
     });
     progressPort.postMessage(null); // no more progress: see RunPool.start
     return result;

@@ -26,6 +26,7 @@ import { RunFacts } from './RunFacts';
 import { SnapshotFileButton } from './SnapshotFileButton';
 import { SnapshotPlayer } from './SnapshotPlayer';
 import { SpecTable } from './SpecTable';
+import { ExtendRun } from './ExtendRun';
 
 function CancelButton({ run }: { run: RunDetail }) {
   const cancel = useCancelRun(run.id);
@@ -152,6 +153,7 @@ export function RunView({ id }: { id: string }) {
       )}
       {out ? <PlotsAtPlayhead plotted={plotted} playhead={playback.playhead} times={playback.times} /> : null}
       {out ? <Exports run={r} /> : null}
+      {r.status === 'finished' && mine ? <ExtendRun run={r} /> : null}
       {!out && isFinal(r.status) && r.status !== 'failed' ? <Notice tone="info">This run left no output to show.</Notice> : null}
     </Screen>
   );

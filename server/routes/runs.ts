@@ -8,6 +8,7 @@ import { FINAL_STATUSES, type RunEventName } from '../../shared/api/contract';
 import { Run } from '../db/entities';
 import { SNAPSHOT_WIRE_FORMAT } from '../../shared/api/snapshots';
 import { submitRuns, listRuns, findVisibleRun, runDetail, snapshotBytes, cancelRun, toSummary, progressSoFar } from '../services/runs';
+import { extendRun } from '../services/extend';
 import type { Deps } from '../app';
 
 const em = () => RequestContext.getEntityManager() as EntityManager;
@@ -53,27 +54,47 @@ export function runsRouter({ queue, signals, orm }: Deps): Router {
     res.status(202).json(toSummary(run));
   });
 
+  r.post('/:id/extend', async (req, res) => {
+    const run = await findVisibleRun(em(), req.user!, req.params.id);
+    res.status(202).json(toSummary(await extendRun(em(), queue, req.user!, run, req.body)));
+  });
+
   // Live progress as server-sent events: `state` first, then for a running run the `history`
   // of its progress so far, `progress` while it runs, `end` last.
   r.get('/:id/events', async (req, res) => {
     const user = req.user!;
     const run = await findVisibleRun(em(), user, req.params.id);
     res.writeHead(200, { 'Content-Type': 'text/event-stream', 'Cache-Control': 'no-cache, no-transform', Connection: 'keep-alive', 'X-Accel-Buffering': 'no' });
-    const send = (event: RunEventName, data: unknown) => res.write(`event: ${event}\ndata: ${JSON.stringify(data)}\n\n`);
+    const send = (event: RunEventName, data: unknown, id?: number) => res.write(`${id === undefined ? '' : `id: ${id}\n`}event: ${event}\ndata: ${JSON.stringify(data)}\n\n`);
+    // Progress events carry their step as the event id: a client that reconnects (after a server
+    // restart, say) sends it back as Last-Event-ID and gets only newer progress, never an older step.
+    const lastEventId = Number(req.get('Last-Event-ID'));
+    let lastStep = Number.isSafeInteger(lastEventId) && lastEventId >= 0 ? lastEventId : -1;
     let closed = false;
     const finish = async () => {
       if (closed) return;
       closed = true;
       unsubscribe();
       clearInterval(heartbeat);
-      const fresh = await orm.em.fork().findOne(Run, { id: run.id }, { populate: ['owner'] });
-      if (fresh) send('state', toSummary(fresh));
-      send('end', { status: fresh?.status ?? run.status });
+      try {
+        const fresh = await orm.em.fork().findOne(Run, { id: run.id }, { populate: ['owner'] });
+        if (fresh) send('state', toSummary(fresh));
+        // The queue may say a job ended before the database does (a write still retrying, or the
+        // reconciler about to act): then the stream closes with no end and the client reconnects.
+        if (!fresh || FINAL_STATUSES.includes(fresh.status)) send('end', { status: fresh?.status ?? run.status });
+      } catch (err) {
+        // PostgreSQL away: no end can be told; closing makes the client reconnect and resume.
+        console.error(`[server] event stream of run ${run.id}: ${err instanceof Error ? err.message : String(err)}`);
+      }
       res.end();
     };
     // Subscribe before reading the state so an end in between is not missed.
     const unsubscribe = signals.subscribe(run.id, (s) => {
-      if (s.kind === 'progress') send('progress', s.progress);
+      if (s.kind === 'progress') {
+        if (s.progress.step <= lastStep) return;
+        lastStep = s.progress.step;
+        send('progress', s.progress, lastStep);
+      }
       else void finish();
     });
     const heartbeat = setInterval(() => res.write(': still here\n\n'), 15000);

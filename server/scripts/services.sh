@@ -129,8 +129,29 @@ wait_for_url() {
   return 1
 }
 
-# Starts the fakes, the server and a worker in the background, appending their
-# process ids to the caller's `pids` array. With a folder, their output goes to logs there.
+# Runs one process of the stack and starts it again whenever it ends, so a crashed worker
+# (or server) comes back while the rest keeps serving. A process that keeps dying at once is
+# restarted more slowly (up to a 30 s pause). TERM or INT stops the process and the loop.
+supervise() {
+  local name="$1" entry="$2" child="" rc pause=1 started
+  trap 'if [ -n "$child" ]; then kill -TERM "$child" 2>/dev/null || true; wait "$child" 2>/dev/null || true; fi; exit 0' TERM INT
+  while true; do
+    started=$SECONDS
+    node --import tsx "$entry" &
+    child=$!
+    rc=0
+    wait "$child" || rc=$?
+    if [ $((SECONDS - started)) -ge 60 ]; then pause=1; else pause=$((pause * 2 > 30 ? 30 : pause * 2)); fi
+    echo "[infall] $name ended (exit $rc); starting it again in ${pause} s" >&2
+    sleep "$pause" &
+    child=$!
+    wait "$child" || true
+  done
+}
+
+# Starts the fakes, the server and a worker in the background, each under `supervise`,
+# appending the supervisors' process ids to the caller's `pids` array. With a folder,
+# their output goes to logs there.
 start_stack_processes() {
   local logdir="${1:-}"
   local name
@@ -139,9 +160,9 @@ start_stack_processes() {
     [ "$name" = server ] && entry="server/index.ts"
     [ "$name" = worker ] && entry="worker/index.ts"
     if [ -n "$logdir" ]; then
-      node --import tsx "$entry" >"$logdir/$name.log" 2>&1 &
+      supervise "$name" "$entry" >>"$logdir/$name.log" 2>&1 &
     else
-      node --import tsx "$entry" &
+      supervise "$name" "$entry" &
     fi
     pids+=($!)
   done

@@ -47,5 +47,6 @@ start_stack_processes
 
 wait_for_url "http://127.0.0.1:$INFALL_PORT/api/health" 90
 node --import tsx server/scripts/banner.ts
+# Each process is restarted by its supervisor when it ends (see supervise in services.sh).
 wait -n "${pids[@]}" || true
-echo "[infall] a process of the stack ended; stopping the rest" >&2
+echo "[infall] a supervisor of the stack ended; stopping the rest" >&2

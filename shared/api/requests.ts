@@ -24,3 +24,11 @@ export const listRunsQuerySchema = z
   })
   .strict();
 export type ListRunsQuery = z.infer<typeof listRunsQuerySchema>;
+
+// Body of POST /api/runs/:id/extend: carry a finished run on by this much more simulated time.
+export const extendRunBodySchema = z
+  .object({
+    more_Myr: z.number().positive('more_Myr must be above 0').max(1e6, 'more_Myr is at most 1e6'),
+  })
+  .strict();
+export type ExtendRunBody = z.infer<typeof extendRunBodySchema>;

@@ -6,7 +6,7 @@ import { timescalesFor, type EngineWarning, type Timescales } from './timescales
 
 export { runSimulation, RESULT_UNITS } from './run';
 export { ENGINE_VERSION } from './version';
-export type { EquilibriumRecord, RunHooks, RunProgress, RunResult, RunSummary, Snapshot, QuantityMeaning } from './run';
+export type { EquilibriumRecord, RunHooks, RunProgress, RunResult, RunSummary, Snapshot, QuantityMeaning, RunCheckpoint } from './run';
 export { analyticCurves, CURVE_BINS } from './analytic';
 export type { AnalyticCurves, AnalyticCurveOptions } from './analytic';
 export { lawInfo, LAW_MODULES, lawSchema } from './laws/registry';

@@ -7,9 +7,9 @@ import { lawInfo } from './laws/registry';
 import type { LawInfo } from './laws/types';
 import { balancedSystems, type Component } from './models';
 import { measureRotationCurve, type RotationCurve } from './rotationCurves';
-import { Simulation } from './simulation';
+import { Simulation, type SimulationState } from './simulation';
 import type { FieldSolver } from './solvers';
-import { firstNonFinite, type ParticleState } from './state';
+import { cloneParticles, firstNonFinite, type ParticleState } from './state';
 import { timescalesFor, type EngineWarning, type Timescales } from './timescales';
 import { toomreProfile } from './toomre';
 
@@ -35,6 +35,25 @@ export interface RunHooks {
    * as that solver, so results stay a function of the spec alone.
    */
   solver?: FieldSolver;
+  /** Continues from a checkpoint this spec's run (or a shorter run of it) produced. */
+  resumeFrom?: RunCheckpoint;
+  /** Called with a copy of the run so far every `checkpointEvery.steps` steps or `.ms` milliseconds, whichever comes first. */
+  onCheckpoint?(checkpoint: RunCheckpoint): void;
+  checkpointEvery?: { steps: number; ms: number };
+}
+
+/**
+ * Everything the run loop needs to carry on as if never stopped: the
+ * simulation state and what the loop has collected so far. Resuming from it
+ * gives the same result, bit for bit, as the uninterrupted run.
+ */
+export interface RunCheckpoint {
+  state: SimulationState;
+  forceEvaluations: number;
+  diagnostics: DiagnosticSample[];
+  snapshots: Snapshot[];
+  reference: DriftReference | null;
+  initialCurve: RotationCurve;
 }
 
 export interface Snapshot {
@@ -115,6 +134,10 @@ function equilibriumRecord(spec: RunSpec, initialClausiusRatio: number): Equilib
   };
 }
 
+function copyState(s: SimulationState): SimulationState {
+  return { particles: cloneParticles(s.particles), step: s.step, rng: s.rng.slice() };
+}
+
 /** An evenly spread subset of indices, the same for every snapshot. */
 function snapshotSubset(n: number, max: number): Uint32Array {
   if (n <= max) return Uint32Array.from({ length: n }, (_, i) => i);
@@ -123,7 +146,10 @@ function snapshotSubset(n: number, max: number): Uint32Array {
 
 /** Runs a spec to completion (or cancellation). Synchronous and pure: same spec, same result, bit for bit. */
 export function runSimulation(spec: RunSpec, hooks: RunHooks = {}): RunResult {
-  const sim = new Simulation(spec, undefined, hooks.solver);
+  const resume = hooks.resumeFrom;
+  // The checkpoint is copied, so the caller's stays a record of where it was taken.
+  const sim = new Simulation(spec, resume && copyState(resume.state), hooks.solver);
+  if (resume) sim.forceEvaluations = resume.forceEvaluations;
   const { timescales, warnings } = timescalesFor(spec, sim.initial);
   const total = sim.totalSteps;
   const diagEvery = spec.diagnosticsEvery ?? Math.max(1, Math.ceil(total / DEFAULT_DIAGNOSTIC_SAMPLES));
@@ -132,10 +158,10 @@ export function runSimulation(spec: RunSpec, hooks: RunHooks = {}): RunResult {
   const curveRadius = sim.initial.massModel.extent_kpc;
   const info = sim.law.info;
 
-  const diagnostics: DiagnosticSample[] = [];
-  const snapshots: Snapshot[] = [];
-  let reference: DriftReference | null = null;
-  let latestDrift: number | null = null;
+  const diagnostics: DiagnosticSample[] = resume ? resume.diagnostics.slice() : [];
+  const snapshots: Snapshot[] = resume ? resume.snapshots.slice() : [];
+  let reference: DriftReference | null = resume?.reference ?? null;
+  let latestDrift: number | null = diagnostics.length ? diagnostics[diagnostics.length - 1].energyDrift : null;
 
   const diskPart = spec.model.kind === 'disk' ? sim.initial.components.find((c) => c.label === 'disk') : undefined;
   const diskModel = spec.model.kind === 'disk' ? spec.model : null;
@@ -171,10 +197,33 @@ export function runSimulation(spec: RunSpec, hooks: RunHooks = {}): RunResult {
       energyDrift: latestDrift,
     });
 
-  const initialCurve = measureRotationCurve(sim.particles, sim.law, curveRadius, CURVE_BINS, 0, 0, sim.initial.components);
-  diagnose();
-  snapshot();
+  let initialCurve: RotationCurve;
+  if (resume) {
+    initialCurve = resume.initialCurve;
+  } else {
+    initialCurve = measureRotationCurve(sim.particles, sim.law, curveRadius, CURVE_BINS, 0, 0, sim.initial.components);
+    diagnose();
+    snapshot();
+  }
   report();
+
+  const every = hooks.onCheckpoint ? hooks.checkpointEvery ?? { steps: Infinity, ms: Infinity } : null;
+  let lastCheckpointStep = sim.state.step;
+  let lastCheckpointAt = Date.now();
+  const checkpointDue = () =>
+    every !== null && (sim.state.step - lastCheckpointStep >= every.steps || Date.now() - lastCheckpointAt >= every.ms);
+  const checkpoint = () => {
+    lastCheckpointStep = sim.state.step;
+    lastCheckpointAt = Date.now();
+    hooks.onCheckpoint?.({
+      state: copyState(sim.state),
+      forceEvaluations: sim.forceEvaluations,
+      diagnostics: diagnostics.slice(),
+      snapshots: snapshots.slice(),
+      reference,
+      initialCurve,
+    });
+  };
 
   let cancelled = false;
   while (!sim.done) {
@@ -196,6 +245,8 @@ export function runSimulation(spec: RunSpec, hooks: RunHooks = {}): RunResult {
     if (diagNow) diagnose();
     if (step % spec.snapshotEvery === 0 || last) snapshot();
     if (diagNow || step % progressEvery === 0) report();
+    // Taken after the step's samples, so a resumed run never samples a step twice.
+    if (checkpointDue() || (last && every !== null)) checkpoint();
   }
   // A cancelled run still ends with a sample and a frame of where it stopped.
   if (cancelled && diagnostics[diagnostics.length - 1].step !== sim.state.step) {

@@ -128,3 +128,22 @@ test('cancelling asks twice, then posts with the CSRF token', async () => {
   expect(post.path).toBe(`/api/runs/${ID}/cancel`);
   expect(post.headers['X-CSRF-Token']).toBe('tok-1');
 });
+
+test('a finished run of mine can be carried on by more time, posted with the CSRF token', async () => {
+  const calls = mockApi({
+    'GET /api/auth/me': { body: { user: { ...owner, role: 'researcher', email: null }, csrfToken: 'tok-2' } },
+    [`GET /api/runs/${ID}`]: { body: { ...summary, status: 'finished', progress: 1, spec, output: finishedOutput() } },
+    [`GET /api/runs/${ID}/snapshots`]: { bytes: snapshots },
+    [`POST /api/runs/${ID}/extend`]: { status: 202, body: { ...summary, steps: 30, status: 'queued', progress: 20 / 30 } },
+  });
+  const { view } = render(<RunView id={ID} />);
+  await settle();
+  // Half the run's own duration is offered first.
+  expect(view.getByDisplayValue('5')).toBeTruthy();
+  press(view.getByTestId('extend-run'));
+  await settle();
+  const post = calls.find((c) => c.method === 'POST')!;
+  expect(post.path).toBe(`/api/runs/${ID}/extend`);
+  expect(post.body).toEqual({ more_Myr: 5 });
+  expect(post.headers['X-CSRF-Token']).toBe('tok-2');
+});

@@ -2,6 +2,7 @@ import { User } from './User';
 import { Run } from './Run';
 import { RunOutput } from './RunOutput';
 import { RunSnapshot } from './RunSnapshot';
+import { RunCheckpoint } from './RunCheckpoint';
 import { Session } from './Session';
 import { ApiToken } from './ApiToken';
 import { Cohort } from './Cohort';
@@ -10,5 +11,5 @@ import { CohortTemplate } from './CohortTemplate';
 import { Allocation } from './Allocation';
 import { UsageEntry } from './UsageEntry';
 
-export { User, Run, RunOutput, RunSnapshot, Session, ApiToken, Cohort, CohortMember, CohortTemplate, Allocation, UsageEntry };
-export const entities = [User, Run, RunOutput, RunSnapshot, Session, ApiToken, Cohort, CohortMember, CohortTemplate, Allocation, UsageEntry];
+export { User, Run, RunOutput, RunSnapshot, RunCheckpoint, Session, ApiToken, Cohort, CohortMember, CohortTemplate, Allocation, UsageEntry };
+export const entities = [User, Run, RunOutput, RunSnapshot, RunCheckpoint, Session, ApiToken, Cohort, CohortMember, CohortTemplate, Allocation, UsageEntry];
