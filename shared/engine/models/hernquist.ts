@@ -1,5 +1,5 @@
 import type { RngState } from '../rng';
-import { isotropicDirection, uniform } from '../rng';
+import { isotropicDirection, MAX_REJECTION_DRAWS, rejectionGaveUp, uniform } from '../rng';
 import type { ParticleState } from '../state';
 import { G } from '../units';
 import { sphericalModel, type MassModel } from './massModel';
@@ -42,7 +42,10 @@ export function hernquistModel(p: HernquistParams): MassModel {
 export function sampleHernquistRadius(p: HernquistParams, rng: RngState): number {
   const Xc = massFraction(hernquistTruncation(p), p.scale_kpc);
   let X = 0;
-  while (X === 0) X = uniform(rng) * Xc;
+  for (let t = 0; X === 0; t++) {
+    if (t === MAX_REJECTION_DRAWS) throw rejectionGaveUp('Hernquist radius');
+    X = uniform(rng) * Xc;
+  }
   return radiusOfFraction(X, p.scale_kpc);
 }
 
@@ -76,7 +79,8 @@ export function sampleHernquist(p: HernquistParams, rng: RngState, out: Particle
     };
     const bound = 1.1 * peakOf(density, wEsc);
     let w = 0;
-    for (;;) {
+    for (let t = 0; ; t++) {
+      if (t === MAX_REJECTION_DRAWS) throw rejectionGaveUp('Hernquist speed');
       w = uniform(rng) * wEsc;
       if (uniform(rng) * bound < density(w)) break;
     }

@@ -1,5 +1,5 @@
 import type { RngState } from '../rng';
-import { isotropicDirection, uniform } from '../rng';
+import { isotropicDirection, MAX_REJECTION_DRAWS, rejectionGaveUp, uniform } from '../rng';
 import type { ParticleState } from '../state';
 import { G } from '../units';
 import { sphericalModel, type MassModel } from './massModel';
@@ -48,12 +48,16 @@ export function samplePlummer(p: PlummerParams, rng: RngState, out: ParticleStat
   const vScale = Math.sqrt((2 * G * p.mass_Msun) / a);
   for (let i = start; i < start + count; i++) {
     let X = 0;
-    while (X === 0) X = uniform(rng) * Xc;
+    for (let t = 0; X === 0; t++) {
+      if (t === MAX_REJECTION_DRAWS) throw rejectionGaveUp('Plummer radius');
+      X = uniform(rng) * Xc;
+    }
     const r = radiusOfFraction(X, a);
     const [ux, uy, uz] = isotropicDirection(rng);
     // 0.1 bounds q^2 (1-q^2)^(7/2), whose maximum is about 0.092.
     let q = 0;
-    for (;;) {
+    for (let t = 0; ; t++) {
+      if (t === MAX_REJECTION_DRAWS) throw rejectionGaveUp('Plummer speed');
       q = uniform(rng);
       if (0.1 * uniform(rng) < q * q * (1 - q * q) ** 3.5) break;
     }
