@@ -10,6 +10,9 @@ export default defineConfig({
   dbName: config.db.dbName,
   user: config.db.user,
   entities,
+  // A request waits at most this long for a connection, then answers 503 (server/errors.ts).
+  pool: { acquireTimeoutMillis: config.serviceTimeoutMs },
+  driverOptions: { connection: { connectionTimeoutMillis: config.serviceTimeoutMs } },
   extensions: [Migrator],
   migrations: {
     path: './server/db/migrations',

@@ -6,6 +6,8 @@ import type { RunProgress } from '../shared/api/contract';
 // BullMQ keeps handed-in ioredis clients open, so it gets options, not clients.
 export const redisConnection: ConnectionOptions = { host: config.redis.host, port: config.redis.port, maxRetriesPerRequest: null };
 
+export const RUN_ATTEMPTS = 3;
+
 export interface RunJobData {
   runId: string;
 }
@@ -13,7 +15,9 @@ export interface RunJobData {
 export function openRunQueue(): Queue<RunJobData> {
   return new Queue<RunJobData>(config.queueName, {
     connection: redisConnection,
-    defaultJobOptions: { attempts: 1, removeOnComplete: 1000, removeOnFail: 1000 },
+    // A job that throws (a lost database write, say) is tried three times, then failed for good
+    // by the worker's final-failure handler (worker/processor.ts failForGood).
+    defaultJobOptions: { attempts: RUN_ATTEMPTS, backoff: { type: 'exponential', delay: 5000 }, removeOnComplete: 1000, removeOnFail: 1000 },
   });
 }
 

@@ -4,7 +4,8 @@ import { config } from '../server/config';
 import { openOrm } from '../server/db/orm';
 import { redisConnection, type RunJobData } from '../server/queue';
 import { RunPool } from './pool';
-import { runProcessor } from './processor';
+import { failForGood, runProcessor } from './processor';
+import { startHeartbeat } from './heartbeat';
 import { notifyRunEnded } from '../server/services/notifications';
 import { runProcess } from '../server/process';
 
@@ -15,13 +16,18 @@ runProcess('worker', async () => {
     connection: redisConnection,
     concurrency: config.workerThreads,
   });
-  worker.on('failed', (job, err) => console.error(`[worker] job ${job?.id} failed: ${err.message}`));
+  worker.on('failed', (job, err) => {
+    console.error(`[worker] job ${job?.id} failed: ${err.message}`);
+    if (job) void failForGood(orm, job, err);
+  });
   await worker.waitUntilReady();
+  const heartbeat = startHeartbeat(pool, config.workerThreads);
   console.log(`[worker] taking runs from "${config.queueName}" with ${config.workerThreads} thread(s)`);
 
   // Stopping ends the pool's threads first, so the runs they held go back to the queue at once
   // (the next worker starts them over) instead of holding the stop until they finish.
   return async () => {
+    await heartbeat.stop();
     await pool.close();
     await worker.close();
     await orm.close();

@@ -59,3 +59,18 @@ export function runProcessor({ orm, pool, onEnded }: ProcessorDeps) {
     }
   };
 }
+
+/**
+ * A job BullMQ has given up on (its attempts used, or stalled too often because the
+ * process running it died each time) fails its run for good with the reason, refunded
+ * like any failure, so it cannot come back as a poison pill. Earlier failures are retried.
+ */
+export async function failForGood(orm: Orm, job: Job<RunJobData>, err: Error): Promise<void> {
+  const stalledOut = /stalled more than allowable limit/.test(err.message);
+  if (!stalledOut && job.attemptsMade < (job.opts.attempts ?? 1)) return;
+  const tries = Math.max(1, job.attemptsMade);
+  const why = stalledOut ? 'its worker stopped while running it too many times' : err.message;
+  await markFailed(orm.em.fork(), job.data.runId, `The run failed for good after ${tries} attempt${tries === 1 ? '' : 's'}: ${why}`).catch((e) =>
+    console.error(`[worker] could not mark run ${job.data.runId} failed`, e),
+  );
+}

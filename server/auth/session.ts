@@ -31,6 +31,7 @@ export function sessionMiddleware(): RequestHandler {
       database: config.db.dbName,
       user: config.db.user,
       max: 5,
+      connectionTimeoutMillis: config.serviceTimeoutMs,
       // Idle connections don't keep a finished process (or test) alive.
       allowExitOnIdle: true,
     },

@@ -58,7 +58,8 @@ export function runsRouter({ queue, signals, orm }: Deps): Router {
       closed = true;
       unsubscribe();
       clearInterval(heartbeat);
-      const fresh = await orm.em.fork().findOne(Run, { id: run.id }, { populate: ['owner'] });
+      // With the database away the stream still ends, with the status it last knew.
+      const fresh = await orm.em.fork().findOne(Run, { id: run.id }, { populate: ['owner'] }).catch(() => null);
       if (fresh) send('state', toSummary(fresh));
       send('end', { status: fresh?.status ?? run.status });
       res.end();
