@@ -50,6 +50,11 @@ export function runProcessor({ orm, pool, onEnded }: ProcessorDeps) {
         await job.moveToWait(token);
         throw new WaitingError();
       }
+      // A thread the watchdog ended after a cancel it did not answer is a cancelled run, not a failed one.
+      if (await isCancelRequested(orm.em.fork(), runId).catch(() => false)) {
+        await markCancelled(orm.em.fork(), runId);
+        return { status: 'cancelled' };
+      }
       const reason = err instanceof Error ? err.message : String(err);
       await markFailed(orm.em.fork(), runId, `The engine stopped with an error: ${reason}`);
       return { status: 'failed' };

@@ -170,9 +170,13 @@ export async function cancelRun(em: EntityManager, queue: Queue<RunJobData>, use
   run.cancelRequested = true;
   let endedNow = false;
   if (run.status === 'queued') {
-    const job = await queue.getJob(run.id);
     // remove() fails when a worker has just locked the job; then the worker sees the flag.
-    const removed = job ? await job.remove().then(() => true, () => false) : true;
+    // With the queue away the flag is kept too: whichever worker later takes the job ends it.
+    const removed = await withTimeout(
+      queue.getJob(run.id).then((job) => (job ? job.remove().then(() => true, () => false) : true)),
+      'The queue',
+      config.serviceTimeoutMs,
+    ).catch(() => false);
     if (removed) {
       refundUncomputed(em, run, 0);
       run.status = 'cancelled';

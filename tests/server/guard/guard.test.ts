@@ -226,6 +226,12 @@ describe('health tells the truth', () => {
       expect(submit.status).toBe(503);
       expect(submit.body.error).toMatchObject({ code: 'UNAVAILABLE', message: expect.stringMatching(/queue/) });
       expect(await s.em().count(Run, { owner: researcher.user.id })).toBe(before);
+      // Cancelling a queued run still answers, and keeps the request for whichever worker takes it.
+      const em = s.em();
+      const queued = em.create(Run, { id: crypto.randomUUID(), owner: researcher.user.id, name: 'queued while Redis is away', spec: spec(), modelKind: 'plummer', lawKind: 'newton', particles: 500, steps: 250, costInteractions: 1e6 });
+      await em.flush();
+      await request(server).post(`/api/runs/${queued.id}/cancel`).set(researcher.auth).expect(202);
+      expect(await s.em().findOneOrFail(Run, { id: queued.id })).toMatchObject({ status: 'queued', cancelRequested: true });
     } finally {
       await startRedis();
     }
