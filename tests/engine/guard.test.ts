@@ -1,5 +1,9 @@
 // Degenerate specs are refused at validation naming the field; a run whose energy
 // runs away fails with the likely cause instead of finishing with a drift of 1e29.
+import { spawnSync } from 'node:child_process';
+import { mkdtempSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
 import { defaultRunSpec, parseRunSpec } from '../../shared/spec';
 import { runSimulation } from '../../shared/engine';
 import { samplePlummer } from '../../shared/engine/models/plummer';
@@ -82,4 +86,13 @@ describe('numerical blow-up fails the run naming the likely cause', () => {
     expect(res.cancelled).toBe(false);
     expect(Math.abs(res.summary.maxAbsEnergyDrift!)).toBeLessThan(1);
   });
+});
+
+test('the command line refuses unknown fields too, naming them', () => {
+  const root = join(__dirname, '..', '..');
+  const file = join(mkdtempSync(join(tmpdir(), 'infall-guard-cli-')), 'extra.json');
+  writeFileSync(file, JSON.stringify({ ...base(), solver: { kind: 'direct', theta: 0.5 } }));
+  const r = spawnSync(process.execPath, [require.resolve('tsx/cli'), join(root, 'shared/engine/cli.ts'), 'run', file], { cwd: root, encoding: 'utf8' });
+  expect(r.status).toBe(2);
+  expect(r.stderr).toMatch(/^solver: .*"theta"/m);
 });
