@@ -11,6 +11,9 @@ export default defineConfig({
   user: config.db.user,
   password: config.db.password,
   entities,
+  // A request waits at most this long for a connection, then answers 503 (server/errors.ts).
+  pool: { acquireTimeoutMillis: config.serviceTimeoutMs },
+  driverOptions: { connection: { connectionTimeoutMillis: config.serviceTimeoutMs } },
   extensions: [Migrator],
   migrations: {
     path: './server/db/migrations',

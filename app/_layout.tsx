@@ -1,3 +1,4 @@
+import '../shared/zodSetup';
 import { useState } from 'react';
 import { StyleSheet, View } from 'react-native';
 import { Slot } from 'expo-router';

@@ -7,9 +7,11 @@ import type { Orm } from './db/orm';
 import type { RunJobData, RunSignals } from './queue';
 import { errorHandler, notFoundHandler } from './errors';
 import { mountAuth } from './auth';
-import { healthRouter } from './routes/health';
+import { healthDeadline, healthRouter } from './routes/health';
 import { runsRouter } from './routes/runs';
 import { exportsRouter } from './routes/exports';
+import { securityHeaders, requestLogs, createLogger } from './http/headers';
+import type { Logger } from 'pino';
 
 export interface Deps {
   orm: Orm;
@@ -18,16 +20,19 @@ export interface Deps {
 }
 
 /** The HTTP application: thin routes over services, wired to the given resources. */
-export function createApp(deps: Deps, opts: { webDir?: string } = {}): Express {
+export function createApp(deps: Deps, opts: { webDir?: string; logger?: Logger } = {}): Express {
   const app = express();
   app.disable('x-powered-by');
   app.set('trust proxy', 'loopback');
-  app.use(express.json({ limit: '4mb' }));
+  app.use(requestLogs(opts.logger ?? createLogger()));
+  app.use(securityHeaders());
   app.use((_req, _res, next) => RequestContext.create(deps.orm.em, next));
 
+  // Bodies are read after authentication (server/http/body.ts, mounted by mountAuth).
   const api = express.Router();
-  api.use('/health', healthRouter(deps));
+  api.use('/health', healthDeadline);
   mountAuth(app, api, deps);
+  api.use('/health', healthRouter(deps));
   api.use('/runs', runsRouter(deps));
   api.use('/runs', exportsRouter());
   api.use(notFoundHandler);

@@ -29,6 +29,8 @@ export const config = {
   },
   redis: { host: env.INFALL_REDIS_HOST || host, port: int('INFALL_REDIS_PORT', 63799), password: env.INFALL_REDIS_PASSWORD || undefined },
   queueName: env.INFALL_QUEUE ?? 'infall-runs',
+  /** How long a request waits on PostgreSQL (connecting) or Redis before it answers 503. */
+  serviceTimeoutMs: count('INFALL_SERVICE_TIMEOUT_MS', 3000, 60_000),
   workerThreads: Math.max(1, Number(env.INFALL_WORKER_THREADS ?? 2) | 0),
   resilience: resilienceConfig(),
   webDir: env.INFALL_WEB_DIR ?? 'dist',
@@ -61,6 +63,8 @@ function authConfig() {
     // Per client address and 10 minutes. A classroom behind one address signs in together, hence the room.
     signInLimit: count('INFALL_SIGNIN_LIMIT', 120),
     badTokenLimit: count('INFALL_BAD_TOKEN_LIMIT', 30),
+    // E-mails one person's requests may send per hour (cohort invitations).
+    mailLimit: count('INFALL_MAIL_LIMIT', 100),
   };
 }
 

@@ -6,6 +6,8 @@ import type { RunProgress } from '../shared/api/contract';
 // BullMQ keeps handed-in ioredis clients open, so it gets options, not clients.
 export const redisConnection: ConnectionOptions = { host: config.redis.host, port: config.redis.port, password: config.redis.password, maxRetriesPerRequest: null };
 
+export const RUN_ATTEMPTS = 3;
+
 export interface RunJobData {
   runId: string;
   /** How many times the reconciler has put this run back in the queue (see services/reconciler.ts). */
@@ -35,7 +37,9 @@ export class RunEndAnnouncer {
 export function openRunQueue(): Queue<RunJobData> {
   const queue = new Queue<RunJobData>(config.queueName, {
     connection: redisConnection,
-    defaultJobOptions: { attempts: 1, removeOnComplete: 1000, removeOnFail: 1000 },
+    // A job that throws (a lost database write, say) is tried three times, then failed for good
+    // by the worker's final-failure handler (worker/processor.ts failForGood).
+    defaultJobOptions: { attempts: RUN_ATTEMPTS, backoff: { type: 'exponential', delay: 5000 }, removeOnComplete: 1000, removeOnFail: 1000 },
   });
   // A Redis outage is waited out (the connection retries); an unheard 'error' would end the process.
   queue.on('error', (err) => console.error(`[queue] ${err.message}`));

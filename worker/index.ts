@@ -6,7 +6,8 @@ import { applyDirectKernelSetting, directKernelInUse } from '../shared/engine';
 import { openOrm } from '../server/db/orm';
 import { openRunQueue, redisConnection, RunEndAnnouncer, type RunJobData } from '../server/queue';
 import { RunPool } from './pool';
-import { runProcessor } from './processor';
+import { failForGood, runProcessor } from './processor';
+import { startHeartbeat } from './heartbeat';
 import { notifyRunEnded } from '../server/services/notifications';
 import { reconcile } from '../server/services/reconciler';
 import { runProcess } from '../server/process';
@@ -36,10 +37,14 @@ runProcess('worker', async () => {
       maxStalledCount: r.maxStalls,
     },
   );
-  worker.on('failed', (job, err) => console.error(`[worker] job ${job?.id} failed: ${err.message}`));
+  worker.on('failed', (job, err) => {
+    console.error(`[worker] job ${job?.id} failed: ${err.message}`);
+    if (job) void failForGood(orm, job, err);
+  });
   // Redis or PostgreSQL away for a while is waited out, not a reason to stop.
   worker.on('error', (err) => console.error(`[worker] ${err.message}`));
   await worker.waitUntilReady();
+  const heartbeat = startHeartbeat(pool, config.workerThreads);
   console.log(`[worker] taking runs from "${config.queueName}" with ${config.workerThreads} thread(s), direct sum in ${directKernelInUse() === 'wasm' ? 'WebAssembly SIMD' : 'JS'}`);
 
   // At start and then periodically: runs the database and the queue disagree on are requeued or failed.
@@ -57,6 +62,7 @@ runProcess('worker', async () => {
   // (the next worker resumes them) instead of holding the stop until they finish.
   return async () => {
     clearInterval(timer);
+    await heartbeat.stop();
     await pool.close();
     await worker.close();
     await Promise.allSettled([queue.close(), announcer.close()]);

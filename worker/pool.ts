@@ -2,7 +2,7 @@ import path from 'node:path';
 import { MessageChannel } from 'node:worker_threads';
 import { Piscina } from 'piscina';
 import type { RunCheckpoint, RunResult } from '../shared/engine';
-import { particleCount, type RunSpec } from '../shared/spec';
+import { estimateInteractions, particleCount, type RunSpec } from '../shared/spec';
 import type { RunProgress } from '../shared/api/contract';
 import { createSharedField, dismissHelper, stopSharedField, type SharedField } from './sharedField';
 
@@ -12,6 +12,19 @@ export interface RunCheckpointing {
   every: { steps: number; ms: number };
   onCheckpoint(checkpoint: RunCheckpoint): void;
 }
+
+/**
+ * A run thread that sends no progress for this long is taken as hung and terminated:
+ * a fixed allowance for start-up plus the time one percent of the run's estimated
+ * interactions would take at 1e7 per second, twenty times slower than the engine's
+ * bench (our own bound). Progress is reported at least every 1 % of the steps.
+ */
+export const STALL_BASE_MS = 120_000;
+const SLOWEST_INTERACTIONS_PER_MS = 1e4;
+export const stallLimitMs = (spec: RunSpec): number => STALL_BASE_MS + estimateInteractions(spec) / 100 / SLOWEST_INTERACTIONS_PER_MS;
+/** A cancelled run's thread gets this long to stop by itself before it is terminated. */
+export const CANCEL_GRACE_MS = 10_000;
+const WATCHDOG_EVERY_MS = 1000;
 
 export interface RunHandle {
   result: Promise<RunResult>;
@@ -57,7 +70,11 @@ export class RunPool {
     });
   }
 
-  start(spec: RunSpec, onProgress: (p: RunProgress) => void, checkpointing?: RunCheckpointing): RunHandle {
+  /** Runs whose thread has been quiet for more than half its stall limit, and threads terminated so far. */
+  readonly watch = { quiet: 0, terminated: 0 };
+  private readonly quiet = new Set<object>();
+
+  start(spec: RunSpec, onProgress: (p: RunProgress) => void, checkpointing?: RunCheckpointing, limits: { stallMs?: number } = {}): RunHandle {
     // A run handed in while the pool closes fails like the runs it interrupts (the worker then
     // puts it back in the queue), rather than starting a new thread after the close.
     if (this.closing) return { result: Promise.reject(new Error('The worker is stopping')), cancel: () => undefined, helped: Promise.resolve(0) };
@@ -71,14 +88,44 @@ export class RunPool {
     // the result counts once the task's last message (null) is in, so the final update is not lost.
     let drain: () => void = () => undefined;
     const drained = new Promise<void>((resolve) => (drain = resolve));
+    // The watchdog: a thread that stops reporting, or ignores a cancel, is terminated (piscina
+    // replaces it), and the run fails with the reason instead of holding the thread for ever.
+    let lastSign = Date.now();
+    let cancelledAt: number | null = null;
+    let stopReason: string | null = null;
+    const stallMs = limits.stallMs ?? stallLimitMs(spec);
+    const abort = new AbortController();
+    const me = {};
+    const watchdog = setInterval(() => {
+      const quietFor = Date.now() - lastSign;
+      if (quietFor > stallMs / 2) this.quiet.add(me);
+      this.watch.quiet = this.quiet.size;
+      if (quietFor > stallMs) stopReason = `the run sent no progress for ${Math.round(stallMs / 1000)} s and its thread was terminated`;
+      else if (cancelledAt !== null && Date.now() - cancelledAt > CANCEL_GRACE_MS) stopReason = `the run did not stop within ${CANCEL_GRACE_MS / 1000} s of being cancelled and its thread was terminated`;
+      if (stopReason && !abort.signal.aborted) {
+        this.watch.terminated++;
+        abort.abort(new Error(stopReason));
+      }
+    }, WATCHDOG_EVERY_MS);
     port1.on('message', (p: RunProgress | { checkpoint: RunCheckpoint } | null) => {
+      lastSign = Date.now();
+      this.quiet.delete(me);
       if (p === null) drain();
       else if ('checkpoint' in p) checkpointing?.onCheckpoint(p.checkpoint);
       else onProgress(p);
     });
     const task = { spec, progressPort: port2, cancelFlag, sharedField, resumeFrom: checkpointing?.resumeFrom, checkpointEvery: checkpointing?.every };
-    const run = this.pool.run(task, { transferList: [port2] });
-    const result = this.track(run.then(async (r: RunResult) => (await drained, r))).finally(() => {
+    const run = this.pool.run(task, { transferList: [port2], signal: abort.signal });
+    const settled = run.then(
+      async (r: RunResult) => (await drained, r),
+      (err: unknown) => {
+        throw stopReason ? new Error(stopReason) : err;
+      },
+    );
+    const result = this.track(settled).finally(() => {
+      clearInterval(watchdog);
+      this.quiet.delete(me);
+      this.watch.quiet = this.quiet.size;
       port1.close();
       // Helpers leave even if the run's thread died before it could tell them.
       if (sharedField) {
@@ -94,7 +141,11 @@ export class RunPool {
       const tasks = Array.from({ length: helpers }, () => this.track(this.pool.run({ sharedField }, { name: 'fieldHelper' }) as Promise<number>).catch(() => 0));
       helped = Promise.all(tasks).then((counts) => counts.reduce((a, b) => a + b, 0));
     }
-    return { result, cancel: () => Atomics.store(cancelFlag, 0, 1), helped };
+    const cancel = () => {
+      Atomics.store(cancelFlag, 0, 1);
+      cancelledAt ??= Date.now();
+    };
+    return { result, cancel, helped };
   }
 
   /** Dismisses one helper of a split run; its thread then takes the next queued task. */

@@ -120,6 +120,11 @@ export function runProcessor({ orm, pool, onEnded, checkpointEvery, storeRetryMs
         await job.moveToWait(token);
         throw new WaitingError();
       }
+      // A thread the watchdog ended after a cancel it did not answer is a cancelled run, not a failed one.
+      if (await isCancelRequested(orm.em.fork(), runId).catch(() => false)) {
+        await markCancelled(orm.em.fork(), runId);
+        return { status: 'cancelled' };
+      }
       const reason = err instanceof Error ? err.message : String(err);
       await markFailed(orm.em.fork(), runId, `The engine stopped with an error: ${reason}`);
       return { status: 'failed' };
@@ -129,4 +134,19 @@ export function runProcessor({ orm, pool, onEnded, checkpointEvery, storeRetryMs
       if (onEnded) await onEnded(runId).catch((e) => console.error('[worker] after-run hook failed', e));
     }
   };
+}
+
+/**
+ * A job BullMQ has given up on (its attempts used, or stalled too often because the
+ * process running it died each time) fails its run for good with the reason, refunded
+ * like any failure, so it cannot come back as a poison pill. Earlier failures are retried.
+ */
+export async function failForGood(orm: Orm, job: Job<RunJobData>, err: Error): Promise<void> {
+  const stalledOut = /stalled more than allowable limit/.test(err.message);
+  if (!stalledOut && job.attemptsMade < (job.opts.attempts ?? 1)) return;
+  const tries = Math.max(1, job.attemptsMade);
+  const why = stalledOut ? 'its worker stopped while running it too many times' : err.message;
+  await markFailed(orm.em.fork(), job.data.runId, `The run failed for good after ${tries} attempt${tries === 1 ? '' : 's'}: ${why}`).catch((e) =>
+    console.error(`[worker] could not mark run ${job.data.runId} failed`, e),
+  );
 }

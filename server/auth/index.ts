@@ -1,4 +1,4 @@
-import { Router, type Express, type RequestHandler } from 'express';
+import { Router, type Express, type Request, type RequestHandler } from 'express';
 import { RequestContext } from '@mikro-orm/core';
 import type { EntityManager } from '@mikro-orm/postgresql';
 import type { Deps } from '../app';
@@ -8,6 +8,7 @@ import { installAfterCommit } from '../services/after-commit';
 import { createPassport } from './passport';
 import { sessionMiddleware } from './session';
 import { csrfGuard } from './csrf';
+import { jsonBodies } from '../http/body';
 import { badTokenLimiter, signInLimiter } from './limits';
 import { authRouter } from '../routes/auth';
 import { accountRouter } from '../routes/account';
@@ -18,15 +19,21 @@ import { adminRouter } from '../routes/admin';
 
 // A request is authenticated either by "Authorization: Bearer <personal token>" or
 // by the session cookie, never both: with the header present the session is not read.
-const tokenAuth: RequestHandler = async (req, _res, next) => {
-  const [scheme, secret] = (req.get('authorization') ?? '').split(' ');
-  if (scheme?.toLowerCase() !== 'bearer' || !secret) throw new ApiError('UNAUTHENTICATED', 'Authorization must be "Bearer <personal API token>"');
-  const user = await userForToken(RequestContext.getEntityManager() as EntityManager, secret.trim());
-  if (!user) throw new ApiError('UNAUTHENTICATED', 'That API token is unknown, expired or revoked');
-  req.user = user;
-  req.authVia = 'token';
-  next();
-};
+// Each refused token counts against the address (see badTokenLimiter).
+function tokenAuth(refused: (req: Request) => Promise<void>): RequestHandler {
+  return async (req, _res, next) => {
+    const [scheme, secret] = (req.get('authorization') ?? '').split(' ');
+    const user = scheme?.toLowerCase() === 'bearer' && secret ? await userForToken(RequestContext.getEntityManager() as EntityManager, secret.trim()) : null;
+    if (!user) {
+      await refused(req);
+      if (scheme?.toLowerCase() !== 'bearer' || !secret) throw new ApiError('UNAUTHENTICATED', 'Authorization must be "Bearer <personal API token>"');
+      throw new ApiError('UNAUTHENTICATED', 'That API token is unknown, expired or revoked');
+    }
+    req.user = user;
+    req.authVia = 'token';
+    next();
+  };
+}
 
 /**
  * Sign-in, sessions, tokens, CSRF and the account-side routes, mounted on the API
@@ -41,9 +48,11 @@ export function mountAuth(_app: Express, api: Router, deps: Deps): void {
     next();
   });
   const tokenChain = Router();
-  tokenChain.use(badTokenLimiter(), tokenAuth);
+  const tokenLimit = badTokenLimiter();
+  tokenChain.use(tokenLimit.guard, tokenAuth(tokenLimit.refused));
   api.use((req, res, next) => (req.get('authorization') !== undefined ? tokenChain(req, res, next) : sessionChain(req, res, next)));
   api.use(csrfGuard);
+  api.use(jsonBodies());
 
   api.use(['/auth/signin', '/auth/callback'], signInLimiter());
   api.use('/auth', authRouter(auth));

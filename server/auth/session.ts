@@ -32,6 +32,7 @@ export function sessionMiddleware(): RequestHandler {
       user: config.db.user,
       // As many as the ORM's pool: each cookie request reads its session here (see `npm run load`).
       max: 10,
+      connectionTimeoutMillis: config.serviceTimeoutMs,
       // Idle connections don't keep a finished process (or test) alive.
       allowExitOnIdle: true,
     },

@@ -17,11 +17,13 @@ import {
 } from '../services/cohorts';
 import { publishTemplate, templatesOf, toTemplateDetail, toTemplateSummary } from '../services/templates';
 import { idParam, parseInput } from './input';
+import { mailLimiter } from '../auth/limits';
 
 const em = () => RequestContext.getEntityManager() as EntityManager;
 
 export function cohortsRouter(): Router {
   const r = Router();
+  const mail = mailLimiter();
   r.use(requireUser);
 
   r.post('/', requireRole('instructor', 'admin'), async (req, res) => {
@@ -67,6 +69,7 @@ export function cohortsRouter(): Router {
   r.post('/:id/invitations', async (req, res) => {
     const c = await findManagedCohort(em(), req.user!, idParam(req.params.id, 'cohort'));
     const { emails } = parseInput(inviteBodySchema, req.body);
+    await mail.take(req.user!.id, emails.length);
     res.status(202).json({ sent: await inviteToCohort(c, req.user!, emails) });
   });
 

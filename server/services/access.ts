@@ -5,8 +5,11 @@ import { Cohort, CohortMember, type Run, type User } from '../db/entities';
 // Who may see and manage which runs: students and researchers their own, instructors
 // also (read-only) the runs of their cohorts' members, admins all.
 
+// Roles as they are now, on every request: an instructor reads a member's runs only while
+// the member is still a student (a promoted student's new runs are their own), and only
+// while the instructor is still an instructor.
 async function studentIdsOf(em: EntityManager, where: { cohort: number } | { cohort: { instructor: number } }): Promise<number[]> {
-  const members = await em.find(CohortMember, where, { fields: ['user'] });
+  const members = await em.find(CohortMember, { ...where, user: { role: 'student' } }, { fields: ['user'] });
   return [...new Set(members.map((m) => (m.user as User).id))];
 }
 
@@ -26,7 +29,7 @@ export async function canSeeRun(em: EntityManager, user: User, run: Run): Promis
   const ownerId = (run.owner as User).id;
   if (user.role === 'admin' || ownerId === user.id) return true;
   if (user.role !== 'instructor') return false;
-  return (await em.count(CohortMember, { user: ownerId, cohort: { instructor: user.id } })) > 0;
+  return (await em.count(CohortMember, { user: { id: ownerId, role: 'student' }, cohort: { instructor: user.id } })) > 0;
 }
 
 export async function canManageRun(_em: EntityManager, user: User, run: Run): Promise<boolean> {

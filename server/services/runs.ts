@@ -1,7 +1,8 @@
 import { randomUUID } from 'node:crypto';
 import type { EntityManager } from '@mikro-orm/postgresql';
 import type { Queue } from 'bullmq';
-import { ApiError } from '../errors';
+import { ApiError, withTimeout } from '../errors';
+import { config } from '../config';
 import { Run, RunOutput, RunSnapshot, type User } from '../db/entities';
 import { parseRunSpec, particleCount, stepCount, estimateInteractions, type RunSpec } from '../../shared/spec';
 import { submitRunBodySchema, type ListRunsQuery } from '../../shared/api/requests';
@@ -85,6 +86,8 @@ export function toSummary(run: Run): RunSummary {
  */
 export async function submitRuns(em: EntityManager, queue: Queue<RunJobData>, user: User, body: unknown): Promise<RunSummary[]> {
   const { name, specs } = specsFromBody(body);
+  // The queue must answer before anything is stored: with Redis away the request gets 503 and nothing is charged.
+  await withTimeout(queue.getBackend().client.then((c) => c.get('infall:ping')), 'The queue', config.serviceTimeoutMs);
   const pairId = specs.length > 1 ? randomUUID() : null;
   const runs = await em.transactional(async (tx) => {
     const costs = specs.map((s) => estimateInteractions(s));
@@ -104,7 +107,8 @@ export async function submitRuns(em: EntityManager, queue: Queue<RunJobData>, us
       }),
     );
   });
-  await queue.addBulk(runs.map((r) => ({ name: 'run', data: { runId: r.id }, opts: { jobId: r.id } })));
+  // Job ids are run ids, so a later add of the same run (after a timeout here) is a no-op.
+  await withTimeout(queue.addBulk(runs.map((r) => ({ name: 'run', data: { runId: r.id }, opts: { jobId: r.id } }))), 'The queue', config.serviceTimeoutMs);
   await em.populate(runs, ['owner']);
   return runs.map(toSummary);
 }
@@ -118,8 +122,11 @@ export async function listRuns(em: EntityManager, user: User, q: ListRunsQuery):
   return runs.map(toSummary);
 }
 
+// The exact 8-4-4-4-12 shape: anything else (36 dashes, say) would reach PostgreSQL as an invalid uuid.
+const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
+
 export async function findVisibleRun(em: EntityManager, user: User, id: string): Promise<Run> {
-  if (!/^[0-9a-f-]{36}$/i.test(id)) throw new ApiError('NOT_FOUND', `No run with id ${id}`);
+  if (!UUID.test(id)) throw new ApiError('NOT_FOUND', `No run with id ${id}`);
   const run = await em.findOne(Run, { id }, { populate: ['owner'] });
   // A run the user may not see is reported as missing, so ids can't be probed.
   if (!run || !(await canSeeRun(em, user, run))) throw new ApiError('NOT_FOUND', `No run with id ${id}`);
@@ -192,9 +199,13 @@ export async function cancelRun(em: EntityManager, queue: Queue<RunJobData>, use
   run.cancelRequested = true;
   let endedNow = false;
   if (run.status === 'queued') {
-    const job = await queue.getJob(run.id);
     // remove() fails when a worker has just locked the job; then the worker sees the flag.
-    const removed = job ? await job.remove().then(() => true, () => false) : true;
+    // With the queue away the flag is kept too: whichever worker later takes the job ends it.
+    const removed = await withTimeout(
+      queue.getJob(run.id).then((job) => (job ? job.remove().then(() => true, () => false) : true)),
+      'The queue',
+      config.serviceTimeoutMs,
+    ).catch(() => false);
     if (removed) {
       refundUncomputed(em, run, 0);
       run.status = 'cancelled';

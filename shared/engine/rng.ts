@@ -44,6 +44,14 @@ export function uniform(st: RngState): number {
   return (hi * 67_108_864 + lo) / 9_007_199_254_740_992;
 }
 
+/** A rejection sampler gives up after this many draws for one value instead of spinning for ever (our own bound). */
+export const MAX_REJECTION_DRAWS = 1_000_000;
+
+/** The error a sampler throws when it gives up: names the draw and the likely cause. */
+export function rejectionGaveUp(what: string): Error {
+  return new Error(`initial conditions: no acceptable ${what} in ${MAX_REJECTION_DRAWS} draws; the model's truncation radius is probably far below its scale radius`);
+}
+
 /** Uniform double in (0, 1): safe under logarithms. */
 export function uniformOpen(st: RngState): number {
   let u = uniform(st);

@@ -144,6 +144,23 @@ function snapshotSubset(n: number, max: number): Uint32Array {
   return Uint32Array.from({ length: max }, (_, k) => Math.floor((k * n) / max));
 }
 
+/**
+ * A relative energy drift |E - E0| / (K0 + |W0|) beyond this ends the run as blown up: the
+ * numbers then describe integration error, not the system. Laws that conserve energy get 1;
+ * laws that exchange energy with a field or a non-pairwise pull get 1000 (our own bounds).
+ */
+export const BLOW_UP_DRIFT = { conserving: 1, other: 1000 } as const;
+
+/** The likeliest cause of a blow-up, from the warnings the spec already earned. */
+export function blowUpCause(warnings: EngineWarning[], suggestedTimestep_Myr: number): string {
+  const has = (code: string) => warnings.some((w) => w.code === code);
+  if (has('no-softening')) return 'softening_kpc is 0, so close pairs get unbounded forces; raise softening_kpc';
+  if (has('timestep-coarse-for-softening') || has('timestep-coarse-for-crossing') || has('timestep-coarse-for-orbit')) {
+    return `timestep_Myr is too long for the closest orbits; lower it to about ${suggestedTimestep_Myr.toPrecision(2)} Myr or raise softening_kpc`;
+  }
+  return 'the initial conditions hold close pairs or are far from equilibrium for this law; check the model, or raise softening_kpc';
+}
+
 /** Runs a spec to completion (or cancellation). Synchronous and pure: same spec, same result, bit for bit. */
 export function runSimulation(spec: RunSpec, hooks: RunHooks = {}): RunResult {
   const resume = hooks.resumeFrom;
@@ -157,6 +174,7 @@ export function runSimulation(spec: RunSpec, hooks: RunHooks = {}): RunResult {
   const subset = snapshotSubset(sim.particles.n, hooks.maxSnapshotParticles ?? 5000);
   const curveRadius = sim.initial.massModel.extent_kpc;
   const info = sim.law.info;
+  const driftLimit = info.conservesEnergy ? BLOW_UP_DRIFT.conserving : BLOW_UP_DRIFT.other;
 
   const diagnostics: DiagnosticSample[] = resume ? resume.diagnostics.slice() : [];
   const snapshots: Snapshot[] = resume ? resume.snapshots.slice() : [];
@@ -236,13 +254,22 @@ export function runSimulation(spec: RunSpec, hooks: RunHooks = {}): RunResult {
     const broken = firstNonFinite(sim.particles);
     if (broken >= 0) {
       throw new Error(
-        `particle ${broken} left finite numbers at step ${step} (t = ${sim.time_Myr.toPrecision(4)} Myr): ` +
-          'a close pair met with too little softening or too long a timestep; raise softening_kpc or lower timestep_Myr',
+        `the run blew up: particle ${broken} left finite numbers at step ${step} (t = ${sim.time_Myr.toPrecision(4)} Myr); ` +
+          blowUpCause(warnings, timescales.suggestedTimestep_Myr),
       );
     }
     const last = sim.done;
     const diagNow = step % diagEvery === 0 || last;
-    if (diagNow) diagnose();
+    if (diagNow) {
+      diagnose();
+      const drift = latestDrift as number | null;
+      if (drift !== null && !(Math.abs(drift) <= driftLimit)) {
+        throw new Error(
+          `the run blew up: the energy changed by ${drift.toPrecision(3)} of its scale by step ${step} (t = ${sim.time_Myr.toPrecision(4)} Myr), ` +
+            `beyond the ${driftLimit} allowed; ${blowUpCause(warnings, timescales.suggestedTimestep_Myr)}`,
+        );
+      }
+    }
     if (step % spec.snapshotEvery === 0 || last) snapshot();
     if (diagNow || step % progressEvery === 0) report();
     // Taken after the step's samples, so a resumed run never samples a step twice.

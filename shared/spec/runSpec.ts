@@ -38,7 +38,7 @@ const equilibriumLaw = lawSchema
   .describe("law whose field the velocities are balanced in; defaults to the run's law (set it to compare laws from identical initial conditions)");
 
 const plummerSchema = z
-  .object({
+  .strictObject({
     kind: z.literal('plummer'),
     n: count,
     mass_Msun: mass,
@@ -49,7 +49,7 @@ const plummerSchema = z
   .describe('Plummer sphere: radii as Aarseth, Henon & Wielen (1974), isotropic velocities from the distribution function in the equilibrium law\'s field');
 
 const hernquistSchema = z
-  .object({
+  .strictObject({
     kind: z.literal('hernquist'),
     n: count,
     mass_Msun: mass,
@@ -60,7 +60,7 @@ const hernquistSchema = z
   .describe('Hernquist (1990) sphere, isotropic velocities from the distribution function in the equilibrium law\'s field');
 
 const diskSchema = z
-  .object({
+  .strictObject({
     kind: z.literal('disk'),
     n: count.describe('number of particles, disk and bulge together'),
     mass_Msun: mass.describe('disk mass'),
@@ -69,7 +69,7 @@ const diskSchema = z
     toomreQ: z.number().min(0.5).max(10).default(1.5).describe('Toomre (1964) stability parameter setting the radial dispersion'),
     truncationRadius_kpc: truncation,
     bulge: z
-      .object({ mass_Msun: mass, scale_kpc: length.describe('Hernquist scale radius of the bulge') })
+      .strictObject({ mass_Msun: mass, scale_kpc: length.describe('Hernquist scale radius of the bulge') })
       .optional()
       .describe('optional Hernquist bulge; particles are shared out in proportion to mass'),
     equilibriumLaw,
@@ -79,7 +79,7 @@ const diskSchema = z
 const systemSchema = z.discriminatedUnion('kind', [plummerSchema, hernquistSchema, diskSchema]);
 
 const encounterSchema = z
-  .object({
+  .strictObject({
     kind: z.literal('encounter'),
     primary: systemSchema,
     secondary: systemSchema,
@@ -91,7 +91,7 @@ const encounterSchema = z
   .describe('Two systems approaching on a parabolic orbit');
 
 const keplerSchema = z
-  .object({
+  .strictObject({
     kind: z.literal('kepler'),
     mass1_Msun: mass,
     mass2_Msun: mass,
@@ -103,11 +103,11 @@ const keplerSchema = z
 const coordinate = z.number().min(-1e5).max(1e5);
 const speed = z.number().min(-1e5).max(1e5);
 const tableSchema = z
-  .object({
+  .strictObject({
     kind: z.literal('table'),
     particles: z
       .array(
-        z.object({
+        z.strictObject({
           x_kpc: coordinate, y_kpc: coordinate, z_kpc: coordinate,
           vx_km_s: speed, vy_km_s: speed, vz_km_s: speed,
           mass_Msun: mass,
@@ -129,9 +129,9 @@ export const modelSchema = z.discriminatedUnion('kind', [
 ]);
 
 export const solverSchema = z.discriminatedUnion('kind', [
-  z.object({ kind: z.literal('direct') }).describe('direct pairwise sum'),
+  z.strictObject({ kind: z.literal('direct') }).describe('direct pairwise sum'),
   z
-    .object({ kind: z.literal('tree'), theta: z.number().min(0.1).max(1.5).default(0.6).describe('opening angle') })
+    .strictObject({ kind: z.literal('tree'), theta: z.number().min(0.1).max(1.5).default(0.6).describe('opening angle') })
     .describe('Barnes & Hut (1986) octree'),
 ]);
 
@@ -139,8 +139,27 @@ export const integratorSchema = z
   .enum(['leapfrog', 'yoshida4', 'rk4'])
   .describe('leapfrog kick-drift-kick; fourth-order symplectic (Yoshida 1990); classical RK4 (not symplectic)');
 
+/**
+ * A truncation radius below this fraction of the scale radius leaves a sliver of the
+ * profile's mass (below 1e-6 of it for Plummer and Hernquist) that the samplers
+ * cannot draw from, and is a point mass in all but name (our own bound).
+ */
+export const MIN_TRUNCATION_FRACTION = 0.01;
+
+function checkTruncation(m: { kind: string; truncationRadius_kpc?: number; scale_kpc?: number; scaleLength_kpc?: number }, path: (string | number)[], ctx: z.RefinementCtx): void {
+  const rt = m.truncationRadius_kpc;
+  const scale = m.kind === 'disk' ? m.scaleLength_kpc : m.scale_kpc;
+  const scaleName = m.kind === 'disk' ? 'scaleLength_kpc' : 'scale_kpc';
+  if (rt === undefined || scale === undefined || !(rt < MIN_TRUNCATION_FRACTION * scale)) return;
+  ctx.addIssue({
+    code: 'custom',
+    path: [...path, 'truncationRadius_kpc'],
+    message: `truncationRadius_kpc ${rt} is below ${MIN_TRUNCATION_FRACTION} x ${scaleName} (${scale}); the model would hold almost none of its mass`,
+  });
+}
+
 export const runSpecSchema = z
-  .object({
+  .strictObject({
     version: z.union([z.literal(1), z.literal(RUN_SPEC_VERSION)]).describe('2 is current; 1 is read with its own default for equilibriumLaw'),
     name: runNameSchema.optional(),
     model: modelSchema,
@@ -156,7 +175,12 @@ export const runSpecSchema = z
   })
   .superRefine((spec, ctx) => {
     const steps = stepsFor(spec.duration_Myr, spec.timestep_Myr);
-    if (!Number.isFinite(steps)) return; // the fields themselves are already reported
+    if (Number.isNaN(steps)) return; // the fields themselves are already reported
+    if (!Number.isFinite(steps)) {
+      // A subnormal timestep passes positive() but divides the duration into infinitely many steps.
+      ctx.addIssue({ code: 'custom', path: ['timestep_Myr'], message: `timestep_Myr ${spec.timestep_Myr} gives more than ${LIMITS.maxSteps} steps over duration_Myr` });
+      return;
+    }
     if (steps > LIMITS.maxSteps) {
       ctx.addIssue({
         code: 'custom',
@@ -179,6 +203,10 @@ export const runSpecSchema = z
       });
     }
     const m = spec.model;
+    if (m?.kind === 'encounter') {
+      if (m.primary) checkTruncation(m.primary, ['model', 'primary'], ctx);
+      if (m.secondary) checkTruncation(m.secondary, ['model', 'secondary'], ctx);
+    } else if (m) checkTruncation(m, ['model'], ctx);
     if (m?.kind === 'encounter' && m.primary && m.secondary) {
       if (m.primary.n + m.secondary.n > LIMITS.maxParticles) {
         ctx.addIssue({ code: 'custom', path: ['model', 'secondary', 'n'], message: `primary.n + secondary.n must be at most ${LIMITS.maxParticles}` });

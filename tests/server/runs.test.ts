@@ -9,6 +9,7 @@ import { RunPool } from '../../worker/pool';
 import { runProcessor } from '../../worker/processor';
 import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
+import { startHeartbeat } from '../../worker/heartbeat';
 import { defaultRunSpec, NAME_MAX_LENGTH } from '../../shared/spec';
 import { decodeSnapshots } from '../../shared/api/snapshots';
 
@@ -16,6 +17,7 @@ jest.setTimeout(90_000);
 
 let s: AuthStack;
 let pool: RunPool;
+let heartbeat: { stop(): Promise<void> };
 let worker: Worker<RunJobData> | null = null;
 let auth: { Authorization: string };
 let otherAuth: { Authorization: string };
@@ -23,11 +25,13 @@ let otherAuth: { Authorization: string };
 beforeAll(async () => {
   s = await openAuthStack(55531);
   pool = new RunPool(1);
+  heartbeat = startHeartbeat(pool, 1);
   auth = (await userWithToken(s, 'researcher', 'runs')).auth;
   otherAuth = (await userWithToken(s, 'researcher', 'runs-other')).auth;
 });
 
 afterAll(async () => {
+  await heartbeat.stop();
   await worker?.close();
   await pool.close();
   await s.queue.obliterate({ force: true });
@@ -171,8 +175,9 @@ describe('reading runs', () => {
   test('unknown API paths answer 404 in JSON; health reports database and queue', async () => {
     const res = await request(s.app).get('/api/nothing-here').expect(404);
     expect(res.body.error.code).toBe('NOT_FOUND');
+    // Anonymous callers get the status alone; this file's worker beats, so all is well.
     const health = await request(s.app).get('/api/health').expect(200);
-    expect(health.body).toMatchObject({ ok: true, database: { ok: true }, queue: { ok: true } });
+    expect(health.body).toEqual({ status: 'ok' });
   });
 });
 

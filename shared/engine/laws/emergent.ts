@@ -8,7 +8,7 @@ import { C_KM_S, G } from '../units';
 import { defineLaw, type LawInfo } from './types';
 
 const schema = z
-  .object({
+  .strictObject({
     kind: z.literal('emergent'),
     H0_km_s_Mpc: z.number().min(20).max(200).default(70).describe('Hubble constant; sets a_M = c H0 / 6'),
   })

@@ -6,7 +6,7 @@ import { defineLaw, type LawInfo } from './types';
 import type { Sources } from '../state';
 
 const schema = z
-  .object({
+  .strictObject({
     kind: z.literal('halo'),
     profile: z
       .enum(['nfw', 'cored-isothermal'])

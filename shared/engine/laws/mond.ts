@@ -4,7 +4,7 @@ import { accelFromSI } from '../units';
 import { defineLaw, type LawInfo } from './types';
 
 const schema = z
-  .object({
+  .strictObject({
     kind: z.literal('mond'),
     interpolation: z
       .enum(['simple', 'standard', 'rar'])

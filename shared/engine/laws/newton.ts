@@ -16,7 +16,7 @@ const info = (): LawInfo => ({
 
 export const newtonLaw = defineLaw({
   kind: 'newton',
-  schema: z.object({ kind: z.literal('newton') }).describe('Newtonian gravity, Plummer-softened'),
+  schema: z.strictObject({ kind: z.literal('newton') }).describe('Newtonian gravity, Plummer-softened'),
   info,
   create(_params, { solver, softening_kpc }) {
     const kernel = newtonKernel(softening_kpc);

@@ -4,7 +4,7 @@ import { defineLaw, type LawInfo } from './types';
 import type { PairKernel } from '../solvers/types';
 
 const schema = z
-  .object({
+  .strictObject({
     kind: z.literal('yukawa'),
     alpha: z.number().min(-1).max(10).describe('strength of the fifth force relative to Newton'),
     lambda_kpc: z.number().positive().max(1e4).describe('range of the fifth force'),

@@ -1,5 +1,5 @@
 import type { RngState } from '../rng';
-import { isotropicDirection, uniform } from '../rng';
+import { isotropicDirection, MAX_REJECTION_DRAWS, rejectionGaveUp, uniform } from '../rng';
 import type { ParticleState } from '../state';
 import { sphericalModel, type MassModel, type SphericalProfile } from './massModel';
 
@@ -39,7 +39,10 @@ export const hernquistModel = (p: HernquistParams): MassModel => sphericalModel(
 function sampleHernquistRadius(p: HernquistParams, rng: RngState): number {
   const Xc = massFraction(hernquistTruncation(p), p.scale_kpc);
   let X = 0;
-  while (X === 0) X = uniform(rng) * Xc;
+  for (let t = 0; X === 0; t++) {
+    if (t === MAX_REJECTION_DRAWS) throw rejectionGaveUp('Hernquist radius');
+    X = uniform(rng) * Xc;
+  }
   return radiusOfFraction(X, p.scale_kpc);
 }
 

@@ -1,5 +1,5 @@
 import type { RngState } from '../rng';
-import { isotropicDirection, uniform } from '../rng';
+import { isotropicDirection, MAX_REJECTION_DRAWS, rejectionGaveUp, uniform } from '../rng';
 import type { ParticleState } from '../state';
 import { sphericalModel, type MassModel, type SphericalProfile } from './massModel';
 
@@ -47,7 +47,10 @@ export function samplePlummerPositions(p: PlummerParams, rng: RngState, out: Par
   const m = p.mass_Msun / count;
   for (let i = start; i < start + count; i++) {
     let X = 0;
-    while (X === 0) X = uniform(rng) * Xc;
+    for (let t = 0; X === 0; t++) {
+      if (t === MAX_REJECTION_DRAWS) throw rejectionGaveUp('Plummer radius');
+      X = uniform(rng) * Xc;
+    }
     const r = radiusOfFraction(X, a);
     const [ux, uy, uz] = isotropicDirection(rng);
     out.x[i] = r * ux; out.y[i] = r * uy; out.z[i] = r * uz;

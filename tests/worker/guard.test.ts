@@ -1,0 +1,78 @@
+// A hung run thread is terminated and the pool goes on; a job BullMQ gives up on fails
+// its run for good with the reason. Real piscina threads, real BullMQ on Redis, real PostgreSQL.
+import { Worker } from 'bullmq';
+import { openTestStack, uniqueLogin, type TestStack } from '../support/stack';
+import { config } from '../../server/config';
+import { redisConnection, RUN_ATTEMPTS, type RunJobData } from '../../server/queue';
+import { Run, User } from '../../server/db/entities';
+import { submitRuns } from '../../server/services/runs';
+import { defaultRunSpec, parseRunSpec, type RunSpec } from '../../shared/spec';
+import { RunPool } from '../../worker/pool';
+import { failForGood } from '../../worker/processor';
+
+jest.setTimeout(90_000);
+
+let stack: TestStack;
+beforeAll(async () => {
+  stack = await openTestStack();
+});
+afterAll(async () => {
+  await stack.queue.obliterate({ force: true });
+  await stack.close();
+});
+
+function plummer(n: number, steps: number): RunSpec {
+  const r = parseRunSpec({ ...defaultRunSpec(), model: { kind: 'plummer', n, mass_Msun: 1e10, scale_kpc: 1 }, timestep_Myr: 0.1, duration_Myr: 0.1 * steps, snapshotEvery: steps });
+  if (!r.ok) throw new Error(JSON.stringify(r.issues));
+  return r.spec;
+}
+
+test('a thread that sends no progress within its limit is terminated; the run fails with the reason and the pool takes the next run', async () => {
+  const pool = new RunPool(1);
+  try {
+    // 30,000 particles: the first progress report waits for the initial energy, about 4.5e8
+    // pair terms, far longer than the 1 s limit given here.
+    const hung = pool.start(plummer(30_000, 1), () => undefined, undefined, { stallMs: 1000 });
+    await expect(hung.result).rejects.toThrow('the run sent no progress for 1 s and its thread was terminated');
+    expect(pool.watch.terminated).toBe(1);
+    const next = await pool.start(plummer(50, 4), () => undefined).result;
+    expect(next.cancelled).toBe(false);
+    expect(next.summary.stepsCompleted).toBe(4);
+  } finally {
+    await pool.close();
+  }
+});
+
+test('a job that keeps throwing is retried, then its run is failed for good with the reason', async () => {
+  const em = stack.orm.em.fork();
+  const login = uniqueLogin('poison');
+  const user = em.create(User, { providerId: login, login, name: 'Poison Test', role: 'researcher' });
+  await em.flush();
+  const [summary] = await submitRuns(em, stack.queue, user, { spec: plummer(50, 4) });
+  // The queue's own retry policy applies: backing off 5 s, then 10 s.
+  let tries = 0;
+  const worker = new Worker<RunJobData>(
+    config.queueName,
+    async () => {
+      tries++;
+      throw new Error('the database went away while the result was written');
+    },
+    { connection: redisConnection },
+  );
+  worker.on('failed', (j, err) => j && void failForGood(stack.orm, j, err));
+  try {
+    await new Promise<void>((resolve) => {
+      const check = async () => {
+        const run = await stack.orm.em.fork().findOneOrFail(Run, { id: summary.id });
+        if (run.status === 'failed') return resolve();
+        setTimeout(check, 100);
+      };
+      void check();
+    });
+    const run = await stack.orm.em.fork().findOneOrFail(Run, { id: summary.id });
+    expect(tries).toBe(RUN_ATTEMPTS);
+    expect(run.error).toBe(`The run failed for good after ${RUN_ATTEMPTS} attempts: the database went away while the result was written`);
+  } finally {
+    await worker.close();
+  }
+});

@@ -1,0 +1,30 @@
+// The worker's heartbeat: its threads and watchdog state, written to Redis every few seconds.
+import { Redis } from 'ioredis';
+import { redisConnection } from '../server/queue';
+import { allBeats, dropBeats, HEARTBEAT_EVERY_MS, workerId, writeBeat, type BeatClient } from '../server/services/heartbeat';
+import type { RunPool } from './pool';
+
+const FORGET_AFTER_MS = 24 * 3600_000;
+
+export function startHeartbeat(pool: RunPool, threads: number): { stop(): Promise<void> } {
+  // Its own client, failing fast: a beat missed while Redis is away is what a heartbeat is for.
+  const redis = new Redis({ ...(redisConnection as object), maxRetriesPerRequest: 1, enableOfflineQueue: false });
+  redis.on('error', () => undefined);
+  const client = redis as unknown as BeatClient;
+  const id = workerId();
+  const beat = () => writeBeat(client, { id, threads, quietRuns: pool.watch.quiet, terminatedThreads: pool.watch.terminated, at: Date.now() }).catch(() => undefined);
+  const timer = setInterval(beat, HEARTBEAT_EVERY_MS);
+  redis.once('ready', () => {
+    void beat();
+    void allBeats(client)
+      .then((beats) => dropBeats(client, beats.filter((b) => Date.now() - b.at > FORGET_AFTER_MS).map((b) => b.id)))
+      .catch(() => undefined);
+  });
+  return {
+    stop: async () => {
+      clearInterval(timer);
+      await dropBeats(client, [id]).catch(() => undefined);
+      redis.disconnect();
+    },
+  };
+}
