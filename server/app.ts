@@ -10,6 +10,7 @@ import { mountAuth } from './auth';
 import { healthRouter } from './routes/health';
 import { runsRouter } from './routes/runs';
 import { exportsRouter } from './routes/exports';
+import { galaxiesRouter } from './routes/galaxies';
 
 export interface Deps {
   orm: Orm;
@@ -30,6 +31,7 @@ export function createApp(deps: Deps, opts: { webDir?: string } = {}): Express {
   mountAuth(app, api, deps);
   api.use('/runs', runsRouter(deps));
   api.use('/runs', exportsRouter());
+  api.use('/galaxies', galaxiesRouter());
   api.use(notFoundHandler);
   app.use('/api', api);
 

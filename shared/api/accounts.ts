@@ -2,6 +2,7 @@ import { z } from 'zod';
 import { runNameSchema } from '../spec/runSpec';
 import { LIMITS } from '../spec/runSpec';
 import { groupDigits, interactionsText } from './quotaWords';
+import type { UploadLimits } from './galaxies';
 
 // Accounts, tokens, cohorts, quotas and templates: request bodies the app and
 // the server both check, and the shapes the server answers with.
@@ -134,6 +135,17 @@ export const ROLE_LIMITS: Record<Role, QuotaLimits> = {
   instructor: { maxParticles: 10_000, maxSteps: 20_000, maxConcurrentRuns: 4, dailyInteractions: 1e12 },
   researcher: { maxParticles: 50_000, maxSteps: 100_000, maxConcurrentRuns: 8, dailyInteractions: 2e13 },
   admin: { maxParticles: 100_000, maxSteps: 200_000, maxConcurrentRuns: 16, dailyInteractions: 1e14 },
+};
+
+/**
+ * Uploaded tables (rotation curves, particle tables): largest file and most data rows, by role.
+ * Our own choice for a small shared machine, not from any source.
+ */
+export const ROLE_UPLOAD_LIMITS: Record<Role, UploadLimits> = {
+  student: { maxUploadBytes: 256 * 1024, maxUploadRows: 2_000 },
+  instructor: { maxUploadBytes: 1024 * 1024, maxUploadRows: 10_000 },
+  researcher: { maxUploadBytes: 4 * 1024 * 1024, maxUploadRows: 50_000 },
+  admin: { maxUploadBytes: 8 * 1024 * 1024, maxUploadRows: 100_000 },
 };
 
 /**

@@ -1,0 +1,170 @@
+import type { EntityManager } from '@mikro-orm/postgresql';
+import { ApiError } from '../errors';
+import { idParam, parseInput } from '../routes/input';
+import { Cohort, CohortMember, Galaxy, GalaxyFit, type User } from '../db/entities';
+import { parseRotationCurve, TableError } from '../../shared/galaxy/table';
+import {
+  updateGalaxyBodySchema,
+  uploadGalaxyFieldsSchema,
+  type GalaxyDetail,
+  type GalaxyFitRecord,
+  type GalaxyMapping,
+  type GalaxySummary,
+  type GalaxyVisibility,
+} from '../../shared/api/galaxies';
+import { uploadLimits } from './quotas';
+
+// Who may see a galaxy: its owner and admins always; a cohort galaxy also the cohort's
+// members and instructor; a public one everyone signed in. Only owner and admins change it.
+// Anything the caller may not see is answered as missing, so ids reveal nothing.
+
+export interface UploadedFile {
+  originalname: string;
+  buffer: Buffer;
+}
+
+const owner = (u: User) => ({ id: u.id, login: u.login, name: u.name });
+
+/** Cohorts the user belongs to or teaches. */
+async function cohortIdsOf(em: EntityManager, user: User): Promise<number[]> {
+  const [members, taught] = await Promise.all([em.find(CohortMember, { user: user.id }, { fields: ['cohort'] }), em.find(Cohort, { instructor: user.id }, { fields: ['id'] })]);
+  return [...new Set([...members.map((m) => (m.cohort as Cohort).id), ...taught.map((c) => c.id)])];
+}
+
+async function visibleFilter(em: EntityManager, user: User): Promise<Record<string, unknown>> {
+  if (user.role === 'admin') return {};
+  return { $or: [{ owner: user.id }, { visibility: 'public' }, { visibility: 'cohort', cohort: { $in: await cohortIdsOf(em, user) } }] };
+}
+
+const canManage = (user: User, g: Galaxy) => user.role === 'admin' || (g.owner as User).id === user.id;
+
+/** The cohort a galaxy is shared with: one the caller belongs to or teaches (admins: any). */
+async function shareTarget(em: EntityManager, user: User, visibility: GalaxyVisibility, cohortId: number | null | undefined): Promise<Cohort | null> {
+  if (visibility !== 'cohort') {
+    if (cohortId != null) throw new ApiError('BAD_REQUEST', `cohortId: only a galaxy shared with a cohort names one (visibility is ${visibility})`, { field: 'cohortId' });
+    return null;
+  }
+  if (cohortId == null) throw new ApiError('BAD_REQUEST', 'cohortId: say which cohort to share the galaxy with', { field: 'cohortId' });
+  const cohort = await em.findOne(Cohort, { id: cohortId });
+  if (!cohort || (user.role !== 'admin' && !(await cohortIdsOf(em, user)).includes(cohort.id))) {
+    throw new ApiError('BAD_REQUEST', `cohortId: you are not in cohort ${cohortId}`, { field: 'cohortId' });
+  }
+  return cohort;
+}
+
+function summary(user: User, g: Galaxy): GalaxySummary {
+  const cohort = g.cohort as Cohort | null;
+  return {
+    id: g.id,
+    name: g.name,
+    owner: owner(g.owner as User),
+    visibility: g.visibility,
+    cohort: cohort ? { id: cohort.id, name: cohort.name } : null,
+    invented: g.invented,
+    points: g.points,
+    fileName: g.fileName,
+    fileBytes: g.fileSize,
+    uploadedAt: g.uploadedAt.toISOString(),
+    canManage: canManage(user, g),
+  };
+}
+
+function fitRecord(f: GalaxyFit): GalaxyFitRecord {
+  return { id: f.id, request: f.request, results: f.results, requestedBy: owner(f.requestedBy as User), createdAt: f.createdAt.toISOString() };
+}
+
+/** A file name as a label only: no path, no control characters, bounded. */
+function cleanFileName(name: string): string {
+  const base = name.split(/[\\/]/).pop() ?? '';
+  return base.replace(/[\u0000-\u001f\u007f]/g, '').slice(0, 120) || 'table.txt';
+}
+
+/**
+ * Parses and stores an uploaded table in one flush. Any refusal (fields, quota, the table
+ * itself) throws before anything is written, so a failed upload leaves nothing behind.
+ */
+export async function createGalaxy(em: EntityManager, user: User, file: UploadedFile | undefined, fields: unknown): Promise<Galaxy> {
+  const input = parseInput(uploadGalaxyFieldsSchema, fields);
+  if (!file) throw new ApiError('BAD_REQUEST', 'file: attach the rotation-curve table as the multipart field "file"', { field: 'file' });
+  const limits = uploadLimits(user);
+  const mapping: GalaxyMapping = input.mapping ?? { columns: {}, radiusUnit: 'kpc' };
+  const cohort = await shareTarget(em, user, input.visibility, input.cohortId);
+  const curve = readCurve(file.buffer, mapping, limits.maxUploadBytes, limits.maxUploadRows);
+  const g = em.create(Galaxy, {
+    owner: user,
+    name: input.name,
+    visibility: input.visibility,
+    cohort,
+    invented: false,
+    fileName: cleanFileName(file.originalname),
+    fileBytes: file.buffer,
+    fileSize: file.buffer.length,
+    mapping,
+    curve,
+    points: curve.radiusKpc.length,
+  });
+  await em.flush();
+  return g;
+}
+
+/** The table parser's refusal as a 400 naming line and column (or 413 for a table over the limits). */
+export function readCurve(bytes: Uint8Array, mapping: GalaxyMapping, maxBytes: number, maxRows: number) {
+  try {
+    return parseRotationCurve(bytes, { maxBytes, maxRows, ...mapping });
+  } catch (err) {
+    if (!(err instanceof TableError)) throw err;
+    // The parser words its size and row refusals as "... the limit ..." and names no line.
+    const overLimit = err.line === undefined && /\bthe limit\b/.test(err.message);
+    throw new ApiError(overLimit ? 'PAYLOAD_TOO_LARGE' : 'BAD_REQUEST', `file: ${err.message}`, {
+      field: 'file',
+      details: { line: err.line ?? null, column: err.column ?? null },
+    });
+  }
+}
+
+export async function listGalaxies(em: EntityManager, user: User): Promise<GalaxySummary[]> {
+  const rows = await em.find(Galaxy, await visibleFilter(em, user), { populate: ['owner', 'cohort'], orderBy: { uploadedAt: 'desc', id: 'desc' }, limit: 500 });
+  return rows.map((g) => summary(user, g));
+}
+
+export async function findVisibleGalaxy(em: EntityManager, user: User, rawId: string): Promise<Galaxy> {
+  const id = idParam(rawId, 'galaxy');
+  const g = await em.findOne(Galaxy, { $and: [{ id }, await visibleFilter(em, user)] }, { populate: ['owner', 'cohort'] });
+  if (!g) throw new ApiError('NOT_FOUND', `No galaxy ${rawId}`);
+  return g;
+}
+
+function requireManage(user: User, g: Galaxy): void {
+  if (!canManage(user, g)) throw new ApiError('FORBIDDEN', 'Only the galaxy’s owner (or an admin) can change it');
+}
+
+export async function galaxyDetail(em: EntityManager, user: User, g: Galaxy): Promise<GalaxyDetail> {
+  await em.populate(g, ['curve']);
+  const fits = await em.find(GalaxyFit, { galaxy: g.id }, { populate: ['requestedBy'], orderBy: { createdAt: 'desc', id: 'desc' }, limit: 20 });
+  return { ...summary(user, g), mapping: g.mapping, curve: g.curve, fits: fits.map(fitRecord) };
+}
+
+/** The uploaded file exactly as it was sent. */
+export async function galaxyFile(em: EntityManager, g: Galaxy): Promise<Buffer> {
+  await em.populate(g, ['fileBytes']);
+  return g.fileBytes;
+}
+
+export async function updateGalaxy(em: EntityManager, user: User, g: Galaxy, body: unknown): Promise<GalaxySummary> {
+  requireManage(user, g);
+  const input = parseInput(updateGalaxyBodySchema, body);
+  if (input.name !== undefined) g.name = input.name;
+  if (input.visibility !== undefined || input.cohortId !== undefined) {
+    const visibility = input.visibility ?? g.visibility;
+    const cohortId = input.cohortId !== undefined ? input.cohortId : visibility === 'cohort' ? ((g.cohort as Cohort | null)?.id ?? null) : null;
+    g.cohort = await shareTarget(em, user, visibility, cohortId);
+    g.visibility = visibility;
+  }
+  await em.flush();
+  return summary(user, g);
+}
+
+export async function deleteGalaxy(em: EntityManager, user: User, g: Galaxy): Promise<void> {
+  requireManage(user, g);
+  await em.remove(g).flush();
+}
