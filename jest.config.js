@@ -9,22 +9,26 @@ const tsJest = [
   },
 ];
 
+// The CSV parser's browser build is an ES module; Jest takes its CommonJS build.
+const csvParseCjs = { '^csv-parse/browser/esm/sync$': '<rootDir>/node_modules/csv-parse/dist/cjs/sync.cjs' };
+
 module.exports = {
   projects: [
     {
       displayName: 'node',
       testEnvironment: 'node',
       roots: ['<rootDir>/tests'],
-      testMatch: ['<rootDir>/tests/{engine,server,worker}/**/*.test.ts'],
+      testMatch: ['<rootDir>/tests/{engine,galaxy,server,worker}/**/*.test.ts'],
       setupFiles: ['<rootDir>/tests/support/env.ts'],
       transform: { '^.+\\.ts$': tsJest },
+      moduleNameMapper: csvParseCjs,
       moduleFileExtensions: ['ts', 'js', 'json'],
     },
     {
       displayName: 'app',
       preset: 'jest-expo/web',
       // d3-scale and its helpers resolve to ES modules; Jest takes their CommonJS builds instead.
-      moduleNameMapper: { '^(d3-[a-z-]+|internmap)$': '<rootDir>/node_modules/$1/dist/$1.js' },
+      moduleNameMapper: { '^(d3-[a-z-]+|internmap)$': '<rootDir>/node_modules/$1/dist/$1.js', ...csvParseCjs },
       roots: ['<rootDir>/tests'],
       testMatch: ['<rootDir>/tests/app/**/*.test.tsx'],
     },
