@@ -123,13 +123,13 @@ export function readCurve(bytes: Uint8Array, mapping: GalaxyMapping, maxBytes: n
 }
 
 export async function listGalaxies(em: EntityManager, user: User): Promise<GalaxySummary[]> {
-  const rows = await em.find(Galaxy, await visibleFilter(em, user), { populate: ['owner', 'cohort'], orderBy: { uploadedAt: 'desc', id: 'desc' }, limit: 500 });
+  const rows = await em.find(Galaxy, await visibleFilter(em, user), { populate: ['owner', 'cohort'], exclude: ['fileBytes', 'curve', 'mapping'], orderBy: { uploadedAt: 'desc', id: 'desc' }, limit: 500 });
   return rows.map((g) => summary(user, g));
 }
 
 export async function findVisibleGalaxy(em: EntityManager, user: User, rawId: string): Promise<Galaxy> {
   const id = idParam(rawId, 'galaxy');
-  const g = await em.findOne(Galaxy, { $and: [{ id }, await visibleFilter(em, user)] }, { populate: ['owner', 'cohort'] });
+  const g = await em.findOne(Galaxy, { $and: [{ id }, await visibleFilter(em, user)] }, { populate: ['owner', 'cohort'], exclude: ['fileBytes'] });
   if (!g) throw new ApiError('NOT_FOUND', `No galaxy ${rawId}`);
   return g;
 }
@@ -139,15 +139,14 @@ function requireManage(user: User, g: Galaxy): void {
 }
 
 export async function galaxyDetail(em: EntityManager, user: User, g: Galaxy): Promise<GalaxyDetail> {
-  await em.populate(g, ['curve']);
   const fits = await em.find(GalaxyFit, { galaxy: g.id }, { populate: ['requestedBy'], orderBy: { createdAt: 'desc', id: 'desc' }, limit: 20 });
   return { ...summary(user, g), mapping: g.mapping, curve: g.curve, fits: fits.map(fitRecord) };
 }
 
 /** The uploaded file exactly as it was sent. */
 export async function galaxyFile(em: EntityManager, g: Galaxy): Promise<Buffer> {
-  await em.populate(g, ['fileBytes']);
-  return g.fileBytes;
+  const row = await em.findOneOrFail(Galaxy, { id: g.id }, { fields: ['fileBytes'] });
+  return row.fileBytes;
 }
 
 export async function updateGalaxy(em: EntityManager, user: User, g: Galaxy, body: unknown): Promise<GalaxySummary> {

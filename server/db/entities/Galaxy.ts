@@ -18,10 +18,10 @@ export const Galaxy = defineEntity({
     // Demo galaxies made up for the seed say so on every screen.
     invented: p.boolean().default(false),
     fileName: p.string(),
-    fileBytes: p.blob().lazy(),
+    fileBytes: p.blob(),
     fileSize: p.integer(),
     mapping: p.json<GalaxyMapping>(),
-    curve: p.json<GalaxyCurve>().lazy(),
+    curve: p.json<GalaxyCurve>(),
     points: p.integer(),
     uploadedAt: p.datetime().onCreate(() => new Date()),
   },

@@ -1,0 +1,200 @@
+// Galaxy uploads and access through the API, against real PostgreSQL and Redis: a good table is
+// stored with its raw bytes; every refusal names the problem and stores nothing; who sees what.
+import request from 'supertest';
+import { openAuthStack, userWithToken, type AuthStack } from './auth/harness';
+import { Cohort, CohortMember, Galaxy, type User } from '../../server/db/entities';
+import { ROLE_UPLOAD_LIMITS } from '../../shared/api/accounts';
+import { newEnrolmentCode } from '../../server/services/cohorts';
+
+jest.setTimeout(60_000);
+
+let s: AuthStack;
+type Auth = { Authorization: string };
+let owner: { user: User; auth: Auth };
+let stranger: { user: User; auth: Auth };
+let member: { user: User; auth: Auth };
+let student: { user: User; auth: Auth };
+let cohortId: number;
+
+const GOOD = '# invented galaxy\nR_kpc,Vobs,e_Vobs,Vgas,Vdisk\n0.5,30,3,5,20\n1.0,50,2.5,8,35\n2.0,62,2,12,40\n';
+
+beforeAll(async () => {
+  s = await openAuthStack(55557);
+  owner = await userWithToken(s, 'researcher', 'gx-owner');
+  stranger = await userWithToken(s, 'researcher', 'gx-stranger');
+  member = await userWithToken(s, 'student', 'gx-member');
+  student = await userWithToken(s, 'student', 'gx-student');
+  const em = s.em();
+  const cohort = em.create(Cohort, {
+    name: 'Galaxy seminar (invented)',
+    enrolmentCode: newEnrolmentCode(),
+    instructor: owner.user.id,
+    maxParticles: 1000,
+    maxSteps: 1000,
+    maxConcurrentRuns: 1,
+    dailyInteractions: 1e9,
+  });
+  await em.flush();
+  em.create(CohortMember, { cohort: cohort.id, user: member.user.id });
+  await em.flush();
+  cohortId = cohort.id;
+});
+
+afterAll(async () => {
+  await s.close();
+});
+
+const stored = (u: User) => s.em().count(Galaxy, { owner: u.id });
+
+function upload(auth: Auth, body: string | Buffer, fields: Record<string, string> = {}, fileName = 'curve.csv') {
+  const req = request(s.app).post('/api/galaxies').set(auth);
+  for (const [k, v] of Object.entries({ name: 'Invented galaxy A', ...fields })) req.field(k, v);
+  return req.attach('file', Buffer.isBuffer(body) ? body : Buffer.from(body, 'utf8'), fileName);
+}
+
+describe('uploading a rotation-curve table', () => {
+  test('a good CSV is stored with its raw bytes, uploader and time, and read as a curve', async () => {
+    const before = Date.now();
+    const res = await upload(owner.auth, GOOD).expect(201);
+    expect(res.body).toMatchObject({ name: 'Invented galaxy A', points: 3, visibility: 'private', owner: { id: owner.user.id }, canManage: true, fileName: 'curve.csv' });
+    expect(res.body.curve.radiusKpc).toEqual([0.5, 1, 2]);
+    expect(res.body.curve.vDisk).toEqual([20, 35, 40]);
+    expect(new Date(res.body.uploadedAt).getTime()).toBeGreaterThanOrEqual(before - 1000);
+    const raw = await request(s.app).get(`/api/galaxies/${res.body.id}/file`).set(owner.auth).buffer(true).parse((r, cb) => {
+      const chunks: Buffer[] = [];
+      r.on('data', (c: Buffer) => chunks.push(c));
+      r.on('end', () => cb(null, Buffer.concat(chunks)));
+    }).expect(200);
+    expect(raw.headers['content-disposition']).toMatch(/attachment/);
+    expect((raw.body as Buffer).toString('utf8')).toBe(GOOD);
+  });
+
+  test('arcsec radii are converted with the distance given in the mapping', async () => {
+    const mapping = JSON.stringify({ columns: { radius: 1, vObs: 2, vErr: 3 }, radiusUnit: 'arcsec', distanceMpc: { value: 10 } });
+    const res = await upload(owner.auth, '10 40 3\n20 60 3\n', { mapping }).expect(201);
+    // 10 arcsec at 10 Mpc: 10 * 1e4 kpc * pi/648000 = 0.4848 kpc (small-angle formula).
+    expect(res.body.curve.radiusKpc[0]).toBeCloseTo(0.48481, 4);
+    expect(res.body.mapping.radiusUnit).toBe('arcsec');
+  });
+
+  test.each([
+    ['a cell that is not a number', GOOD.replace('50,2.5', '5O,2.5'), /line 4, column 2: "5O" is not a number/],
+    ['formula injection in a cell', GOOD.replace('62,2', '=HYPERLINK("http://x"),2'), /line 5, column 2: .*formula/],
+    ['formula injection in the header', GOOD.replace('Vgas', '@SUM(A1)'), /formula/],
+    ['binary content', Buffer.from([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a, 0, 0, 0, 0x0d]), /binary/],
+    ['a table not in UTF-8', Buffer.from('R,V,dV\n1,50,3\n# Galaxie fran\xe7aise\n', 'latin1'), /UTF-8/],
+    ['radii out of order', '1,50,3\n0.5,40,3\n', /line 2, column 1: .*sorted/],
+    ['an empty file', '', /empty/],
+  ])('%s is refused with a clear message naming where, and nothing is stored', async (_what, body, message) => {
+    const before = await stored(owner.user);
+    const res = await upload(owner.auth, body as string | Buffer).expect(400);
+    expect(res.body.error.code).toBe('BAD_REQUEST');
+    expect(res.body.error.field).toBe('file');
+    expect(res.body.error.message).toMatch(message);
+    expect(await stored(owner.user)).toBe(before);
+  });
+
+  test('a table over the person’s byte limit is refused while it streams in, and nothing is stored', async () => {
+    const { maxUploadBytes } = ROLE_UPLOAD_LIMITS.student;
+    const line = '1.0,50,3\n';
+    const big = 'R,V,dV\n' + line.repeat(Math.ceil((maxUploadBytes + 10) / line.length));
+    const res = await upload(student.auth, big).expect(413);
+    expect(res.body.error.message).toContain(`upload limit of ${maxUploadBytes} bytes`);
+    expect(await stored(student.user)).toBe(0);
+  });
+
+  test('a table over the person’s row limit is refused, and nothing is stored', async () => {
+    const { maxUploadRows } = ROLE_UPLOAD_LIMITS.student;
+    const rows = Array.from({ length: maxUploadRows + 1 }, (_, i) => `${i + 1},50,3`).join('\n');
+    const res = await upload(student.auth, rows).expect(413);
+    expect(res.body.error.message).toMatch(new RegExp(`${maxUploadRows} data rows`));
+    expect(await stored(student.user)).toBe(0);
+    // The same table is within a researcher's limits.
+    await upload(stranger.auth, rows, { name: 'Invented long curve' }).expect(201);
+  });
+
+  test('bad fields are refused before the table is read: name, mapping, visibility, a second file', async () => {
+    const before = await stored(owner.user);
+    const noName = await request(s.app).post('/api/galaxies').set(owner.auth).attach('file', Buffer.from(GOOD), 'c.csv').expect(400);
+    expect(noName.body.error.field).toBe('name');
+    const badJson = await upload(owner.auth, GOOD, { mapping: '{columns:' }).expect(400);
+    expect(badJson.body.error.message).toMatch(/mapping: is not valid JSON/);
+    const badUnit = await upload(owner.auth, GOOD, { mapping: JSON.stringify({ radiusUnit: 'parsec' }) }).expect(400);
+    expect(badUnit.body.error.field).toBe('mapping.radiusUnit');
+    const arcsecNoDistance = await upload(owner.auth, GOOD, { mapping: JSON.stringify({ radiusUnit: 'arcsec' }) }).expect(400);
+    expect(arcsecNoDistance.body.error.message).toMatch(/distance/);
+    const notMine = await upload(stranger.auth, GOOD, { visibility: 'cohort', cohortId: String(cohortId) }).expect(400);
+    expect(notMine.body.error.message).toMatch(/not in cohort/);
+    const noFile = await request(s.app).post('/api/galaxies').set(owner.auth).field('name', 'x').expect(400);
+    expect(noFile.body.error.field).toBe('file');
+    const two = await request(s.app).post('/api/galaxies').set(owner.auth).field('name', 'x').attach('file', Buffer.from(GOOD), 'a.csv').attach('file', Buffer.from(GOOD), 'b.csv');
+    expect(two.status).toBe(400);
+    expect(await stored(owner.user)).toBe(before);
+  });
+
+  test('without a sign-in or token nothing can be uploaded or listed', async () => {
+    await request(s.app).post('/api/galaxies').field('name', 'x').attach('file', Buffer.from(GOOD), 'a.csv').expect(401);
+    await request(s.app).get('/api/galaxies').expect(401);
+  });
+});
+
+describe('who sees a galaxy', () => {
+  let privateId: number;
+  let cohortGalaxyId: number;
+  let publicId: number;
+  beforeAll(async () => {
+    privateId = (await upload(owner.auth, GOOD, { name: 'Invented private' }).expect(201)).body.id;
+    cohortGalaxyId = (await upload(owner.auth, GOOD, { name: 'Invented for the seminar', visibility: 'cohort', cohortId: String(cohortId) }).expect(201)).body.id;
+    publicId = (await upload(owner.auth, GOOD, { name: 'Invented for all', visibility: 'public' }).expect(201)).body.id;
+  });
+
+  const ids = async (auth: Auth) => ((await request(s.app).get('/api/galaxies').set(auth).expect(200)).body.galaxies as { id: number }[]).map((g) => g.id);
+
+  test('private: only the owner; others get 404 on every route, as for a missing id', async () => {
+    expect(await ids(owner.auth)).toEqual(expect.arrayContaining([privateId, cohortGalaxyId, publicId]));
+    expect(await ids(stranger.auth)).not.toContain(privateId);
+    for (const path of [`/api/galaxies/${privateId}`, `/api/galaxies/${privateId}/file`]) {
+      const res = await request(s.app).get(path).set(stranger.auth).expect(404);
+      expect(res.body.error.code).toBe('NOT_FOUND');
+    }
+    await request(s.app).patch(`/api/galaxies/${privateId}`).set(stranger.auth).send({ visibility: 'public' }).expect(404);
+    await request(s.app).delete(`/api/galaxies/${privateId}`).set(stranger.auth).expect(404);
+    expect(await s.em().count(Galaxy, { id: privateId, visibility: 'private' })).toBe(1);
+  });
+
+  test('cohort: its members see it, people outside it do not', async () => {
+    expect(await ids(member.auth)).toContain(cohortGalaxyId);
+    expect(await ids(member.auth)).not.toContain(privateId);
+    await request(s.app).get(`/api/galaxies/${cohortGalaxyId}`).set(member.auth).expect(200);
+    await request(s.app).get(`/api/galaxies/${cohortGalaxyId}`).set(stranger.auth).expect(404);
+  });
+
+  test('public: everyone signed in sees it, but only the owner changes it', async () => {
+    const seen = await request(s.app).get(`/api/galaxies/${publicId}`).set(student.auth).expect(200);
+    expect(seen.body.canManage).toBe(false);
+    const res = await request(s.app).patch(`/api/galaxies/${publicId}`).set(student.auth).send({ name: 'Mine now' }).expect(403);
+    expect(res.body.error.code).toBe('FORBIDDEN');
+    await request(s.app).delete(`/api/galaxies/${publicId}`).set(student.auth).expect(403);
+  });
+
+  test('the owner shares and unshares; the cohort must be named and be theirs', async () => {
+    await request(s.app).patch(`/api/galaxies/${privateId}`).set(owner.auth).send({ visibility: 'cohort' }).expect(400);
+    const shared = await request(s.app).patch(`/api/galaxies/${privateId}`).set(owner.auth).send({ visibility: 'cohort', cohortId }).expect(200);
+    expect(shared.body.cohort).toMatchObject({ id: cohortId });
+    await request(s.app).get(`/api/galaxies/${privateId}`).set(member.auth).expect(200);
+    await request(s.app).patch(`/api/galaxies/${privateId}`).set(owner.auth).send({ visibility: 'private' }).expect(200);
+    await request(s.app).get(`/api/galaxies/${privateId}`).set(member.auth).expect(404);
+  });
+
+  test.each(['abc', '0', '-1', '1.5', '99999999999', '1%20OR%201=1'])('a malformed id (%s) is a 404', async (id) => {
+    const res = await request(s.app).get(`/api/galaxies/${id}`).set(owner.auth).expect(404);
+    expect(res.body.error.code).toBe('NOT_FOUND');
+  });
+
+  test('the owner deletes a galaxy, and its rows go with it', async () => {
+    const id = (await upload(owner.auth, GOOD, { name: 'Invented to delete' }).expect(201)).body.id;
+    await request(s.app).delete(`/api/galaxies/${id}`).set(owner.auth).expect(204);
+    await request(s.app).get(`/api/galaxies/${id}`).set(owner.auth).expect(404);
+    expect(await s.em().count(Galaxy, { id })).toBe(0);
+  });
+});
