@@ -1,0 +1,514 @@
+// Rotation-curve fits under each law, for one galaxy or a sample sharing a
+// parameter. Least squares by Levenberg-Marquardt; every model curve comes
+// from the law modules' modelAcceleration (the engine's analytic-curve code)
+// applied to the galaxy's tabulated baryons (see baryons.ts).
+import { levenbergMarquardt } from 'ml-levenberg-marquardt';
+import { inverse, Matrix } from 'ml-matrix';
+import { emergentLaw } from '../engine/laws/emergent';
+import { haloLaw } from '../engine/laws/halo';
+import { mondLaw } from '../engine/laws/mond';
+import type { MassModel } from '../engine/models/massModel';
+import { G } from '../engine/units';
+import { baryonicSquared, hasBaryons, tabulatedBaryonModel } from './baryons';
+import type { RotationCurve } from './table';
+
+export const FIT_LAWS = ['nfw', 'isothermal', 'mond-simple', 'mond-standard', 'mond-rar', 'emergent'] as const;
+export type FitLaw = (typeof FIT_LAWS)[number];
+
+/** A log-normal prior: log10(value) is Gaussian about log10(centre) with sigma_dex. */
+export interface LogNormalPrior {
+  centre: number;
+  sigma_dex: number;
+}
+
+export interface FitOptions {
+  laws?: readonly FitLaw[];
+  /** MOND's a0: fixed at a0_m_s2 (default) or fitted. */
+  a0?: 'fixed' | 'free';
+  a0_m_s2?: number;
+  /** Emergent gravity's H0: fixed at H0_km_s_Mpc (default) or fitted. */
+  H0?: 'fixed' | 'free';
+  H0_km_s_Mpc?: number;
+  /** Priors on the stellar mass-to-light ratios; null drops a prior. */
+  priors?: { disk?: LogNormalPrior | null; bulge?: LogNormalPrior | null };
+}
+
+/**
+ * Mass-to-light priors at 3.6 um: disk 0.5, bulge 0.7, each with 0.1 dex
+ * scatter. From memory of the values adopted for Spitzer 3.6 um rotation-curve
+ * work (Lelli, McGaugh & Schombert 2016; Li et al. 2018); stated, not derived.
+ */
+export const DEFAULT_PRIORS = {
+  disk: { centre: 0.5, sigma_dex: 0.1 },
+  bulge: { centre: 0.7, sigma_dex: 0.1 },
+} as const satisfies Record<string, LogNormalPrior>;
+
+/** Hubble constant that defines the NFW halo's virial radius (r200 where the mean density is 200 rho_crit). Common practice: 70 km/s/Mpc. */
+export const HALO_H0_KM_S_MPC = 70;
+/**
+ * Concentration-mass relation for NFW halos at z = 0:
+ * log10 c200 = a + b log10(M200 / (1e12 Msun/h)), b = -0.097 and a near 1.025
+ * (Dutton & Maccio 2014, Planck cosmology; from memory). In a sample fit a is
+ * the one shared halo scaling parameter; b is held.
+ */
+export const CM_SLOPE = -0.097;
+export const CM_NORMALISATION = 1.025;
+const LITTLE_H = HALO_H0_KM_S_MPC / 100;
+
+export interface FittedParam {
+  name: string;
+  unit: string;
+  value: number;
+  /** One-sigma uncertainty from the covariance (J^T W J)^-1 at the optimum; null where that matrix is singular. */
+  error: number | null;
+  min: number;
+  max: number;
+  /** The optimum sits on a bound: the uncertainty is then not a fair error bar. */
+  atBound: boolean;
+}
+
+export interface FittedCurve {
+  radiusKpc: number[];
+  v: number[];
+  vBaryons: number[];
+  vGas: number[] | null;
+  vDisk: number[] | null;
+  vBulge: number[] | null;
+  /** sign(v^2 - v_bar^2) sqrt|v^2 - v_bar^2|: the halo for Newton + halo, the law's boost otherwise. */
+  vExtra: number[];
+  /** (v_obs - v) / error at each point. */
+  residuals: number[];
+}
+
+export interface Verdict {
+  /** Comparison by the Bayesian information criterion BIC = chi^2 + k ln N (lower is better). */
+  criterion: 'BIC';
+  preferred: FitLaw;
+  deltaBic: Record<string, number>;
+}
+
+export interface LawFit {
+  law: FitLaw;
+  label: string;
+  params: FittedParam[];
+  /** Derived quantities (the NFW halo's r_s, rho0, M200). */
+  derived: Record<string, number>;
+  /** Sum of squared normalised residuals over the data points (the prior penalty is separate). */
+  chi2: number;
+  priorPenalty: number;
+  points: number;
+  freeParams: number;
+  dof: number;
+  reducedChi2: number;
+  /** chi^2 + 2k and chi^2 + k ln N, with chi^2 over the data points (Gaussian errors; constants dropped). */
+  aic: number;
+  bic: number;
+  curve: FittedCurve;
+}
+
+export interface GalaxyFitReport {
+  laws: LawFit[];
+  verdict: Verdict;
+}
+
+export interface SampleGalaxy {
+  name: string;
+  curve: RotationCurve;
+}
+
+export interface SampleLawFit {
+  law: FitLaw;
+  label: string;
+  /** Parameters shared by every galaxy (a0, H0, the concentration-mass normalisation). */
+  shared: FittedParam[];
+  galaxies: { name: string; params: FittedParam[]; chi2: number; points: number; curve: FittedCurve }[];
+  chi2: number;
+  priorPenalty: number;
+  points: number;
+  freeParams: number;
+  dof: number;
+  reducedChi2: number;
+  aic: number;
+  bic: number;
+}
+
+export interface SampleFitReport {
+  laws: SampleLawFit[];
+  verdict: Verdict;
+}
+
+/** Refusals a person can act on: too few points, no baryons. */
+export class FitError extends Error {
+  constructor(message: string) {
+    super(message);
+    this.name = 'FitError';
+  }
+}
+
+/** A fitted parameter: natural units outside, value / scale (order one) inside the optimiser. */
+interface ParamSpec {
+  name: string;
+  unit: string;
+  scale: number;
+  min: number;
+  max: number;
+  starts: number[];
+}
+
+interface LawModel {
+  label: string;
+  /** Parameters shared across a sample (a single galaxy fits them too). */
+  shared(o: ResolvedOptions, sample: boolean): ParamSpec[];
+  /** Per-galaxy law parameters besides the mass-to-light ratios. */
+  own(o: ResolvedOptions, sample: boolean): ParamSpec[];
+  acceleration(shared: number[], own: number[], model: MassModel, R: number, o: ResolvedOptions): number;
+  derived?(shared: number[], own: number[]): Record<string, number>;
+}
+
+type ResolvedOptions = Required<Omit<FitOptions, 'priors' | 'laws'>> & { priors: { disk: LogNormalPrior | null; bulge: LogNormalPrior | null } };
+
+/** NFW (r_s, rho0) from V200 and c200, H0 = HALO_H0 (Navarro, Frenk & White 1997 definitions). */
+export function nfwFromV200(V200: number, c: number): { scale_kpc: number; density_Msun_kpc3: number; r200_kpc: number; M200_Msun: number } {
+  const H = HALO_H0_KM_S_MPC / 1000; // km/s/kpc
+  const r200 = V200 / (10 * H);
+  const rhoCrit = (3 * H * H) / (8 * Math.PI * G);
+  const deltaC = ((200 / 3) * c ** 3) / (Math.log1p(c) - c / (1 + c));
+  return { scale_kpc: r200 / c, density_Msun_kpc3: deltaC * rhoCrit, r200_kpc: r200, M200_Msun: (V200 * V200 * r200) / G };
+}
+
+/** c200 on the concentration-mass relation with normalisation a. */
+export function concentrationFor(V200: number, a: number): number {
+  const { M200_Msun } = nfwFromV200(V200, 10);
+  return 10 ** (a + CM_SLOPE * Math.log10((M200_Msun * LITTLE_H) / 1e12));
+}
+
+const nfwAccel = (V200: number, c: number, model: MassModel, R: number) => {
+  const { scale_kpc, density_Msun_kpc3 } = nfwFromV200(V200, c);
+  return haloLaw.modelAcceleration({ kind: 'halo', profile: 'nfw', scale_kpc, density_Msun_kpc3 }, model, R);
+};
+
+const V200: ParamSpec = { name: 'V200', unit: 'km/s', scale: 100, min: 10, max: 500, starts: [60, 120, 250] };
+const mondModel = (interpolation: 'simple' | 'standard' | 'rar', label: string): LawModel => ({
+  label,
+  shared: (o) => (o.a0 === 'free' ? [{ name: 'a0', unit: 'm/s^2', scale: 1e-10, min: 1e-11, max: 1e-9, starts: [0.7e-10, 1.2e-10, 2e-10] }] : []),
+  own: () => [],
+  acceleration: (shared, _own, model, R, o) =>
+    mondLaw.modelAcceleration({ kind: 'mond', interpolation, a0_m_s2: o.a0 === 'free' ? shared[0] : o.a0_m_s2 }, model, R),
+});
+
+const LAW_MODELS: Record<FitLaw, LawModel> = {
+  nfw: {
+    label: 'Newton + NFW halo',
+    shared: (_o, sample) => (sample ? [{ name: 'cmNormalisation', unit: 'dex', scale: 1, min: 0.2, max: 2, starts: [0.8, CM_NORMALISATION, 1.3] }] : []),
+    own: (_o, sample) => (sample ? [V200] : [V200, { name: 'c200', unit: '', scale: 10, min: 1, max: 50, starts: [5, 10, 20] }]),
+    acceleration: (shared, own, model, R) => nfwAccel(own[0], shared.length ? concentrationFor(own[0], shared[0]) : own[1], model, R),
+    derived(shared, own) {
+      const c = shared.length ? concentrationFor(own[0], shared[0]) : own[1];
+      const h = nfwFromV200(own[0], c);
+      return { c200: c, r_s_kpc: h.scale_kpc, rho0_Msun_kpc3: h.density_Msun_kpc3, r200_kpc: h.r200_kpc, M200_Msun: h.M200_Msun };
+    },
+  },
+  isothermal: {
+    label: 'Newton + cored isothermal halo',
+    shared: () => [],
+    own: () => [
+      { name: 'log10_rho0', unit: 'log10 Msun/kpc^3', scale: 1, min: 4, max: 11, starts: [6.5, 7.5, 8.5] },
+      { name: 'r_core', unit: 'kpc', scale: 1, min: 0.05, max: 50, starts: [0.5, 2, 8] },
+    ],
+    acceleration: (_shared, own, model, R) =>
+      haloLaw.modelAcceleration({ kind: 'halo', profile: 'cored-isothermal', density_Msun_kpc3: 10 ** own[0], scale_kpc: own[1] }, model, R),
+  },
+  'mond-simple': mondModel('simple', 'MOND (simple nu)'),
+  'mond-standard': mondModel('standard', 'MOND (standard nu)'),
+  'mond-rar': mondModel('rar', 'MOND (RAR nu)'),
+  emergent: {
+    label: 'Emergent gravity (spherical)',
+    shared: (o) => (o.H0 === 'free' ? [{ name: 'H0', unit: 'km/s/Mpc', scale: 70, min: 20, max: 200, starts: [50, 70, 100] }] : []),
+    own: () => [],
+    acceleration: (shared, _own, model, R, o) =>
+      emergentLaw.modelAcceleration({ kind: 'emergent', H0_km_s_Mpc: o.H0 === 'free' ? shared[0] : o.H0_km_s_Mpc }, model, R),
+  },
+};
+
+/** Mass-to-light ratios: bounds wide enough for any stellar population, the prior does the pulling. */
+const ML_BOUNDS = { min: 0.05, max: 5 };
+
+function resolve(options: FitOptions): ResolvedOptions {
+  const o: ResolvedOptions = {
+    a0: options.a0 ?? 'fixed',
+    a0_m_s2: options.a0_m_s2 ?? 1.2e-10,
+    H0: options.H0 ?? 'fixed',
+    H0_km_s_Mpc: options.H0_km_s_Mpc ?? 70,
+    priors: {
+      disk: options.priors?.disk === undefined ? DEFAULT_PRIORS.disk : options.priors.disk,
+      bulge: options.priors?.bulge === undefined ? DEFAULT_PRIORS.bulge : options.priors.bulge,
+    },
+  };
+  if (!(o.a0_m_s2 >= 1e-12 && o.a0_m_s2 <= 1e-8)) throw new FitError(`a0 ${o.a0_m_s2} m/s^2 is outside 1e-12..1e-8`);
+  if (!(o.H0_km_s_Mpc >= 20 && o.H0_km_s_Mpc <= 200)) throw new FitError(`H0 ${o.H0_km_s_Mpc} km/s/Mpc is outside 20..200`);
+  for (const p of [o.priors.disk, o.priors.bulge]) {
+    if (p && !(p.centre > 0 && p.sigma_dex > 0)) throw new FitError('a mass-to-light prior needs a positive centre and a positive sigma_dex');
+  }
+  return o;
+}
+
+/** One galaxy's place in the parameter vector. */
+interface GalaxySlot {
+  name: string;
+  curve: RotationCurve;
+  own: ParamSpec[];
+  ownAt: number;
+  diskAt: number | null;
+  bulgeAt: number | null;
+}
+
+interface Problem {
+  law: LawModel;
+  o: ResolvedOptions;
+  specs: ParamSpec[];
+  sharedCount: number;
+  galaxies: GalaxySlot[];
+  points: number;
+  priorRows: { at: number; prior: LogNormalPrior }[];
+}
+
+function buildProblem(lawKind: FitLaw, galaxies: SampleGalaxy[], o: ResolvedOptions, sample: boolean): Problem {
+  const law = LAW_MODELS[lawKind];
+  const specs = [...law.shared(o, sample)];
+  const sharedCount = specs.length;
+  const priorRows: Problem['priorRows'] = [];
+  const slots = galaxies.map(({ name, curve }) => {
+    if (!hasBaryons(curve)) throw new FitError(`${name}: the table has no baryonic components (gas, stellar disk or bulge); fits need at least one`);
+    const own = law.own(o, sample);
+    const ownAt = specs.length;
+    specs.push(...own);
+    const ml = (key: 'disk' | 'bulge') => {
+      if ((key === 'disk' ? curve.vDisk : curve.vBulge) === null) return null;
+      const prior = o.priors[key];
+      specs.push({ name: key === 'disk' ? 'ML_disk' : 'ML_bulge', unit: 'Msun/Lsun', scale: 1, ...ML_BOUNDS, starts: [prior?.centre ?? DEFAULT_PRIORS[key].centre] });
+      if (prior) priorRows.push({ at: specs.length - 1, prior });
+      return specs.length - 1;
+    };
+    return { name, curve, own, ownAt, diskAt: ml('disk'), bulgeAt: ml('bulge') };
+  });
+  const points = slots.reduce((s, g) => s + g.curve.radiusKpc.length, 0);
+  if (points <= specs.length) throw new FitError(`${points} points cannot constrain ${specs.length} free parameters under ${law.label}`);
+  return { law, o, specs, sharedCount, galaxies: slots, points, priorRows };
+}
+
+interface GalaxyModel {
+  v: number[];
+  vBarSq: number[];
+  ml: { disk: number; bulge: number };
+}
+
+function galaxyModel(pb: Problem, g: GalaxySlot, theta: number[]): GalaxyModel {
+  const ml = { disk: g.diskAt === null ? 0 : theta[g.diskAt], bulge: g.bulgeAt === null ? 0 : theta[g.bulgeAt] };
+  const model = tabulatedBaryonModel(g.curve, ml);
+  const shared = theta.slice(0, pb.sharedCount);
+  const own = theta.slice(g.ownAt, g.ownAt + g.own.length);
+  const v = g.curve.radiusKpc.map((R) => {
+    const speed = Math.sqrt(Math.max(0, R * pb.law.acceleration(shared, own, model, R, pb.o)));
+    return Number.isFinite(speed) ? speed : 1e6;
+  });
+  return { v, vBarSq: baryonicSquared(g.curve, ml), ml };
+}
+
+const priorResidual = (value: number, p: LogNormalPrior) => Math.log10(value / p.centre) / p.sigma_dex;
+
+/** Normalised residuals: data rows (v_obs - v)/err, then one row per prior. */
+function residuals(pb: Problem, theta: number[]): number[] {
+  const out: number[] = [];
+  for (const g of pb.galaxies) {
+    const { v } = galaxyModel(pb, g, theta);
+    v.forEach((vi, i) => out.push((g.curve.vObs[i] - vi) / g.curve.vErr[i]));
+  }
+  for (const { at, prior } of pb.priorRows) out.push(-priorResidual(theta[at], prior));
+  return out;
+}
+
+const sumSq = (xs: number[]) => xs.reduce((s, x) => s + x * x, 0);
+
+/** Levenberg-Marquardt from one start, in scaled parameters (the library's damping is additive, so order-one values matter). */
+function optimise(pb: Problem, start: number[], maxIterations: number): number[] {
+  const rows = pb.points + pb.priorRows.length;
+  const x = Array.from({ length: rows }, (_, i) => i);
+  // The library minimises sum ((y - f)/w)^2; with y = 0, w = 1 and f = -residual that is chi^2 + prior penalty.
+  const result = levenbergMarquardt(
+    { x, y: new Array(rows).fill(0) },
+    (scaled: number[]) => {
+      const r = residuals(pb, scaled.map((s, k) => s * pb.specs[k].scale));
+      return (i: number) => -r[i];
+    },
+    {
+      initialValues: start.map((v, k) => v / pb.specs[k].scale),
+      minValues: pb.specs.map((s) => s.min / s.scale),
+      maxValues: pb.specs.map((s) => s.max / s.scale),
+      damping: 1e-2,
+      gradientDifference: 1e-5,
+      centralDifference: true,
+      maxIterations,
+      errorTolerance: 1e-10,
+    },
+  );
+  return result.parameterValues.map((s, k) => s * pb.specs[k].scale);
+}
+
+/** Jacobian of the residuals by central differences (one-sided at a bound), natural units. */
+function jacobian(pb: Problem, theta: number[]): number[][] {
+  return pb.specs.map((s, k) => {
+    const h = 1e-5 * s.scale;
+    const up = Math.min(theta[k] + h, s.max), down = Math.max(theta[k] - h, s.min);
+    const at = (value: number) => residuals(pb, theta.map((t, j) => (j === k ? value : t)));
+    const ru = at(up), rd = at(down);
+    return ru.map((r, i) => (r - rd[i]) / (up - down));
+  });
+}
+
+/** Parameter uncertainties sqrt(diag((J^T J)^-1)), J of the normalised residuals (so W is folded in), priors included. */
+function uncertainties(pb: Problem, theta: number[]): (number | null)[] {
+  const J = jacobian(pb, theta);
+  const p = J.length;
+  const JtJ = new Matrix(p, p);
+  for (let a = 0; a < p; a++) for (let b = 0; b < p; b++) JtJ.set(a, b, J[a].reduce((s, x, i) => s + x * J[b][i], 0));
+  try {
+    const cov = inverse(JtJ);
+    return theta.map((_, k) => {
+      const v = cov.get(k, k);
+      return Number.isFinite(v) && v > 0 ? Math.sqrt(v) : null;
+    });
+  } catch {
+    return theta.map(() => null);
+  }
+}
+
+function* startVectors(specs: ParamSpec[], base: number[] | null): Generator<number[]> {
+  if (base) {
+    yield base;
+    return;
+  }
+  const combos = specs.reduce<number[][]>((acc, s) => acc.flatMap((c) => s.starts.map((v) => [...c, v])), [[]]);
+  yield* combos;
+}
+
+/** Best of several starts (the chi^2 surface of halo fits has more than one valley). */
+function solve(pb: Problem, starts: Iterable<number[]>, maxIterations: number) {
+  let best: { theta: number[]; total: number } | null = null;
+  for (const start of starts) {
+    const theta = optimise(pb, start, maxIterations);
+    const total = sumSq(residuals(pb, theta));
+    if (!best || total < best.total) best = { theta, total };
+  }
+  const theta = best!.theta;
+  const errors = uncertainties(pb, theta);
+  const param = (k: number): FittedParam => {
+    const s = pb.specs[k];
+    const span = (s.max - s.min) * 1e-6;
+    return { name: s.name, unit: s.unit, value: theta[k], error: errors[k], min: s.min, max: s.max, atBound: theta[k] - s.min < span || s.max - theta[k] < span };
+  };
+  return { theta, param };
+}
+
+function curveOf(pb: Problem, g: GalaxySlot, theta: number[]): FittedCurve {
+  const { v, vBarSq, ml } = galaxyModel(pb, g, theta);
+  const c = g.curve;
+  const scaled = (list: number[] | null, f: number) => (list ? list.map((x) => Math.sqrt(f) * x) : null);
+  return {
+    radiusKpc: c.radiusKpc,
+    v,
+    vBaryons: vBarSq.map((q) => Math.sign(q) * Math.sqrt(Math.abs(q))),
+    vGas: c.vGas,
+    vDisk: scaled(c.vDisk, ml.disk),
+    vBulge: scaled(c.vBulge, ml.bulge),
+    vExtra: v.map((vi, i) => {
+      const d = vi * vi - vBarSq[i];
+      return Math.sign(d) * Math.sqrt(Math.abs(d));
+    }),
+    residuals: v.map((vi, i) => (c.vObs[i] - vi) / c.vErr[i]),
+  };
+}
+
+function criteria(chi2: number, points: number, k: number) {
+  const dof = points - k;
+  return { points, freeParams: k, dof, reducedChi2: chi2 / dof, aic: chi2 + 2 * k, bic: chi2 + k * Math.log(points) };
+}
+
+function verdict(fits: { law: FitLaw; bic: number }[]): Verdict {
+  const best = fits.reduce((a, b) => (b.bic < a.bic ? b : a));
+  return { criterion: 'BIC', preferred: best.law, deltaBic: Object.fromEntries(fits.map((f) => [f.law, f.bic - best.bic])) };
+}
+
+function lawsOf(options: FitOptions): FitLaw[] {
+  const laws = options.laws?.length ? [...options.laws] : [...FIT_LAWS];
+  const unknown = laws.find((l) => !FIT_LAWS.includes(l));
+  if (unknown) throw new FitError(`unknown law "${unknown}"; choose from ${FIT_LAWS.join(', ')}`);
+  return laws;
+}
+
+/** Fit one galaxy under one law. */
+export function fitGalaxyLaw(curve: RotationCurve, law: FitLaw, options: FitOptions = {}): LawFit {
+  const o = resolve(options);
+  const pb = buildProblem(law, [{ name: 'galaxy', curve }], o, false);
+  const { theta, param } = solve(pb, startVectors(pb.specs, null), 150);
+  const g = pb.galaxies[0];
+  const curveFit = curveOf(pb, g, theta);
+  const chi2 = sumSq(curveFit.residuals);
+  const own = theta.slice(g.ownAt, g.ownAt + g.own.length);
+  return {
+    law,
+    label: pb.law.label,
+    params: pb.specs.map((_, k) => param(k)),
+    derived: pb.law.derived?.(theta.slice(0, pb.sharedCount), own) ?? {},
+    chi2,
+    priorPenalty: sumSq(pb.priorRows.map(({ at, prior }) => priorResidual(theta[at], prior))),
+    ...criteria(chi2, pb.points, pb.specs.length),
+    curve: curveFit,
+  };
+}
+
+/** Fit one galaxy under each requested law (default all), with a verdict by BIC. */
+export function fitGalaxy(curve: RotationCurve, options: FitOptions = {}): GalaxyFitReport {
+  const laws = lawsOf(options).map((law) => fitGalaxyLaw(curve, law, options));
+  return { laws, verdict: verdict(laws) };
+}
+
+/**
+ * Fit a sample: per law, the shared parameter (a0 for MOND when free, H0 for
+ * emergent gravity when free, the concentration-mass normalisation for NFW)
+ * is one number for all galaxies; halo and mass-to-light parameters are
+ * per-galaxy nuisance parameters, started from each galaxy's own fit.
+ */
+export function fitSample(galaxies: SampleGalaxy[], options: FitOptions = {}): SampleFitReport {
+  if (galaxies.length < 2) throw new FitError('a sample needs at least two galaxies');
+  const o = resolve(options);
+  const fits = lawsOf(options).map((law): SampleLawFit => {
+    const pb = buildProblem(law, galaxies, o, true);
+    const base = new Array<number>(pb.specs.length);
+    for (const g of pb.galaxies) {
+      const alone = fitGalaxyLaw(g.curve, law, options);
+      const pick = (name: string, fallback: number) => alone.params.find((p) => p.name === name)?.value ?? fallback;
+      g.own.forEach((s, j) => (base[g.ownAt + j] = pick(s.name, s.starts[0])));
+      if (g.diskAt !== null) base[g.diskAt] = pick('ML_disk', pb.specs[g.diskAt].starts[0]);
+      if (g.bulgeAt !== null) base[g.bulgeAt] = pick('ML_bulge', pb.specs[g.bulgeAt].starts[0]);
+    }
+    const sharedStarts = startVectors(pb.specs.slice(0, pb.sharedCount), null);
+    const starts = [...sharedStarts].map((shared) => [...shared, ...base.slice(pb.sharedCount)]);
+    const { theta, param } = solve(pb, starts, 150);
+    const perGalaxy = pb.galaxies.map((g) => {
+      const curve = curveOf(pb, g, theta);
+      const own = [...g.own.map((_, j) => g.ownAt + j), ...(g.diskAt === null ? [] : [g.diskAt]), ...(g.bulgeAt === null ? [] : [g.bulgeAt])];
+      return { name: g.name, params: own.map(param), chi2: sumSq(curve.residuals), points: curve.v.length, curve };
+    });
+    const chi2 = perGalaxy.reduce((s, g) => s + g.chi2, 0);
+    return {
+      law,
+      label: pb.law.label,
+      shared: pb.specs.slice(0, pb.sharedCount).map((_, k) => param(k)),
+      galaxies: perGalaxy,
+      chi2,
+      priorPenalty: sumSq(pb.priorRows.map(({ at, prior }) => priorResidual(theta[at], prior))),
+      ...criteria(chi2, pb.points, pb.specs.length),
+    };
+  });
+  return { laws: fits, verdict: verdict(fits) };
+}
