@@ -5,7 +5,7 @@ import type { EntityManager } from '@mikro-orm/postgresql';
 import { requireUser } from '../auth/guards';
 import { ApiError } from '../errors';
 import { uploadLimits } from '../services/quotas';
-import { createGalaxy, deleteGalaxy, findVisibleGalaxy, galaxyDetail, galaxyFile, listGalaxies, updateGalaxy } from '../services/galaxies';
+import { createGalaxy, deleteGalaxy, findVisibleGalaxy, galaxyDetail, galaxyFile, listGalaxies, requestFit, updateGalaxy } from '../services/galaxies';
 import type { GalaxyList } from '../../shared/api/galaxies';
 
 const em = () => RequestContext.getEntityManager() as EntityManager;
@@ -52,6 +52,11 @@ export function galaxiesRouter(): Router {
   r.get('/:id/file', async (req, res) => {
     const g = await findVisibleGalaxy(em(), req.user!, req.params.id);
     res.attachment(g.fileName).type('application/octet-stream').set('X-Content-Type-Options', 'nosniff').send(await galaxyFile(em(), g));
+  });
+
+  r.post('/:id/fits', async (req, res) => {
+    const g = await findVisibleGalaxy(em(), req.user!, req.params.id);
+    res.status(201).json(await requestFit(em(), req.user!, g, req.body));
   });
 
   r.patch('/:id', async (req, res) => {

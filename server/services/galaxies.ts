@@ -3,7 +3,10 @@ import { ApiError } from '../errors';
 import { idParam, parseInput } from '../routes/input';
 import { Cohort, CohortMember, Galaxy, GalaxyFit, type User } from '../db/entities';
 import { parseRotationCurve, TableError } from '../../shared/galaxy/table';
+import { fitGalaxy, FitError } from '../../shared/galaxy/fit';
 import {
+  FIT_MAX_POINTS,
+  galaxyFitRequestSchema,
   updateGalaxyBodySchema,
   uploadGalaxyFieldsSchema,
   type GalaxyDetail,
@@ -22,6 +25,9 @@ export interface UploadedFile {
   originalname: string;
   buffer: Buffer;
 }
+
+/** Fits kept per galaxy: the newest; older ones are dropped as new ones arrive. */
+const FITS_KEPT = 10;
 
 const owner = (u: User) => ({ id: u.id, login: u.login, name: u.name });
 
@@ -139,7 +145,7 @@ function requireManage(user: User, g: Galaxy): void {
 }
 
 export async function galaxyDetail(em: EntityManager, user: User, g: Galaxy): Promise<GalaxyDetail> {
-  const fits = await em.find(GalaxyFit, { galaxy: g.id }, { populate: ['requestedBy'], orderBy: { createdAt: 'desc', id: 'desc' }, limit: 20 });
+  const fits = await em.find(GalaxyFit, { galaxy: g.id }, { populate: ['requestedBy'], orderBy: { createdAt: 'desc', id: 'desc' }, limit: FITS_KEPT });
   return { ...summary(user, g), mapping: g.mapping, curve: g.curve, fits: fits.map(fitRecord) };
 }
 
@@ -166,4 +172,29 @@ export async function updateGalaxy(em: EntityManager, user: User, g: Galaxy, bod
 export async function deleteGalaxy(em: EntityManager, user: User, g: Galaxy): Promise<void> {
   requireManage(user, g);
   await em.remove(g).flush();
+}
+
+/**
+ * Fits the galaxy's curve under the requested laws and stores the result. Anyone who can see
+ * the galaxy may fit it (a class works on a shared galaxy); each fit records who asked.
+ */
+export async function requestFit(em: EntityManager, user: User, g: Galaxy, body: unknown): Promise<GalaxyFitRecord> {
+  const request = parseInput(galaxyFitRequestSchema, body);
+  if (g.points > FIT_MAX_POINTS) throw new ApiError('BAD_REQUEST', `This galaxy has ${g.points} points; fits through the service take at most ${FIT_MAX_POINTS}`);
+  let results;
+  try {
+    results = fitGalaxy(g.curve, request);
+  } catch (err) {
+    if (err instanceof FitError) throw new ApiError('BAD_REQUEST', `The fit failed: ${err.message}`);
+    throw err;
+  }
+  // The fit runs on this thread: FIT_MAX_POINTS keeps it to a few seconds at most.
+  const fit = await em.transactional(async (tx) => {
+    const made = tx.create(GalaxyFit, { galaxy: g.id, requestedBy: user.id, request, results });
+    await tx.flush();
+    const old = await tx.find(GalaxyFit, { galaxy: g.id }, { fields: ['id'], orderBy: { createdAt: 'desc', id: 'desc' }, offset: FITS_KEPT });
+    if (old.length) await tx.nativeDelete(GalaxyFit, { id: { $in: old.map((f) => f.id) } });
+    return made;
+  });
+  return { id: fit.id, request, results, requestedBy: owner(user), createdAt: fit.createdAt.toISOString() };
 }

@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import type { RotationCurve } from '../galaxy/table';
+import { FIT_LAWS, type GalaxyFitReport } from '../galaxy/fit';
 import type { Owner } from './contract';
 
 // Galaxies: observed rotation curves uploaded as tables, who may see them, and the fits
@@ -86,6 +87,24 @@ export const updateGalaxyBodySchema = z
   .strict();
 export type UpdateGalaxyBody = z.infer<typeof updateGalaxyBodySchema>;
 
+/** Fits run inside the request, so a galaxy fitted through the API has at most this many points. */
+export const FIT_MAX_POINTS = 300;
+
+/** POST /api/galaxies/:id/fits: which laws, and whether MOND's a0 and emergent gravity's H0 are fitted or held. */
+export const galaxyFitRequestSchema = z
+  .object({
+    laws: z
+      .array(z.enum(FIT_LAWS, `a law is one of ${FIT_LAWS.join(', ')}`))
+      .min(1, 'choose at least one law')
+      .max(FIT_LAWS.length)
+      .refine((l) => new Set(l).size === l.length, 'each law once')
+      .default([...FIT_LAWS]),
+    a0: z.enum(['fixed', 'free'], 'a0 is fixed or free').default('fixed'),
+    H0: z.enum(['fixed', 'free'], 'H0 is fixed or free').default('fixed'),
+  })
+  .strict();
+export type GalaxyFitRequest = z.infer<typeof galaxyFitRequestSchema>;
+
 export interface UploadLimits {
   /** Largest table file, bytes. */
   maxUploadBytes: number;
@@ -111,7 +130,7 @@ export interface GalaxySummary {
 export interface GalaxyFitRecord {
   id: number;
   request: GalaxyFitRequest;
-  results: unknown;
+  results: GalaxyFitReport;
   requestedBy: Owner;
   createdAt: string;
 }

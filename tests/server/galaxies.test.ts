@@ -5,6 +5,8 @@ import { openAuthStack, userWithToken, type AuthStack } from './auth/harness';
 import { Cohort, CohortMember, Galaxy, type User } from '../../server/db/entities';
 import { ROLE_UPLOAD_LIMITS } from '../../shared/api/accounts';
 import { newEnrolmentCode } from '../../server/services/cohorts';
+import { inventedCurve } from '../../shared/galaxy/invented';
+import { accelFromSI } from '../../shared/engine/units';
 
 jest.setTimeout(60_000);
 
@@ -196,5 +198,49 @@ describe('who sees a galaxy', () => {
     await request(s.app).delete(`/api/galaxies/${id}`).set(owner.auth).expect(204);
     await request(s.app).get(`/api/galaxies/${id}`).set(owner.auth).expect(404);
     expect(await s.em().count(Galaxy, { id })).toBe(0);
+  });
+});
+
+describe('fitting a galaxy through the API', () => {
+  // An invented galaxy whose curve is exactly MOND (simple function, a0 = 1.2e-10 m/s^2) on its
+  // baryons at Upsilon_disk = 0.5, with 3% errors and seeded noise.
+  let id: number;
+  beforeAll(async () => {
+    const curve = inventedCurve(
+      { disk: { mass_Msun: 4e10, scale_kpc: 2.5 }, gas: { mass_Msun: 1e10, scale_kpc: 5 } },
+      Array.from({ length: 20 }, (_, i) => 0.75 * (i + 1)),
+      (R, c) => {
+        const gN = (c.vGas ** 2 + 0.5 * c.vDisk ** 2) / R;
+        const y = gN / accelFromSI(1.2e-10);
+        return Math.sqrt(R * gN * (0.5 + Math.sqrt(0.25 + 1 / y)));
+      },
+      (_R, v) => 0.03 * v + 2,
+      7,
+    );
+    const lines = curve.radiusKpc.map((R, i) => [R, curve.vObs[i], curve.vErr[i], curve.vGas![i], curve.vDisk![i]].map((v) => v.toPrecision(8)).join(','));
+    id = (await upload(owner.auth, ['R,Vobs,errV,Vgas,Vdisk', ...lines].join('\n'), { name: 'Invented MOND galaxy', visibility: 'public' }).expect(201)).body.id;
+  });
+
+  test('a fit request stores per-law results with chi^2, uncertainties and a BIC verdict', async () => {
+    const res = await request(s.app).post(`/api/galaxies/${id}/fits`).set(stranger.auth).send({ laws: ['mond-simple', 'nfw'], a0: 'free' }).expect(201);
+    expect(res.body.request).toEqual({ laws: ['mond-simple', 'nfw'], a0: 'free', H0: 'fixed' });
+    expect(res.body.requestedBy.id).toBe(stranger.user.id);
+    const mond = res.body.results.laws.find((l: { law: string }) => l.law === 'mond-simple');
+    const a0 = mond.params.find((p: { name: string }) => p.name === 'a0');
+    // The curve was made with a0 = 1.2e-10 m/s^2: recovered within 3 sigma (tolerance ours).
+    expect(Math.abs(a0.value - 1.2e-10)).toBeLessThan(3 * a0.error);
+    expect(mond.reducedChi2).toBeGreaterThan(0);
+    expect(res.body.results.verdict.criterion).toBe('BIC');
+    const detail = await request(s.app).get(`/api/galaxies/${id}`).set(owner.auth).expect(200);
+    expect(detail.body.fits[0].id).toBe(res.body.id);
+  });
+
+  test('a bad fit request is refused naming the field; a galaxy one cannot see cannot be fitted', async () => {
+    const bad = await request(s.app).post(`/api/galaxies/${id}/fits`).set(owner.auth).send({ laws: ['phlogiston'] }).expect(400);
+    expect(bad.body.error.field).toBe('laws.0');
+    await request(s.app).post(`/api/galaxies/${id}/fits`).set(owner.auth).send({ laws: [] }).expect(400);
+    await request(s.app).post(`/api/galaxies/${id}/fits`).set(owner.auth).send({ a0: 'maybe' }).expect(400);
+    const hidden = (await upload(owner.auth, GOOD, { name: 'Invented hidden' }).expect(201)).body.id;
+    await request(s.app).post(`/api/galaxies/${hidden}/fits`).set(stranger.auth).send({}).expect(404);
   });
 });

@@ -1,5 +1,6 @@
 import { defineEntity, p, type InferEntity } from '@mikro-orm/core';
 import type { GalaxyFitRequest } from '../../../shared/api/galaxies';
+import type { GalaxyFitReport } from '../../../shared/galaxy/fit';
 import { Galaxy } from './Galaxy';
 import { User } from './User';
 
@@ -12,7 +13,7 @@ export const GalaxyFit = defineEntity({
     galaxy: () => p.manyToOne(Galaxy).index().deleteRule('cascade'),
     requestedBy: () => p.manyToOne(User),
     request: p.json<GalaxyFitRequest>(),
-    results: p.json<unknown>(),
+    results: p.json<GalaxyFitReport>(),
     createdAt: p.datetime().onCreate(() => new Date()),
   },
 });
