@@ -3,17 +3,23 @@
 //   sim curve SPEC.json [--points N] [--max-radius KPC]
 //   sim check SPEC.json
 //   sim schema
-// A spec that does not parse exits 2 with one "field: message" line per problem.
+//   sim fit CURVE.csv [--law KIND ...] [--a0 free|fixed] [--H0 free|fixed] [--arcsec --distance MPC]
+// A spec that does not parse exits 2 with one "field: message" line per problem;
+// so does a rotation-curve table that does not parse (naming line and column).
 import { readFileSync, writeFileSync } from 'node:fs';
 import { z } from 'zod';
 import { parseRunSpec, runSpecSchema, type RunSpec } from '../spec';
+import { FIT_LAWS, FitError, fitGalaxy, type FitLaw } from '../galaxy/fit';
+import { parseRotationCurve, TableError } from '../galaxy/table';
 import { analyticCurves, precheck, runSimulation } from './index';
 
 const USAGE = `usage:
   sim run SPEC.json [--out RESULT.json] [--max-snapshot-particles N] [--velocities]
   sim curve SPEC.json [--points N] [--max-radius KPC]
   sim check SPEC.json
-  sim schema`;
+  sim schema
+  sim fit CURVE.csv [--law KIND ...] [--a0 free|fixed] [--H0 free|fixed] [--arcsec --distance MPC]
+      KIND: ${FIT_LAWS.join(', ')} (default all)`;
 
 class SpecError extends Error {}
 
@@ -74,6 +80,39 @@ function run(args: string[]): void {
   print({ cancelled: result.cancelled, law: result.law, summary: result.summary, timescales: result.timescales, warnings: result.warnings, ...(out ? { result: out } : {}) });
 }
 
+/** Local files may be large; the server applies the person's quota instead. */
+const CLI_TABLE_LIMITS = { maxBytes: 16 * 1024 * 1024, maxRows: 100_000 };
+
+function choice(args: string[], name: string): 'free' | 'fixed' | undefined {
+  const raw = option(args, name);
+  if (raw === undefined || raw === 'free' || raw === 'fixed') return raw;
+  throw new Error(`${name} takes free or fixed, got "${raw}"`);
+}
+
+function fit(args: string[]): void {
+  const path = args[0];
+  if (!path || path.startsWith('--')) throw new Error('missing CURVE.csv');
+  const laws = args.flatMap((a, k) => (a === '--law' ? (args[k + 1] ?? '').split(',') : [])) as FitLaw[];
+  const unknown = laws.find((l) => !FIT_LAWS.includes(l));
+  if (unknown !== undefined) throw new Error(`--law "${unknown}" is not one of ${FIT_LAWS.join(', ')}`);
+  const distance = numberOption(args, '--distance');
+  let curve;
+  try {
+    curve = parseRotationCurve(readFileSync(path), {
+      ...CLI_TABLE_LIMITS,
+      radiusUnit: args.includes('--arcsec') ? 'arcsec' : 'kpc',
+      ...(distance === undefined ? {} : { distanceMpc: { value: distance } }),
+    });
+  } catch (e) {
+    throw e instanceof TableError ? new SpecError(`${path}: ${e.message}`) : e;
+  }
+  try {
+    print(fitGalaxy(curve, { laws, a0: choice(args, '--a0'), H0: choice(args, '--H0') }));
+  } catch (e) {
+    throw e instanceof FitError ? new SpecError(`${path}: ${e.message}`) : e;
+  }
+}
+
 function main(argv: string[]): number {
   const [command, ...args] = argv;
   try {
@@ -86,6 +125,9 @@ function main(argv: string[]): number {
         return 0;
       case 'check':
         print(precheck(loadSpec(args[0])));
+        return 0;
+      case 'fit':
+        fit(args);
         return 0;
       case 'schema':
         print(z.toJSONSchema(runSpecSchema, { io: 'input', unrepresentable: 'any' }));
