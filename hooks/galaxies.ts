@@ -1,5 +1,5 @@
-import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
-import type { GalaxyDetail, GalaxyList, GalaxyMapping, GalaxySummary, GalaxyVisibility, UpdateGalaxyBody } from '../shared/api/galaxies';
+import { useMutation, useQueries, useQuery, useQueryClient } from '@tanstack/react-query';
+import type { GalaxyDetail, GalaxyFitRecord, GalaxyFitRequest, GalaxyList, GalaxyMapping, GalaxySummary, GalaxyVisibility, UpdateGalaxyBody } from '../shared/api/galaxies';
 import { api } from './api';
 
 const keys = {
@@ -13,6 +13,19 @@ export function useGalaxies() {
 
 export function useGalaxy(id: number) {
   return useQuery({ queryKey: keys.one(id), enabled: id > 0, queryFn: ({ signal }) => api<GalaxyDetail>(`/api/galaxies/${id}`, { signal }) });
+}
+
+/** Several galaxies at once (the acceleration relation of a selection). */
+export function useGalaxySelection(ids: number[]) {
+  return useQueries({ queries: ids.map((id) => ({ queryKey: keys.one(id), queryFn: ({ signal }: { signal: AbortSignal }) => api<GalaxyDetail>(`/api/galaxies/${id}`, { signal }) })) });
+}
+
+export function useFitGalaxy(id: number) {
+  const qc = useQueryClient();
+  return useMutation({
+    mutationFn: (body: GalaxyFitRequest) => api<GalaxyFitRecord>(`/api/galaxies/${id}/fits`, { method: 'POST', body }),
+    onSuccess: () => void qc.invalidateQueries({ queryKey: keys.one(id) }),
+  });
 }
 
 /** A picked table file: its name and a way to get it as a Blob for the upload. */

@@ -130,14 +130,16 @@ export function readCurve(bytes: Uint8Array, mapping: GalaxyMapping, maxBytes: n
 
 export async function listGalaxies(em: EntityManager, user: User): Promise<GalaxySummary[]> {
   const rows = await em.find(Galaxy, await visibleFilter(em, user), { populate: ['owner', 'cohort'], exclude: ['fileBytes', 'curve', 'mapping'], orderBy: { uploadedAt: 'desc', id: 'desc' }, limit: 500 });
-  return rows.map((g) => summary(user, g));
+  // The summary reads none of the excluded columns.
+  return rows.map((g) => summary(user, g as Galaxy));
 }
 
 export async function findVisibleGalaxy(em: EntityManager, user: User, rawId: string): Promise<Galaxy> {
   const id = idParam(rawId, 'galaxy');
   const g = await em.findOne(Galaxy, { $and: [{ id }, await visibleFilter(em, user)] }, { populate: ['owner', 'cohort'], exclude: ['fileBytes'] });
   if (!g) throw new ApiError('NOT_FOUND', `No galaxy ${rawId}`);
-  return g;
+  // The raw bytes stay in the database until galaxyFile asks for them.
+  return g as Galaxy;
 }
 
 function requireManage(user: User, g: Galaxy): void {
@@ -152,7 +154,7 @@ export async function galaxyDetail(em: EntityManager, user: User, g: Galaxy): Pr
 /** The uploaded file exactly as it was sent. */
 export async function galaxyFile(em: EntityManager, g: Galaxy): Promise<Buffer> {
   const row = await em.findOneOrFail(Galaxy, { id: g.id }, { fields: ['fileBytes'] });
-  return row.fileBytes;
+  return Buffer.from(row.fileBytes);
 }
 
 export async function updateGalaxy(em: EntityManager, user: User, g: Galaxy, body: unknown): Promise<GalaxySummary> {
