@@ -1,6 +1,6 @@
 import { useMemo, useState } from 'react';
 import { ScrollView, StyleSheet, View } from 'react-native';
-import { router } from 'expo-router';
+import { useRouter } from 'expo-router';
 import * as DocumentPicker from 'expo-document-picker';
 import { colors, fonts, space } from '../../constants/theme';
 import { useCohorts } from '../../hooks/cohorts';
@@ -9,7 +9,7 @@ import { COLUMN_KEYS, parseRotationCurve, readTableCells, TableError, type Colum
 import { galaxyMappingSchema, type GalaxyMapping, type GalaxyVisibility, type UploadLimits } from '../../shared/api/galaxies';
 import { Button } from '../Button';
 import { ChoiceChips, FieldRow, NumberField, TextField } from '../fields';
-import { formatCount } from '../format';
+import { formatCount, formatValue } from '../format';
 import { LinePlot } from '../LinePlot';
 import { Panel } from '../Panel';
 import { Screen } from '../Screen';
@@ -101,6 +101,7 @@ function CellsPreview({ cells }: { cells: TableCells }) {
 }
 
 function ImportForm({ limits }: { limits: UploadLimits }) {
+  const router = useRouter();
   const upload = useUploadGalaxy();
   const cohorts = useCohorts();
   const [file, setFile] = useState<Picked | null>(null);
@@ -184,7 +185,7 @@ function ImportForm({ limits }: { limits: UploadLimits }) {
           ) : reading.curve ? (
             <>
               <Txt variant="small" testID="galaxy-preview-summary">
-                {reading.curve.radiusKpc.length} points from {reading.curve.radiusKpc[0].toPrecision(3)} to {reading.curve.radiusKpc[reading.curve.radiusKpc.length - 1].toPrecision(3)} kpc; components:{' '}
+                {reading.curve.radiusKpc.length} points from {formatValue(reading.curve.radiusKpc[0])} to {formatValue(reading.curve.radiusKpc[reading.curve.radiusKpc.length - 1])} kpc; components:{' '}
                 {[reading.curve.vGas && 'gas', reading.curve.vDisk && 'disk', reading.curve.vBulge && 'bulge'].filter(Boolean).join(', ') || 'none'}.
               </Txt>
               <LinePlot series={[dataSeries(reading.curve)]} xLabel="radius [kpc]" yLabel="speed [km/s]" yFromZero xFromZero height={220} accessibilityLabel="Preview of the rotation curve" testID="galaxy-preview" />

@@ -1,6 +1,6 @@
 import { useMemo, useState } from 'react';
 import { StyleSheet, View } from 'react-native';
-import { router } from 'expo-router';
+import { useRouter } from 'expo-router';
 import { colors, space } from '../../constants/theme';
 import { useCohorts } from '../../hooks/cohorts';
 import { useDeleteGalaxy, useFitGalaxy, useGalaxy, useUpdateGalaxy } from '../../hooks/galaxies';
@@ -93,6 +93,7 @@ function FitTable({ record }: { record: GalaxyFitRecord }) {
 }
 
 function Sharing({ galaxy }: { galaxy: GalaxyDetail }) {
+  const router = useRouter();
   const update = useUpdateGalaxy(galaxy.id);
   const remove = useDeleteGalaxy(galaxy.id);
   const cohorts = useCohorts();
