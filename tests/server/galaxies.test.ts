@@ -2,7 +2,8 @@
 // stored with its raw bytes; every refusal names the problem and stores nothing; who sees what.
 import request from 'supertest';
 import { openAuthStack, userWithToken, type AuthStack } from './auth/harness';
-import { Cohort, CohortMember, Galaxy, type User } from '../../server/db/entities';
+import { Cohort, CohortMember, Galaxy, GalaxyFit, type User } from '../../server/db/entities';
+import { seedGalaxies } from '../../server/db/seed-galaxies';
 import { ROLE_UPLOAD_LIMITS } from '../../shared/api/accounts';
 import { newEnrolmentCode } from '../../server/services/cohorts';
 import { inventedCurve } from '../../shared/galaxy/invented';
@@ -242,5 +243,22 @@ describe('fitting a galaxy through the API', () => {
     await request(s.app).post(`/api/galaxies/${id}/fits`).set(owner.auth).send({ a0: 'maybe' }).expect(400);
     const hidden = (await upload(owner.auth, GOOD, { name: 'Invented hidden' }).expect(201)).body.id;
     await request(s.app).post(`/api/galaxies/${hidden}/fits`).set(stranger.auth).send({}).expect(404);
+  });
+});
+
+describe('the seeded demo galaxies', () => {
+  test('three invented galaxies with fits, added once, marked invented, one shared with the demo cohort', async () => {
+    const em = s.em();
+    const instructor = s.seeded.users['ilse-varga'];
+    await seedGalaxies(em, instructor, s.seeded.cohort);
+    expect(await seedGalaxies(s.em(), instructor, s.seeded.cohort)).toBe(0);
+    const rows = await s.em().find(Galaxy, { owner: instructor.id, invented: true }, { orderBy: { id: 'asc' } });
+    expect(rows).toHaveLength(3);
+    for (const g of rows) {
+      expect(g.name).toMatch(/invented/);
+      expect(Buffer.from(g.fileBytes).toString('utf8')).toMatch(/INVENTED demo data/);
+      expect(await s.em().count(GalaxyFit, { galaxy: g.id })).toBeGreaterThan(0);
+    }
+    expect(rows.filter((g) => g.visibility === 'cohort').map((g) => (g.cohort as Cohort).id)).toEqual([s.seeded.cohort.id]);
   });
 });
