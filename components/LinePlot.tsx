@@ -156,7 +156,7 @@ const Axes = memo(function Axes({ plot, width, height, xLabel, xLog, yLog }: { p
 function Swatch({ s, on }: { s: PlotSeries; on: boolean }) {
   return (
     <Svg width={26} height={12} style={{ opacity: on ? 1 : 0.35 }}>
-      {s.pointsOnly ? <Line x1={13} x2={13} y1={0} y2={12} stroke={s.color} strokeWidth={1.2} /> : <Line x1={1} x2={25} y1={6} y2={6} stroke={s.color} strokeWidth={2} strokeDasharray={s.dashed ? '4 3' : undefined} />}
+      {s.pointsOnly ? (s.yError ? <Line x1={13} x2={13} y1={0} y2={12} stroke={s.color} strokeWidth={1.2} /> : null) : <Line x1={1} x2={25} y1={6} y2={6} stroke={s.color} strokeWidth={2} strokeDasharray={s.dashed ? '4 3' : undefined} />}
       {s.mark ? <Path d={markPath(s.mark, 13, 6)} fill={s.color} stroke={colors.surface} strokeWidth={1} /> : null}
     </Svg>
   );

@@ -72,14 +72,9 @@ function FitTable({ record }: { record: GalaxyFitRecord }) {
             <View style={[styles.swatch, { backgroundColor: FIT_LOOKS[l.law].color }]} />
             <Txt variant="heading">{l.label}</Txt>
           </View>
-          <View style={styles.facts}>
-            <Fact label="χ²" value={formatValue(l.chi2)} />
-            <Fact label="χ²/ν" value={formatValue(l.reducedChi2)} />
-            <Fact label="ν" value={String(l.dof)} />
-            <Fact label="AIC" value={formatValue(l.aic)} />
-            <Fact label="BIC" value={formatValue(l.bic)} />
-            <Fact label="ΔBIC" value={formatValue(verdict.deltaBic[l.law] ?? 0)} />
-          </View>
+          <Txt variant="mono" accessibilityLabel={`chi squared ${formatValue(l.chi2)}, reduced ${formatValue(l.reducedChi2)} over ${l.dof} degrees of freedom, AIC ${formatValue(l.aic)}, BIC ${formatValue(l.bic)}`}>
+            χ² {formatValue(l.chi2)} · χ²/ν {formatValue(l.reducedChi2)} (ν = {l.dof}) · AIC {formatValue(l.aic)} · BIC {formatValue(l.bic)} · ΔBIC {formatValue(verdict.deltaBic[l.law] ?? 0)}
+          </Txt>
           {l.params.map((p) => (
             <Txt key={p.name} variant="mono">
               {paramText(p)}
@@ -208,7 +203,7 @@ const styles = StyleSheet.create({
   facts: { flexDirection: 'row', flexWrap: 'wrap', gap: space.md },
   inline: { flexDirection: 'row', alignItems: 'center', gap: space.sm, flexWrap: 'wrap' },
   lawToggles: { flexDirection: 'row', flexWrap: 'wrap', gap: space.sm },
-  lawToggle: { flexBasis: 160, flexGrow: 1 },
+  lawToggle: { flexBasis: 140, flexGrow: 1 },
   fitRow: { gap: space.xs, paddingTop: space.sm, borderTopWidth: 1, borderTopColor: colors.border },
   fitHead: { flexDirection: 'row', alignItems: 'center', gap: space.sm },
   swatch: { width: 14, height: 14, borderRadius: 3 },
