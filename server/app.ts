@@ -11,6 +11,7 @@ import { healthRouter } from './routes/health';
 import { runsRouter } from './routes/runs';
 import { exportsRouter } from './routes/exports';
 import { galaxiesRouter } from './routes/galaxies';
+import { particleTablesRouter } from './routes/particleTables';
 
 export interface Deps {
   orm: Orm;
@@ -32,6 +33,7 @@ export function createApp(deps: Deps, opts: { webDir?: string } = {}): Express {
   api.use('/runs', runsRouter(deps));
   api.use('/runs', exportsRouter());
   api.use('/galaxies', galaxiesRouter());
+  api.use('/particle-tables', particleTablesRouter());
   api.use(notFoundHandler);
   app.use('/api', api);
 

@@ -80,7 +80,7 @@ function fitRecord(f: GalaxyFit): GalaxyFitRecord {
 }
 
 /** A file name as a label only: no path, no control characters, bounded. */
-function cleanFileName(name: string): string {
+export function cleanFileName(name: string): string {
   const base = name.split(/[\\/]/).pop() ?? '';
   return base.replace(/[\u0000-\u001f\u007f]/g, '').slice(0, 120) || 'table.txt';
 }
@@ -114,17 +114,20 @@ export async function createGalaxy(em: EntityManager, user: User, file: Uploaded
 }
 
 /** The table parser's refusal as a 400 naming line and column (or 413 for a table over the limits). */
-export function readCurve(bytes: Uint8Array, mapping: GalaxyMapping, maxBytes: number, maxRows: number) {
+export function tableRefusal(err: TableError): ApiError {
+  // The parser words its size and row refusals as "... the limit ..." and names no line.
+  const overLimit = err.line === undefined && /\bthe limit\b/.test(err.message);
+  return new ApiError(overLimit ? 'PAYLOAD_TOO_LARGE' : 'BAD_REQUEST', `file: ${err.message}`, {
+    field: 'file',
+    details: { line: err.line ?? null, column: err.column ?? null },
+  });
+}
+
+function readCurve(bytes: Uint8Array, mapping: GalaxyMapping, maxBytes: number, maxRows: number) {
   try {
     return parseRotationCurve(bytes, { maxBytes, maxRows, ...mapping });
   } catch (err) {
-    if (!(err instanceof TableError)) throw err;
-    // The parser words its size and row refusals as "... the limit ..." and names no line.
-    const overLimit = err.line === undefined && /\bthe limit\b/.test(err.message);
-    throw new ApiError(overLimit ? 'PAYLOAD_TOO_LARGE' : 'BAD_REQUEST', `file: ${err.message}`, {
-      field: 'file',
-      details: { line: err.line ?? null, column: err.column ?? null },
-    });
+    throw err instanceof TableError ? tableRefusal(err) : err;
   }
 }
 

@@ -262,3 +262,37 @@ describe('the seeded demo galaxies', () => {
     expect(rows.filter((g) => g.visibility === 'cohort').map((g) => (g.cohort as Cohort).id)).toEqual([s.seeded.cohort.id]);
   });
 });
+
+describe('particle tables through the same upload path', () => {
+  const post = (auth: Auth, body: string | Buffer, name = 'particles.csv') => request(s.app).post('/api/particle-tables').set(auth).attach('file', Buffer.isBuffer(body) ? body : Buffer.from(body), name);
+
+  test('a good table comes back as particles, with or without a header, and nothing is stored', async () => {
+    const before = await s.em().count(Galaxy, {});
+    const res = await post(owner.auth, 'x,y,z,vx,vy,vz,mass\n1,0,0,0,50,0,1e9\n-1,0,0,0,-50,0,1e9\n').expect(200);
+    expect(res.body).toEqual({ fileName: 'particles.csv', particles: [
+      { x_kpc: 1, y_kpc: 0, z_kpc: 0, vx_km_s: 0, vy_km_s: 50, vz_km_s: 0, mass_Msun: 1e9 },
+      { x_kpc: -1, y_kpc: 0, z_kpc: 0, vx_km_s: 0, vy_km_s: -50, vz_km_s: 0, mass_Msun: 1e9 },
+    ] });
+    expect((await post(owner.auth, '1 0 0 0 50 0 1e9\n').expect(200)).body.particles).toHaveLength(1);
+    expect(await s.em().count(Galaxy, {})).toBe(before);
+  });
+
+  test.each([
+    ['a row of six numbers', '1,0,0,0,50,0,1e9\n1,0,0,0,50,0\n', /^file: line 2: expected 7 numbers/],
+    ['a cell that is not a number', '1,0,0,0,50,0,1e9\n1,0,0,0,5O,0,1e9\n', /^file: line 2, column 5: "5O" is not a number/],
+    ['formula injection', '1,0,0,0,50,0,=1+1\n', /^file: line 1, column 7: .*formula/],
+    ['a zero mass', '1,0,0,0,50,0,0\n', /^file: line 1, column 7: mass 0 must be positive/],
+    ['binary content', Buffer.from([0x1f, 0x8b, 0x08, 0, 0, 0, 0, 0]), /binary/],
+    ['latin-1 text', Buffer.from('# Teilchen f\xfcr den Lauf\n1,0,0,0,50,0,1e9\n', 'latin1'), /UTF-8/],
+  ])('%s is refused with a clear message', async (_what, body, message) => {
+    const res = await post(owner.auth, body as string | Buffer).expect(400);
+    expect(res.body.error.message).toMatch(message);
+  });
+
+  test('rows beyond the particles a run may have are refused', async () => {
+    const rows = Array.from({ length: ROLE_UPLOAD_LIMITS.student.maxUploadRows + 1 }, (_, i) => `${i},0,0,0,0,0,1e6`).join('\n');
+    const res = await post(student.auth, rows).expect(413);
+    expect(res.body.error.message).toMatch(/data rows/);
+    await request(s.app).post('/api/particle-tables').attach('file', Buffer.from('1,0,0,0,0,0,1'), 'p.csv').expect(401);
+  });
+});
