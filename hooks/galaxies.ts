@@ -1,5 +1,6 @@
 import { useMutation, useQueries, useQuery, useQueryClient } from '@tanstack/react-query';
 import type { GalaxyDetail, GalaxyFitRecord, GalaxyFitRequest, GalaxyList, GalaxyMapping, GalaxySummary, GalaxyVisibility, UpdateGalaxyBody } from '../shared/api/galaxies';
+import type { ParticleTableUpload } from '../shared/api/particleTable';
 import { api } from './api';
 
 const keys = {
@@ -28,14 +29,8 @@ export function useFitGalaxy(id: number) {
   });
 }
 
-/** A picked table file: its name and a way to get it as a Blob for the upload. */
-export interface PickedTable {
-  name: string;
-  blob: Blob;
-}
-
 export interface UploadInput {
-  file: PickedTable;
+  file: { name: string; blob: Blob };
   name: string;
   mapping: GalaxyMapping;
   visibility: GalaxyVisibility;
@@ -68,6 +63,17 @@ export function useUpdateGalaxy(id: number) {
     onSuccess: () => {
       void qc.invalidateQueries({ queryKey: keys.one(id) });
       void qc.invalidateQueries({ queryKey: keys.list });
+    },
+  });
+}
+
+/** Sends a particle table through the upload path; the server reads it and answers with the particles. */
+export function useParticleTableUpload() {
+  return useMutation({
+    mutationFn: (file: { name: string; blob: Blob }) => {
+      const form = new FormData();
+      form.append('file', file.blob, file.name);
+      return api<ParticleTableUpload>('/api/particle-tables', { method: 'POST', body: form });
     },
   });
 }

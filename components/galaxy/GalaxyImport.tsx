@@ -1,10 +1,10 @@
 import { useMemo, useState } from 'react';
 import { ScrollView, StyleSheet, View } from 'react-native';
 import { useRouter } from 'expo-router';
-import * as DocumentPicker from 'expo-document-picker';
 import { colors, fonts, space } from '../../constants/theme';
 import { useCohorts } from '../../hooks/cohorts';
-import { useGalaxies, useUploadGalaxy, type PickedTable } from '../../hooks/galaxies';
+import { useGalaxies, useUploadGalaxy } from '../../hooks/galaxies';
+import { pickTableFile, type PickedFile } from '../../hooks/pickFile';
 import { COLUMN_KEYS, parseRotationCurve, readTableCells, TableError, type ColumnKey, type RotationCurve, type TableCells } from '../../shared/galaxy/table';
 import { galaxyMappingSchema, type GalaxyMapping, type GalaxyVisibility, type UploadLimits } from '../../shared/api/galaxies';
 import { Button } from '../Button';
@@ -27,30 +27,6 @@ const COLUMN_WORDS: Record<ColumnKey, string> = {
 };
 
 const PREVIEW_ROWS = 6;
-
-interface Picked extends PickedTable {
-  bytes: Uint8Array;
-}
-
-function blobBytes(blob: Blob): Promise<ArrayBuffer> {
-  if (typeof blob.arrayBuffer === 'function') return blob.arrayBuffer();
-  return new Promise((resolve, reject) => {
-    const reader = new FileReader();
-    reader.onload = () => resolve(reader.result as ArrayBuffer);
-    reader.onerror = () => reject(reader.error);
-    reader.readAsArrayBuffer(blob);
-  });
-}
-
-/** Opens the system picker; refuses a file over the byte limit before reading it. */
-async function pickTable(maxBytes: number): Promise<Picked | null> {
-  const result = await DocumentPicker.getDocumentAsync({ type: ['text/csv', 'text/plain', 'text/tab-separated-values', '.csv', '.txt', '.dat', '*/*'], multiple: false, base64: false });
-  if (result.canceled || !result.assets?.length) return null;
-  const asset = result.assets[0];
-  if (asset.size !== undefined && asset.size > maxBytes) throw new TableError(`the file is ${formatCount(asset.size)} bytes; your upload limit is ${formatCount(maxBytes)}`);
-  const blob = asset.file ?? (await (await fetch(asset.uri)).blob());
-  return { name: asset.name, blob, bytes: new Uint8Array(await blobBytes(blob)) };
-}
 
 type Reading = { cells: TableCells; curve: RotationCurve | null; error: TableError | null } | { cells: null; curve: null; error: TableError };
 
@@ -104,7 +80,7 @@ function ImportForm({ limits }: { limits: UploadLimits }) {
   const router = useRouter();
   const upload = useUploadGalaxy();
   const cohorts = useCohorts();
-  const [file, setFile] = useState<Picked | null>(null);
+  const [file, setFile] = useState<PickedFile | null>(null);
   const [pickError, setPickError] = useState<string | null>(null);
   const [name, setName] = useState('');
   const [columns, setColumns] = useState<Partial<Record<ColumnKey, number>>>({});
@@ -128,7 +104,7 @@ function ImportForm({ limits }: { limits: UploadLimits }) {
   const pick = async () => {
     setPickError(null);
     try {
-      const picked = await pickTable(limits.maxUploadBytes);
+      const picked = await pickTableFile(limits.maxUploadBytes);
       if (!picked) return;
       setFile(picked);
       setColumns({});

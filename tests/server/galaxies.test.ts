@@ -273,7 +273,9 @@ describe('particle tables through the same upload path', () => {
       { x_kpc: 1, y_kpc: 0, z_kpc: 0, vx_km_s: 0, vy_km_s: 50, vz_km_s: 0, mass_Msun: 1e9 },
       { x_kpc: -1, y_kpc: 0, z_kpc: 0, vx_km_s: 0, vy_km_s: -50, vz_km_s: 0, mass_Msun: 1e9 },
     ] });
-    expect((await post(owner.auth, '1 0 0 0 50 0 1e9\n').expect(200)).body.particles).toHaveLength(1);
+    // Whitespace-separated, scientific notation, a malformed cell named by line and column.
+    expect((await post(owner.auth, '1e0 0 0 0 5e1 0 1e9\n').expect(200)).body.particles).toEqual([{ x_kpc: 1, y_kpc: 0, z_kpc: 0, vx_km_s: 0, vy_km_s: 50, vz_km_s: 0, mass_Msun: 1e9 }]);
+    expect((await post(owner.auth, '1 0 0 0 50 0 1e9\n1 0 0 0 50 0 4e\n').expect(400)).body.error.message).toBe('file: line 2, column 7: "4e" is not a number');
     expect(await s.em().count(Galaxy, {})).toBe(before);
   });
 
