@@ -161,7 +161,8 @@ interface LawModel {
   shared(o: ResolvedOptions, sample: boolean): ParamSpec[];
   /** Per-galaxy law parameters besides the mass-to-light ratios. */
   own(o: ResolvedOptions, sample: boolean): ParamSpec[];
-  acceleration(shared: number[], own: number[], model: MassModel, R: number, o: ResolvedOptions): number;
+  /** The law's modelAcceleration with these parameters, prepared once per evaluation. */
+  acceleration(shared: number[], own: number[], o: ResolvedOptions): (model: MassModel, R: number) => number;
   derived?(shared: number[], own: number[]): Record<string, number>;
 }
 
@@ -182,9 +183,10 @@ export function concentrationFor(V200: number, a: number): number {
   return 10 ** (a + CM_SLOPE * Math.log10((M200_Msun * LITTLE_H) / 1e12));
 }
 
-const nfwAccel = (V200: number, c: number, model: MassModel, R: number) => {
+const nfwAccel = (V200: number, c: number) => {
   const { scale_kpc, density_Msun_kpc3 } = nfwFromV200(V200, c);
-  return haloLaw.modelAcceleration({ kind: 'halo', profile: 'nfw', scale_kpc, density_Msun_kpc3 }, model, R);
+  const halo = { kind: 'halo', profile: 'nfw', scale_kpc, density_Msun_kpc3 } as const;
+  return (model: MassModel, R: number) => haloLaw.modelAcceleration(halo, model, R);
 };
 
 const V200: ParamSpec = { name: 'V200', unit: 'km/s', scale: 100, min: 10, max: 500, starts: [60, 120, 250] };
@@ -192,8 +194,10 @@ const mondModel = (interpolation: 'simple' | 'standard' | 'rar', label: string):
   label,
   shared: (o) => (o.a0 === 'free' ? [{ name: 'a0', unit: 'm/s^2', scale: 1e-10, min: 1e-11, max: 1e-9, starts: [0.7e-10, 1.2e-10, 2e-10] }] : []),
   own: () => [],
-  acceleration: (shared, _own, model, R, o) =>
-    mondLaw.modelAcceleration({ kind: 'mond', interpolation, a0_m_s2: o.a0 === 'free' ? shared[0] : o.a0_m_s2 }, model, R),
+  acceleration(shared, _own, o) {
+    const law = { kind: 'mond', interpolation, a0_m_s2: o.a0 === 'free' ? shared[0] : o.a0_m_s2 } as const;
+    return (model, R) => mondLaw.modelAcceleration(law, model, R);
+  },
 });
 
 const LAW_MODELS: Record<FitLaw, LawModel> = {
@@ -201,7 +205,7 @@ const LAW_MODELS: Record<FitLaw, LawModel> = {
     label: 'Newton + NFW halo',
     shared: (_o, sample) => (sample ? [{ name: 'cmNormalisation', unit: 'dex', scale: 1, min: 0.2, max: 2, starts: [0.8, CM_NORMALISATION, 1.3] }] : []),
     own: (_o, sample) => (sample ? [V200] : [V200, { name: 'c200', unit: '', scale: 10, min: 1, max: 50, starts: [5, 10, 20] }]),
-    acceleration: (shared, own, model, R) => nfwAccel(own[0], shared.length ? concentrationFor(own[0], shared[0]) : own[1], model, R),
+    acceleration: (shared, own) => nfwAccel(own[0], shared.length ? concentrationFor(own[0], shared[0]) : own[1]),
     derived(shared, own) {
       const c = shared.length ? concentrationFor(own[0], shared[0]) : own[1];
       const h = nfwFromV200(own[0], c);
@@ -215,8 +219,10 @@ const LAW_MODELS: Record<FitLaw, LawModel> = {
       { name: 'log10_rho0', unit: 'log10 Msun/kpc^3', scale: 1, min: 4, max: 11, starts: [6.5, 7.5, 8.5] },
       { name: 'r_core', unit: 'kpc', scale: 1, min: 0.05, max: 50, starts: [0.5, 2, 8] },
     ],
-    acceleration: (_shared, own, model, R) =>
-      haloLaw.modelAcceleration({ kind: 'halo', profile: 'cored-isothermal', density_Msun_kpc3: 10 ** own[0], scale_kpc: own[1] }, model, R),
+    acceleration(_shared, own) {
+      const halo = { kind: 'halo', profile: 'cored-isothermal', density_Msun_kpc3: 10 ** own[0], scale_kpc: own[1] } as const;
+      return (model, R) => haloLaw.modelAcceleration(halo, model, R);
+    },
   },
   'mond-simple': mondModel('simple', 'MOND (simple nu)'),
   'mond-standard': mondModel('standard', 'MOND (standard nu)'),
@@ -225,8 +231,10 @@ const LAW_MODELS: Record<FitLaw, LawModel> = {
     label: 'Emergent gravity (spherical)',
     shared: (o) => (o.H0 === 'free' ? [{ name: 'H0', unit: 'km/s/Mpc', scale: 70, min: 20, max: 200, starts: [50, 70, 100] }] : []),
     own: () => [],
-    acceleration: (shared, _own, model, R, o) =>
-      emergentLaw.modelAcceleration({ kind: 'emergent', H0_km_s_Mpc: o.H0 === 'free' ? shared[0] : o.H0_km_s_Mpc }, model, R),
+    acceleration(shared, _own, o) {
+      const law = { kind: 'emergent', H0_km_s_Mpc: o.H0 === 'free' ? shared[0] : o.H0_km_s_Mpc } as const;
+      return (model, R) => emergentLaw.modelAcceleration(law, model, R);
+    },
   },
 };
 
@@ -307,8 +315,9 @@ function galaxyModel(pb: Problem, g: GalaxySlot, theta: number[]): GalaxyModel {
   const model = tabulatedBaryonModel(g.curve, ml);
   const shared = theta.slice(0, pb.sharedCount);
   const own = theta.slice(g.ownAt, g.ownAt + g.own.length);
+  const accel = pb.law.acceleration(shared, own, pb.o);
   const v = g.curve.radiusKpc.map((R) => {
-    const speed = Math.sqrt(Math.max(0, R * pb.law.acceleration(shared, own, model, R, pb.o)));
+    const speed = Math.sqrt(Math.max(0, R * accel(model, R)));
     return Number.isFinite(speed) ? speed : 1e6;
   });
   return { v, vBarSq: baryonicSquared(g.curve, ml), ml };
@@ -449,7 +458,7 @@ function lawsOf(options: FitOptions): FitLaw[] {
 export function fitGalaxyLaw(curve: RotationCurve, law: FitLaw, options: FitOptions = {}): LawFit {
   const o = resolve(options);
   const pb = buildProblem(law, [{ name: 'galaxy', curve }], o, false);
-  const { theta, param } = solve(pb, startVectors(pb.specs, null), 150);
+  const { theta, param } = solve(pb, startVectors(pb.specs, null), 80);
   const g = pb.galaxies[0];
   const curveFit = curveOf(pb, g, theta);
   const chi2 = sumSq(curveFit.residuals);
@@ -493,7 +502,7 @@ export function fitSample(galaxies: SampleGalaxy[], options: FitOptions = {}): S
     }
     const sharedStarts = startVectors(pb.specs.slice(0, pb.sharedCount), null);
     const starts = [...sharedStarts].map((shared) => [...shared, ...base.slice(pb.sharedCount)]);
-    const { theta, param } = solve(pb, starts, 150);
+    const { theta, param } = solve(pb, starts, 120);
     const perGalaxy = pb.galaxies.map((g) => {
       const curve = curveOf(pb, g, theta);
       const own = [...g.own.map((_, j) => g.ownAt + j), ...(g.diskAt === null ? [] : [g.diskAt]), ...(g.bulgeAt === null ? [] : [g.bulgeAt])];
