@@ -9,7 +9,7 @@ import { haloLaw } from '../engine/laws/halo';
 import { mondLaw } from '../engine/laws/mond';
 import type { MassModel } from '../engine/models/massModel';
 import { G } from '../engine/units';
-import { baryonicSquared, hasBaryons, tabulatedBaryonModel } from './baryons';
+import { baryonicSquared, hasBaryons, tabulatedBaryonModel, type MassToLight } from './baryons';
 import type { RotationCurve } from './table';
 
 export const FIT_LAWS = ['nfw', 'isothermal', 'mond-simple', 'mond-standard', 'mond-rar', 'emergent'] as const;
@@ -445,6 +445,12 @@ function criteria(chi2: number, points: number, k: number) {
 function verdict(fits: { law: FitLaw; bic: number }[]): Verdict {
   const best = fits.reduce((a, b) => (b.bic < a.bic ? b : a));
   return { criterion: 'BIC', preferred: best.law, deltaBic: Object.fromEntries(fits.map((f) => [f.law, f.bic - best.bic])) };
+}
+
+/** The mass-to-light ratios a fit settled on, for the acceleration relation of that fit (a missing component takes its prior centre; it has no speed, so it does not matter). */
+export function fittedMassToLight(params: FittedParam[]): MassToLight {
+  const value = (name: string, fallback: number) => params.find((p) => p.name === name)?.value ?? fallback;
+  return { disk: value('ML_disk', DEFAULT_PRIORS.disk.centre), bulge: value('ML_bulge', DEFAULT_PRIORS.bulge.centre) };
 }
 
 function lawsOf(options: FitOptions): FitLaw[] {

@@ -99,7 +99,8 @@ export function readTableCells(input: Uint8Array | string, limits: { maxBytes: n
 
   const lines = text.split(/\r?\n/);
   const firstData = lines.find((l) => l.trim() !== '' && !l.trimStart().startsWith('#')) ?? '';
-  const delimiter = firstData.includes(',') ? ',' : firstData.includes(';') ? ';' : null;
+  // Semicolons first: a table written with decimal commas separates its cells by semicolons.
+  const delimiter = firstData.includes(';') ? ';' : firstData.includes(',') ? ',' : null;
   // Whitespace tables: comments go, runs of spaces and tabs become one tab; lines keep their numbers.
   const source = delimiter ? text : lines.map((l) => l.replace(/#.*/, '').trim().replace(/[ \t]+/g, '\t')).join('\n');
 
@@ -165,7 +166,12 @@ function locateColumns(header: string[] | null, width: number, mapping: TableOpt
 export function readNumber(cell: string | undefined, line: number, column: number): number {
   const text = (cell ?? '').trim();
   if (text === '') throw new TableError('the cell is empty', line, column);
-  if (NUMBER.test(text)) return Number(text);
+  if (NUMBER.test(text)) {
+    const value = Number(text);
+    if (!Number.isFinite(value)) throw new TableError(`"${text.slice(0, 40)}" is too large to be a number here`, line, column);
+    return value;
+  }
+  if (/^[+-]?\d+,\d+$/.test(text)) throw new TableError(`"${text}" has a decimal comma; write ${text.replace(',', '.')}`, line, column);
   if (FORMULA_START.test(text)) throw new TableError(`"${text.slice(0, 40)}" looks like a spreadsheet formula; refused`, line, column);
   throw new TableError(`"${text.slice(0, 40)}" is not a number`, line, column);
 }

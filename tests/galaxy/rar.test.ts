@@ -2,6 +2,7 @@
 import { mondLaw } from '../../shared/engine/laws/mond';
 import { pointMassModel } from '../../shared/engine/models/massModel';
 import { ACCEL_UNIT_M_S2 as UNIT, accelFromSI, G } from '../../shared/engine/units';
+import { fitGalaxyLaw, fittedMassToLight } from '../../shared/galaxy/fit';
 import { inventedCurve, type InventedBaryons } from '../../shared/galaxy/invented';
 import { accelerationPoints, btfrMass, btfrSpeed, RAR_G_DAGGER_M_S2, rarAcceleration, rarScatter } from '../../shared/galaxy/rar';
 
@@ -83,5 +84,18 @@ describe('baryonic Tully-Fisher relation, v^4 = G M a0 (Milgrom 1983)', () => {
     const ratio = (v / btfrSpeed(M, a0)) ** 4;
     expect(ratio).toBeGreaterThan(0.999);
     expect(ratio).toBeLessThan(1.011);
+  });
+});
+
+describe('the acceleration relation of a fit', () => {
+  test('uses the mass-to-light ratios the fit found', () => {
+    const baryons: InventedBaryons = { disk: { mass_Msun: 4e10, scale_kpc: 2.5 }, gas: { mass_Msun: 6e9, scale_kpc: 5 } };
+    const R = Array.from({ length: 25 }, (_, i) => 0.5 + 0.7 * i);
+    // On the relation with disk mass-to-light 0.5, no noise to speak of: the MOND RAR-nu fit (a0 = g_dagger) lands on it.
+    const curve = inventedCurve(baryons, R, (r, c) => Math.sqrt((rarAcceleration(((c.vGas ** 2 + 0.5 * c.vDisk ** 2) / r) * UNIT) / UNIT) * r), () => 0.5, 9);
+    const fit = fitGalaxyLaw(curve, 'mond-rar');
+    const ml = fittedMassToLight(fit.params);
+    expect(ml.disk).toBeCloseTo(0.5, 2);
+    expect(rarScatter(accelerationPoints(curve, ml)).rms_dex).toBeLessThan(0.005);
   });
 });
