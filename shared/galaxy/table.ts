@@ -77,19 +77,45 @@ export interface TableCells {
   rows: { line: number; cells: string[] }[];
 }
 
-/** Decode and split a table into cells, refusing binary, non-UTF-8 and oversized input. */
-export function readTableCells(input: Uint8Array | string, limits: { maxBytes: number; maxRows: number }): TableCells {
-  const bytes = typeof input === 'string' ? new TextEncoder().encode(input) : input;
-  if (bytes.length > limits.maxBytes) throw new TableError(`the table is ${bytes.length} bytes; the limit is ${limits.maxBytes}`);
-  if (bytes.length === 0) throw new TableError('the table is empty');
-  const nul = bytes.indexOf(0);
+/** Bytes of a string once written as UTF-8; null when it holds a lone surrogate (no UTF-8 form). */
+function utf8Length(text: string): number | null {
+  let n = 0;
+  for (let i = 0; i < text.length; i++) {
+    const c = text.charCodeAt(i);
+    if (c < 0x80) n += 1;
+    else if (c < 0x800) n += 2;
+    else if (c >= 0xd800 && c <= 0xdbff) {
+      const next = text.charCodeAt(i + 1);
+      if (!(next >= 0xdc00 && next <= 0xdfff)) return null;
+      n += 4;
+      i++;
+    } else if (c >= 0xdc00 && c <= 0xdfff) return null;
+    else n += 3;
+  }
+  return n;
+}
+
+/** Text of the input: bytes must be UTF-8 (decoded strictly); a string must have a UTF-8 form. Size is checked before decoding. */
+function decode(input: Uint8Array | string, maxBytes: number): string {
+  const size = typeof input === 'string' ? utf8Length(input) : input.length;
+  if (size === null) throw new TableError('the text holds an unpaired surrogate; it is not valid Unicode text');
+  if (size > maxBytes) throw new TableError(`the table is ${size} bytes; the limit is ${maxBytes}`);
+  if (size === 0) throw new TableError('the table is empty');
+  if (typeof input === 'string') return input;
+  const nul = input.indexOf(0);
   if (nul >= 0) throw new TableError(`the file holds a NUL byte (at byte ${nul + 1}); it looks binary, not a text table`);
-  let text: string;
   try {
-    text = new TextDecoder('utf-8', { fatal: true }).decode(bytes);
+    return new TextDecoder('utf-8', { fatal: true }).decode(input);
   } catch {
     throw new TableError('the file is not UTF-8 text; save the table as UTF-8');
   }
+}
+
+/** Decode and split a table into cells, refusing binary, non-UTF-8 and oversized input. */
+export function readTableCells(input: Uint8Array | string, limits: { maxBytes: number; maxRows: number }): TableCells {
+  let text = decode(input, limits.maxBytes);
+  const nul = text.indexOf('\u0000');
+  if (nul >= 0) throw new TableError(`the text holds a NUL character (at character ${nul + 1}); it looks binary, not a text table`);
   if (text.charCodeAt(0) === 0xfeff) text = text.slice(1);
   const bad = /[\u0001-\u0008\u000b\u000c\u000e-\u001f\u007f]/.exec(text);
   if (bad) {

@@ -76,6 +76,8 @@ describe('rotation-curve tables', () => {
     // "1,2,3" then Latin-1 "é" (0xE9) alone: not valid UTF-8.
     expect(refusal(new Uint8Array([0x31, 0x2c, 0x32, 0x2c, 0x33, 0x0a, 0xe9, 0x0a])).message).toMatch(/not UTF-8/);
     expect(refusal('R,V,dV\n1,2,3\u0007\n').message).toMatch(/^line 2: control character U\+0007/);
+    expect(refusal('R,V,dV\n1,2\u0000,3\n').message).toMatch(/NUL character/);
+    expect(refusal('R,V,dV\n1,2,3\ud800\n').message).toMatch(/unpaired surrogate/);
     // A UTF-8 byte-order mark is fine.
     expect(parseRotationCurve(new Uint8Array([0xef, 0xbb, 0xbf, ...new TextEncoder().encode('R,V,dV\n1,2,3\n')]), limits).vObs).toEqual([2]);
   });
@@ -84,6 +86,8 @@ describe('rotation-curve tables', () => {
     const rows = Array.from({ length: 60 }, (_, i) => `${i + 1},30,3`).join('\n');
     expect(refusal(rows).message).toMatch(/more than 50 data rows/);
     expect(refusal(rows, { maxBytes: 100 }).message).toMatch(/bytes; the limit is 100$/);
+    // Size counts UTF-8 bytes, also for text handed in as a string: 19 characters, "é" two bytes each, 22 bytes.
+    expect(refusal('R,V,dV\n1,2,3 # ééé\n', { maxBytes: 20 }).message).toBe('the table is 22 bytes; the limit is 20');
     expect(refusal('').message).toMatch(/empty/);
     expect(refusal('# only a comment\n').message).toMatch(/no data rows/);
     expect(readTableCells(rows, { maxBytes: 10_000, maxRows: 60 }).rows).toHaveLength(60);
