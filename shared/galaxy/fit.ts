@@ -376,6 +376,7 @@ function jacobian(pb: Problem, theta: number[]): number[][] {
 
 /** Parameter uncertainties sqrt(diag((J^T J)^-1)), J of the normalised residuals (so W is folded in), priors included. */
 function uncertainties(pb: Problem, theta: number[]): (number | null)[] {
+  if (theta.length === 0) return [];
   const J = jacobian(pb, theta);
   const p = J.length;
   const JtJ = new Matrix(p, p);
@@ -402,8 +403,9 @@ function* startVectors(specs: ParamSpec[], base: number[] | null): Generator<num
 
 /** Best of several starts (the chi^2 surface of halo fits has more than one valley). */
 function solve(pb: Problem, starts: Iterable<number[]>, maxIterations: number) {
-  let best: { theta: number[]; total: number } | null = null;
-  for (const start of starts) {
+  let best: { theta: number[]; total: number } | null = pb.specs.length === 0 ? { theta: [], total: 0 } : null;
+  // Nothing free (a gas-only galaxy under MOND with a0 fixed): the curve is a prediction, just evaluated.
+  for (const start of pb.specs.length === 0 ? [] : starts) {
     const theta = optimise(pb, start, maxIterations);
     const total = sumSq(residuals(pb, theta));
     if (!best || total < best.total) best = { theta, total };

@@ -133,6 +133,16 @@ describe('fits of one invented galaxy recover its parameters', () => {
     expect(report.verdict.deltaBic.emergent).toBeGreaterThan(10); // "very strong" on the Kass & Raftery (1995) scale
   });
 
+  test('with nothing free (gas only, MOND with a0 fixed) the curve is the law prediction, chi^2 over all points', () => {
+    const gasOnly: InventedBaryons = { disk: { mass_Msun: 0, scale_kpc: 1 }, gas: { mass_Msun: 3e9, scale_kpc: 2 } };
+    const curve = { ...inventedCurve(gasOnly, R30, mondTruth(NU.simple, 1.2e-10), errorOf(0.03, 2), 17), vDisk: null };
+    const fit = fitGalaxyLaw(curve, 'mond-simple');
+    expect(fit.params).toEqual([]);
+    expect(fit.freeParams).toBe(0);
+    expect(fit.dof).toBe(30);
+    expectGoodChi2(fit);
+  });
+
   test('too few points or no baryons are refused', () => {
     const curve = inventedCurve(DWARF, [1, 2], mondTruth(NU.simple, 1.2e-10), () => 3, 1);
     expect(() => fitGalaxyLaw(curve, 'nfw')).toThrow(new FitError('2 points cannot constrain 3 free parameters under Newton + NFW halo'));
