@@ -121,7 +121,8 @@ export interface SampleLawFit {
   label: string;
   /** Parameters shared by every galaxy (a0, H0, the concentration-mass normalisation). */
   shared: FittedParam[];
-  galaxies: { name: string; params: FittedParam[]; chi2: number; points: number; curve: FittedCurve }[];
+  /** Per galaxy: its own parameters, derived quantities (an NFW halo's c200 from the shared relation), chi^2 and fitted curve. */
+  galaxies: { name: string; params: FittedParam[]; derived: Record<string, number>; chi2: number; points: number; curve: FittedCurve }[];
   chi2: number;
   priorPenalty: number;
   points: number;
@@ -514,7 +515,8 @@ export function fitSample(galaxies: SampleGalaxy[], options: FitOptions = {}): S
     const perGalaxy = pb.galaxies.map((g) => {
       const curve = curveOf(pb, g, theta);
       const own = [...g.own.map((_, j) => g.ownAt + j), ...(g.diskAt === null ? [] : [g.diskAt]), ...(g.bulgeAt === null ? [] : [g.bulgeAt])];
-      return { name: g.name, params: own.map(param), chi2: sumSq(curve.residuals), points: curve.v.length, curve };
+      const derived = pb.law.derived?.(theta.slice(0, pb.sharedCount), theta.slice(g.ownAt, g.ownAt + g.own.length)) ?? {};
+      return { name: g.name, params: own.map(param), derived, chi2: sumSq(curve.residuals), points: curve.v.length, curve };
     });
     const chi2 = perGalaxy.reduce((s, g) => s + g.chi2, 0);
     return {

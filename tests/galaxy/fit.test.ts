@@ -210,7 +210,10 @@ describe('a sample shares one parameter', () => {
     const nfw = report.laws[0];
     expect(nfw.shared.map((p) => p.name)).toEqual(['cmNormalisation']);
     expectRecovered(nfw.shared[0], a);
-    nfw.galaxies.forEach((g, k) => expectRecovered(g.params.find((p) => p.name === 'V200'), V200s[k]));
+    nfw.galaxies.forEach((g, k) => {
+      expectRecovered(g.params.find((p) => p.name === 'V200'), V200s[k]);
+      expect(g.derived.c200).toBeCloseTo(concentrationFor(g.params[0].value, nfw.shared[0].value), 9);
+    });
   });
 
   test('a sample of one is refused', () => {
