@@ -191,8 +191,9 @@ const nfwAccel = (V200: number, c: number) => {
 };
 
 const V200: ParamSpec = { name: 'V200', unit: 'km/s', scale: 100, min: 10, max: 500, starts: [60, 120, 250] };
-const mondModel = (interpolation: 'simple' | 'standard' | 'rar', label: string): LawModel => ({
-  label,
+/** Labels come from the law modules, so a fit is named as the law is everywhere else. */
+const mondModel = (interpolation: 'simple' | 'standard' | 'rar'): LawModel => ({
+  label: mondLaw.info({ kind: 'mond', interpolation, a0_m_s2: 1.2e-10 }).label,
   shared: (o) => (o.a0 === 'free' ? [{ name: 'a0', unit: 'm/s^2', scale: 1e-10, min: 1e-11, max: 1e-9, starts: [0.7e-10, 1.2e-10, 2e-10] }] : []),
   own: () => [],
   acceleration(shared, _own, o) {
@@ -203,7 +204,7 @@ const mondModel = (interpolation: 'simple' | 'standard' | 'rar', label: string):
 
 const LAW_MODELS: Record<FitLaw, LawModel> = {
   nfw: {
-    label: 'Newton + NFW halo',
+    label: haloLaw.info({ kind: 'halo', profile: 'nfw', scale_kpc: 1, density_Msun_kpc3: 1 }).label,
     shared: (_o, sample) => (sample ? [{ name: 'cmNormalisation', unit: 'dex', scale: 1, min: 0.2, max: 2, starts: [0.8, CM_NORMALISATION, 1.3] }] : []),
     own: (_o, sample) => (sample ? [V200] : [V200, { name: 'c200', unit: '', scale: 10, min: 1, max: 50, starts: [5, 10, 20] }]),
     acceleration: (shared, own) => nfwAccel(own[0], shared.length ? concentrationFor(own[0], shared[0]) : own[1]),
@@ -214,7 +215,7 @@ const LAW_MODELS: Record<FitLaw, LawModel> = {
     },
   },
   isothermal: {
-    label: 'Newton + cored isothermal halo',
+    label: haloLaw.info({ kind: 'halo', profile: 'cored-isothermal', scale_kpc: 1, density_Msun_kpc3: 1 }).label,
     shared: () => [],
     own: () => [
       { name: 'log10_rho0', unit: 'log10 Msun/kpc^3', scale: 1, min: 4, max: 11, starts: [6.5, 7.5, 8.5] },
@@ -225,11 +226,11 @@ const LAW_MODELS: Record<FitLaw, LawModel> = {
       return (model, R) => haloLaw.modelAcceleration(halo, model, R);
     },
   },
-  'mond-simple': mondModel('simple', 'MOND (simple nu)'),
-  'mond-standard': mondModel('standard', 'MOND (standard nu)'),
-  'mond-rar': mondModel('rar', 'MOND (RAR nu)'),
+  'mond-simple': mondModel('simple'),
+  'mond-standard': mondModel('standard'),
+  'mond-rar': mondModel('rar'),
   emergent: {
-    label: 'Emergent gravity (spherical)',
+    label: emergentLaw.info({ kind: 'emergent', H0_km_s_Mpc: 70 }).label,
     shared: (o) => (o.H0 === 'free' ? [{ name: 'H0', unit: 'km/s/Mpc', scale: 70, min: 20, max: 200, starts: [50, 70, 100] }] : []),
     own: () => [],
     acceleration(shared, _own, o) {

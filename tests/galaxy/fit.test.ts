@@ -145,7 +145,7 @@ describe('fits of one invented galaxy recover its parameters', () => {
 
   test('too few points or no baryons are refused', () => {
     const curve = inventedCurve(DWARF, [1, 2], mondTruth(NU.simple, 1.2e-10), () => 3, 1);
-    expect(() => fitGalaxyLaw(curve, 'nfw')).toThrow(new FitError('2 points cannot constrain 3 free parameters under Newton + NFW halo'));
+    expect(() => fitGalaxyLaw(curve, 'nfw')).toThrow(new FitError('2 points cannot constrain 3 free parameters under Newtonian + NFW halo'));
     expect(() => fitGalaxyLaw({ ...curve, vGas: null, vDisk: null }, 'mond-simple')).toThrow(/no baryonic components/);
     expect(() => fitGalaxy(curve, { laws: ['nope' as never] })).toThrow(/unknown law "nope"/);
   });
