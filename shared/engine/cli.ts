@@ -3,13 +3,14 @@
 //   sim curve SPEC.json [--points N] [--max-radius KPC]
 //   sim check SPEC.json
 //   sim schema
-//   sim fit CURVE.csv [--law KIND ...] [--a0 free|fixed] [--H0 free|fixed] [--arcsec --distance MPC]
+//   sim fit CURVE.csv [--law KIND ...] [--a0 free|fixed] [--H0 free|fixed] [--arcsec] [--distance MPC [--distance-error MPC]]
+//       [--inclination DEG [--inclination-error DEG]] [--nuisance distance,inclination]
 // A spec that does not parse exits 2 with one "field: message" line per problem;
 // so does a rotation-curve table that does not parse (naming line and column).
 import { readFileSync, writeFileSync } from 'node:fs';
 import { z } from 'zod';
 import { parseRunSpec, runSpecSchema, type RunSpec } from '../spec';
-import { FIT_LAWS, FitError, fitGalaxy, type FitLaw } from '../galaxy/fit';
+import { FIT_LAWS, FitError, fitGalaxy, NUISANCE, type FitLaw, type Nuisance } from '../galaxy/fit';
 import { parseRotationCurve, TableError } from '../galaxy/table';
 import { analyticCurves, precheck, runSimulation } from './index';
 
@@ -18,7 +19,8 @@ const USAGE = `usage:
   sim curve SPEC.json [--points N] [--max-radius KPC]
   sim check SPEC.json
   sim schema
-  sim fit CURVE.csv [--law KIND ...] [--a0 free|fixed] [--H0 free|fixed] [--arcsec --distance MPC]
+  sim fit CURVE.csv [--law KIND ...] [--a0 free|fixed] [--H0 free|fixed] [--arcsec] [--distance MPC [--distance-error MPC]]
+      [--inclination DEG [--inclination-error DEG]] [--nuisance distance,inclination]
       KIND: ${FIT_LAWS.join(', ')} (default all)`;
 
 class SpecError extends Error {}
@@ -95,19 +97,29 @@ function fit(args: string[]): void {
   const laws = args.flatMap((a, k) => (a === '--law' ? (args[k + 1] ?? '').split(',') : [])) as FitLaw[];
   const unknown = laws.find((l) => !FIT_LAWS.includes(l));
   if (unknown !== undefined) throw new Error(`--law "${unknown}" is not one of ${FIT_LAWS.join(', ')}`);
-  const distance = numberOption(args, '--distance');
+  const nuisance = (option(args, '--nuisance')?.split(',') ?? []) as Nuisance[];
+  const wrong = nuisance.find((n) => !NUISANCE.includes(n));
+  if (wrong !== undefined) throw new Error(`--nuisance "${wrong}" is not one of ${NUISANCE.join(', ')}`);
+  const measured = (name: string) => {
+    const value = numberOption(args, `--${name}`);
+    const error = numberOption(args, `--${name}-error`);
+    if (value === undefined && error !== undefined) throw new Error(`--${name}-error needs --${name}`);
+    return value === undefined ? undefined : { value, ...(error === undefined ? {} : { error }) };
+  };
+  const distanceMpc = measured('distance'), inclinationDeg = measured('inclination');
   let curve;
   try {
     curve = parseRotationCurve(readFileSync(path), {
       ...CLI_TABLE_LIMITS,
       radiusUnit: args.includes('--arcsec') ? 'arcsec' : 'kpc',
-      ...(distance === undefined ? {} : { distanceMpc: { value: distance } }),
+      ...(distanceMpc ? { distanceMpc } : {}),
+      ...(inclinationDeg ? { inclinationDeg } : {}),
     });
   } catch (e) {
     throw e instanceof TableError ? new SpecError(`${path}: ${e.message}`) : e;
   }
   try {
-    print(fitGalaxy(curve, { laws, a0: choice(args, '--a0'), H0: choice(args, '--H0') }));
+    print(fitGalaxy(curve, { laws, a0: choice(args, '--a0'), H0: choice(args, '--H0'), nuisance }));
   } catch (e) {
     throw e instanceof FitError ? new SpecError(`${path}: ${e.message}`) : e;
   }

@@ -31,7 +31,19 @@ export interface FitOptions {
   H0_km_s_Mpc?: number;
   /** Priors on the stellar mass-to-light ratios; null drops a prior. */
   priors?: { disk?: LogNormalPrior | null; bulge?: LogNormalPrior | null };
+  /**
+   * Distance and inclination fitted as nuisance parameters, each with a Gaussian prior from the
+   * table's metadata (value and error; common practice). The distance scales radii as D and
+   * baryonic speeds as sqrt(D); the inclination scales observed speeds and errors by sin i_table / sin i.
+   */
+  nuisance?: readonly Nuisance[];
 }
+
+export const NUISANCE = ['distance', 'inclination'] as const;
+export type Nuisance = (typeof NUISANCE)[number];
+
+/** Inclinations below this are not fitted: v / sin i runs away towards face-on (our choice). */
+const MIN_INCLINATION_DEG = 10;
 
 /**
  * Mass-to-light priors at 3.6 um: disk 0.5, bulge 0.7, each with 0.1 dex
@@ -67,8 +79,11 @@ export interface FittedParam {
   atBound: boolean;
 }
 
+/** A fitted curve beside the data it was fitted to; where distance or inclination are fitted, radii and speeds are those at the fitted values. */
 export interface FittedCurve {
   radiusKpc: number[];
+  vObs: number[];
+  vErr: number[];
   v: number[];
   vBaryons: number[];
   vGas: number[] | null;
@@ -167,7 +182,8 @@ interface LawModel {
   derived?(shared: number[], own: number[]): Record<string, number>;
 }
 
-type ResolvedOptions = Required<Omit<FitOptions, 'priors' | 'laws'>> & { priors: { disk: LogNormalPrior | null; bulge: LogNormalPrior | null } };
+type ResolvedOptions = Required<Omit<FitOptions, 'priors' | 'laws' | 'nuisance'>> & {
+  nuisance: readonly Nuisance[]; priors: { disk: LogNormalPrior | null; bulge: LogNormalPrior | null } };
 
 /** NFW (r_s, rho0) from V200 and c200, H0 = HALO_H0 (Navarro, Frenk & White 1997 definitions). */
 export function nfwFromV200(V200: number, c: number): { scale_kpc: number; density_Msun_kpc3: number; r200_kpc: number; M200_Msun: number } {
@@ -249,6 +265,7 @@ function resolve(options: FitOptions): ResolvedOptions {
     a0_m_s2: options.a0_m_s2 ?? 1.2e-10,
     H0: options.H0 ?? 'fixed',
     H0_km_s_Mpc: options.H0_km_s_Mpc ?? 70,
+    nuisance: options.nuisance ?? [],
     priors: {
       disk: options.priors?.disk === undefined ? DEFAULT_PRIORS.disk : options.priors.disk,
       bulge: options.priors?.bulge === undefined ? DEFAULT_PRIORS.bulge : options.priors.bulge,
@@ -270,6 +287,8 @@ interface GalaxySlot {
   ownAt: number;
   diskAt: number | null;
   bulgeAt: number | null;
+  distanceAt: number | null;
+  inclinationAt: number | null;
 }
 
 interface Problem {
@@ -279,7 +298,8 @@ interface Problem {
   sharedCount: number;
   galaxies: GalaxySlot[];
   points: number;
-  priorRows: { at: number; prior: LogNormalPrior }[];
+  /** One residual row per prior on a parameter. */
+  priorRows: { at: number; residual: (value: number) => number }[];
 }
 
 function buildProblem(lawKind: FitLaw, galaxies: SampleGalaxy[], o: ResolvedOptions, sample: boolean): Problem {
@@ -288,7 +308,9 @@ function buildProblem(lawKind: FitLaw, galaxies: SampleGalaxy[], o: ResolvedOpti
   const sharedCount = specs.length;
   const priorRows: Problem['priorRows'] = [];
   const slots = galaxies.map(({ name, curve }) => {
-    if (!hasBaryons(curve)) throw new FitError(`${name}: the table has no baryonic components (gas, stellar disk or bulge); fits need at least one`);
+    // Refusals name the galaxy only in a sample.
+    const who = sample ? `${name}: ` : '';
+    if (!hasBaryons(curve)) throw new FitError(`${who}the table has no baryonic components (gas, stellar disk or bulge); fits need at least one`);
     const own = law.own(o, sample);
     const ownAt = specs.length;
     specs.push(...own);
@@ -296,10 +318,21 @@ function buildProblem(lawKind: FitLaw, galaxies: SampleGalaxy[], o: ResolvedOpti
       if ((key === 'disk' ? curve.vDisk : curve.vBulge) === null) return null;
       const prior = o.priors[key];
       specs.push({ name: key === 'disk' ? 'ML_disk' : 'ML_bulge', unit: 'Msun/Lsun', scale: 1, ...ML_BOUNDS, starts: [prior?.centre ?? DEFAULT_PRIORS[key].centre] });
-      if (prior) priorRows.push({ at: specs.length - 1, prior });
+      if (prior) priorRows.push({ at: specs.length - 1, residual: (value) => priorResidual(value, prior) });
       return specs.length - 1;
     };
-    return { name, curve, own, ownAt, diskAt: ml('disk'), bulgeAt: ml('bulge') };
+    const nuisance = (key: Nuisance) => {
+      if (!o.nuisance.includes(key)) return null;
+      const m = key === 'distance' ? curve.distanceMpc : curve.inclinationDeg;
+      if (!m || m.error === undefined) throw new FitError(`${who}fitting the ${key} needs its value and error`);
+      const { value, error } = m as Required<typeof m>;
+      const [min, max] = key === 'distance' ? [Math.max(value - 5 * error, 0.2 * value), value + 5 * error] : [Math.max(value - 5 * error, MIN_INCLINATION_DEG), Math.min(value + 5 * error, 90)];
+      if (!(min < max && value >= min)) throw new FitError(`${who}an inclination of ${value} degrees is too close to face-on to fit (at least ${MIN_INCLINATION_DEG})`);
+      specs.push({ name: key, unit: key === 'distance' ? 'Mpc' : 'deg', scale: key === 'distance' ? value : 10, min, max, starts: [value] });
+      priorRows.push({ at: specs.length - 1, residual: (x) => (x - value) / error });
+      return specs.length - 1;
+    };
+    return { name, curve, own, ownAt, diskAt: ml('disk'), bulgeAt: ml('bulge'), distanceAt: nuisance('distance'), inclinationAt: nuisance('inclination') };
   });
   const points = slots.reduce((s, g) => s + g.curve.radiusKpc.length, 0);
   if (points <= specs.length) throw new FitError(`${points} points cannot constrain ${specs.length} free parameters under ${law.label}`);
@@ -307,6 +340,8 @@ function buildProblem(lawKind: FitLaw, galaxies: SampleGalaxy[], o: ResolvedOpti
 }
 
 interface GalaxyModel {
+  /** The table as seen at the fitted distance and inclination. */
+  curve: RotationCurve;
   v: number[];
   vBarSq: number[];
   ml: { disk: number; bulge: number };
@@ -314,15 +349,35 @@ interface GalaxyModel {
 
 function galaxyModel(pb: Problem, g: GalaxySlot, theta: number[]): GalaxyModel {
   const ml = { disk: g.diskAt === null ? 0 : theta[g.diskAt], bulge: g.bulgeAt === null ? 0 : theta[g.bulgeAt] };
-  const model = tabulatedBaryonModel(g.curve, ml);
+  const curve = atDistanceAndInclination(g, theta);
+  const model = tabulatedBaryonModel(curve, ml);
   const shared = theta.slice(0, pb.sharedCount);
   const own = theta.slice(g.ownAt, g.ownAt + g.own.length);
   const accel = pb.law.acceleration(shared, own, pb.o);
-  const v = g.curve.radiusKpc.map((R) => {
+  const v = curve.radiusKpc.map((R) => {
     const speed = Math.sqrt(Math.max(0, R * accel(model, R)));
     return Number.isFinite(speed) ? speed : 1e6;
   });
-  return { v, vBarSq: baryonicSquared(g.curve, ml), ml };
+  return { curve, v, vBarSq: baryonicSquared(curve, ml), ml };
+}
+
+/** Radii scale as D and baryonic speeds as sqrt(D) (luminosity and gas mass as D^2); observed speeds and errors as 1 / sin i. */
+function atDistanceAndInclination(g: GalaxySlot, theta: number[]): RotationCurve {
+  const c = g.curve;
+  const d = g.distanceAt === null ? 1 : theta[g.distanceAt] / c.distanceMpc!.value;
+  const deg = Math.PI / 180;
+  const s = g.inclinationAt === null ? 1 : Math.sin(c.inclinationDeg!.value * deg) / Math.sin(theta[g.inclinationAt] * deg);
+  if (d === 1 && s === 1) return c;
+  const times = (list: number[] | null, f: number) => (list ? list.map((x) => x * f) : null);
+  return {
+    ...c,
+    radiusKpc: c.radiusKpc.map((R) => R * d),
+    vGas: times(c.vGas, Math.sqrt(d)),
+    vDisk: times(c.vDisk, Math.sqrt(d)),
+    vBulge: times(c.vBulge, Math.sqrt(d)),
+    vObs: c.vObs.map((v) => v * s),
+    vErr: c.vErr.map((e) => e * s),
+  };
 }
 
 const priorResidual = (value: number, p: LogNormalPrior) => Math.log10(value / p.centre) / p.sigma_dex;
@@ -331,10 +386,10 @@ const priorResidual = (value: number, p: LogNormalPrior) => Math.log10(value / p
 function residuals(pb: Problem, theta: number[]): number[] {
   const out: number[] = [];
   for (const g of pb.galaxies) {
-    const { v } = galaxyModel(pb, g, theta);
-    v.forEach((vi, i) => out.push((g.curve.vObs[i] - vi) / g.curve.vErr[i]));
+    const { curve, v } = galaxyModel(pb, g, theta);
+    v.forEach((vi, i) => out.push((curve.vObs[i] - vi) / curve.vErr[i]));
   }
-  for (const { at, prior } of pb.priorRows) out.push(-priorResidual(theta[at], prior));
+  for (const { at, residual } of pb.priorRows) out.push(-residual(theta[at]));
   return out;
 }
 
@@ -423,11 +478,12 @@ function solve(pb: Problem, starts: Iterable<number[]>, maxIterations: number) {
 }
 
 function curveOf(pb: Problem, g: GalaxySlot, theta: number[]): FittedCurve {
-  const { v, vBarSq, ml } = galaxyModel(pb, g, theta);
-  const c = g.curve;
+  const { curve: c, v, vBarSq, ml } = galaxyModel(pb, g, theta);
   const scaled = (list: number[] | null, f: number) => (list ? list.map((x) => Math.sqrt(f) * x) : null);
   return {
     radiusKpc: c.radiusKpc,
+    vObs: c.vObs,
+    vErr: c.vErr,
     v,
     vBaryons: vBarSq.map((q) => Math.sign(q) * Math.sqrt(Math.abs(q))),
     vGas: c.vGas,
@@ -479,7 +535,7 @@ export function fitGalaxyLaw(curve: RotationCurve, law: FitLaw, options: FitOpti
     params: pb.specs.map((_, k) => param(k)),
     derived: pb.law.derived?.(theta.slice(0, pb.sharedCount), own) ?? {},
     chi2,
-    priorPenalty: sumSq(pb.priorRows.map(({ at, prior }) => priorResidual(theta[at], prior))),
+    priorPenalty: sumSq(pb.priorRows.map(({ at, residual }) => residual(theta[at]))),
     ...criteria(chi2, pb.points, pb.specs.length),
     curve: curveFit,
   };
@@ -507,15 +563,14 @@ export function fitSample(galaxies: SampleGalaxy[], options: FitOptions = {}): S
       const alone = fitGalaxyLaw(g.curve, law, options);
       const pick = (name: string, fallback: number) => alone.params.find((p) => p.name === name)?.value ?? fallback;
       g.own.forEach((s, j) => (base[g.ownAt + j] = pick(s.name, s.starts[0])));
-      if (g.diskAt !== null) base[g.diskAt] = pick('ML_disk', pb.specs[g.diskAt].starts[0]);
-      if (g.bulgeAt !== null) base[g.bulgeAt] = pick('ML_bulge', pb.specs[g.bulgeAt].starts[0]);
+      for (const at of [g.diskAt, g.bulgeAt, g.distanceAt, g.inclinationAt]) if (at !== null) base[at] = pick(pb.specs[at].name, pb.specs[at].starts[0]);
     }
     const sharedStarts = startVectors(pb.specs.slice(0, pb.sharedCount), null);
     const starts = [...sharedStarts].map((shared) => [...shared, ...base.slice(pb.sharedCount)]);
     const { theta, param } = solve(pb, starts, 120);
     const perGalaxy = pb.galaxies.map((g) => {
       const curve = curveOf(pb, g, theta);
-      const own = [...g.own.map((_, j) => g.ownAt + j), ...(g.diskAt === null ? [] : [g.diskAt]), ...(g.bulgeAt === null ? [] : [g.bulgeAt])];
+      const own = [...g.own.map((_, j) => g.ownAt + j), ...[g.diskAt, g.bulgeAt, g.distanceAt, g.inclinationAt].filter((at): at is number => at !== null)];
       const derived = pb.law.derived?.(theta.slice(0, pb.sharedCount), theta.slice(g.ownAt, g.ownAt + g.own.length)) ?? {};
       return { name: g.name, params: own.map(param), derived, chi2: sumSq(curve.residuals), points: curve.v.length, curve };
     });
@@ -526,7 +581,7 @@ export function fitSample(galaxies: SampleGalaxy[], options: FitOptions = {}): S
       shared: pb.specs.slice(0, pb.sharedCount).map((_, k) => param(k)),
       galaxies: perGalaxy,
       chi2,
-      priorPenalty: sumSq(pb.priorRows.map(({ at, prior }) => priorResidual(theta[at], prior))),
+      priorPenalty: sumSq(pb.priorRows.map(({ at, residual }) => residual(theta[at]))),
       ...criteria(chi2, pb.points, pb.specs.length),
     };
   });

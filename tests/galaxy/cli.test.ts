@@ -56,8 +56,19 @@ describe('sim fit', () => {
     expect(binary.stderr).toMatch(/NUL byte|not UTF-8/);
   });
 
+  test('distance and inclination with their errors can be fitted as nuisance parameters', () => {
+    const r = sim('fit', write('g.csv', csv), '--law', 'mond-simple', '--inclination', '60', '--inclination-error', '5', '--nuisance', 'inclination');
+    expect(r.status).toBe(0);
+    const names = JSON.parse(r.stdout).laws[0].params.map((p: { name: string }) => p.name);
+    expect(names).toEqual(['ML_disk', 'inclination']);
+    const missing = sim('fit', write('g.csv', csv), '--law', 'mond-simple', '--nuisance', 'distance');
+    expect(missing.status).toBe(2);
+    expect(missing.stderr).toMatch(/fitting the distance needs its value and error/);
+  });
+
   test('an unknown law or option value is refused', () => {
     expect(sim('fit', write('g.csv', csv), '--law', 'vortex').stderr).toMatch(/--law "vortex" is not one of nfw, isothermal/);
     expect(sim('fit', write('g.csv', csv), '--a0', 'maybe').stderr).toMatch(/--a0 takes free or fixed/);
+    expect(sim('fit', write('g.csv', csv), '--nuisance', 'mass').stderr).toMatch(/--nuisance "mass" is not one of distance, inclination/);
   });
 });

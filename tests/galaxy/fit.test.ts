@@ -143,6 +143,37 @@ describe('fits of one invented galaxy recover its parameters', () => {
     expectGoodChi2(fit);
   });
 
+  describe('distance and inclination as nuisance parameters (Gaussian priors from the metadata)', () => {
+    // A gas-only galaxy under MOND with a0 fixed: the curve's shape is fixed, so the data set the
+    // speed scale, hence the inclination (v_obs ~ 1/sin i) or the distance (v ~ sqrt D) alone.
+    // Speed errors of 0.05 km/s make the data outweigh the prior: the truth must come back to 0.2%.
+    const gasOnly: InventedBaryons = { disk: { mass_Msun: 0, scale_kpc: 1 }, gas: { mass_Msun: 5e9, scale_kpc: 2.5 } };
+    const truth = inventedCurve(gasOnly, R30, mondTruth(NU.simple, 1.2e-10), () => 0.05, 18);
+    const sinDeg = (d: number) => Math.sin((d * Math.PI) / 180);
+
+    test('the inclination: speeds deprojected with 52 degrees when the truth is 60', () => {
+      const s = sinDeg(60) / sinDeg(52);
+      const table = { ...truth, vDisk: null, vObs: truth.vObs.map((v) => v * s), vErr: truth.vErr.map((e) => e * s), inclinationDeg: { value: 52, error: 4 } };
+      const fit = fitGalaxyLaw(table, 'mond-simple', { nuisance: ['inclination'] });
+      expect(param(fit, 'inclination')!.value).toBeCloseTo(60, 1);
+      expect(fit.curve.vObs[0]).toBeCloseTo(truth.vObs[0], 2);
+      expect(fit.priorPenalty).toBeCloseTo(4, 1); // ((60 - 52) / 4)^2
+    });
+
+    test('the distance: a table made at 9 Mpc when the galaxy is at 10', () => {
+      const d = 0.9;
+      const table = { ...truth, vDisk: null, radiusKpc: truth.radiusKpc.map((R) => R * d), vGas: truth.vGas!.map((v) => v * Math.sqrt(d)), distanceMpc: { value: 9, error: 1 } };
+      const fit = fitGalaxyLaw(table, 'mond-simple', { nuisance: ['distance'] });
+      expect(param(fit, 'distance')!.value / 10).toBeCloseTo(1, 2);
+      expect(fit.curve.radiusKpc[3]).toBeCloseTo(truth.radiusKpc[3], 2);
+    });
+
+    test('refused without the value and its error, or too close to face-on', () => {
+      expect(() => fitGalaxyLaw({ ...truth, distanceMpc: { value: 9 } }, 'mond-simple', { nuisance: ['distance'] })).toThrow(/fitting the distance needs its value and error/);
+      expect(() => fitGalaxyLaw({ ...truth, inclinationDeg: { value: 6, error: 1 } }, 'mond-simple', { nuisance: ['inclination'] })).toThrow(/too close to face-on/);
+    });
+  });
+
   test('too few points or no baryons are refused', () => {
     const curve = inventedCurve(DWARF, [1, 2], mondTruth(NU.simple, 1.2e-10), () => 3, 1);
     expect(() => fitGalaxyLaw(curve, 'nfw')).toThrow(new FitError('2 points cannot constrain 3 free parameters under Newtonian + NFW halo'));
