@@ -449,17 +449,11 @@ function uncertainties(pb: Problem, theta: number[]): (number | null)[] {
   }
 }
 
-function* startVectors(specs: ParamSpec[], base: number[] | null): Generator<number[]> {
-  if (base) {
-    yield base;
-    return;
-  }
-  const combos = specs.reduce<number[][]>((acc, s) => acc.flatMap((c) => s.starts.map((v) => [...c, v])), [[]]);
-  yield* combos;
-}
+/** Every combination of the parameters' starting values. */
+const startGrid = (specs: ParamSpec[]): number[][] => specs.reduce<number[][]>((acc, s) => acc.flatMap((c) => s.starts.map((v) => [...c, v])), [[]]);
 
 /** Best of several starts (the chi^2 surface of halo fits has more than one valley). */
-function solve(pb: Problem, starts: Iterable<number[]>, maxIterations: number) {
+function solve(pb: Problem, starts: number[][], maxIterations: number) {
   let best: { theta: number[]; total: number } | null = pb.specs.length === 0 ? { theta: [], total: 0 } : null;
   // Nothing free (a gas-only galaxy under MOND with a0 fixed): the curve is a prediction, just evaluated.
   for (const start of pb.specs.length === 0 ? [] : starts) {
@@ -524,7 +518,7 @@ function lawsOf(options: FitOptions): FitLaw[] {
 export function fitGalaxyLaw(curve: RotationCurve, law: FitLaw, options: FitOptions = {}): LawFit {
   const o = resolve(options);
   const pb = buildProblem(law, [{ name: 'galaxy', curve }], o, false);
-  const { theta, param } = solve(pb, startVectors(pb.specs, null), 80);
+  const { theta, param } = solve(pb, startGrid(pb.specs), 80);
   const g = pb.galaxies[0];
   const curveFit = curveOf(pb, g, theta);
   const chi2 = sumSq(curveFit.residuals);
@@ -565,8 +559,7 @@ export function fitSample(galaxies: SampleGalaxy[], options: FitOptions = {}): S
       g.own.forEach((s, j) => (base[g.ownAt + j] = pick(s.name, s.starts[0])));
       for (const at of [g.diskAt, g.bulgeAt, g.distanceAt, g.inclinationAt]) if (at !== null) base[at] = pick(pb.specs[at].name, pb.specs[at].starts[0]);
     }
-    const sharedStarts = startVectors(pb.specs.slice(0, pb.sharedCount), null);
-    const starts = [...sharedStarts].map((shared) => [...shared, ...base.slice(pb.sharedCount)]);
+    const starts = startGrid(pb.specs.slice(0, pb.sharedCount)).map((shared) => [...shared, ...base.slice(pb.sharedCount)]);
     const { theta, param } = solve(pb, starts, 120);
     const perGalaxy = pb.galaxies.map((g) => {
       const curve = curveOf(pb, g, theta);
