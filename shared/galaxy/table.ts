@@ -221,6 +221,10 @@ export function parseRotationCurve(input: Uint8Array | string, options: TableOpt
   const { header, rows } = readTableCells(input, options);
   const width = Math.max(header?.length ?? 0, ...rows.map((r) => r.cells.length));
   const at = locateColumns(header, width, options.columns);
+  const radiusName = header?.[at.radius!] ?? '';
+  if (options.radiusUnit === undefined && /arcsec|″/i.test(radiusName)) {
+    throw new TableError(`the radius column "${radiusName}" is in arcsec; say so (radius unit arcsec, with the distance) rather than have it read as kpc`);
+  }
   const curve: RotationCurve = {
     radiusKpc: [],
     vObs: [],

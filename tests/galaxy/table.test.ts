@@ -36,6 +36,8 @@ describe('rotation-curve tables', () => {
     expect(curve.radiusKpc[0]).toBeCloseTo(0.48481, 5);
     expect(curve.distanceMpc).toEqual({ value: 10, error: 1 });
     expect(refusal('10 30 3\n', { radiusUnit: 'arcsec' }).message).toMatch(/arcsec need the distance/);
+    expect(refusal('R_arcsec,V,dV\n10,30,3\n').message).toMatch(/the radius column "R_arcsec" is in arcsec; say so/);
+    expect(parseRotationCurve('R_arcsec,V,dV\n10,30,3\n', { ...limits, radiusUnit: 'arcsec', distanceMpc: { value: 10 } }).radiusKpc[0]).toBeCloseTo(0.48481, 5);
   });
 
   test('an explicit mapping by number or name overrides the header', () => {
