@@ -121,8 +121,15 @@ export interface LawFit {
   curve: FittedCurve;
 }
 
+/** A law that could not be fitted (too few points for its parameters...), with the reason. */
+export interface RefusedLaw {
+  law: FitLaw;
+  reason: string;
+}
+
 export interface GalaxyFitReport {
   laws: LawFit[];
+  refused: RefusedLaw[];
   verdict: Verdict;
 }
 
@@ -150,6 +157,7 @@ export interface SampleLawFit {
 
 export interface SampleFitReport {
   laws: SampleLawFit[];
+  refused: RefusedLaw[];
   verdict: Verdict;
 }
 
@@ -537,8 +545,23 @@ export function fitGalaxyLaw(curve: RotationCurve, law: FitLaw, options: FitOpti
 
 /** Fit one galaxy under each requested law (default all), with a verdict by BIC. */
 export function fitGalaxy(curve: RotationCurve, options: FitOptions = {}): GalaxyFitReport {
-  const laws = lawsOf(options).map((law) => fitGalaxyLaw(curve, law, options));
-  return { laws, verdict: verdict(laws) };
+  const { fits, refused } = eachLaw(lawsOf(options), (law) => fitGalaxyLaw(curve, law, options));
+  return { laws: fits, refused, verdict: verdict(fits) };
+}
+
+/** Fit under each law; a law refused with a FitError is reported beside the others, unless every law is refused. */
+function eachLaw<T>(laws: FitLaw[], fit: (law: FitLaw) => T): { fits: T[]; refused: RefusedLaw[] } {
+  const fits: T[] = [], refused: RefusedLaw[] = [];
+  for (const law of laws) {
+    try {
+      fits.push(fit(law));
+    } catch (err) {
+      if (!(err instanceof FitError)) throw err;
+      refused.push({ law, reason: err.message });
+    }
+  }
+  if (fits.length === 0) throw new FitError(refused.map((r) => `${r.law}: ${r.reason}`).join('; '));
+  return { fits, refused };
 }
 
 /**
@@ -550,7 +573,7 @@ export function fitGalaxy(curve: RotationCurve, options: FitOptions = {}): Galax
 export function fitSample(galaxies: SampleGalaxy[], options: FitOptions = {}): SampleFitReport {
   if (galaxies.length < 2) throw new FitError('a sample needs at least two galaxies');
   const o = resolve(options);
-  const fits = lawsOf(options).map((law): SampleLawFit => {
+  const { fits, refused } = eachLaw(lawsOf(options), (law): SampleLawFit => {
     const pb = buildProblem(law, galaxies, o, true);
     const base = new Array<number>(pb.specs.length);
     for (const g of pb.galaxies) {
@@ -578,5 +601,5 @@ export function fitSample(galaxies: SampleGalaxy[], options: FitOptions = {}): S
       ...criteria(chi2, pb.points, pb.specs.length),
     };
   });
-  return { laws: fits, verdict: verdict(fits) };
+  return { laws: fits, refused, verdict: verdict(fits) };
 }

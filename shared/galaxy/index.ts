@@ -16,8 +16,9 @@ export {
   fittedMassToLight,
   HALO_H0_KM_S_MPC,
   nfwFromV200,
+  NUISANCE,
 } from './fit';
-export type { FitLaw, FitOptions, FittedCurve, FittedParam, GalaxyFitReport, LawFit, LogNormalPrior, SampleFitReport, SampleGalaxy, SampleLawFit, Verdict } from './fit';
+export type { FitLaw, FitOptions, FittedCurve, FittedParam, GalaxyFitReport, LawFit, LogNormalPrior, Nuisance, RefusedLaw, SampleFitReport, SampleGalaxy, SampleLawFit, Verdict } from './fit';
 export { accelerationPoints, btfrMass, btfrSpeed, RAR_G_DAGGER_M_S2, rarAcceleration, rarScatter } from './rar';
 export type { AccelerationPoint } from './rar';
 export { exponentialDiskSpeed, hernquistSpeed, inventedCurve } from './invented';

@@ -179,6 +179,11 @@ describe('fits of one invented galaxy recover its parameters', () => {
     expect(() => fitGalaxyLaw(curve, 'nfw')).toThrow(new FitError('2 points cannot constrain 3 free parameters under Newtonian + NFW halo'));
     expect(() => fitGalaxyLaw({ ...curve, vGas: null, vDisk: null }, 'mond-simple')).toThrow(/no baryonic components/);
     expect(() => fitGalaxy(curve, { laws: ['nope' as never] })).toThrow(/unknown law "nope"/);
+    // A law that cannot be fitted is reported beside those that can; if none can, the fit is refused.
+    const report = fitGalaxy(curve, { laws: ['mond-simple', 'nfw'] });
+    expect(report.laws.map((l) => l.law)).toEqual(['mond-simple']);
+    expect(report.refused).toEqual([{ law: 'nfw', reason: '2 points cannot constrain 3 free parameters under Newtonian + NFW halo' }]);
+    expect(() => fitGalaxy(curve, { laws: ['nfw', 'isothermal'] })).toThrow(/^nfw: 2 points .*; isothermal: 2 points/);
   });
 });
 
