@@ -68,6 +68,7 @@ export class TableError extends Error {
 const ARCSEC_RAD = Math.PI / (180 * 3600);
 
 const NUMBER = /^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/;
+const DECIMAL_COMMA = /^[+-]?\d+,\d+$/;
 /** Leading characters a spreadsheet would run as a formula. */
 const FORMULA_START = /^[=+\-@\t\r]/;
 
@@ -148,7 +149,8 @@ export function readTableCells(input: Uint8Array | string, limits: { maxBytes: n
   }
   const rows = records.map((r) => ({ line: r.info.lines, cells: r.record }));
   let header: string[] | null = null;
-  if (rows.length > 0 && rows[0].cells.some((c) => c.trim() !== '' && !NUMBER.test(c.trim()))) {
+  // A header is a first row with a cell that is not a number (a decimal comma still counts as one, to be named later).
+  if (rows.length > 0 && rows[0].cells.some((c) => c.trim() !== '' && !NUMBER.test(c.trim()) && !DECIMAL_COMMA.test(c.trim()))) {
     header = rows.shift()!.cells.map((c) => c.trim());
     const formula = header.findIndex((c) => FORMULA_START.test(c));
     if (formula >= 0) throw new TableError(`"${header[formula]}" looks like a spreadsheet formula; refused`, records[0].info.lines, formula + 1);
@@ -197,7 +199,7 @@ export function readNumber(cell: string | undefined, line: number, column: numbe
     if (!Number.isFinite(value)) throw new TableError(`"${text.slice(0, 40)}" is too large to be a number here`, line, column);
     return value;
   }
-  if (/^[+-]?\d+,\d+$/.test(text)) throw new TableError(`"${text}" has a decimal comma; write ${text.replace(',', '.')}`, line, column);
+  if (DECIMAL_COMMA.test(text)) throw new TableError(`"${text}" has a decimal comma; write ${text.replace(',', '.')}`, line, column);
   if (FORMULA_START.test(text)) throw new TableError(`"${text.slice(0, 40)}" looks like a spreadsheet formula; refused`, line, column);
   throw new TableError(`"${text.slice(0, 40)}" is not a number`, line, column);
 }

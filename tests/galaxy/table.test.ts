@@ -54,6 +54,7 @@ describe('rotation-curve tables', () => {
     expect(refusal('R,V,dV\n1,30\n').message).toBe('line 2, column 3: the cell is empty');
     expect(refusal('R,V,dV\n1,1e999,3\n').message).toBe('line 2, column 2: "1e999" is too large to be a number here');
     expect(refusal('R;V;dV\n1;30,5;3\n').message).toBe('line 2, column 2: "30,5" has a decimal comma; write 30.5');
+    expect(refusal('1;30,5;3\n').message).toBe('line 1, column 2: "30,5" has a decimal comma; write 30.5');
   });
 
   test('errors must be positive; radii positive, sorted, without repeats', () => {
