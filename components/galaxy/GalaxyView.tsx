@@ -57,7 +57,7 @@ function paramText(p: LawFit['params'][number]): string {
 }
 
 function FitTable({ record }: { record: GalaxyFitRecord }) {
-  const { laws, verdict } = record.results;
+  const { laws, refused = [], verdict } = record.results;
   return (
     <View style={{ gap: space.md }} testID="fit-table">
       <Txt variant="small">
@@ -82,6 +82,11 @@ function FitTable({ record }: { record: GalaxyFitRecord }) {
           ))}
           <Txt variant="caption">{FIT_VALIDITY[l.law]}</Txt>
         </View>
+      ))}
+      {refused.map((r) => (
+        <Txt key={r.law} variant="small" color={colors.warning}>
+          {LAW_WORDS[r.law]}: not fitted. {r.reason}
+        </Txt>
       ))}
     </View>
   );

@@ -2,7 +2,7 @@
 // residuals, and the radial acceleration relation. Pure, so it is tested without a screen.
 import { colors, lawColor, palette } from '../../constants/theme';
 import type { PlotMark, PlotSeries } from '../LinePlot';
-import { DEFAULT_PRIORS, type FitLaw, type LawFit } from '../../shared/galaxy/fit';
+import { fittedMassToLight, type FitLaw, type LawFit } from '../../shared/galaxy/fit';
 import type { RotationCurve } from '../../shared/galaxy/table';
 import { accelerationPoints, rarAcceleration, rarScatter, RAR_G_DAGGER_M_S2, type AccelerationPoint } from '../../shared/galaxy/rar';
 
@@ -56,12 +56,6 @@ export function residualSeries(fits: LawFit[]): PlotSeries[] {
   return fits.map((f) => ({ id: `res-${f.law}`, label: f.label, color: FIT_LOOKS[f.law].color, x: f.curve.radiusKpc, y: f.curve.residuals, mark: FIT_LOOKS[f.law].mark, pointsOnly: true }));
 }
 
-/** Mass-to-light ratios of a fit; without one, the centres of the fits' priors. */
-export function massToLight(fit: LawFit | null): { disk: number; bulge: number } {
-  const get = (name: string, fallback: number) => fit?.params.find((p) => p.name === name)?.value ?? fallback;
-  return { disk: get('ML_disk', DEFAULT_PRIORS.disk.centre), bulge: get('ML_bulge', DEFAULT_PRIORS.bulge.centre) };
-}
-
 export interface RarGalaxy {
   name: string;
   curve: RotationCurve;
@@ -83,7 +77,7 @@ export function rarSeries(galaxies: RarGalaxy[]): RarPlotData {
   const marks: PlotMark[] = ['circle', 'square', 'triangle', 'diamond'];
   const palettes = [colors.text, palette.drift, palette.infall, '#C59BFF', palette.bloom, '#F28DC0'];
   const series: PlotSeries[] = galaxies.map((g, i) => {
-    const pts = accelerationPoints(g.curve, massToLight(g.fit));
+    const pts = accelerationPoints(g.curve, fittedMassToLight(g.fit?.params ?? []));
     all.push(...pts);
     return { id: `rar-${i}`, label: g.name, color: palettes[i % palettes.length], x: pts.map((p) => p.gBar), y: pts.map((p) => p.gObs), yError: pts.map((p) => p.gObsErr), pointsOnly: true, mark: marks[i % marks.length], group: 'data' };
   });

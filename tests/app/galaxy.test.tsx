@@ -141,7 +141,7 @@ test('the new-run form takes its particle table from a file sent through the upl
   const set = jest.fn();
   const draft = { model: { kind: 'table', particles: [], recentre: true }, law: { kind: 'newton' } };
   mockNextFile = new File(['1 0 0 0 50 0 1e9\n'], 'pair.csv');
-  const { view } = render(<ModelEditor draft={draft as never} set={set} issues={{}} />);
+  const { view } = render(<ModelEditor draft={draft as never} set={set} issues={{}} pairLaw={null} />);
   press(view.getByTestId('field-model.particles'));
   await settle();
   expect(((calls[0].body as FormData).get('file') as File).name).toBe('pair.csv');
