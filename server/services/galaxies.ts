@@ -3,7 +3,11 @@ import { ApiError } from '../errors';
 import { idParam, parseInput } from '../routes/input';
 import { Cohort, CohortMember, Galaxy, GalaxyFit, type User } from '../db/entities';
 import { parseRotationCurve, TableError } from '../../shared/galaxy/table';
-import { fitGalaxy, FitError } from '../../shared/galaxy/fit';
+import path from 'node:path';
+import { Worker } from 'node:worker_threads';
+import type { FitOptions, GalaxyFitReport } from '../../shared/galaxy/fit';
+import type { RotationCurve } from '../../shared/galaxy/table';
+import type { FitJob } from './fitThread';
 import {
   FIT_MAX_POINTS,
   galaxyFitRequestSchema,
@@ -186,14 +190,7 @@ export async function deleteGalaxy(em: EntityManager, user: User, g: Galaxy): Pr
 export async function requestFit(em: EntityManager, user: User, g: Galaxy, body: unknown): Promise<GalaxyFitRecord> {
   const request = parseInput(galaxyFitRequestSchema, body);
   if (g.points > FIT_MAX_POINTS) throw new ApiError('BAD_REQUEST', `This galaxy has ${g.points} points; fits through the service take at most ${FIT_MAX_POINTS}`);
-  let results;
-  try {
-    results = fitGalaxy(g.curve, request);
-  } catch (err) {
-    if (err instanceof FitError) throw new ApiError('BAD_REQUEST', `The fit failed: ${err.message}`);
-    throw err;
-  }
-  // The fit runs on this thread: FIT_MAX_POINTS keeps it to a few seconds at most.
+  const results = await fitInThread(g.curve, request);
   const fit = await em.transactional(async (tx) => {
     const made = tx.create(GalaxyFit, { galaxy: g.id, requestedBy: user.id, request, results });
     await tx.flush();
@@ -202,4 +199,34 @@ export async function requestFit(em: EntityManager, user: User, g: Galaxy, body:
     return made;
   });
   return { id: fit.id, request, results, requestedBy: owner(user), createdAt: fit.createdAt.toISOString() };
+}
+
+/** Fits at once across the server; more wait for a minute rather than crowd the machine. */
+const MAX_FITS_AT_ONCE = 2;
+const FIT_TIME_LIMIT_MS = 60_000;
+let fitting = 0;
+
+type FitAnswer = { ok: true; report: GalaxyFitReport } | { ok: false; refused: boolean; message: string };
+
+/** Runs one fit in a worker thread (a .ts entry needs tsx's require hook there), with a time limit. */
+async function fitInThread(curve: RotationCurve, options: FitOptions): Promise<GalaxyFitReport> {
+  if (fitting >= MAX_FITS_AT_ONCE) throw new ApiError('UNAVAILABLE', 'The server is busy with other fits; try again in a minute');
+  fitting += 1;
+  const entry = path.join(__dirname, 'fitThread.ts');
+  const job: FitJob = { curve, options };
+  const worker = new Worker(`require(${JSON.stringify(require.resolve('tsx/cjs'))}); require(${JSON.stringify(entry)});`, { eval: true, workerData: job });
+  try {
+    const answer = await new Promise<FitAnswer>((resolve, reject) => {
+      const timer = setTimeout(() => reject(new ApiError('UNAVAILABLE', `The fit took longer than ${FIT_TIME_LIMIT_MS / 1000} s and was stopped`)), FIT_TIME_LIMIT_MS);
+      worker.once('message', (m: FitAnswer) => (clearTimeout(timer), resolve(m)));
+      worker.once('error', (e) => (clearTimeout(timer), reject(e)));
+      worker.once('exit', () => (clearTimeout(timer), reject(new Error('the fit thread stopped without an answer'))));
+    });
+    if (answer.ok) return answer.report;
+    if (answer.refused) throw new ApiError('BAD_REQUEST', `The fit failed: ${answer.message}`);
+    throw new Error(`the fit thread failed: ${answer.message}`);
+  } finally {
+    fitting -= 1;
+    void worker.terminate();
+  }
 }
