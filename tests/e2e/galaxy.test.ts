@@ -90,4 +90,22 @@ describe('importing a rotation curve on a phone', () => {
     await fullShot(page, 'galaxies-phone');
     expect(errors).toEqual([]);
   });
+
+  it('takes the particles of a new run from a file, refusing a bad one with its line and column', async () => {
+    const dir = path.dirname(table);
+    fs.writeFileSync(path.join(dir, 'pair-invented.csv'), 'x,y,z,vx,vy,vz,mass\n1,0,0,0,50,0,1e9\n-1,0,0,0,-50,0,1e9\n-2,0,0,0,-30,0,1e8\n');
+    fs.writeFileSync(path.join(dir, 'hostile.csv'), '1,0,0,0,50,0,1e9\n1,0,0,0,50,0,=2+2\n');
+    await page.goto(`${baseUrl()}/runs/new`);
+    await page.getByRole('radio', { name: 'Uploaded particles' }).click();
+    const pick = async (file: string) => {
+      const chooser = page.waitForEvent('filechooser');
+      await page.getByTestId('field-model.particles').click();
+      await (await chooser).setFiles(path.join(dir, file));
+    };
+    await pick('pair-invented.csv');
+    await page.getByText('3 particles read from pair-invented.csv').waitFor();
+    await pick('hostile.csv');
+    await page.getByText(/^file: line 2, column 7: .*formula/).waitFor();
+    expect(errors).toEqual([]);
+  });
 });
