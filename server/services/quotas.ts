@@ -1,7 +1,6 @@
 import type { EntityManager } from '@mikro-orm/postgresql';
 import { Allocation, Cohort, CohortMember, Run, type User } from '../db/entities';
-import { ROLE_LIMITS, ROLE_UPLOAD_LIMITS, type AccountUsage, type QuotaLimits, type Role } from '../../shared/api/accounts';
-import type { UploadLimits } from '../../shared/api/galaxies';
+import { ROLE_LIMITS, ROLE_UPLOAD_LIMITS, type AccountUsage, type QuotaLimits, type Role, type UploadLimits } from '../../shared/api/accounts';
 
 // Quotas come from three places, most specific first: an admin's per-user grant,
 // then (for students) the most generous of their cohorts' quotas, then the role.

@@ -2,7 +2,6 @@ import { z } from 'zod';
 import { runNameSchema } from '../spec/runSpec';
 import { LIMITS } from '../spec/runSpec';
 import { groupDigits, interactionsText } from './quotaWords';
-import type { UploadLimits } from './galaxies';
 
 // Accounts, tokens, cohorts, quotas and templates: request bodies the app and
 // the server both check, and the shapes the server answers with.
@@ -136,6 +135,14 @@ export const ROLE_LIMITS: Record<Role, QuotaLimits> = {
   researcher: { maxParticles: 50_000, maxSteps: 100_000, maxConcurrentRuns: 8, dailyInteractions: 2e13 },
   admin: { maxParticles: 100_000, maxSteps: 200_000, maxConcurrentRuns: 16, dailyInteractions: 1e14 },
 };
+
+/** Limits on one uploaded table (a rotation curve, a particle file). */
+export interface UploadLimits {
+  /** Largest table file, bytes. */
+  maxUploadBytes: number;
+  /** Most data rows in one table. */
+  maxUploadRows: number;
+}
 
 /**
  * Uploaded tables (rotation curves, particle tables): largest file and most data rows, by role.

@@ -2,6 +2,7 @@ import { z } from 'zod';
 import type { RotationCurve } from '../galaxy/table';
 import { FIT_LAWS, type GalaxyFitReport } from '../galaxy/fit';
 import type { Owner } from './contract';
+import type { UploadLimits } from './accounts';
 
 // Galaxies: observed rotation curves uploaded as tables, who may see them, and the fits
 // requested on them. The upload is multipart (the file plus these fields as text).
@@ -104,13 +105,6 @@ export const galaxyFitRequestSchema = z
   })
   .strict();
 export type GalaxyFitRequest = z.infer<typeof galaxyFitRequestSchema>;
-
-export interface UploadLimits {
-  /** Largest table file, bytes. */
-  maxUploadBytes: number;
-  /** Most data rows in one table. */
-  maxUploadRows: number;
-}
 
 export interface GalaxySummary {
   id: number;
