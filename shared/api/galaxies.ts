@@ -64,8 +64,9 @@ const jsonField = <S extends z.ZodType>(schema: S) =>
     })
     .pipe(schema);
 
+const visibility = z.enum(GALAXY_VISIBILITIES, 'visibility must be private, cohort or public');
 const visibilityFields = {
-  visibility: z.enum(GALAXY_VISIBILITIES, 'visibility must be private, cohort or public').default('private'),
+  visibility: visibility.default('private'),
   cohortId: z.coerce.number().int().positive('cohortId must be a cohort id').optional(),
 };
 
@@ -82,7 +83,8 @@ export type UploadGalaxyFields = z.input<typeof uploadGalaxyFieldsSchema>;
 export const updateGalaxyBodySchema = z
   .object({
     name: galaxyName.optional(),
-    visibility: visibilityFields.visibility.optional(),
+    // No default here: a rename leaves the sharing as it is.
+    visibility: visibility.optional(),
     cohortId: z.number().int().positive().nullable().optional(),
   })
   .strict();

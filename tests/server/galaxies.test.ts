@@ -185,6 +185,9 @@ describe('who sees a galaxy', () => {
     const shared = await request(s.app).patch(`/api/galaxies/${privateId}`).set(owner.auth).send({ visibility: 'cohort', cohortId }).expect(200);
     expect(shared.body.cohort).toMatchObject({ id: cohortId });
     await request(s.app).get(`/api/galaxies/${privateId}`).set(member.auth).expect(200);
+    // A rename leaves the sharing as it is.
+    const renamed = await request(s.app).patch(`/api/galaxies/${privateId}`).set(owner.auth).send({ name: 'Invented, renamed' }).expect(200);
+    expect(renamed.body).toMatchObject({ name: 'Invented, renamed', visibility: 'cohort', cohort: { id: cohortId } });
     await request(s.app).patch(`/api/galaxies/${privateId}`).set(owner.auth).send({ visibility: 'private' }).expect(200);
     await request(s.app).get(`/api/galaxies/${privateId}`).set(member.auth).expect(404);
   });
