@@ -19,8 +19,8 @@ function blobBytes(blob: Blob): Promise<ArrayBuffer> {
 }
 
 /** Opens the system picker for a text table; refuses a file over the byte limit before reading it. Null if cancelled. */
-export async function pickTableFile(maxBytes = Infinity): Promise<PickedFile | null> {
-  const result = await DocumentPicker.getDocumentAsync({ type: ['text/csv', 'text/plain', 'text/tab-separated-values', '.csv', '.txt', '.dat', '*/*'], multiple: false, base64: false });
+export async function pickTableFile(maxBytes = Infinity, extraTypes: string[] = []): Promise<PickedFile | null> {
+  const result = await DocumentPicker.getDocumentAsync({ type: ['text/csv', 'text/plain', 'text/tab-separated-values', '.csv', '.txt', '.dat', ...extraTypes, '*/*'], multiple: false, base64: false });
   if (result.canceled || !result.assets?.length) return null;
   const asset = result.assets[0];
   if (asset.size !== undefined && asset.size > maxBytes) throw new Error(`the file is ${groupDigits(asset.size)} bytes; your upload limit is ${groupDigits(maxBytes)}`);

@@ -79,7 +79,7 @@ function TableFields({ draft, set, issues }: Omit<Props, 'pairLaw'>) {
   const choose = async () => {
     setPickError(null);
     try {
-      const file = await pickTableFile();
+      const file = await pickTableFile(Infinity, ['.h5', 'application/x-hdf5']);
       if (!file) return;
       upload.mutate(file, {
         onSuccess: (r) => {
@@ -100,7 +100,7 @@ function TableFields({ draft, set, issues }: Omit<Props, 'pairLaw'>) {
           {problem ?? `${current.length} particles${fileName ? ` read from ${fileName}` : ''}`}
         </Txt>
       </View>
-      <Txt variant="caption">CSV or columns separated by spaces, seven numbers a row; a header row and # comments are allowed.</Txt>
+      <Txt variant="caption">CSV or columns separated by spaces, seven numbers a row (a header row and # comments are allowed), or a snapshot file (.h5) exported from a run: its last frame.</Txt>
       <Toggle label="Move to the centre-of-mass frame" value={getIn(draft, ['model', 'recentre']) !== false} onChange={(v) => set(['model', 'recentre'], v)} />
     </View>
   );

@@ -2,7 +2,9 @@
 // stored with its raw bytes; every refusal names the problem and stores nothing; who sees what.
 import request from 'supertest';
 import { openAuthStack, userWithToken, type AuthStack } from './auth/harness';
-import { Cohort, CohortMember, Galaxy, GalaxyFit, type User } from '../../server/db/entities';
+import { randomUUID } from 'node:crypto';
+import { Cohort, CohortMember, Galaxy, GalaxyFit, Run, RunOutput, RunSnapshot, type User } from '../../server/db/entities';
+import { defaultRunSpec } from '../../shared/spec';
 import { seedGalaxies } from '../../server/db/seed-galaxies';
 import { ROLE_UPLOAD_LIMITS } from '../../shared/api/accounts';
 import { newEnrolmentCode } from '../../server/services/cohorts';
@@ -299,5 +301,52 @@ describe('particle tables through the same upload path', () => {
     const res = await post(student.auth, rows).expect(413);
     expect(res.body.error.message).toMatch(/data rows/);
     await request(s.app).post('/api/particle-tables').attach('file', Buffer.from('1,0,0,0,0,0,1'), 'p.csv').expect(401);
+  });
+});
+
+describe('a snapshot file from the export as a particle table', () => {
+  const binary = (res: NodeJS.ReadableStream, done: (err: Error | null, body: Buffer) => void) => {
+    const chunks: Buffer[] = [];
+    res.on('data', (c: Buffer) => chunks.push(c));
+    res.on('end', () => done(null, Buffer.concat(chunks)));
+  };
+
+  /** A finished run's rows as the worker stores them (invented numbers), exported as HDF5 through the API. */
+  async function exportedFile(withVelocities: boolean): Promise<{ bytes: Buffer; last: { positions: Float32Array; velocities: Float32Array }; masses: Float64Array }> {
+    const em = s.em();
+    const run = em.create(Run, {
+      id: randomUUID(), owner: owner.user.id, name: 'Export to restart (invented)', spec: defaultRunSpec(), modelKind: 'plummer', lawKind: 'newton',
+      particles: 3, steps: 20, costInteractions: 0, status: 'finished', progress: 1, finishedAt: new Date(),
+    });
+    const masses = Float64Array.from([1e9, 2e9, 3e9]);
+    em.create(RunOutput, {
+      run: run.id, law: {}, timescales: {}, warnings: [], diagnostics: [], rotationCurves: {}, summary: {}, snapshotParticles: 3,
+      particleIds: Buffer.from(Uint32Array.from([0, 1, 2]).buffer), masses: Buffer.from(masses.buffer), components: [{ label: 'sphere', start: 0, count: 3 }], engineVersion: 'test',
+    });
+    const frames = [0, 1].map((k) => ({ positions: Float32Array.from({ length: 9 }, (_, i) => i + k / 2), velocities: Float32Array.from({ length: 9 }, (_, i) => 10 * i - k) }));
+    frames.forEach((f, frame) =>
+      em.create(RunSnapshot, { run: run.id, frame, step: frame * 10, timeMyr: frame * 5, positions: Buffer.from(f.positions.buffer), velocities: withVelocities ? Buffer.from(f.velocities.buffer) : null }),
+    );
+    await em.flush();
+    const res = await request(s.app).get(`/api/runs/${run.id}/snapshots.h5`).set(owner.auth).buffer(true).parse((r, done) => binary(r as unknown as NodeJS.ReadableStream, done)).expect(200);
+    return { bytes: res.body as Buffer, last: frames[1], masses };
+  }
+
+  test('its last frame comes back as particles with their masses', async () => {
+    const { bytes, last, masses } = await exportedFile(true);
+    const res = await request(s.app).post('/api/particle-tables').set(owner.auth).attach('file', bytes, 'run.h5').expect(200);
+    expect(res.body.particles).toEqual([0, 1, 2].map((i) => ({
+      x_kpc: last.positions[3 * i], y_kpc: last.positions[3 * i + 1], z_kpc: last.positions[3 * i + 2],
+      vx_km_s: last.velocities[3 * i], vy_km_s: last.velocities[3 * i + 1], vz_km_s: last.velocities[3 * i + 2], mass_Msun: masses[i],
+    })));
+  });
+
+  test('a file without velocities, or an HDF5 file of another kind, is refused in words', async () => {
+    const { bytes } = await exportedFile(false);
+    const res = await request(s.app).post('/api/particle-tables').set(owner.auth).attach('file', bytes, 'old.h5').expect(400);
+    expect(res.body.error.message).toMatch(/no velocities or masses/);
+    const forged = Buffer.concat([Buffer.from([0x89, 0x48, 0x44, 0x46, 0x0d, 0x0a, 0x1a, 0x0a]), Buffer.alloc(64, 7)]);
+    const bad = await request(s.app).post('/api/particle-tables').set(owner.auth).attach('file', forged, 'forged.h5').expect(400);
+    expect(bad.body.error.message).toMatch(/^file: the HDF5 file cannot be read/);
   });
 });
