@@ -18,6 +18,7 @@ function navFor(user: SessionUser): NavItem[] {
     { href: '/', label: 'Runs', icon: 'runs', match: (p) => p === '/' || (p.startsWith('/runs/') && p !== '/runs/new') },
     { href: '/runs/new', label: 'Launch', icon: 'launch', match: (p) => p === '/runs/new' },
     { href: '/compare', label: 'Compare', icon: 'compare', match: (p) => p.startsWith('/compare') },
+    { href: '/galaxies', label: 'Galaxies', icon: 'galaxy', match: (p) => p.startsWith('/galaxies') },
   ];
   if (isStaff(user)) items.push({ href: '/cohorts', label: 'Cohorts', icon: 'cohort', match: (p) => p.startsWith('/cohorts') });
   if (isAdmin(user)) items.push({ href: '/admin', label: 'Admin', icon: 'admin', match: (p) => p.startsWith('/admin') });

@@ -23,6 +23,10 @@ export interface PlotSeries {
   group?: string;
   /** Starts switched off; the legend entry turns it on. */
   hidden?: boolean;
+  /** Measured points: a mark at every point and no line (needs `mark`). */
+  pointsOnly?: boolean;
+  /** One-sigma error on each y, drawn as a vertical bar. */
+  yError?: ArrayLike<number>;
 }
 
 export interface LinePlotProps {
@@ -58,13 +62,23 @@ function usable(v: number | null | undefined, log: boolean): v is number {
 function extent(series: PlotSeries[], axis: 'x' | 'y', log: boolean): [number, number] {
   let lo = Infinity;
   let hi = -Infinity;
+  const take = (v: number) => {
+    if (!usable(v, log)) return;
+    if (v < lo) lo = v;
+    if (v > hi) hi = v;
+  };
   for (const s of series) {
     const arr = s[axis];
     for (let i = 0; i < arr.length; i++) {
       const v = arr[i];
       if (usable(v, log) && usable(axis === 'x' ? s.y[i] : s.x[i], false)) {
-        if (v < lo) lo = v;
-        if (v > hi) hi = v;
+        take(v);
+        // Error bars stay inside the frame.
+        const e = axis === 'y' ? s.yError?.[i] : undefined;
+        if (e !== undefined && Number.isFinite(e)) {
+          take(v - e);
+          take(v + e);
+        }
       }
     }
   }
@@ -89,7 +103,7 @@ function markPath(mark: PlotMark, x: number, y: number): string {
 interface PlotGeometry {
   x: Scale;
   y: Scale;
-  paths: { s: PlotSeries; d: string; marks: string }[];
+  paths: { s: PlotSeries; d: string; marks: string; bars: string }[];
   xt: AxisTick[];
   yt: AxisTick[];
 }
@@ -124,9 +138,10 @@ const Axes = memo(function Axes({ plot, width, height, xLabel, xLog, yLog }: { p
       ))}
       <Line x1={M.left} x2={width - M.right} y1={height - M.bottom} y2={height - M.bottom} stroke={colors.borderStrong} strokeWidth={1} />
       <Line x1={M.left} x2={M.left} y1={M.top} y2={height - M.bottom} stroke={colors.borderStrong} strokeWidth={1} />
-      {plot.paths.map(({ s, d, marks }) => (
+      {plot.paths.map(({ s, d, marks, bars }) => (
         <G key={s.id}>
-          <Path d={d} stroke={s.color} strokeWidth={2} fill="none" strokeDasharray={s.dashed ? '6 4' : undefined} strokeLinejoin="round" />
+          {bars ? <Path d={bars} stroke={s.color} strokeWidth={1.2} fill="none" /> : null}
+          {d ? <Path d={d} stroke={s.color} strokeWidth={2} fill="none" strokeDasharray={s.dashed ? '6 4' : undefined} strokeLinejoin="round" /> : null}
           {marks ? <Path d={marks} fill={s.color} stroke={colors.surface} strokeWidth={1} /> : null}
         </G>
       ))}
@@ -141,14 +156,14 @@ const Axes = memo(function Axes({ plot, width, height, xLabel, xLog, yLog }: { p
 function Swatch({ s, on }: { s: PlotSeries; on: boolean }) {
   return (
     <Svg width={26} height={12} style={{ opacity: on ? 1 : 0.35 }}>
-      <Line x1={1} x2={25} y1={6} y2={6} stroke={s.color} strokeWidth={2} strokeDasharray={s.dashed ? '4 3' : undefined} />
+      {s.pointsOnly ? (s.yError ? <Line x1={13} x2={13} y1={0} y2={12} stroke={s.color} strokeWidth={1.2} /> : null) : <Line x1={1} x2={25} y1={6} y2={6} stroke={s.color} strokeWidth={2} strokeDasharray={s.dashed ? '4 3' : undefined} />}
       {s.mark ? <Path d={markPath(s.mark, 13, 6)} fill={s.color} stroke={colors.surface} strokeWidth={1} /> : null}
     </Svg>
   );
 }
 
 function LegendEntry({ s, on, onToggle }: { s: PlotSeries; on: boolean; onToggle: () => void }) {
-  const looks = [s.dashed ? 'dashed line' : 'solid line', s.mark ? MARK_WORDS[s.mark] : null].filter(Boolean).join(' with ');
+  const looks = [s.pointsOnly ? 'points' : s.dashed ? 'dashed line' : 'solid line', s.mark ? MARK_WORDS[s.mark] : null, s.yError ? 'error bars' : null].filter(Boolean).join(' with ');
   return (
     <Pressable
       onPress={onToggle}
@@ -193,6 +208,7 @@ export function LinePlot({ series, xLabel, yLabel, xLog = false, yLog = false, h
     const y = makeScale(yd, [height - M.bottom, M.top], yLog);
     const paths = shown.map((s) => {
       let d = '';
+      let bars = '';
       let pen = false;
       const points: [number, number][] = [];
       for (let i = 0; i < s.x.length; i++) {
@@ -204,16 +220,23 @@ export function LinePlot({ series, xLabel, yLabel, xLog = false, yLog = false, h
         }
         const px = x(xv);
         const py = y(yv);
-        d += `${pen ? 'L' : 'M'}${px.toFixed(1)},${py.toFixed(1)}`;
+        const e = s.yError?.[i];
+        if (e !== undefined && Number.isFinite(e) && e > 0) {
+          // On a log axis the lower end may fall below zero: clip it to the frame.
+          const lo = usable(yv - e, yLog) ? y(yv - e) : height - M.bottom;
+          const hi = y(yv + e);
+          bars += `M${px.toFixed(1)},${lo.toFixed(1)}V${hi.toFixed(1)}M${(px - 3).toFixed(1)},${lo.toFixed(1)}h6M${(px - 3).toFixed(1)},${hi.toFixed(1)}h6`;
+        }
+        if (!s.pointsOnly) d += `${pen ? 'L' : 'M'}${px.toFixed(1)},${py.toFixed(1)}`;
         points.push([px, py]);
         pen = true;
       }
       let marks = '';
       if (s.mark && points.length) {
-        const every = Math.max(1, Math.ceil(points.length / MARKS_PER_SERIES));
+        const every = s.pointsOnly ? 1 : Math.max(1, Math.ceil(points.length / MARKS_PER_SERIES));
         for (let k = 0; k < points.length; k += every) marks += markPath(s.mark, points[k][0], points[k][1]);
       }
-      return { s, d, marks };
+      return { s, d, marks, bars };
     });
     const xt = x.ticks(width < 400 ? 4 : 6);
     const yt = y.ticks(5);

@@ -2,7 +2,7 @@ import Svg, { Circle, Path } from 'react-native-svg';
 import { colors } from '../constants/theme';
 
 // Infall's own line icons, drawn on a 24-unit grid.
-export type IconName = 'runs' | 'launch' | 'compare' | 'cohort' | 'admin' | 'account';
+export type IconName = 'runs' | 'launch' | 'compare' | 'galaxy' | 'cohort' | 'admin' | 'account';
 
 const STROKE = { strokeWidth: 1.8, fill: 'none', strokeLinecap: 'round' as const, strokeLinejoin: 'round' as const };
 
@@ -25,6 +25,11 @@ export function Icon({ name, color = colors.text, size = 22 }: { name: IconName;
         <>
           <Path d="M11 3.5a8.5 8.5 0 0 0 0 17z" stroke={color} {...STROKE} />
           <Path d="M13 3.5a8.5 8.5 0 0 1 0 17" stroke={color} {...STROKE} strokeDasharray="2.5 2.5" />
+        </>
+      ) : name === 'galaxy' ? (
+        <>
+          <Circle cx={12} cy={12} r={1.8} fill={color} />
+          <Path d="M12 12c0-4 3-6.5 6.5-5.5M12 12c0 4-3 6.5-6.5 5.5M12 12c4 0 6.5 3 5.5 6.5M12 12c-4 0-6.5-3-5.5-6.5" stroke={color} {...STROKE} />
         </>
       ) : name === 'cohort' ? (
         <>

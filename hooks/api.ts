@@ -46,14 +46,16 @@ async function toApiError(res: Response): Promise<ApiError> {
 async function send(path: string, opts: RequestOptions): Promise<Response> {
   const method = opts.method ?? 'GET';
   const headers: Record<string, string> = { Accept: opts.as === 'bytes' ? 'application/octet-stream' : 'application/json' };
-  if (opts.body !== undefined) headers['Content-Type'] = 'application/json';
+  // A FormData body (a file upload) sets its own multipart Content-Type with the boundary.
+  const form = typeof FormData !== 'undefined' && opts.body instanceof FormData;
+  if (opts.body !== undefined && !form) headers['Content-Type'] = 'application/json';
   if (method !== 'GET' && csrfToken) headers['X-CSRF-Token'] = csrfToken;
   try {
     return await fetch(`${API_BASE}${path}`, {
       method,
       headers,
       credentials: 'include',
-      body: opts.body === undefined ? undefined : JSON.stringify(opts.body),
+      body: opts.body === undefined ? undefined : form ? (opts.body as FormData) : JSON.stringify(opts.body),
       signal: opts.signal,
     });
   } catch (e) {

@@ -12,6 +12,8 @@ import { runsRouter } from './routes/runs';
 import { exportsRouter } from './routes/exports';
 import { securityHeaders, requestLogs, createLogger } from './http/headers';
 import type { Logger } from 'pino';
+import { galaxiesRouter } from './routes/galaxies';
+import { particleTablesRouter } from './routes/particleTables';
 
 export interface Deps {
   orm: Orm;
@@ -35,6 +37,8 @@ export function createApp(deps: Deps, opts: { webDir?: string; logger?: Logger }
   api.use('/health', healthRouter(deps));
   api.use('/runs', runsRouter(deps));
   api.use('/runs', exportsRouter());
+  api.use('/galaxies', galaxiesRouter());
+  api.use('/particle-tables', particleTablesRouter());
   api.use(notFoundHandler);
   app.use('/api', api);
 

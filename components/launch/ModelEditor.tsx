@@ -1,12 +1,15 @@
 import { useState } from 'react';
-import { StyleSheet, TextInput, View } from 'react-native';
+import { StyleSheet, View } from 'react-native';
 import type { LawSpec } from '../../shared/spec';
-import { colors, fonts, radius, space } from '../../constants/theme';
+import { colors, radius, space } from '../../constants/theme';
 import { getIn, isSampled, MODEL_PRESETS, SYSTEM_KINDS, withEquilibriumLaw, type Path } from '../../hooks/runDraft';
 import { ChoiceChips, FieldRow, Toggle } from '../fields';
 import { LAW_LABELS, MODEL_LABELS } from '../format';
-import { parseNumberText } from '../numberText';
 import { Txt } from '../Txt';
+import { Button } from '../Button';
+import { describeError } from '../States';
+import { useParticleTableUpload } from '../../hooks/galaxies';
+import { pickTableFile } from '../../hooks/pickFile';
 import { styles as formStyles } from './formStyles';
 import { SpecNumber } from './SpecField';
 
@@ -26,7 +29,7 @@ const MODEL_NOTES: Record<string, string> = {
   hernquist: 'A cuspy sphere like a galaxy bulge or elliptical.',
   disk: 'A rotating exponential disk, optionally with a bulge; its velocities follow the circular speed of a law.',
   encounter: 'Two systems on a parabolic orbit towards each other.',
-  table: 'Your own particles: one per line as x y z [kpc] vx vy vz [km/s] mass [M☉].',
+  table: 'Your own particles from a file: one per row as x y z [kpc] vx vy vz [km/s] mass [M☉].',
 };
 
 function SystemFields({ draft, base, set, issues }: { draft: unknown; base: Path; set: Props['set']; issues: Props['issues'] }) {
@@ -63,55 +66,41 @@ function SystemFields({ draft, base, set, issues }: { draft: unknown; base: Path
   );
 }
 
-const COLUMNS = ['x', 'y', 'z', 'vx', 'vy', 'vz', 'mass'];
-
-/** Parses pasted particle rows (columns split by spaces, commas or semicolons); returns the particles or the first line that is wrong. */
-export function parseParticleTable(text: string): { particles: Record<string, number>[] } | { error: string } {
-  const particles: Record<string, number>[] = [];
-  const lines = text.split(/\r?\n/);
-  for (let i = 0; i < lines.length; i++) {
-    const line = lines[i].trim();
-    if (!line || line.startsWith('#')) continue;
-    const words = line.split(/[\s,;]+/);
-    if (words.length !== 7) return { error: `Line ${i + 1}: expected 7 numbers (x y z vx vy vz mass), got ${words.length}: "${line.slice(0, 60)}"` };
-    const v: number[] = [];
-    for (const [j, word] of words.entries()) {
-      const read = parseNumberText(word);
-      if (read.state !== 'number') return { error: `Line ${i + 1}, ${COLUMNS[j]} "${word.slice(0, 30)}": ${read.state === 'invalid' ? read.problem : 'missing'}` };
-      v.push(read.value);
-    }
-    const [x_kpc, y_kpc, z_kpc, vx_km_s, vy_km_s, vz_km_s, mass_Msun] = v;
-    particles.push({ x_kpc, y_kpc, z_kpc, vx_km_s, vy_km_s, vz_km_s, mass_Msun });
-  }
-  return { particles };
-}
-
+/**
+ * The particles come from a file sent through the upload path: the server reads it with the
+ * same rules and limits as any table (line and column named in a refusal) and hands them back.
+ */
 function TableFields({ draft, set, issues }: Omit<Props, 'pairLaw'>) {
   const current = (getIn(draft, ['model', 'particles']) as Record<string, number>[]) ?? [];
-  const [text, setText] = useState(() => current.map((p) => [p.x_kpc, p.y_kpc, p.z_kpc, p.vx_km_s, p.vy_km_s, p.vz_km_s, p.mass_Msun].join(' ')).join('\n'));
-  const [error, setError] = useState<string | null>(null);
+  const upload = useParticleTableUpload();
+  const [pickError, setPickError] = useState<string | null>(null);
+  const [fileName, setFileName] = useState<string | null>(null);
   const issue = Object.entries(issues).find(([k]) => k.startsWith('model.particles'))?.[1];
+  const choose = async () => {
+    setPickError(null);
+    try {
+      const file = await pickTableFile(Infinity, ['.h5', 'application/x-hdf5']);
+      if (!file) return;
+      upload.mutate(file, {
+        onSuccess: (r) => {
+          setFileName(r.fileName);
+          set(['model', 'particles'], r.particles);
+        },
+      });
+    } catch (e) {
+      setPickError(e instanceof Error ? e.message : String(e));
+    }
+  };
+  const problem = pickError ?? (upload.isError ? describeError(upload.error) : null) ?? issue;
   return (
     <View style={formStyles.group}>
-      <TextInput
-        multiline
-        value={text}
-        onChangeText={(t) => {
-          setText(t);
-          const parsed = parseParticleTable(t);
-          if ('error' in parsed) setError(parsed.error);
-          else {
-            setError(null);
-            set(['model', 'particles'], parsed.particles);
-          }
-        }}
-        accessibilityLabel="Particle table: x y z in kpc, vx vy vz in km/s, mass in solar masses, one particle per line"
-        style={styles.table}
-        testID="field-model.particles"
-      />
-      <Txt variant="caption" color={error || issue ? colors.danger : colors.textMuted}>
-        {error ?? issue ?? `${current.length} particles read`}
-      </Txt>
+      <View style={styles.pickRow}>
+        <Button label={current.length ? 'Choose another particle file' : 'Choose a particle file'} tone="secondary" busy={upload.isPending} onPress={() => void choose()} testID="field-model.particles" />
+        <Txt variant="caption" color={problem ? colors.danger : colors.textMuted} role={problem ? 'alert' : undefined}>
+          {problem ?? `${current.length} particles${fileName ? ` read from ${fileName}` : ''}`}
+        </Txt>
+      </View>
+      <Txt variant="caption">CSV or columns separated by spaces, seven numbers a row (a header row and # comments are allowed), or a snapshot file (.h5) exported from a run: its last frame.</Txt>
       <Toggle label="Move to the centre-of-mass frame" value={getIn(draft, ['model', 'recentre']) !== false} onChange={(v) => set(['model', 'recentre'], v)} />
     </View>
   );
@@ -185,5 +174,5 @@ export function ModelEditor({ draft, set, issues, pairLaw }: Props) {
 
 const styles = StyleSheet.create({
   member: { gap: space.md, padding: space.md, borderWidth: 1, borderColor: colors.border, borderRadius: radius.md },
-  table: { minHeight: 140, color: colors.text, fontFamily: fonts.mono, fontSize: 13, padding: space.md, backgroundColor: colors.surfaceRaised, borderRadius: radius.md, borderWidth: 1, borderColor: colors.border, textAlignVertical: 'top' },
+  pickRow: { flexDirection: 'row', alignItems: 'center', gap: space.md, flexWrap: 'wrap' },
 });

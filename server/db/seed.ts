@@ -4,6 +4,7 @@ import type { EntityManager } from '@mikro-orm/postgresql';
 import type { Orm } from './orm';
 import { Run } from './entities';
 import { seedAccounts } from './seed-accounts';
+import { seedGalaxies } from './seed-galaxies';
 import { openRunQueue } from '../queue';
 import { submitRuns } from '../services/runs';
 import { publishTemplate } from '../services/templates';
@@ -80,6 +81,9 @@ export async function seedDemo(orm: Orm): Promise<void> {
   const em = orm.em.fork();
   const { users, cohort } = await seedAccounts(em);
   const researcher = users['teodora-vance'];
+  // Galaxies are seeded on their own check, so a database seeded before they existed gets them too.
+  const galaxies = await seedGalaxies(em, users['ilse-varga'], cohort);
+  if (galaxies) console.log(`[infall] seeded ${galaxies} invented galaxies with their fits`);
   if (await alreadySeeded(em, researcher.id)) return;
 
   const queue = openRunQueue();

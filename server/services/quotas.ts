@@ -1,6 +1,6 @@
 import type { EntityManager } from '@mikro-orm/postgresql';
 import { Allocation, Cohort, CohortMember, Run, type User } from '../db/entities';
-import { ROLE_LIMITS, type AccountUsage, type QuotaLimits, type Role } from '../../shared/api/accounts';
+import { ROLE_LIMITS, ROLE_UPLOAD_LIMITS, type AccountUsage, type QuotaLimits, type Role, type UploadLimits } from '../../shared/api/accounts';
 
 // Quotas come from three places, most specific first: an admin's per-user grant,
 // then (for students) the most generous of their cohorts' quotas, then the role.
@@ -41,6 +41,11 @@ export async function effectiveLimits(em: EntityManager, user: User): Promise<Qu
   const grant = await em.findOne(Allocation, { user: user.id });
   if (!grant) return base;
   return limitsFrom((k) => grant[k] ?? base[k]);
+}
+
+/** Size and row limits on uploaded tables: by role (cohort quotas and grants do not set them). */
+export function uploadLimits(user: User): UploadLimits {
+  return ROLE_UPLOAD_LIMITS[user.role as Role];
 }
 
 export async function interactionsOn(em: EntityManager, userId: number, day: string): Promise<number> {

@@ -136,6 +136,25 @@ export const ROLE_LIMITS: Record<Role, QuotaLimits> = {
   admin: { maxParticles: 100_000, maxSteps: 200_000, maxConcurrentRuns: 16, dailyInteractions: 1e14 },
 };
 
+/** Limits on one uploaded table (a rotation curve, a particle file). */
+export interface UploadLimits {
+  /** Largest table file, bytes. */
+  maxUploadBytes: number;
+  /** Most data rows in one table. */
+  maxUploadRows: number;
+}
+
+/**
+ * Uploaded tables (rotation curves, particle tables): largest file and most data rows, by role.
+ * Our own choice for a small shared machine, not from any source.
+ */
+export const ROLE_UPLOAD_LIMITS: Record<Role, UploadLimits> = {
+  student: { maxUploadBytes: 256 * 1024, maxUploadRows: 2_000 },
+  instructor: { maxUploadBytes: 1024 * 1024, maxUploadRows: 10_000 },
+  researcher: { maxUploadBytes: 4 * 1024 * 1024, maxUploadRows: 50_000 },
+  admin: { maxUploadBytes: 8 * 1024 * 1024, maxUploadRows: 100_000 },
+};
+
 /**
  * Ceilings on what any allocation may be set to: particles and steps no higher than the engine
  * takes, the others so a typo can't grant unbounded compute.

@@ -190,7 +190,8 @@ function locateColumns(header: string[] | null, width: number, mapping: TableOpt
   return found;
 }
 
-function readNumber(cell: string | undefined, line: number, column: number): number {
+/** One cell as a number, or a TableError naming its line and column (a formula or text refused). */
+export function readNumber(cell: string | undefined, line: number, column: number): number {
   const text = (cell ?? '').trim();
   if (text === '') throw new TableError('the cell is empty', line, column);
   if (NUMBER.test(text)) {

@@ -1,7 +1,6 @@
 import { act } from 'react';
 import { fireEvent, getDefaultNormalizer } from '@testing-library/dom';
 import { LaunchForm } from '../../components/launch/LaunchForm';
-import { parseParticleTable } from '../../components/launch/ModelEditor';
 import { QuotaEditor } from '../../components/cohorts/QuotaEditor';
 import { parseNumberText } from '../../components/numberText';
 import { setCsrfToken } from '../../hooks/api';
@@ -83,11 +82,6 @@ describe('reading typed numbers', () => {
     const r = parseNumberText(text);
     expect(r.state).toBe('invalid');
     expect(r.state === 'invalid' && r.problem).toMatch(problem);
-  });
-
-  test('the particle table reads the same notation and names the bad cell', () => {
-    expect(parseParticleTable('1e0 0 0 0 5e1 0 1e9')).toEqual({ particles: [{ x_kpc: 1, y_kpc: 0, z_kpc: 0, vx_km_s: 0, vy_km_s: 50, vz_km_s: 0, mass_Msun: 1e9 }] });
-    expect(parseParticleTable('1 0 0 0 50 0 1e9\n1 0 0 0 50 0 4e')).toEqual({ error: expect.stringMatching(/^Line 2, mass "4e": not a number yet/) });
   });
 });
 

@@ -10,6 +10,8 @@ import { CohortMember } from './CohortMember';
 import { CohortTemplate } from './CohortTemplate';
 import { Allocation } from './Allocation';
 import { UsageEntry } from './UsageEntry';
+import { Galaxy } from './Galaxy';
+import { GalaxyFit } from './GalaxyFit';
 
-export { User, Run, RunOutput, RunSnapshot, RunCheckpoint, Session, ApiToken, Cohort, CohortMember, CohortTemplate, Allocation, UsageEntry };
-export const entities = [User, Run, RunOutput, RunSnapshot, RunCheckpoint, Session, ApiToken, Cohort, CohortMember, CohortTemplate, Allocation, UsageEntry];
+export { User, Run, RunOutput, RunSnapshot, RunCheckpoint, Session, ApiToken, Cohort, CohortMember, CohortTemplate, Allocation, UsageEntry, Galaxy, GalaxyFit };
+export const entities = [User, Run, RunOutput, RunSnapshot, RunCheckpoint, Session, ApiToken, Cohort, CohortMember, CohortTemplate, Allocation, UsageEntry, Galaxy, GalaxyFit];

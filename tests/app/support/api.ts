@@ -20,7 +20,8 @@ export function mockApi(routes: Record<string, Handler | Answer>): Call[] {
       method,
       path: url.pathname + url.search,
       headers: (init?.headers ?? {}) as Record<string, string>,
-      body: init?.body ? JSON.parse(String(init.body)) : undefined,
+      // A multipart upload is kept as its FormData.
+      body: init?.body instanceof FormData ? init.body : init?.body ? JSON.parse(String(init.body)) : undefined,
     };
     calls.push(call);
     const key = Object.keys(routes).find((k) => k === `${method} ${url.pathname}` || k === `${method} ${url.pathname}${url.search}`);

@@ -2,7 +2,8 @@ import request from 'supertest';
 import { openAuthStack, type AuthStack } from './harness';
 import { signIn, type Agent } from '../../support/auth';
 import { uniqueLogin } from '../../support/stack';
-import { Cohort, CohortMember, CohortTemplate, Run, User } from '../../../server/db/entities';
+import { Cohort, CohortMember, CohortTemplate, Galaxy, Run, User } from '../../../server/db/entities';
+import { parseRotationCurve } from '../../../shared/galaxy/table';
 import { createCohort } from '../../../server/services/cohorts';
 import { createToken } from '../../../server/services/tokens';
 import { defaultRunSpec } from '../../../shared/spec';
@@ -18,10 +19,11 @@ interface Fixtures {
   template: number;
   run: string;
   user: number;
+  galaxy: number;
 }
 
 interface Row {
-  route: string; // "METHOD /path" with :cohort, :template, :run, :user, :token from the fixtures
+  route: string; // "METHOD /path" with :cohort, :template, :run, :user, :galaxy, :token from the fixtures
   expected: Record<Who, number>;
   body?: (fx: Fixtures) => object;
   /** Ids made fresh for each call, for routes that use their target up. */
@@ -52,6 +54,16 @@ async function templateOfCohort(): Promise<number> {
   const t = em.create(CohortTemplate, { cohort: fx.cohort, name: 'matrix template', spec: defaultRunSpec(), pairLaw: null, createdBy: ids.instructor });
   await em.flush();
   return t.id;
+}
+
+/** A galaxy of the student's, shared with the matrix cohort (so its instructor sees it too). */
+async function galaxyOfStudent(): Promise<number> {
+  const em = s.em();
+  const table = 'R,V,dV,Vdisk\n1,40,3,30\n2,60,3,40\n3,70,3,42\n4,74,3,40\n';
+  const curve = parseRotationCurve(table, { maxBytes: 1000, maxRows: 10 });
+  const g = em.create(Galaxy, { owner: studentId, name: 'Matrix galaxy (invented)', visibility: 'cohort', cohort: fx.cohort, fileName: 'm.csv', fileBytes: Buffer.from(table), fileSize: table.length, mapping: { columns: {}, radiusUnit: 'kpc' }, curve, points: 4 });
+  await em.flush();
+  return g.id;
 }
 
 const rows: Row[] = [
@@ -110,6 +122,14 @@ const rows: Row[] = [
   { route: 'GET /api/runs/:run/events', expected: e(401, 200, 200, 404, 200) },
   // Instructors see their students' runs but may not cancel them.
   { route: 'POST /api/runs/:run/cancel', expected: e(401, 202, 403, 404, 202), fresh: async () => ({ run: await queuedRunOfStudent() }) },
+
+  { route: 'GET /api/galaxies', expected: e(401, 200, 200, 200, 200) },
+  { route: 'GET /api/galaxies/:galaxy', expected: e(401, 200, 200, 404, 200) },
+  { route: 'GET /api/galaxies/:galaxy/file', expected: e(401, 200, 200, 404, 200) },
+  // Anyone who sees a galaxy may fit it; only its owner (or an admin) changes or deletes it.
+  { route: 'POST /api/galaxies/:galaxy/fits', expected: e(401, 201, 201, 404, 201), body: () => ({ laws: ['mond-simple'] }) },
+  { route: 'PATCH /api/galaxies/:galaxy', expected: e(401, 200, 403, 404, 200), body: () => ({ name: 'Matrix galaxy, renamed (invented)' }) },
+  { route: 'DELETE /api/galaxies/:galaxy', expected: e(401, 204, 403, 404, 204), fresh: async () => ({ galaxy: await galaxyOfStudent() }) },
 ];
 
 let currentCode = '';
@@ -130,11 +150,12 @@ beforeAll(async () => {
   em.create(CohortMember, { cohort: cohort.id, user: studentId });
   const target = em.create(User, { providerId: `test:${uniqueLogin('matrix-target')}`, login: uniqueLogin('matrix-target'), name: 'Matrix target' });
   await em.flush();
-  fx = { cohort: cohort.id, template: 0, run: '', user: target.id };
+  fx = { cohort: cohort.id, template: 0, run: '', user: target.id, galaxy: 0 };
   fx.template = await templateOfCohort();
   const finished = await queuedRunOfStudent();
   await em.nativeUpdate(Run, { id: finished }, { status: 'finished', finishedAt: new Date() });
   fx.run = finished;
+  fx.galaxy = await galaxyOfStudent();
 });
 
 afterAll(async () => {
@@ -147,7 +168,7 @@ test.each(cases)('%s as %s → %i', async (route, who, status, row) => {
   const [method, pathTemplate] = route.split(' ');
   const ids = { ...fx, ...(row.fresh ? await row.fresh() : {}) } as Record<string, unknown>;
   currentCode = (await s.em().findOneOrFail(Cohort, { id: fx.cohort })).enrolmentCode;
-  const path = pathTemplate.replace(/:(cohort|template|run|user|token)\b/g, (_m, k: string) => String(ids[k]));
+  const path = pathTemplate.replace(/:(cohort|template|run|user|galaxy|token)\b/g, (_m, k: string) => String(ids[k]));
 
   let agent: Agent | ReturnType<typeof request>;
   let csrf: string | undefined;

@@ -1,0 +1,232 @@
+import type { EntityManager } from '@mikro-orm/postgresql';
+import { ApiError } from '../errors';
+import { idParam, parseInput } from '../routes/input';
+import { Cohort, CohortMember, Galaxy, GalaxyFit, type User } from '../db/entities';
+import { parseRotationCurve, TableError } from '../../shared/galaxy/table';
+import path from 'node:path';
+import { Worker } from 'node:worker_threads';
+import type { FitOptions, GalaxyFitReport } from '../../shared/galaxy/fit';
+import type { RotationCurve } from '../../shared/galaxy/table';
+import type { FitJob } from './fitThread';
+import {
+  FIT_MAX_POINTS,
+  galaxyFitRequestSchema,
+  updateGalaxyBodySchema,
+  uploadGalaxyFieldsSchema,
+  type GalaxyDetail,
+  type GalaxyFitRecord,
+  type GalaxyMapping,
+  type GalaxySummary,
+  type GalaxyVisibility,
+} from '../../shared/api/galaxies';
+import { uploadLimits } from './quotas';
+
+// Who may see a galaxy: its owner and admins always; a cohort galaxy also the cohort's
+// members and instructor; a public one everyone signed in. Only owner and admins change it.
+// Anything the caller may not see is answered as missing, so ids reveal nothing.
+
+export interface UploadedFile {
+  originalname: string;
+  buffer: Buffer;
+}
+
+/** Fits kept per galaxy: the newest; older ones are dropped as new ones arrive. */
+const FITS_KEPT = 10;
+
+const owner = (u: User) => ({ id: u.id, login: u.login, name: u.name });
+
+/** Cohorts the user belongs to or teaches. */
+async function cohortIdsOf(em: EntityManager, user: User): Promise<number[]> {
+  const [members, taught] = await Promise.all([em.find(CohortMember, { user: user.id }, { fields: ['cohort'] }), em.find(Cohort, { instructor: user.id }, { fields: ['id'] })]);
+  return [...new Set([...members.map((m) => (m.cohort as Cohort).id), ...taught.map((c) => c.id)])];
+}
+
+async function visibleFilter(em: EntityManager, user: User): Promise<Record<string, unknown>> {
+  if (user.role === 'admin') return {};
+  return { $or: [{ owner: user.id }, { visibility: 'public' }, { visibility: 'cohort', cohort: { $in: await cohortIdsOf(em, user) } }] };
+}
+
+const canManage = (user: User, g: Galaxy) => user.role === 'admin' || (g.owner as User).id === user.id;
+
+/** The cohort a galaxy is shared with: one the caller belongs to or teaches (admins: any). */
+async function shareTarget(em: EntityManager, user: User, visibility: GalaxyVisibility, cohortId: number | null | undefined): Promise<Cohort | null> {
+  if (visibility !== 'cohort') {
+    if (cohortId != null) throw new ApiError('BAD_REQUEST', `cohortId: only a galaxy shared with a cohort names one (visibility is ${visibility})`, { field: 'cohortId' });
+    return null;
+  }
+  if (cohortId == null) throw new ApiError('BAD_REQUEST', 'cohortId: say which cohort to share the galaxy with', { field: 'cohortId' });
+  const cohort = await em.findOne(Cohort, { id: cohortId });
+  if (!cohort || (user.role !== 'admin' && !(await cohortIdsOf(em, user)).includes(cohort.id))) {
+    throw new ApiError('BAD_REQUEST', `cohortId: you are not in cohort ${cohortId}`, { field: 'cohortId' });
+  }
+  return cohort;
+}
+
+function summary(user: User, g: Galaxy): GalaxySummary {
+  const cohort = g.cohort as Cohort | null;
+  return {
+    id: g.id,
+    name: g.name,
+    owner: owner(g.owner as User),
+    visibility: g.visibility,
+    cohort: cohort ? { id: cohort.id, name: cohort.name } : null,
+    invented: g.invented,
+    points: g.points,
+    fileName: g.fileName,
+    fileBytes: g.fileSize,
+    uploadedAt: g.uploadedAt.toISOString(),
+    canManage: canManage(user, g),
+  };
+}
+
+function fitRecord(f: GalaxyFit): GalaxyFitRecord {
+  return { id: f.id, request: f.request, results: f.results, requestedBy: owner(f.requestedBy as User), createdAt: f.createdAt.toISOString() };
+}
+
+/** A file name as a label only: no path, no control characters, bounded. */
+export function cleanFileName(name: string): string {
+  const base = name.split(/[\\/]/).pop() ?? '';
+  return base.replace(/[\u0000-\u001f\u007f]/g, '').slice(0, 120) || 'table.txt';
+}
+
+/**
+ * Parses and stores an uploaded table in one flush. Any refusal (fields, quota, the table
+ * itself) throws before anything is written, so a failed upload leaves nothing behind.
+ */
+export async function createGalaxy(em: EntityManager, user: User, file: UploadedFile | undefined, fields: unknown): Promise<Galaxy> {
+  const input = parseInput(uploadGalaxyFieldsSchema, fields);
+  if (!file) throw new ApiError('BAD_REQUEST', 'file: attach the rotation-curve table as the multipart field "file"', { field: 'file' });
+  const limits = uploadLimits(user);
+  const mapping: GalaxyMapping = input.mapping ?? { columns: {}, radiusUnit: 'kpc' };
+  const cohort = await shareTarget(em, user, input.visibility, input.cohortId);
+  const curve = readCurve(file.buffer, mapping, limits.maxUploadBytes, limits.maxUploadRows);
+  const g = em.create(Galaxy, {
+    owner: user,
+    name: input.name,
+    visibility: input.visibility,
+    cohort,
+    invented: false,
+    fileName: cleanFileName(file.originalname),
+    fileBytes: file.buffer,
+    fileSize: file.buffer.length,
+    mapping,
+    curve,
+    points: curve.radiusKpc.length,
+  });
+  await em.flush();
+  return g;
+}
+
+/** The table parser's refusal as a 400 naming line and column (or 413 for a table over the limits). */
+export function tableRefusal(err: TableError): ApiError {
+  // The parser words its size and row refusals as "... the limit ..." and names no line.
+  const overLimit = err.line === undefined && /\bthe limit\b/.test(err.message);
+  return new ApiError(overLimit ? 'PAYLOAD_TOO_LARGE' : 'BAD_REQUEST', `file: ${err.message}`, {
+    field: 'file',
+    details: { line: err.line ?? null, column: err.column ?? null },
+  });
+}
+
+function readCurve(bytes: Uint8Array, mapping: GalaxyMapping, maxBytes: number, maxRows: number) {
+  try {
+    return parseRotationCurve(bytes, { maxBytes, maxRows, ...mapping });
+  } catch (err) {
+    throw err instanceof TableError ? tableRefusal(err) : err;
+  }
+}
+
+export async function listGalaxies(em: EntityManager, user: User): Promise<GalaxySummary[]> {
+  const rows = await em.find(Galaxy, await visibleFilter(em, user), { populate: ['owner', 'cohort'], exclude: ['fileBytes', 'curve', 'mapping'], orderBy: { uploadedAt: 'desc', id: 'desc' }, limit: 500 });
+  // The summary reads none of the excluded columns.
+  return rows.map((g) => summary(user, g as Galaxy));
+}
+
+export async function findVisibleGalaxy(em: EntityManager, user: User, rawId: string): Promise<Galaxy> {
+  const id = idParam(rawId, 'galaxy');
+  const g = await em.findOne(Galaxy, { $and: [{ id }, await visibleFilter(em, user)] }, { populate: ['owner', 'cohort'], exclude: ['fileBytes'] });
+  if (!g) throw new ApiError('NOT_FOUND', `No galaxy ${rawId}`);
+  // The raw bytes stay in the database until galaxyFile asks for them.
+  return g as Galaxy;
+}
+
+function requireManage(user: User, g: Galaxy): void {
+  if (!canManage(user, g)) throw new ApiError('FORBIDDEN', 'Only the galaxy’s owner (or an admin) can change it');
+}
+
+export async function galaxyDetail(em: EntityManager, user: User, g: Galaxy): Promise<GalaxyDetail> {
+  const fits = await em.find(GalaxyFit, { galaxy: g.id }, { populate: ['requestedBy'], orderBy: { createdAt: 'desc', id: 'desc' }, limit: FITS_KEPT });
+  return { ...summary(user, g), mapping: g.mapping, curve: g.curve, fits: fits.map(fitRecord) };
+}
+
+/** The uploaded file exactly as it was sent. */
+export async function galaxyFile(em: EntityManager, g: Galaxy): Promise<Buffer> {
+  const row = await em.findOneOrFail(Galaxy, { id: g.id }, { fields: ['fileBytes'] });
+  return Buffer.from(row.fileBytes);
+}
+
+export async function updateGalaxy(em: EntityManager, user: User, g: Galaxy, body: unknown): Promise<GalaxySummary> {
+  requireManage(user, g);
+  const input = parseInput(updateGalaxyBodySchema, body);
+  if (input.name !== undefined) g.name = input.name;
+  if (input.visibility !== undefined || input.cohortId !== undefined) {
+    const visibility = input.visibility ?? g.visibility;
+    const cohortId = input.cohortId !== undefined ? input.cohortId : visibility === 'cohort' ? ((g.cohort as Cohort | null)?.id ?? null) : null;
+    g.cohort = await shareTarget(em, user, visibility, cohortId);
+    g.visibility = visibility;
+  }
+  await em.flush();
+  return summary(user, g);
+}
+
+export async function deleteGalaxy(em: EntityManager, user: User, g: Galaxy): Promise<void> {
+  requireManage(user, g);
+  await em.remove(g).flush();
+}
+
+/**
+ * Fits the galaxy's curve under the requested laws and stores the result. Anyone who can see
+ * the galaxy may fit it (a class works on a shared galaxy); each fit records who asked.
+ */
+export async function requestFit(em: EntityManager, user: User, g: Galaxy, body: unknown): Promise<GalaxyFitRecord> {
+  const request = parseInput(galaxyFitRequestSchema, body);
+  if (g.points > FIT_MAX_POINTS) throw new ApiError('BAD_REQUEST', `This galaxy has ${g.points} points; fits through the service take at most ${FIT_MAX_POINTS}`);
+  const results = await fitInThread(g.curve, request);
+  const fit = await em.transactional(async (tx) => {
+    const made = tx.create(GalaxyFit, { galaxy: g.id, requestedBy: user.id, request, results });
+    await tx.flush();
+    const old = await tx.find(GalaxyFit, { galaxy: g.id }, { fields: ['id'], orderBy: { createdAt: 'desc', id: 'desc' }, offset: FITS_KEPT });
+    if (old.length) await tx.nativeDelete(GalaxyFit, { id: { $in: old.map((f) => f.id) } });
+    return made;
+  });
+  return { id: fit.id, request, results, requestedBy: owner(user), createdAt: fit.createdAt.toISOString() };
+}
+
+/** Fits at once across the server; more wait for a minute rather than crowd the machine. */
+const MAX_FITS_AT_ONCE = 2;
+const FIT_TIME_LIMIT_MS = 60_000;
+let fitting = 0;
+
+type FitAnswer = { ok: true; report: GalaxyFitReport } | { ok: false; refused: boolean; message: string };
+
+/** Runs one fit in a worker thread (a .ts entry needs tsx's require hook there), with a time limit. */
+async function fitInThread(curve: RotationCurve, options: FitOptions): Promise<GalaxyFitReport> {
+  if (fitting >= MAX_FITS_AT_ONCE) throw new ApiError('UNAVAILABLE', 'The server is busy with other fits; try again in a minute');
+  fitting += 1;
+  const entry = path.join(__dirname, 'fitThread.ts');
+  const job: FitJob = { curve, options };
+  const worker = new Worker(`require(${JSON.stringify(require.resolve('tsx/cjs'))}); require(${JSON.stringify(entry)});`, { eval: true, workerData: job });
+  try {
+    const answer = await new Promise<FitAnswer>((resolve, reject) => {
+      const timer = setTimeout(() => reject(new ApiError('UNAVAILABLE', `The fit took longer than ${FIT_TIME_LIMIT_MS / 1000} s and was stopped`)), FIT_TIME_LIMIT_MS);
+      worker.once('message', (m: FitAnswer) => (clearTimeout(timer), resolve(m)));
+      worker.once('error', (e) => (clearTimeout(timer), reject(e)));
+      worker.once('exit', () => (clearTimeout(timer), reject(new Error('the fit thread stopped without an answer'))));
+    });
+    if (answer.ok) return answer.report;
+    if (answer.refused) throw new ApiError('BAD_REQUEST', `The fit failed: ${answer.message}`);
+    throw new Error(`the fit thread failed: ${answer.message}`);
+  } finally {
+    fitting -= 1;
+    void worker.terminate();
+  }
+}
