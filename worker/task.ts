@@ -5,13 +5,13 @@
 import type { MessagePort } from 'node:worker_threads';
 import { runSimulation, type RunResult } from '../shared/engine';
 import type { RunSpec } from '../shared/spec';
-import { serveSharedField, SplitDirectSolver, stopSharedField, type SharedField } from './sharedField';
+import { serveSharedField, SplitSolver, stopSharedField, type SharedField } from './sharedField';
 
 export interface RunTask {
   spec: RunSpec;
   progressPort: MessagePort;
   cancelFlag: Int32Array; // over a SharedArrayBuffer; 1 means stop
-  /** Present when the pool lent helper threads to this run's direct sum. */
+  /** Present when the pool lent helper threads to this run's direct sum or tree walk. */
   sharedField?: SharedField;
 }
 
@@ -21,7 +21,7 @@ export default function runTask({ spec, progressPort, cancelFlag, sharedField }:
       onProgress: (p) => progressPort.postMessage(p),
       shouldCancel: () => Atomics.load(cancelFlag, 0) === 1,
       snapshotVelocities: true, // stored with the frames for export
-      ...(sharedField ? { solver: new SplitDirectSolver(sharedField) } : {}),
+      ...(sharedField ? { solver: new SplitSolver(sharedField) } : {}),
     });
     progressPort.postMessage(null); // no more progress: see RunPool.start
     return result;

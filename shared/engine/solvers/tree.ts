@@ -51,6 +51,8 @@ const CELL = 16;
 const COM_X = 0, COM_Y = 1, COM_Z = 2, HALF = 3, SIZE2 = 4, CENTRE_X = 5, CENTRE_Y = 6, CENTRE_Z = 7, MASS = 8;
 const IXX = 9, IYY = 10, IZZ = 11, IXY = 12, IXZ = 13, IYZ = 14;
 const LINK = 4;
+/** Doubles and integers per cell, for copying a tree into memory shared between threads. */
+export const CELL_DOUBLES = CELL, CELL_INTS = LINK;
 const FIRST_CHILD = 0, CHILD_COUNT = 1, LEAF_START = 2, LEAF_COUNT = 3;
 
 export function buildOctree(src: Sources): Octree {
