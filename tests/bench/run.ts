@@ -39,7 +39,7 @@ async function main() {
     const signedIn = await signInBrowser(url, login);
     try {
       const target = { url, token: await benchToken(login) };
-      Object.assign(report, await benchStackSections(target, { particles: 2_000, steps: 1_000 }));
+      Object.assign(report, await benchStackSections(target, { particles: 2_000, steps: 1_000, bigParticles: 8_000, bigSteps: 1_000 }));
       process.stderr.write(`[bench] client: a finished ${CLIENT_PARTICLES}-particle run played in Chromium\n`);
       const runId = await runToEnd(target, diskRun(CLIENT_PARTICLES, 120));
       report.client = await benchClient(signedIn.page, url, runId, CLIENT_PARTICLES);
