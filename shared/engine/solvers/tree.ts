@@ -302,6 +302,48 @@ class InteractionList {
     acc[0] += sx; acc[1] += sy; acc[2] += sz;
   }
 
+  /**
+   * The Newtonian pull of the whole list (particles, then cells, as sumPull and
+   * cellPull sum them) at two targets in one pass: each list entry is loaded
+   * once for both, and the two targets' arithmetic interleaves. Writes, still
+   * to be multiplied by G, a's pull into acc[0..2] and b's into acc[3..5].
+   */
+  newtonPullTwo(xa: number, ya: number, za: number, xb: number, yb: number, zb: number, eps2: number, acc: Float64Array): void {
+    const { px, py, pz, pm, cl } = this;
+    let ax = 0, ay = 0, az = 0, bx = 0, by = 0, bz = 0;
+    for (let j = 0, n = this.particles; j < n; j++) {
+      const sx = px[j], sy = py[j], sz = pz[j], m = pm[j];
+      const dxa = sx - xa, dya = sy - ya, dza = sz - za, dxb = sx - xb, dyb = sy - yb, dzb = sz - zb;
+      const ra = dxa * dxa + dya * dya + dza * dza, rb = dxb * dxb + dyb * dyb + dzb * dzb;
+      // A particle does not act on itself.
+      if (ra !== 0) {
+        const inv = 1 / sqrt(ra + eps2), f = m * inv * inv * inv;
+        ax += f * dxa; ay += f * dya; az += f * dza;
+      }
+      if (rb !== 0) {
+        const inv = 1 / sqrt(rb + eps2), f = m * inv * inv * inv;
+        bx += f * dxb; by += f * dyb; bz += f * dzb;
+      }
+    }
+    let cax = 0, cay = 0, caz = 0, cbx = 0, cby = 0, cbz = 0;
+    for (let k = 0, n = MOMENTS * this.cellCount; k < n; k += MOMENTS) {
+      const gx = cl[k], gy = cl[k + 1], gz = cl[k + 2], M = cl[k + 3];
+      const Ixx = cl[k + 4], Iyy = cl[k + 5], Izz = cl[k + 6], Ixy = cl[k + 7], Ixz = cl[k + 8], Iyz = cl[k + 9];
+      const tr = 1.5 * (Ixx + Iyy + Izz);
+      const dxa = gx - xa, dya = gy - ya, dza = gz - za, dxb = gx - xb, dyb = gy - yb, dzb = gz - zb;
+      const ia = 1 / sqrt(dxa * dxa + dya * dya + dza * dza + eps2), ib = 1 / sqrt(dxb * dxb + dyb * dyb + dzb * dzb + eps2);
+      const ia2 = ia * ia, ia3 = ia2 * ia, ia5 = ia3 * ia2, ib2 = ib * ib, ib3 = ib2 * ib, ib5 = ib3 * ib2;
+      const Ixa = Ixx * dxa + Ixy * dya + Ixz * dza, Iya = Ixy * dxa + Iyy * dya + Iyz * dza, Iza = Ixz * dxa + Iyz * dya + Izz * dza;
+      const Ixb = Ixx * dxb + Ixy * dyb + Ixz * dzb, Iyb = Ixy * dxb + Iyy * dyb + Iyz * dzb, Izb = Ixz * dxb + Iyz * dyb + Izz * dzb;
+      const ra = M * ia3 + 7.5 * (dxa * Ixa + dya * Iya + dza * Iza) * ia5 * ia2 - tr * ia5, qa = 3 * ia5;
+      const rb = M * ib3 + 7.5 * (dxb * Ixb + dyb * Iyb + dzb * Izb) * ib5 * ib2 - tr * ib5, qb = 3 * ib5;
+      cax += ra * dxa - qa * Ixa; cay += ra * dya - qa * Iya; caz += ra * dza - qa * Iza;
+      cbx += rb * dxb - qb * Ixb; cby += rb * dyb - qb * Iyb; cbz += rb * dzb - qb * Izb;
+    }
+    acc[0] = ax + cax; acc[1] = ay + cay; acc[2] = az + caz;
+    acc[3] = bx + cbx; acc[4] = by + cby; acc[5] = bz + cbz;
+  }
+
   /** The expansion above summed over the gathered cells; the potential is -G times it. */
   cellPotential(xi: number, yi: number, zi: number, kernel: PairKernel): number {
     const cl = this.cl, n = MOMENTS * this.cellCount;
@@ -340,15 +382,16 @@ class InteractionList {
 export const treeGroups = (t: Octree): number => t.groups.length / 2;
 
 /**
- * Calls `each(targetIndex, list)` for every target a range of the work
- * covers. Self-fields (targets are the sources) walk once per group, over
+ * Calls `each(list, ids, from, to)` for every walk a range of the work needs:
+ * targets ids[from..to-1] (or from..to-1 themselves when ids is null) share
+ * the list. Self-fields (targets are the sources) walk once per group, over
  * groups iStart..iEnd-1; other targets (probes) walk one by one over
  * iStart..iEnd. Either way each target's list depends only on the tree and
  * its group, so splitting ranges across threads gives identical results.
  */
-function forEachTarget(
+function forEachWalk(
   tree: Octree, sources: Sources, targets: Points, theta: number, iStart: number, iEnd: number,
-  each: (i: number, list: InteractionList) => void,
+  each: (list: InteractionList, ids: Uint32Array | null, from: number, to: number) => void,
 ): void {
   const list = new InteractionList();
   const theta2 = theta * theta;
@@ -364,13 +407,13 @@ function forEachTarget(
         minZ = min(minZ, z[q]); maxZ = max(maxZ, z[q]);
       }
       list.collect(tree, theta2, minX, minY, minZ, maxX, maxY, maxZ);
-      for (let q = s; q < e; q++) each(order[q], list);
+      each(list, order, s, e);
     }
   } else {
     for (let i = iStart; i < iEnd; i++) {
       const xi = targets.x[i], yi = targets.y[i], zi = targets.z[i];
       list.collect(tree, theta2, xi, yi, zi, xi, yi, zi);
-      each(i, list);
+      each(list, null, i, i + 1);
     }
   }
 }
@@ -383,22 +426,39 @@ export const treeWorkUnits = (tree: Octree, sources: Sources, targets: Points): 
 export function treeFieldRange(
   tree: Octree, sources: Sources, targets: Points, kernel: PairKernel, theta: number, iStart: number, iEnd: number, out: Accelerations,
 ): void {
-  const acc = new Float64Array(3);
-  forEachTarget(tree, sources, targets, theta, iStart, iEnd, (i, list) => {
-    const xi = targets.x[i], yi = targets.y[i], zi = targets.z[i];
-    acc[0] = 0; acc[1] = 0; acc[2] = 0;
-    sumPull(list.px, list.py, list.pz, list.pm, list.particles, xi, yi, zi, kernel, acc);
-    list.cellPull(xi, yi, zi, kernel, acc);
-    out.ax[i] = G * acc[0]; out.ay[i] = G * acc[1]; out.az[i] = G * acc[2];
+  const acc = new Float64Array(6);
+  const { x, y, z } = targets;
+  const newton = kernel.yukawaAlpha === 0;
+  forEachWalk(tree, sources, targets, theta, iStart, iEnd, (list, ids, from, to) => {
+    let q = from;
+    // Newtonian targets two at a time: one pass over the list serves both.
+    for (; newton && q + 1 < to; q += 2) {
+      const i = ids ? ids[q] : q, j = ids ? ids[q + 1] : q + 1;
+      list.newtonPullTwo(x[i], y[i], z[i], x[j], y[j], z[j], kernel.softening2_kpc2, acc);
+      out.ax[i] = G * acc[0]; out.ay[i] = G * acc[1]; out.az[i] = G * acc[2];
+      out.ax[j] = G * acc[3]; out.ay[j] = G * acc[4]; out.az[j] = G * acc[5];
+    }
+    for (; q < to; q++) {
+      const i = ids ? ids[q] : q;
+      const xi = x[i], yi = y[i], zi = z[i];
+      acc[0] = 0; acc[1] = 0; acc[2] = 0;
+      sumPull(list.px, list.py, list.pz, list.pm, list.particles, xi, yi, zi, kernel, acc);
+      list.cellPull(xi, yi, zi, kernel, acc);
+      out.ax[i] = G * acc[0]; out.ay[i] = G * acc[1]; out.az[i] = G * acc[2];
+    }
   });
 }
 
 export function treePotentialRange(
   tree: Octree, sources: Sources, targets: Points, kernel: PairKernel, theta: number, iStart: number, iEnd: number, out: Float64Array,
 ): void {
-  forEachTarget(tree, sources, targets, theta, iStart, iEnd, (i, list) => {
-    const xi = targets.x[i], yi = targets.y[i], zi = targets.z[i];
-    out[i] = -G * (sumPotential(list.px, list.py, list.pz, list.pm, list.particles, xi, yi, zi, kernel) + list.cellPotential(xi, yi, zi, kernel));
+  const { x, y, z } = targets;
+  forEachWalk(tree, sources, targets, theta, iStart, iEnd, (list, ids, from, to) => {
+    for (let q = from; q < to; q++) {
+      const i = ids ? ids[q] : q;
+      const xi = x[i], yi = y[i], zi = z[i];
+      out[i] = -G * (sumPotential(list.px, list.py, list.pz, list.pm, list.particles, xi, yi, zi, kernel) + list.cellPotential(xi, yi, zi, kernel));
+    }
   });
 }
 
