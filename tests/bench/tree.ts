@@ -19,8 +19,9 @@ export interface TreeFigure {
   cpuMsPerStep: number;
   medianError: number;
   p99Error: number;
-  /** One direct-sum evaluation of the same particles, ms (null above DIRECT_UP_TO particles). */
+  /** One direct-sum evaluation of the same particles, ms, wall and CPU (null above DIRECT_UP_TO particles). */
   directMsPerStep: number | null;
+  directCpuMsPerStep: number | null;
 }
 
 /** Largest N the direct sum is timed at, for the size where the tree starts to pay. */
@@ -64,7 +65,7 @@ export function benchTree({ sizes = [1_000, 10_000, 100_000], thetas = [0.5, 0.7
     const exact = allocateAccelerations(idx.length);
     directSolver.field(p, probes, kernel, exact);
     const out = allocateAccelerations(n);
-    const directMsPerStep = n <= DIRECT_UP_TO ? best(repeats, () => directSolver.field(p, p, kernel, out)).ms : null;
+    const direct = n <= DIRECT_UP_TO ? best(repeats, () => directSolver.field(p, p, kernel, out)) : null;
     for (const theta of thetas) {
       const solver = treeSolver(theta);
       // Big trees take seconds an evaluation: fewer repeats there, but two, so the first one's warm-up doesn't count.
@@ -73,7 +74,7 @@ export function benchTree({ sizes = [1_000, 10_000, 100_000], thetas = [0.5, 0.7
         const d = Math.hypot(out.ax[i] - exact.ax[k], out.ay[i] - exact.ay[k], out.az[i] - exact.az[k]);
         return d / Math.hypot(exact.ax[k], exact.ay[k], exact.az[k]);
       }).sort();
-      figures.push({ n, theta, msPerStep: timed.ms, cpuMsPerStep: timed.cpuMs, medianError: quantile(err, 0.5), p99Error: quantile(err, 0.99), directMsPerStep });
+      figures.push({ n, theta, msPerStep: timed.ms, cpuMsPerStep: timed.cpuMs, medianError: quantile(err, 0.5), p99Error: quantile(err, 0.99), directMsPerStep: direct?.ms ?? null, directCpuMsPerStep: direct?.cpuMs ?? null });
     }
   }
   return figures;

@@ -21,7 +21,7 @@ test('the pure sections give every JSON key a finite number, and the table names
   expect(report.directSum.maxRelativeDifference).toBeLessThan(1e-12);
   expect(json.tree).toHaveLength(4);
   for (const row of json.tree as unknown as Record<string, unknown>[]) {
-    for (const key of ['n', 'theta', 'msPerStep', 'cpuMsPerStep', 'medianError', 'p99Error', 'directMsPerStep']) expect(finite(row[key])).toBe(true);
+    for (const key of ['n', 'theta', 'msPerStep', 'cpuMsPerStep', 'medianError', 'p99Error', 'directMsPerStep', 'directCpuMsPerStep']) expect(finite(row[key])).toBe(true);
   }
   expect(finite(json.threads.speedup)).toBe(true);
   expect(finite((json['qumond[grid=32,n=300]'] as unknown as Record<string, unknown>).msPerEval)).toBe(true);

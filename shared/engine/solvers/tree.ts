@@ -378,6 +378,12 @@ class InteractionList {
   }
 }
 
+/**
+ * One list per thread, kept between walks so a split walk's many small ranges
+ * don't each grow a new one (walks never nest, so sharing it is safe).
+ */
+const reusedList = new InteractionList();
+
 /** Target groups of a self-field (see Octree.groups): how many there are. */
 export const treeGroups = (t: Octree): number => t.groups.length / 2;
 
@@ -393,7 +399,7 @@ function forEachWalk(
   tree: Octree, sources: Sources, targets: Points, theta: number, iStart: number, iEnd: number,
   each: (list: InteractionList, ids: Uint32Array | null, from: number, to: number) => void,
 ): void {
-  const list = new InteractionList();
+  const list = reusedList;
   const theta2 = theta * theta;
   if (targets === sources) {
     const { order, groups } = tree;
