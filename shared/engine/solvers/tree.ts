@@ -344,6 +344,33 @@ class InteractionList {
     acc[3] = bx + cbx; acc[4] = by + cby; acc[5] = bz + cbz;
   }
 
+  /** The Newtonian sum of the whole list (as sumPotential and cellPotential add it) at two targets in one pass; a's into acc[0], b's into acc[1]. */
+  newtonPotentialTwo(xa: number, ya: number, za: number, xb: number, yb: number, zb: number, eps2: number, acc: Float64Array): void {
+    const { px, py, pz, pm, cl } = this;
+    let pa = 0, pb = 0;
+    for (let j = 0, n = this.particles; j < n; j++) {
+      const sx = px[j], sy = py[j], sz = pz[j];
+      const dxa = sx - xa, dya = sy - ya, dza = sz - za, dxb = sx - xb, dyb = sy - yb, dzb = sz - zb;
+      const ra = dxa * dxa + dya * dya + dza * dza, rb = dxb * dxb + dyb * dyb + dzb * dzb;
+      if (ra !== 0) pa += pm[j] / sqrt(ra + eps2);
+      if (rb !== 0) pb += pm[j] / sqrt(rb + eps2);
+    }
+    let ca = 0, cb = 0;
+    for (let k = 0, n = MOMENTS * this.cellCount; k < n; k += MOMENTS) {
+      const gx = cl[k], gy = cl[k + 1], gz = cl[k + 2], M = cl[k + 3];
+      const Ixx = cl[k + 4], Iyy = cl[k + 5], Izz = cl[k + 6], Ixy = cl[k + 7], Ixz = cl[k + 8], Iyz = cl[k + 9];
+      const tr = Ixx + Iyy + Izz;
+      const dxa = gx - xa, dya = gy - ya, dza = gz - za, dxb = gx - xb, dyb = gy - yb, dzb = gz - zb;
+      const ia = 1 / sqrt(dxa * dxa + dya * dya + dza * dza + eps2), ib = 1 / sqrt(dxb * dxb + dyb * dyb + dzb * dzb + eps2);
+      const ia2 = ia * ia, ia3 = ia2 * ia, ib2 = ib * ib, ib3 = ib2 * ib;
+      const dIa = dxa * (Ixx * dxa + Ixy * dya + Ixz * dza) + dya * (Ixy * dxa + Iyy * dya + Iyz * dza) + dza * (Ixz * dxa + Iyz * dya + Izz * dza);
+      const dIb = dxb * (Ixx * dxb + Ixy * dyb + Ixz * dzb) + dyb * (Ixy * dxb + Iyy * dyb + Iyz * dzb) + dzb * (Ixz * dxb + Iyz * dyb + Izz * dzb);
+      ca += M * ia + 1.5 * dIa * ia3 * ia2 - 0.5 * tr * ia3;
+      cb += M * ib + 1.5 * dIb * ib3 * ib2 - 0.5 * tr * ib3;
+    }
+    acc[0] = pa + ca; acc[1] = pb + cb;
+  }
+
   /** The expansion above summed over the gathered cells; the potential is -G times it. */
   cellPotential(xi: number, yi: number, zi: number, kernel: PairKernel): number {
     const cl = this.cl, n = MOMENTS * this.cellCount;
@@ -459,8 +486,16 @@ export function treePotentialRange(
   tree: Octree, sources: Sources, targets: Points, kernel: PairKernel, theta: number, iStart: number, iEnd: number, out: Float64Array,
 ): void {
   const { x, y, z } = targets;
+  const acc = new Float64Array(2);
+  const newton = kernel.yukawaAlpha === 0;
   forEachWalk(tree, sources, targets, theta, iStart, iEnd, (list, ids, from, to) => {
-    for (let q = from; q < to; q++) {
+    let q = from;
+    for (; newton && q + 1 < to; q += 2) {
+      const i = ids ? ids[q] : q, j = ids ? ids[q + 1] : q + 1;
+      list.newtonPotentialTwo(x[i], y[i], z[i], x[j], y[j], z[j], kernel.softening2_kpc2, acc);
+      out[i] = -G * acc[0]; out[j] = -G * acc[1];
+    }
+    for (; q < to; q++) {
       const i = ids ? ids[q] : q;
       const xi = x[i], yi = y[i], zi = z[i];
       out[i] = -G * (sumPotential(list.px, list.py, list.pz, list.pm, list.particles, xi, yi, zi, kernel) + list.cellPotential(xi, yi, zi, kernel));
