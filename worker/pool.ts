@@ -34,18 +34,18 @@ export interface RunHandle {
 }
 
 /**
- * Direct-sum runs from this size are split across free threads. Below it a
- * force evaluation takes well under a millisecond, where waking helpers and
- * copying positions would eat most of the gain (our own choice, from the bench).
+ * Direct-sum and tree runs from this size are split across free threads. Below
+ * it a force evaluation takes a few milliseconds at most, where waking helpers
+ * and copying positions would eat most of the gain (our own choice, from the bench).
  */
 export const SPLIT_MIN_PARTICLES = 1500;
 
-/** The rule for splitting one run: direct sum (tree walks are not split), and large enough to pay. */
-export const splits = (spec: RunSpec): boolean => spec.solver.kind === 'direct' && particleCount(spec) >= SPLIT_MIN_PARTICLES;
+/** The rule for splitting one run (direct sums and tree walks both split): large enough to pay. */
+export const splits = (spec: RunSpec): boolean => particleCount(spec) >= SPLIT_MIN_PARTICLES;
 
 /**
  * A pool of threads, each integrating one run at a time. A large direct-sum
- * run that starts while threads are free also gets those threads as helpers
+ * or tree run that starts while threads are free also gets those threads as helpers
  * for its force sum (see sharedField.ts); a run that arrives when every thread
  * is taken gets one back from a helper, so splitting never makes a run wait.
  */
@@ -80,7 +80,8 @@ export class RunPool {
     if (this.closing) return { result: Promise.reject(new Error('The worker is stopping')), cancel: () => undefined, helped: Promise.resolve(0) };
     if (this.busy >= this.threads) this.reclaimThread();
     const helpers = splits(spec) ? Math.max(0, this.threads - this.busy - 1) : 0;
-    const sharedField = helpers > 0 ? createSharedField(particleCount(spec), helpers) : undefined;
+    const theta = spec.solver.kind === 'tree' ? spec.solver.theta : undefined;
+    const sharedField = helpers > 0 ? createSharedField(particleCount(spec), helpers, theta) : undefined;
 
     const { port1, port2 } = new MessageChannel();
     const cancelFlag = new Int32Array(new SharedArrayBuffer(4));

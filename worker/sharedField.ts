@@ -1,11 +1,14 @@
-// One run's direct-sum field split across pool threads over shared memory.
+// One run's direct-sum or tree field split across pool threads over shared memory.
 //
 // The run's own thread copies positions and masses into SharedArrayBuffer-backed
 // arrays, opens a round, and then claims chunks of the target range alongside
 // any helper threads; every chunk is computed by `directFieldRange`, whose
 // per-target summation order does not depend on how the range is cut (in the
 // WebAssembly kernel and the JS one alike, which give the same bits), so the
-// result is bit-identical to one thread's. Chunks are claimed with an atomic
+// result is bit-identical to one thread's. A tree run's thread builds the
+// octree once per evaluation and copies it into shared memory; the chunks are
+// then ranges of target groups, each walked by `treeFieldRange`, whose groups'
+// lists depend only on the tree, so the same holds. Chunks are claimed with an atomic
 // counter, so a round finishes even when no helper is there (not started yet,
 // or dismissed to make room for another run): the run's thread then claims
 // them all.
@@ -15,8 +18,9 @@
 // sleep on a wake counter that every change they must see bumps (a new round,
 // the end of the run, a dismissal), so no wake-up is lost between a helper's
 // last look and its sleep.
-import { directFieldRange, directPotentialRange } from '../shared/engine/solvers';
+import { buildOctree, directFieldRange, directPotentialRange, treeFieldRange, treePotentialRange, treeWorkUnits, type Octree } from '../shared/engine/solvers';
 import { directSolver } from '../shared/engine/solvers/direct';
+import { CELL_DOUBLES, CELL_INTS, treeSolver } from '../shared/engine/solvers/tree';
 import type { FieldSolver, PairKernel } from '../shared/engine/solvers';
 import type { Accelerations, Points, Sources } from '../shared/engine/state';
 
@@ -26,6 +30,8 @@ export interface SharedField {
   n: number;
   control: SharedArrayBuffer;
   data: SharedArrayBuffer;
+  /** Present for a tree run: room for one octree of at most `capacity` cells, rebuilt every evaluation. */
+  tree?: { theta: number; capacity: number; doubles: SharedArrayBuffer; ints: SharedArrayBuffer };
 }
 
 // Int32 slots of `control`.
@@ -40,7 +46,9 @@ const SAME = 7; // 1 when the targets are the sources themselves (no copy)
 const STOP = 8; // 1 once the run is over
 const ACTIVE = 9; // helpers inside serveSharedField
 const WANTED = 10; // helpers the pool still wants; above it, helpers leave
-const CONTROL_SLOTS = 11;
+const NODES = 11; // cells of this round's tree
+const GROUPS = 12; // target groups of this round's tree
+const CONTROL_SLOTS = 13;
 
 const FIELD = 0;
 const POTENTIAL = 1;
@@ -59,12 +67,24 @@ const MIN_CHUNK_TARGETS = 16;
 /** Leaves room in the claim index for the spent claims of a round. */
 const MAX_CHUNKS = INDEX_MASK >> 1;
 
-export function createSharedField(n: number, helpers: number): SharedField {
+/**
+ * Cells a shared tree has room for. Trees of smooth distributions have about
+ * 0.4 cells per particle; a rarer, deeper one is walked by the run's thread alone.
+ */
+const treeCapacity = (n: number) => n + 64;
+
+/** Shared memory for a run of n particles; `theta` when its solver is the tree. */
+export function createSharedField(n: number, helpers: number, theta?: number): SharedField {
   const f: SharedField = {
     n,
     control: new SharedArrayBuffer(4 * CONTROL_SLOTS),
     data: new SharedArrayBuffer(8 * (PARAMS + ARRAYS * n)),
   };
+  if (theta !== undefined) {
+    const capacity = treeCapacity(n);
+    // Doubles: cells, then sources in tree order (x, y, z, m). Integers: cell links, tree order, groups (two each).
+    f.tree = { theta, capacity, doubles: new SharedArrayBuffer(8 * (CELL_DOUBLES * capacity + 4 * n)), ints: new SharedArrayBuffer(4 * (CELL_INTS * capacity + 3 * n)) };
+  }
   // All zeros is round 0 with no chunks: a claim before the first round gets nothing.
   new Int32Array(f.control)[WANTED] = helpers;
   return f;
@@ -76,6 +96,7 @@ interface Views {
   sources: Sources;
   targets: Points;
   out: Accelerations;
+  tree?: { theta: number; capacity: number; d: Float64Array; i: Int32Array };
 }
 
 function views(f: SharedField): Views {
@@ -87,6 +108,21 @@ function views(f: SharedField): Views {
     sources: { x: at(0), y: at(1), z: at(2), m: at(3) },
     targets: { x: at(4), y: at(5), z: at(6) },
     out: { ax: at(7), ay: at(8), az: at(9) },
+    ...(f.tree ? { tree: { theta: f.tree.theta, capacity: f.tree.capacity, d: new Float64Array(f.tree.doubles), i: new Int32Array(f.tree.ints) } } : {}),
+  };
+}
+
+/** The round's tree as laid out in shared memory by SplitTreeSolver.publish. */
+function sharedTree(t: NonNullable<Views['tree']>, n: number, nodes: number, groups: number): Octree {
+  const { d, i, capacity } = t;
+  const s = CELL_DOUBLES * capacity, l = CELL_INTS * capacity;
+  return {
+    nodes,
+    cells: d.subarray(0, CELL_DOUBLES * nodes),
+    links: i.subarray(0, CELL_INTS * nodes),
+    sorted: { x: d.subarray(s, s + n), y: d.subarray(s + n, s + 2 * n), z: d.subarray(s + 2 * n, s + 3 * n), m: d.subarray(s + 3 * n, s + 4 * n) },
+    order: new Uint32Array(i.buffer, 4 * l, n),
+    groups: i.subarray(l + n, l + n + 2 * groups),
   };
 }
 
@@ -108,7 +144,11 @@ function work(v: Views): number {
     const end = Math.min(c[TARGETS], start + size);
     const kernel: PairKernel = { softening2_kpc2: v.params[0], yukawaAlpha: v.params[1], yukawaLambda_kpc: v.params[2] };
     const targets = c[SAME] === 1 ? v.sources : v.targets;
-    if (c[MODE] === FIELD) directFieldRange(v.sources, targets, kernel, start, end, v.out);
+    if (v.tree) {
+      const tree = sharedTree(v.tree, v.sources.m.length, c[NODES], c[GROUPS]);
+      if (c[MODE] === FIELD) treeFieldRange(tree, v.sources, targets, kernel, v.tree.theta, start, end, v.out);
+      else treePotentialRange(tree, v.sources, targets, kernel, v.tree.theta, start, end, v.out.ax);
+    } else if (c[MODE] === FIELD) directFieldRange(v.sources, targets, kernel, start, end, v.out);
     else directPotentialRange(v.sources, targets, kernel, start, end, v.out.ax);
     done++;
     if (Atomics.add(c, DONE, 1) + 1 === chunks) Atomics.notify(c, DONE);
@@ -166,53 +206,85 @@ function wakeHelpers(c: Int32Array): void {
 }
 
 /**
- * The direct-sum solver of a run whose field is split: used in the run's own
- * thread in place of the spec's direct solver. Without helpers present, or for
- * arrays that don't fit the shared buffers, it is the plain direct sum.
+ * The solver of a run whose field is split: used in the run's own thread in
+ * place of the spec's direct or tree solver. Without helpers present, for
+ * arrays that don't fit the shared buffers, or for a tree too deep for its
+ * shared room, it is the spec's solver on this thread alone.
  */
-export class SplitDirectSolver implements FieldSolver {
-  readonly kind = 'direct' as const;
+export class SplitSolver implements FieldSolver {
+  readonly kind: 'direct' | 'tree';
   private readonly v: Views;
+  private readonly alone: FieldSolver;
   /** Rounds opened so far; only this thread opens them. */
   private rounds = 0;
 
   constructor(private readonly shared: SharedField) {
     this.v = views(shared);
+    this.kind = shared.tree ? 'tree' : 'direct';
+    this.alone = shared.tree ? treeSolver(shared.tree.theta) : directSolver;
   }
 
   field(sources: Sources, targets: Points, kernel: PairKernel, out: Accelerations): void {
-    if (!this.splits(sources, targets)) return directSolver.field(sources, targets, kernel, out);
-    const count = this.round(sources, targets, kernel, FIELD);
-    out.ax.set(this.v.out.ax.subarray(0, count));
-    out.ay.set(this.v.out.ay.subarray(0, count));
-    out.az.set(this.v.out.az.subarray(0, count));
+    if (!this.splits(sources, targets)) return this.alone.field(sources, targets, kernel, out);
+    const { v } = this;
+    this.compute(sources, targets, kernel, FIELD);
+    const count = targets.x.length;
+    out.ax.set(v.out.ax.subarray(0, count));
+    out.ay.set(v.out.ay.subarray(0, count));
+    out.az.set(v.out.az.subarray(0, count));
   }
 
   potential(sources: Sources, targets: Points, kernel: PairKernel, out: Float64Array): void {
-    if (!this.splits(sources, targets)) return directSolver.potential(sources, targets, kernel, out);
-    const count = this.round(sources, targets, kernel, POTENTIAL);
-    out.set(this.v.out.ax.subarray(0, count));
+    if (!this.splits(sources, targets)) return this.alone.potential(sources, targets, kernel, out);
+    this.compute(sources, targets, kernel, POTENTIAL);
+    out.set(this.v.out.ax.subarray(0, targets.x.length));
   }
 
   private splits(sources: Sources, targets: Points): boolean {
     return Atomics.load(this.v.c, ACTIVE) > 0 && sources.m.length === this.shared.n && targets.x.length <= this.shared.n;
   }
 
-  /** Publishes the inputs, opens a round, works in it and waits for the last chunk; returns the target count. */
-  private round(sources: Sources, targets: Points, kernel: PairKernel, mode: number): number {
-    const { c, params, sources: s, targets: t } = this.v;
-    const count = targets.x.length;
+  /**
+   * Publishes the inputs (and the tree, built here once) and runs a round over
+   * them, leaving the results in the shared output. A tree too large for its
+   * shared room is walked here alone, straight into the shared output as well.
+   */
+  private compute(sources: Sources, targets: Points, kernel: PairKernel, mode: number): void {
+    const { c, sources: s, targets: t, params } = this.v;
     s.x.set(sources.x); s.y.set(sources.y); s.z.set(sources.z); s.m.set(sources.m);
-    const same = targets === sources ? 1 : 0;
+    const same = targets === sources;
     if (!same) {
       t.x.set(targets.x); t.y.set(targets.y); t.z.set(targets.z);
     }
     params[0] = kernel.softening2_kpc2; params[1] = kernel.yukawaAlpha; params[2] = kernel.yukawaLambda_kpc;
+    let units = targets.x.length;
+    const room = this.v.tree;
+    if (room) {
+      const tree = buildOctree(sources);
+      units = treeWorkUnits(tree, sources, targets);
+      if (tree.nodes > room.capacity) {
+        const own = same ? s : t;
+        if (mode === FIELD) treeFieldRange(tree, s, own, kernel, room.theta, 0, units, this.v.out);
+        else treePotentialRange(tree, s, own, kernel, room.theta, 0, units, this.v.out.ax);
+        return;
+      }
+      const shared = sharedTree(room, sources.m.length, tree.nodes, tree.groups.length / 2);
+      shared.cells.set(tree.cells); shared.links.set(tree.links); shared.order.set(tree.order);
+      shared.sorted.x.set(tree.sorted.x); shared.sorted.y.set(tree.sorted.y); shared.sorted.z.set(tree.sorted.z); shared.sorted.m.set(tree.sorted.m);
+      shared.groups.set(tree.groups);
+      c[NODES] = tree.nodes; c[GROUPS] = tree.groups.length / 2;
+    }
+    this.round(units, same, mode);
+  }
+
+  /** Opens a round over `count` work units, works in it and waits for the last chunk. */
+  private round(count: number, same: boolean, mode: number): void {
+    const c = this.v.c;
     const threads = 1 + Atomics.load(c, ACTIVE);
     const size = Math.max(MIN_CHUNK_TARGETS, Math.ceil(count / Math.min(threads * CHUNKS_PER_THREAD, MAX_CHUNKS)));
     const chunks = Math.ceil(count / size);
     const tag = (++this.rounds & TAG_MASK) << INDEX_BITS;
-    c[CHUNK_SIZE] = size; c[TARGETS] = count; c[MODE] = mode; c[SAME] = same;
+    c[CHUNK_SIZE] = size; c[TARGETS] = count; c[MODE] = mode; c[SAME] = same ? 1 : 0;
     Atomics.store(c, DONE, 0);
     Atomics.store(c, INFO, tag | chunks);
     // Opening the claims last publishes everything above to any thread whose claim counts.
@@ -220,6 +292,5 @@ export class SplitDirectSolver implements FieldSolver {
     wakeHelpers(c);
     work(this.v);
     for (let d = Atomics.load(c, DONE); d < chunks; d = Atomics.load(c, DONE)) Atomics.wait(c, DONE, d);
-    return count;
   }
 }

@@ -5,7 +5,7 @@
 import type { MessagePort } from 'node:worker_threads';
 import { applyDirectKernelSetting, runSimulation, type RunCheckpoint, type RunResult } from '../shared/engine';
 import type { RunSpec } from '../shared/spec';
-import { serveSharedField, SplitDirectSolver, stopSharedField, type SharedField } from './sharedField';
+import { serveSharedField, SplitSolver, stopSharedField, type SharedField } from './sharedField';
 
 // Each pool thread picks its direct-sum kernel once; INFALL_DIRECT_KERNEL=js forces the typed-array one.
 applyDirectKernelSetting(process.env.INFALL_DIRECT_KERNEL);
@@ -14,7 +14,7 @@ export interface RunTask {
   spec: RunSpec;
   progressPort: MessagePort;
   cancelFlag: Int32Array; // over a SharedArrayBuffer; 1 means stop
-  /** Present when the pool lent helper threads to this run's direct sum. */
+  /** Present when the pool lent helper threads to this run's direct sum or tree walk. */
   sharedField?: SharedField;
   /** Carry on from this checkpoint; new checkpoints go out on the port as `{ checkpoint }`. */
   resumeFrom?: RunCheckpoint;
@@ -27,7 +27,7 @@ export default function runTask({ spec, progressPort, cancelFlag, sharedField, r
       onProgress: (p) => progressPort.postMessage(p),
       shouldCancel: () => Atomics.load(cancelFlag, 0) === 1,
       snapshotVelocities: true, // stored with the frames for export
-      ...(sharedField ? { solver: new SplitDirectSolver(sharedField) } : {}),
+      ...(sharedField ? { solver: new SplitSolver(sharedField) } : {}),
       ...(resumeFrom ? { resumeFrom } : {}),
       ...(checkpointEvery ? { checkpointEvery, onCheckpoint: (checkpoint: RunCheckpoint) => progressPort.postMessage({ checkpoint }) } : {}),
     });

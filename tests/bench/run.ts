@@ -37,7 +37,7 @@ async function main() {
     const signedIn = await signInBrowser(url, login);
     try {
       const target = { url, token: await benchToken(login) };
-      Object.assign(report, await benchStackSections(target, { particles: 2_000, steps: 1_000 }));
+      Object.assign(report, await benchStackSections(target, { particles: 2_000, steps: 1_000, bigParticles: 8_000, bigSteps: 1_000 }));
       process.stderr.write(`[bench] client: an invented finished ${CLIENT_PARTICLES}-particle run played in Chromium\n`);
       report.client = await benchClient(signedIn.page, url, CLIENT_PARTICLES);
     } catch (err) {

@@ -42,4 +42,23 @@ export function diskRun(n: number, steps: number): RunSpec {
   });
 }
 
-export const plummerParticles = (n: number): ParticleState => buildInitialConditions(plummerRun(n, 1)).particles;
+/** The particles of plummerRun(n, 1); beyond the largest N a spec accepts (the tree bench's 3e5) from the same spec with only n changed. */
+export function plummerParticles(n: number): ParticleState {
+  const run = plummerRun(Math.min(n, 1_000), 1);
+  return buildInitialConditions({ ...run, model: { ...run.model, n } as RunSpec['model'] }).particles;
+}
+
+/** The big disk of the end-to-end figure: 8,000 particles of a disk with a bulge, tree solver at theta 0.6. */
+export function bigDiskRun(n: number, steps: number): RunSpec {
+  return spec({
+    name: `Bench disk with bulge, ${n} particles, ${steps} steps, tree (invented)`,
+    model: { kind: 'disk', n, mass_Msun: 5e10, scaleLength_kpc: 3, scaleHeight_kpc: 0.3, toomreQ: 1.5, bulge: { mass_Msun: 1e10, scale_kpc: 0.5 } },
+    law: { kind: 'newton' },
+    solver: { kind: 'tree', theta: 0.6 },
+    timestep_Myr: 0.5,
+    duration_Myr: 0.5 * steps,
+    softening_kpc: 0.1,
+    snapshotEvery: Math.max(1, Math.floor(steps / 100)),
+    seed: 13,
+  });
+}

@@ -3,7 +3,7 @@
 import type { RunProgress, RunStatus, RunSummary } from '../../shared/api/contract';
 import { decodeSnapshots, SNAPSHOT_WIRE_FORMAT } from '../../shared/api/snapshots';
 import type { RunSpec } from '../../shared/spec';
-import { diskRun } from './specs';
+import { bigDiskRun, diskRun } from './specs';
 
 export interface StackTarget {
   /** The server, e.g. http://127.0.0.1:57080 */
@@ -20,6 +20,10 @@ export interface EndToEndFigures {
   /** From sending the submission to the end event of a finished run. */
   diskRunSeconds: number;
   runId: string;
+  bigDiskParticles: number;
+  bigDiskSteps: number;
+  /** From sending the submission to the end event of a finished disk-with-bulge tree run. */
+  bigDiskRunSeconds: number;
 }
 
 export interface SnapshotFigures {
@@ -74,7 +78,14 @@ export async function runToEnd(t: StackTarget, spec: RunSpec): Promise<string> {
   return run.id;
 }
 
-export async function benchEndToEnd(t: StackTarget, { particles = 2_000, steps = 1_000 } = {}): Promise<EndToEndFigures> {
+/** Seconds from sending a submission to the end event of the finished run. */
+async function timeRun(t: StackTarget, spec: RunSpec): Promise<number> {
+  const sent = performance.now();
+  await runToEnd(t, spec);
+  return (performance.now() - sent) / 1000;
+}
+
+export async function benchEndToEnd(t: StackTarget, { particles = 2_000, steps = 1_000, bigParticles = 8_000, bigSteps = 1_000 } = {}): Promise<EndToEndFigures> {
   // One small run first: the worker's thread and the engine's modules load once, and that is not what is measured.
   await runToEnd(t, diskRun(200, 10));
   const sent = performance.now();
@@ -85,7 +96,8 @@ export async function benchEndToEnd(t: StackTarget, { particles = 2_000, steps =
   });
   const diskRunSeconds = (performance.now() - sent) / 1000;
   if (status !== 'finished') throw new Error(`the disk run ended ${status}`);
-  return { particles, steps, firstProgressMs, diskRunSeconds, runId: run.id };
+  const bigDiskRunSeconds = await timeRun(t, bigDiskRun(bigParticles, bigSteps));
+  return { particles, steps, firstProgressMs, diskRunSeconds, runId: run.id, bigDiskParticles: bigParticles, bigDiskSteps: bigSteps, bigDiskRunSeconds };
 }
 
 /** Bytes on the wire per particle per frame of GET /api/runs/:id/snapshots. */

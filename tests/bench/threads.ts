@@ -1,10 +1,12 @@
-// Threads: one large direct-sum run through the worker's pool, alone on one
-// thread and then split across two, with the results compared bit for bit.
+// Threads: one large direct-sum run and one large tree run through the worker's
+// pool, each alone on one thread and then split across two, with the results
+// compared bit for bit.
 // Each is timed several times, alternating, and the fastest counts: on a shared
 // machine the slow timings measure the neighbours (common benchmarking practice).
 import { Worker } from 'node:worker_threads';
 import { RunPool, SPLIT_MIN_PARTICLES } from '../../worker/pool';
 import type { RunResult } from '../../shared/engine';
+import type { RunSpec } from '../../shared/spec';
 import { plummerRun } from './specs';
 
 export interface ThreadFigures {
@@ -26,6 +28,22 @@ export interface ThreadFigures {
    * this, and the run's speed-up with it).
    */
   machineSpeedup: number;
+  /** The same for a tree run (theta 0.5) of treeN particles. */
+  treeN: number;
+  treeSteps: number;
+  treeSingleSeconds: number;
+  treeSplitSeconds: number;
+  treeSpeedup: number;
+  treeHelperChunks: number;
+  treeIdentical: boolean;
+}
+
+interface Split {
+  singleSeconds: number;
+  splitSeconds: number;
+  speedup: number;
+  helperChunks: number;
+  identical: boolean;
 }
 
 // A fixed amount of arithmetic, the same in every thread; as source text so it runs without a loader,
@@ -48,16 +66,16 @@ async function machineSpeedup(threads: number, iterations: number): Promise<numb
   return (threads * one) / (performance.now() - t);
 }
 
-async function warmUp(pool: RunPool, n: number): Promise<void> {
+async function warmUp(pool: RunPool, spec: RunSpec): Promise<void> {
   // A short split run first, so thread start-up and module loading stay out of the timing.
-  const warm = pool.start(plummerRun(Math.max(n, SPLIT_MIN_PARTICLES), 2), () => undefined);
+  const warm = pool.start(spec, () => undefined);
   await warm.result;
   await warm.helped;
 }
 
-async function timedRun(pool: RunPool, n: number, steps: number): Promise<{ seconds: number; result: RunResult; helped: number }> {
+async function timedRun(pool: RunPool, spec: RunSpec): Promise<{ seconds: number; result: RunResult; helped: number }> {
   const t = performance.now();
-  const handle = pool.start(plummerRun(n, steps), () => undefined);
+  const handle = pool.start(spec, () => undefined);
   const result = await handle.result;
   const seconds = (performance.now() - t) / 1000;
   return { seconds, result, helped: await handle.helped };
@@ -69,32 +87,49 @@ function sameResults(a: RunResult, b: RunResult): boolean {
   return JSON.stringify(frames(a)) === JSON.stringify(frames(b)) && JSON.stringify(energies(a)) === JSON.stringify(energies(b));
 }
 
-export async function benchThreads({ n = 6_000, steps = 40, threads = 2, spinIterations = 2e8, repeats = 3 } = {}): Promise<ThreadFigures> {
+/** One spec timed on both pools, alternating, best of `repeats` each. */
+async function compare(single: RunPool, split: RunPool, spec: RunSpec, warm: RunSpec, repeats: number): Promise<Split> {
+  await warmUp(single, warm);
+  await warmUp(split, warm);
+  type Timed = Awaited<ReturnType<typeof timedRun>>;
+  const ones: Timed[] = [], manys: Timed[] = [];
+  for (let r = 0; r < repeats; r++) {
+    ones.push(await timedRun(single, spec));
+    manys.push(await timedRun(split, spec));
+  }
+  const singleSeconds = Math.min(...ones.map((o) => o.seconds));
+  const splitSeconds = Math.min(...manys.map((m) => m.seconds));
+  return {
+    singleSeconds,
+    splitSeconds,
+    speedup: singleSeconds / splitSeconds,
+    helperChunks: Math.min(...manys.map((m) => m.helped)),
+    identical: manys.every((m) => sameResults(ones[0].result, m.result)) && ones.every((o) => sameResults(ones[0].result, o.result)),
+  };
+}
+
+export async function benchThreads({ n = 6_000, steps = 40, treeN = 20_000, treeSteps = 4, threads = 2, spinIterations = 2e8, repeats = 3 } = {}): Promise<ThreadFigures> {
   const capacity = await machineSpeedup(threads, spinIterations);
   const single = new RunPool(1);
   const split = new RunPool(threads);
+  const tree = { solver: { kind: 'tree' as const, theta: 0.5 } };
   try {
-    await warmUp(single, n);
-    await warmUp(split, n);
-    type Timed = Awaited<ReturnType<typeof timedRun>>;
-    const ones: Timed[] = [], manys: Timed[] = [];
-    for (let r = 0; r < repeats; r++) {
-      ones.push(await timedRun(single, n, steps));
-      manys.push(await timedRun(split, n, steps));
-    }
-    const singleSeconds = Math.min(...ones.map((o) => o.seconds));
-    const splitSeconds = Math.min(...manys.map((m) => m.seconds));
+    const d = await compare(single, split, plummerRun(n, steps), plummerRun(Math.max(n, SPLIT_MIN_PARTICLES), 2), repeats);
+    const t = await compare(single, split, plummerRun(treeN, treeSteps, tree), plummerRun(Math.max(treeN, SPLIT_MIN_PARTICLES), 1, tree), repeats);
     return {
       n,
       steps,
       threads,
       repeats,
-      singleSeconds,
-      splitSeconds,
-      speedup: singleSeconds / splitSeconds,
-      helperChunks: Math.min(...manys.map((m) => m.helped)),
-      identical: manys.every((m) => sameResults(ones[0].result, m.result)) && ones.every((o) => sameResults(ones[0].result, o.result)),
+      ...d,
       machineSpeedup: capacity,
+      treeN,
+      treeSteps,
+      treeSingleSeconds: t.singleSeconds,
+      treeSplitSeconds: t.splitSeconds,
+      treeSpeedup: t.speedup,
+      treeHelperChunks: t.helperChunks,
+      treeIdentical: t.identical,
     };
   } finally {
     await Promise.all([single.close(), split.close()]);

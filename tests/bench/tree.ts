@@ -1,5 +1,6 @@
 // Barnes-Hut tree: cost of one force evaluation (build and walk over every
-// particle) and its force error against the direct sum on a random subset of targets.
+// particle) and its force error against the direct sum on a random subset of
+// targets; up to DIRECT_UP_TO particles, the direct sum's own cost beside it.
 import { directSolver } from '../../shared/engine/solvers/direct';
 import { treeSolver } from '../../shared/engine/solvers/tree';
 import { newtonKernel } from '../../shared/engine/solvers/types';
@@ -11,8 +12,34 @@ export interface TreeFigure {
   n: number;
   theta: number;
   msPerStep: number;
+  /**
+   * CPU time of that fastest evaluation, ms: on a machine shared with other
+   * work the wall time also counts the time other processes held the core.
+   */
+  cpuMsPerStep: number;
   medianError: number;
   p99Error: number;
+  /** One direct-sum evaluation of the same particles, ms, wall and CPU (null above DIRECT_UP_TO particles). */
+  directMsPerStep: number | null;
+  directCpuMsPerStep: number | null;
+}
+
+/** Largest N the direct sum is timed at, for the size where the tree starts to pay. */
+const DIRECT_UP_TO = 10_000;
+
+/** The fastest of `repeats` calls: wall ms, and the CPU ms of that call. */
+function best(repeats: number, f: () => void): { ms: number; cpuMs: number } {
+  let ms = Infinity, cpuMs = Infinity;
+  for (let r = 0; r < repeats; r++) {
+    const t = performance.now(), c = process.cpuUsage();
+    f();
+    const wall = performance.now() - t;
+    if (wall < ms) {
+      ms = wall;
+      cpuMs = process.cpuUsage(c).user / 1000;
+    }
+  }
+  return { ms, cpuMs };
 }
 
 function quantile(sorted: Float64Array, q: number): number {
@@ -38,21 +65,16 @@ export function benchTree({ sizes = [1_000, 10_000, 100_000], thetas = [0.5, 0.7
     const exact = allocateAccelerations(idx.length);
     directSolver.field(p, probes, kernel, exact);
     const out = allocateAccelerations(n);
+    const direct = n <= DIRECT_UP_TO ? best(repeats, () => directSolver.field(p, p, kernel, out)) : null;
     for (const theta of thetas) {
       const solver = treeSolver(theta);
       // Big trees take seconds an evaluation: fewer repeats there, but two, so the first one's warm-up doesn't count.
-      const reps = n >= 50_000 ? Math.min(2, repeats) : repeats;
-      let best = Infinity;
-      for (let r = 0; r < reps; r++) {
-        const t = performance.now();
-        solver.field(p, p, kernel, out);
-        best = Math.min(best, performance.now() - t);
-      }
+      const timed = best(n >= 50_000 ? Math.min(2, repeats) : repeats, () => solver.field(p, p, kernel, out));
       const err = Float64Array.from(idx, (i, k) => {
         const d = Math.hypot(out.ax[i] - exact.ax[k], out.ay[i] - exact.ay[k], out.az[i] - exact.az[k]);
         return d / Math.hypot(exact.ax[k], exact.ay[k], exact.az[k]);
       }).sort();
-      figures.push({ n, theta, msPerStep: best, medianError: quantile(err, 0.5), p99Error: quantile(err, 0.99) });
+      figures.push({ n, theta, msPerStep: timed.ms, cpuMsPerStep: timed.cpuMs, medianError: quantile(err, 0.5), p99Error: quantile(err, 0.99), directMsPerStep: direct?.ms ?? null, directCpuMsPerStep: direct?.cpuMs ?? null });
     }
   }
   return figures;

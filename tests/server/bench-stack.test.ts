@@ -45,10 +45,12 @@ test('end-to-end and snapshot sections give finite figures through a token-authe
   const { secret } = await createToken(em, user, { name: 'bench', expiresInDays: 1 });
   const url = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;
 
-  const { e2e, snapshot } = await benchStackSections({ url, token: secret }, { particles: 150, steps: 20 });
+  const { e2e, snapshot } = await benchStackSections({ url, token: secret }, { particles: 150, steps: 20, bigParticles: 300, bigSteps: 10 });
   expect(e2e.firstProgressMs).toBeGreaterThan(0);
   expect(e2e.diskRunSeconds * 1000).toBeGreaterThanOrEqual(e2e.firstProgressMs);
   expect(Number.isFinite(e2e.diskRunSeconds)).toBe(true);
+  expect(e2e.bigDiskRunSeconds).toBeGreaterThan(0);
+  expect(Number.isFinite(e2e.bigDiskRunSeconds)).toBe(true);
   // uint16 x, y, z: 6 bytes a particle, plus the component list and the frame and file headers spread over them.
   expect(snapshot.particles).toBe(150);
   expect(snapshot.bytesPerParticle).toBeGreaterThan(6);

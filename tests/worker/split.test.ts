@@ -1,14 +1,15 @@
-// One run's direct sum split across pool threads over shared memory
-// (worker/sharedField.ts): the same numbers, bit for bit, as one thread.
+// One run's direct sum or tree walk split across pool threads over shared
+// memory (worker/sharedField.ts): the same numbers, bit for bit, as one thread.
 import path from 'node:path';
 import { Piscina } from 'piscina';
 import { directSolver } from '../../shared/engine/solvers/direct';
 import { directKernelInUse, setDirectKernel } from '../../shared/engine/solvers/directWasm';
+import { buildOctree, treeSolver } from '../../shared/engine/solvers/tree';
 import { newtonKernel, type PairKernel } from '../../shared/engine/solvers/types';
 import { allocateAccelerations, type Points } from '../../shared/engine/state';
 import type { RunResult } from '../../shared/engine';
 import { RunPool, SPLIT_MIN_PARTICLES } from '../../worker/pool';
-import { activeHelpers, createSharedField, SplitDirectSolver, stopSharedField } from '../../worker/sharedField';
+import { activeHelpers, createSharedField, SplitSolver, stopSharedField } from '../../worker/sharedField';
 import { plummerParticles, plummerRun } from '../bench/specs';
 
 jest.setTimeout(120_000);
@@ -31,7 +32,7 @@ test('a force sum split with a helper thread equals the single-thread direct sum
   const helper = pool.run({ sharedField: shared }, { name: 'fieldHelper' }) as Promise<number>;
   try {
     await until(() => activeHelpers(shared) === 1, 'the helper thread');
-    const split = new SplitDirectSolver(shared);
+    const split = new SplitSolver(shared);
     for (const kernel of kernels) {
       for (const targets of [p, probes]) {
         const count = targets.x.length;
@@ -74,7 +75,7 @@ test('split with the WebAssembly kernel in every thread, or a helper forced to J
     const helper = pool.run({ sharedField: shared }, { name: 'fieldHelper' }) as Promise<number>;
     try {
       await until(() => activeHelpers(shared) === 1, 'the helper thread');
-      const split = new SplitDirectSolver(shared);
+      const split = new SplitSolver(shared);
       const got = allocateAccelerations(n);
       const gotPot = new Float64Array(n);
       split.field(p, p, kernel, got);
@@ -110,7 +111,7 @@ test('a helper leaves when the run ends right after a round, and a small round f
       const shared = createSharedField(n, 1);
       const helper = pool.run({ sharedField: shared }, { name: 'fieldHelper' }) as Promise<number>;
       await until(() => activeHelpers(shared) === 1, 'the helper thread');
-      const split = new SplitDirectSolver(shared);
+      const split = new SplitSolver(shared);
       const gotProbes = allocateAccelerations(64), gotAll = allocateAccelerations(n), gotOne = allocateAccelerations(16);
       split.field(p, probes, kernel, gotProbes);
       split.field(p, p, kernel, gotAll);
@@ -127,6 +128,49 @@ test('a helper leaves when the run ends right after a round, and a small round f
   }
 });
 
+test('a tree walk split with a helper thread equals the single-thread walk bit for bit, for every kernel and target kind', async () => {
+  const n = 3001;
+  const p = plummerParticles(n);
+  const probes: Points = { x: p.x.slice(0, 333).map((v) => v + 0.01), y: p.y.slice(0, 333), z: p.z.slice(0, 333) };
+  const kernels: PairKernel[] = [newtonKernel(0.05), { softening2_kpc2: 0.01, yukawaAlpha: 0.5, yukawaLambda_kpc: 2 }];
+  const theta = 0.6;
+  const alone = treeSolver(theta);
+  const pool = new Piscina({ filename: taskFile, maxThreads: 1, execArgv: ['--import', 'tsx'] });
+  const shared = createSharedField(n, 1, theta);
+  const helper = pool.run({ sharedField: shared }, { name: 'fieldHelper' }) as Promise<number>;
+  try {
+    await until(() => activeHelpers(shared) === 1, 'the helper thread');
+    const split = new SplitSolver(shared);
+    expect(split.kind).toBe('tree');
+    for (const kernel of kernels) {
+      for (const targets of [p, probes]) {
+        const count = targets.x.length;
+        const a = allocateAccelerations(count), b = allocateAccelerations(count);
+        split.field(p, targets, kernel, a);
+        alone.field(p, targets, kernel, b);
+        expect(a).toEqual(b);
+        const pa = new Float64Array(count), pb = new Float64Array(count);
+        split.potential(p, targets, kernel, pa);
+        alone.potential(p, targets, kernel, pb);
+        expect(pa).toEqual(pb);
+      }
+    }
+    // Clumps of coincident particles, more than a leaf holds, make chains of cells down to the tree's
+    // depth limit: more cells than the shared room, so the run's thread walks alone, to the same numbers.
+    const clump = (a: Float64Array) => a.map((_, i) => a[i - (i % 10)]);
+    const clumped = { x: clump(p.x), y: clump(p.y), z: clump(p.z), m: p.m };
+    expect(buildOctree(clumped).nodes).toBeGreaterThan(n + 64);
+    const a = allocateAccelerations(n), b = allocateAccelerations(n);
+    split.field(clumped, clumped, kernels[0], a);
+    alone.field(clumped, clumped, kernels[0], b);
+    expect(a).toEqual(b);
+  } finally {
+    stopSharedField(shared);
+  }
+  expect(await helper).toBeGreaterThan(0);
+  await pool.destroy();
+});
+
 const sameRun = (a: RunResult, b: RunResult) => {
   expect(a.snapshots.map((s) => s.positions)).toEqual(b.snapshots.map((s) => s.positions));
   expect(a.diagnostics).toEqual(b.diagnostics);
@@ -135,6 +179,20 @@ const sameRun = (a: RunResult, b: RunResult) => {
 
 test('a large direct-sum run through the pool is split across its free thread and ends bit-identical to a one-thread run', async () => {
   const spec = plummerRun(SPLIT_MIN_PARTICLES + 1, 6, { snapshotEvery: 2, diagnosticsEvery: 2 });
+  const one = new RunPool(1), two = new RunPool(2);
+  try {
+    const alone = one.start(spec, () => undefined);
+    const split = two.start(spec, () => undefined);
+    sameRun(await split.result, await alone.result);
+    expect(await alone.helped).toBe(0);
+    expect(await split.helped).toBeGreaterThan(0);
+  } finally {
+    await Promise.all([one.close(), two.close()]);
+  }
+});
+
+test('a large tree run through the pool is split across its free thread and ends bit-identical to a one-thread run', async () => {
+  const spec = plummerRun(SPLIT_MIN_PARTICLES + 1, 6, { snapshotEvery: 2, diagnosticsEvery: 2, solver: { kind: 'tree', theta: 0.5 } });
   const one = new RunPool(1), two = new RunPool(2);
   try {
     const alone = one.start(spec, () => undefined);

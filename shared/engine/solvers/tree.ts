@@ -10,9 +10,10 @@ const { min, max, sqrt, exp } = Math;
 /** Particles per leaf before it splits (common practice: small buckets beat single-particle leaves). */
 const LEAF_SIZE = 8;
 /**
- * Particles sharing one walk of a self-field. Larger groups walk less often
- * but open more cells near them; of 16, 32 and 64, 32 was fastest in the
- * bench for 1e3-1e5 particles (our own measurement, on a busy machine).
+ * Most particles sharing one walk of a self-field. Larger groups walk less
+ * often but open more cells near them; of 8, 16 and 32 (with sibling cells
+ * merged up to it), 32 was fastest at 5e4 particles (our own measurement, on a
+ * busy machine).
  */
 const GROUP_SIZE = 32;
 /** Beyond this depth coincident particles share a leaf rather than splitting forever. */
@@ -21,7 +22,7 @@ const MAX_DEPTH = 48;
 /**
  * Barnes & Hut (1986) octree over the sources: cubic cells split into eight,
  * each holding its mass, centre of mass and second moments about it (for the
- * quadrupole term). Built by partitioning an index array, so the same sources
+ * quadrupole term), and the box around its particles (its size in the opening test). Built by partitioning an index array, so the same sources
  * always give the same tree. Each cell's numbers sit together (CELL doubles in
  * `cells`, LINK integers in `links`), so a walk that visits a cell touches one
  * or two cache lines rather than one per quantity; this is what makes walks
@@ -30,28 +31,39 @@ const MAX_DEPTH = 48;
  */
 export interface Octree {
   nodes: number;
-  /** Per cell: centre of mass x, y, z (kpc); half size h; (2h)^2; geometric centre x, y, z; mass (Msun); second moments xx, yy, zz, xy, xz, yz about the centre of mass (Msun kpc^2). */
+  /** Per cell: geometric centre x, y, z (kpc); half size h; (2h)^2; centre of mass x, y, z; mass (Msun); second moments xx, yy, zz, xy, xz, yz about the centre of mass (Msun kpc^2). */
   cells: Float64Array;
-  /** Per cell: first child (-1 for a leaf; children are consecutive), child count, first particle slot, particle count. */
+  /** Per cell: first child (-1 for a leaf; children are consecutive), child count, first particle slot, particle count (its particles are consecutive slots, leaf or not). */
   links: Int32Array;
   /** Tree-order slot to source index. */
   order: Uint32Array;
   /** Source positions and masses in tree order: a leaf's particles are slots [start, start + count). */
   sorted: Sources;
   /**
-   * Target groups of a self-field, as (first slot, count) pairs in build order: the largest
-   * cells of at most GROUP_SIZE particles (or a deeper leaf holding more). One walk serves a
-   * whole group, and groups are the unit a self-field is split across threads by.
+   * Target groups of a self-field, as (first slot, count) pairs in build order: runs of
+   * consecutive sibling cells of at most GROUP_SIZE particles together (or a deepest leaf
+   * holding more). One walk serves a whole group, and groups are the unit a self-field is
+   * split across threads by.
    */
   groups: Int32Array;
 }
 
 /** Layout of one cell in Octree.cells and Octree.links. */
 const CELL = 16;
-const COM_X = 0, COM_Y = 1, COM_Z = 2, HALF = 3, SIZE2 = 4, CENTRE_X = 5, CENTRE_Y = 6, CENTRE_Z = 7, MASS = 8;
+const CENTRE_X = 0, CENTRE_Y = 1, CENTRE_Z = 2, HALF = 3, SIZE2 = 4, COM_X = 5, COM_Y = 6, COM_Z = 7, MASS = 8;
 const IXX = 9, IYY = 10, IZZ = 11, IXY = 12, IXZ = 13, IYZ = 14;
 const LINK = 4;
-const FIRST_CHILD = 0, CHILD_COUNT = 1, LEAF_START = 2, LEAF_COUNT = 3;
+/** Doubles and integers per cell, for copying a tree into memory shared between threads. */
+export const CELL_DOUBLES = CELL, CELL_INTS = LINK;
+const FIRST_CHILD = 0, CHILD_COUNT = 1, FIRST_SLOT = 2, SLOT_COUNT = 3;
+/** A cell's numbers that act on targets, from COM_X to IYZ: one record of an interaction list. */
+const MOMENTS = 10;
+/**
+ * Accepted cells of at most this many particles act through their particles:
+ * exact, and cheaper than one quadrupole term. Of 1, 2 and 3, 2 was fastest
+ * (our own measurement, CPU time at 8e3 and 3e4 particles).
+ */
+const FEW = 2;
 
 export function buildOctree(src: Sources): Octree {
   const n = src.m.length;
@@ -60,13 +72,10 @@ export function buildOctree(src: Sources): Octree {
   const cells: number[] = [];
   const links: number[] = [];
   const order = Uint32Array.from({ length: n }, (_, i) => i);
-  const alloc = (cx: number, cy: number, cz: number, half: number): number => {
+  const alloc = (): number => {
     const k = links.length / LINK;
     for (let q = 0; q < CELL; q++) cells.push(0);
     links.push(-1, 0, 0, 0);
-    const c = k * CELL;
-    cells[c + HALF] = half; cells[c + SIZE2] = 4 * half * half;
-    cells[c + CENTRE_X] = cx; cells[c + CENTRE_Y] = cy; cells[c + CENTRE_Z] = cz;
     return k;
   };
 
@@ -77,17 +86,20 @@ export function buildOctree(src: Sources): Octree {
     minZ = min(minZ, z[i]); maxZ = max(maxZ, z[i]);
   }
   const half = 0.5 * max(maxX - minX, maxY - minY, maxZ - minZ) * (1 + 1e-9) || 1e-9;
-  const root = alloc(0.5 * (minX + maxX), 0.5 * (minY + maxY), 0.5 * (minZ + maxZ), half);
+  const root = alloc();
 
   const scratch = new Uint32Array(n);
   const octantOf = new Uint8Array(n);
   const counts = new Int32Array(8 * (MAX_DEPTH + 1));
   const groups: number[] = [];
-  const split = (node: number, start: number, end: number, depth: number, grouped: boolean): void => {
+  // (cx, cy, cz) and h: the centre and half size of the cube the node splits into octants.
+  const split = (node: number, start: number, end: number, depth: number, grouped: boolean, cx: number, cy: number, cz: number, h: number): void => {
     let M = 0, mx = 0, my = 0, mz = 0;
+    let x0 = Infinity, y0 = Infinity, z0 = Infinity, x1 = -Infinity, y1 = -Infinity, z1 = -Infinity;
     for (let s = start; s < end; s++) {
-      const i = order[s], mi = m[i];
-      M += mi; mx += mi * x[i]; my += mi * y[i]; mz += mi * z[i];
+      const i = order[s], mi = m[i], xi = x[i], yi = y[i], zi = z[i];
+      M += mi; mx += mi * xi; my += mi * yi; mz += mi * zi;
+      x0 = min(x0, xi); x1 = max(x1, xi); y0 = min(y0, yi); y1 = max(y1, yi); z0 = min(z0, zi); z1 = max(z1, zi);
     }
     const cx0 = mx / M, cy0 = my / M, cz0 = mz / M;
     let xx = 0, yy = 0, zz = 0, xy = 0, xz = 0, yz = 0;
@@ -97,20 +109,22 @@ export function buildOctree(src: Sources): Octree {
       xx += mi * dx * dx; yy += mi * dy * dy; zz += mi * dz * dz; xy += mi * dx * dy; xz += mi * dx * dz; yz += mi * dy * dz;
     }
     const c = node * CELL, l = node * LINK;
+    links[l + FIRST_SLOT] = start;
+    links[l + SLOT_COUNT] = end - start;
+    // The cell's size is that of the box around its particles, not of its cube: multipole terms
+    // are only as good as the mass is compact, and in sparse regions the box is much the smaller.
+    const half = 0.5 * max(x1 - x0, y1 - y0, z1 - z0);
+    cells[c + CENTRE_X] = 0.5 * (x0 + x1); cells[c + CENTRE_Y] = 0.5 * (y0 + y1); cells[c + CENTRE_Z] = 0.5 * (z0 + z1);
+    cells[c + HALF] = half; cells[c + SIZE2] = 4 * half * half;
     cells[c + MASS] = M;
     cells[c + COM_X] = cx0; cells[c + COM_Y] = cy0; cells[c + COM_Z] = cz0;
     cells[c + IXX] = xx; cells[c + IYY] = yy; cells[c + IZZ] = zz; cells[c + IXY] = xy; cells[c + IXZ] = xz; cells[c + IYZ] = yz;
     const leaf = end - start <= LEAF_SIZE || depth >= MAX_DEPTH;
-    if (!grouped && (end - start <= GROUP_SIZE || leaf)) {
+    if (!grouped && leaf) {
       groups.push(start, end - start);
       grouped = true;
     }
-    if (leaf) {
-      links[l + LEAF_START] = start;
-      links[l + LEAF_COUNT] = end - start;
-      return;
-    }
-    const cx = cells[c + CENTRE_X], cy = cells[c + CENTRE_Y], cz = cells[c + CENTRE_Z], h = 0.5 * cells[c + HALF];
+    if (leaf) return;
     // This depth's eight counters: the recursion below reuses deeper ones only.
     const c0 = 8 * depth;
     counts.fill(0, c0, c0 + 8);
@@ -128,20 +142,31 @@ export function buildOctree(src: Sources): Octree {
     let first = -1, kids = 0;
     for (let o = 0; o < 8; o++) {
       if (counts[c0 + o] === 0) continue;
-      const child = alloc(cx + (o & 1 ? h : -h), cy + (o & 2 ? h : -h), cz + (o & 4 ? h : -h), h);
+      const child = alloc();
       if (first < 0) first = child;
       kids++;
     }
     links[l + FIRST_CHILD] = first;
     links[l + CHILD_COUNT] = kids;
-    for (let o = 0, at = start, child = first; o < 8; o++) {
-      const k = counts[c0 + o];
-      if (k === 0) continue;
-      split(child++, at, at + k, depth + 1, grouped);
+    // Ungrouped, consecutive children of at most GROUP_SIZE particles together are merged into groups;
+    // a larger child is grouped further down.
+    let runStart = start, runCount = 0;
+    for (let o = 0, at = start, child = first; o <= 8; o++) {
+      const k = o < 8 ? counts[c0 + o] : 0;
+      if (!grouped && runCount > 0 && (o === 8 || runCount + k > GROUP_SIZE)) {
+        groups.push(runStart, runCount);
+        runCount = 0;
+      }
+      if (o === 8 || k === 0) continue;
+      const small = k <= GROUP_SIZE;
+      if (small && runCount === 0) runStart = at;
+      if (small) runCount += k;
+      const q = 0.5 * h;
+      split(child++, at, at + k, depth + 1, grouped || small, cx + (o & 1 ? q : -q), cy + (o & 2 ? q : -q), cz + (o & 4 ? q : -q), q);
       at += k;
     }
   };
-  split(root, 0, n, 0, false);
+  split(root, 0, n, 0, false, 0.5 * (minX + maxX), 0.5 * (minY + maxY), 0.5 * (minZ + maxZ), half);
   const sorted: Sources = { x: new Float64Array(n), y: new Float64Array(n), z: new Float64Array(n), m: new Float64Array(n) };
   for (let s = 0; s < n; s++) {
     const i = order[s];
@@ -164,20 +189,21 @@ function room(a: Float64Array, need: number): Float64Array {
  * What a group of targets interacts with, gathered by one walk: accepted
  * cells with their moments, and the particles of leaves that had to be
  * opened. A cell is accepted when size < theta * (distance from its centre
- * of mass to the nearest point of the target box) and it does not overlap
- * the box (the second condition is a common-practice guard against targets
+ * of mass to the nearest point of the target box), its size being the longest
+ * side of the box around its particles, and when its cube around that box does
+ * not overlap the target box (the second condition is a common-practice guard against targets
  * inside large, lopsided cells). Sharing the walk among a group's particles is
  * the grouping of Barnes (1990); for a single point it is the 1986 criterion.
  * Accepted cells act through monopole plus quadrupole terms of the pair
- * kernel, Newton's or Newton plus Yukawa (see cellPull).
+ * kernel, Newton's or Newton plus Yukawa (see cellPull), except cells of FEW
+ * particles or fewer, whose particles join the pair list.
  */
 class InteractionList {
   // Particles of opened leaves: summed by the pair loop.
   px = list(); py = list(); pz = list(); pm = list();
   particles = 0;
-  // Cells: centre of mass, mass, second moments, contiguous for the per-target loop.
-  cx = list(); cy = list(); cz = list(); cm = list();
-  cxx = list(); cyy = list(); czz = list(); cxy = list(); cxz = list(); cyz = list();
+  /** Cells, MOMENTS numbers each (centre of mass, mass, second moments), in the order of the cell record. */
+  cl = list();
   cellCount = 0;
   private stack = new Int32Array(8 * MAX_DEPTH + 8);
 
@@ -186,23 +212,18 @@ class InteractionList {
     if (need > this.px.length) {
       this.px = room(this.px, need); this.py = room(this.py, need); this.pz = room(this.pz, need); this.pm = room(this.pm, need);
     }
-    const k = this.particles;
-    this.px.set(sx.subarray(from, from + count), k); this.py.set(sy.subarray(from, from + count), k);
-    this.pz.set(sz.subarray(from, from + count), k); this.pm.set(sm.subarray(from, from + count), k);
+    const { px, py, pz, pm } = this;
+    for (let k = this.particles, s = from, e = from + count; s < e; s++, k++) {
+      px[k] = sx[s]; py[k] = sy[s]; pz[k] = sz[s]; pm[k] = sm[s];
+    }
     this.particles = need;
   }
 
   private pushCell(cells: Float64Array, c: number): void {
-    const k = this.cellCount++;
-    if (k === this.cx.length) {
-      const need = k + 1;
-      this.cx = room(this.cx, need); this.cy = room(this.cy, need); this.cz = room(this.cz, need); this.cm = room(this.cm, need);
-      this.cxx = room(this.cxx, need); this.cyy = room(this.cyy, need); this.czz = room(this.czz, need);
-      this.cxy = room(this.cxy, need); this.cxz = room(this.cxz, need); this.cyz = room(this.cyz, need);
-    }
-    this.cx[k] = cells[c + COM_X]; this.cy[k] = cells[c + COM_Y]; this.cz[k] = cells[c + COM_Z]; this.cm[k] = cells[c + MASS];
-    this.cxx[k] = cells[c + IXX]; this.cyy[k] = cells[c + IYY]; this.czz[k] = cells[c + IZZ];
-    this.cxy[k] = cells[c + IXY]; this.cxz[k] = cells[c + IXZ]; this.cyz[k] = cells[c + IYZ];
+    const k = MOMENTS * this.cellCount++;
+    if (k + MOMENTS > this.cl.length) this.cl = room(this.cl, k + MOMENTS);
+    const cl = this.cl;
+    for (let q = 0; q < MOMENTS; q++) cl[k + q] = cells[c + COM_X + q];
   }
 
   collect(t: Octree, theta2: number, minX: number, minY: number, minZ: number, maxX: number, maxY: number, maxZ: number): void {
@@ -224,9 +245,10 @@ class InteractionList {
       const dx = max(minX - gx, 0, gx - maxX), dy = max(minY - gy, 0, gy - maxY), dz = max(minZ - gz, 0, gz - maxZ);
       const l = node * LINK;
       if (apart && cells[c + SIZE2] < theta2 * (dx * dx + dy * dy + dz * dz)) {
-        this.pushCell(cells, c);
+        if (links[l + SLOT_COUNT] <= FEW) this.pushParticles(sx, sy, sz, sm, links[l + FIRST_SLOT], links[l + SLOT_COUNT]);
+        else this.pushCell(cells, c);
       } else if (links[l + FIRST_CHILD] < 0) {
-        this.pushParticles(sx, sy, sz, sm, links[l + LEAF_START], links[l + LEAF_COUNT]);
+        this.pushParticles(sx, sy, sz, sm, links[l + FIRST_SLOT], links[l + SLOT_COUNT]);
       } else {
         for (let q = links[l + FIRST_CHILD] + links[l + CHILD_COUNT] - 1; q >= links[l + FIRST_CHILD]; q--) stack[top++] = q;
       }
@@ -245,24 +267,24 @@ class InteractionList {
    * F''' = -e (s^3 + 6 L s^2 + 15 L^2 s + 15 L^3) / (8 L^3 s^7).
    */
   cellPull(xi: number, yi: number, zi: number, kernel: PairKernel, acc: Float64Array): void {
-    const { cx, cy, cz, cm, cxx, cyy, czz, cxy, cxz, cyz } = this;
+    const cl = this.cl, n = MOMENTS * this.cellCount;
     const eps2 = kernel.softening2_kpc2, alpha = kernel.yukawaAlpha, L = kernel.yukawaLambda_kpc;
     let sx = 0, sy = 0, sz = 0;
     if (alpha === 0) {
-      for (let k = 0, n = this.cellCount; k < n; k++) {
-        const dx = cx[k] - xi, dy = cy[k] - yi, dz = cz[k] - zi;
+      for (let k = 0; k < n; k += MOMENTS) {
+        const dx = cl[k] - xi, dy = cl[k + 1] - yi, dz = cl[k + 2] - zi, M = cl[k + 3];
         const inv = 1 / sqrt(dx * dx + dy * dy + dz * dz + eps2);
         const inv2 = inv * inv, inv3 = inv2 * inv, inv5 = inv3 * inv2;
-        const Ixx = cxx[k], Iyy = cyy[k], Izz = czz[k], Ixy = cxy[k], Ixz = cxz[k], Iyz = cyz[k];
+        const Ixx = cl[k + 4], Iyy = cl[k + 5], Izz = cl[k + 6], Ixy = cl[k + 7], Ixz = cl[k + 8], Iyz = cl[k + 9];
         const Idx = Ixx * dx + Ixy * dy + Ixz * dz, Idy = Ixy * dx + Iyy * dy + Iyz * dz, Idz = Ixz * dx + Iyz * dy + Izz * dz;
-        const radial = cm[k] * inv3 + 7.5 * (dx * Idx + dy * Idy + dz * Idz) * inv5 * inv2 - 1.5 * (Ixx + Iyy + Izz) * inv5;
+        const radial = M * inv3 + 7.5 * (dx * Idx + dy * Idy + dz * Idz) * inv5 * inv2 - 1.5 * (Ixx + Iyy + Izz) * inv5;
         const q = 3 * inv5;
         sx += radial * dx - q * Idx; sy += radial * dy - q * Idy; sz += radial * dz - q * Idz;
       }
     } else {
       const iL = 1 / L, c1 = 0.5 * iL, c2 = 0.25 * iL * iL, c3 = 0.125 * iL * iL * iL;
-      for (let k = 0, n = this.cellCount; k < n; k++) {
-        const dx = cx[k] - xi, dy = cy[k] - yi, dz = cz[k] - zi;
+      for (let k = 0; k < n; k += MOMENTS) {
+        const dx = cl[k] - xi, dy = cl[k + 1] - yi, dz = cl[k + 2] - zi, M = cl[k + 3];
         const s2 = dx * dx + dy * dy + dz * dz + eps2;
         const inv = 1 / sqrt(s2), s = s2 * inv;
         const inv2 = inv * inv, inv3 = inv2 * inv, inv5 = inv3 * inv2, inv7 = inv5 * inv2;
@@ -270,9 +292,9 @@ class InteractionList {
         const F1 = -0.5 * inv3 - e * c1 * (s + L) * inv3;
         const F2 = 0.75 * inv5 + e * c2 * (s2 + 3 * L * s + 3 * L * L) * inv5;
         const F3 = -1.875 * inv7 - e * c3 * (s2 * s + 6 * L * s2 + 15 * L * L * s + 15 * L * L * L) * inv7;
-        const Ixx = cxx[k], Iyy = cyy[k], Izz = czz[k], Ixy = cxy[k], Ixz = cxz[k], Iyz = cyz[k];
+        const Ixx = cl[k + 4], Iyy = cl[k + 5], Izz = cl[k + 6], Ixy = cl[k + 7], Ixz = cl[k + 8], Iyz = cl[k + 9];
         const Idx = Ixx * dx + Ixy * dy + Ixz * dz, Idy = Ixy * dx + Iyy * dy + Iyz * dz, Idz = Ixz * dx + Iyz * dy + Izz * dz;
-        const radial = -(2 * cm[k] * F1 + 2 * F2 * (Ixx + Iyy + Izz) + 4 * F3 * (dx * Idx + dy * Idy + dz * Idz));
+        const radial = -(2 * M * F1 + 2 * F2 * (Ixx + Iyy + Izz) + 4 * F3 * (dx * Idx + dy * Idy + dz * Idz));
         const q = 4 * F2;
         sx += radial * dx - q * Idx; sy += radial * dy - q * Idy; sz += radial * dz - q * Idz;
       }
@@ -280,24 +302,93 @@ class InteractionList {
     acc[0] += sx; acc[1] += sy; acc[2] += sz;
   }
 
+  /**
+   * The Newtonian pull of the whole list (particles, then cells, as sumPull and
+   * cellPull sum them) at two targets in one pass: each list entry is loaded
+   * once for both, and the two targets' arithmetic interleaves. Writes, still
+   * to be multiplied by G, a's pull into acc[0..2] and b's into acc[3..5].
+   */
+  newtonPullTwo(xa: number, ya: number, za: number, xb: number, yb: number, zb: number, eps2: number, acc: Float64Array): void {
+    const { px, py, pz, pm, cl } = this;
+    let ax = 0, ay = 0, az = 0, bx = 0, by = 0, bz = 0;
+    for (let j = 0, n = this.particles; j < n; j++) {
+      const sx = px[j], sy = py[j], sz = pz[j], m = pm[j];
+      const dxa = sx - xa, dya = sy - ya, dza = sz - za, dxb = sx - xb, dyb = sy - yb, dzb = sz - zb;
+      const ra = dxa * dxa + dya * dya + dza * dza, rb = dxb * dxb + dyb * dyb + dzb * dzb;
+      // A particle does not act on itself.
+      if (ra !== 0) {
+        const inv = 1 / sqrt(ra + eps2), f = m * inv * inv * inv;
+        ax += f * dxa; ay += f * dya; az += f * dza;
+      }
+      if (rb !== 0) {
+        const inv = 1 / sqrt(rb + eps2), f = m * inv * inv * inv;
+        bx += f * dxb; by += f * dyb; bz += f * dzb;
+      }
+    }
+    let cax = 0, cay = 0, caz = 0, cbx = 0, cby = 0, cbz = 0;
+    for (let k = 0, n = MOMENTS * this.cellCount; k < n; k += MOMENTS) {
+      const gx = cl[k], gy = cl[k + 1], gz = cl[k + 2], M = cl[k + 3];
+      const Ixx = cl[k + 4], Iyy = cl[k + 5], Izz = cl[k + 6], Ixy = cl[k + 7], Ixz = cl[k + 8], Iyz = cl[k + 9];
+      const tr = 1.5 * (Ixx + Iyy + Izz);
+      const dxa = gx - xa, dya = gy - ya, dza = gz - za, dxb = gx - xb, dyb = gy - yb, dzb = gz - zb;
+      const ia = 1 / sqrt(dxa * dxa + dya * dya + dza * dza + eps2), ib = 1 / sqrt(dxb * dxb + dyb * dyb + dzb * dzb + eps2);
+      const ia2 = ia * ia, ia3 = ia2 * ia, ia5 = ia3 * ia2, ib2 = ib * ib, ib3 = ib2 * ib, ib5 = ib3 * ib2;
+      const Ixa = Ixx * dxa + Ixy * dya + Ixz * dza, Iya = Ixy * dxa + Iyy * dya + Iyz * dza, Iza = Ixz * dxa + Iyz * dya + Izz * dza;
+      const Ixb = Ixx * dxb + Ixy * dyb + Ixz * dzb, Iyb = Ixy * dxb + Iyy * dyb + Iyz * dzb, Izb = Ixz * dxb + Iyz * dyb + Izz * dzb;
+      const ra = M * ia3 + 7.5 * (dxa * Ixa + dya * Iya + dza * Iza) * ia5 * ia2 - tr * ia5, qa = 3 * ia5;
+      const rb = M * ib3 + 7.5 * (dxb * Ixb + dyb * Iyb + dzb * Izb) * ib5 * ib2 - tr * ib5, qb = 3 * ib5;
+      cax += ra * dxa - qa * Ixa; cay += ra * dya - qa * Iya; caz += ra * dza - qa * Iza;
+      cbx += rb * dxb - qb * Ixb; cby += rb * dyb - qb * Iyb; cbz += rb * dzb - qb * Izb;
+    }
+    acc[0] = ax + cax; acc[1] = ay + cay; acc[2] = az + caz;
+    acc[3] = bx + cbx; acc[4] = by + cby; acc[5] = bz + cbz;
+  }
+
+  /** The Newtonian sum of the whole list (as sumPotential and cellPotential add it) at two targets in one pass; a's into acc[0], b's into acc[1]. */
+  newtonPotentialTwo(xa: number, ya: number, za: number, xb: number, yb: number, zb: number, eps2: number, acc: Float64Array): void {
+    const { px, py, pz, pm, cl } = this;
+    let pa = 0, pb = 0;
+    for (let j = 0, n = this.particles; j < n; j++) {
+      const sx = px[j], sy = py[j], sz = pz[j];
+      const dxa = sx - xa, dya = sy - ya, dza = sz - za, dxb = sx - xb, dyb = sy - yb, dzb = sz - zb;
+      const ra = dxa * dxa + dya * dya + dza * dza, rb = dxb * dxb + dyb * dyb + dzb * dzb;
+      if (ra !== 0) pa += pm[j] / sqrt(ra + eps2);
+      if (rb !== 0) pb += pm[j] / sqrt(rb + eps2);
+    }
+    let ca = 0, cb = 0;
+    for (let k = 0, n = MOMENTS * this.cellCount; k < n; k += MOMENTS) {
+      const gx = cl[k], gy = cl[k + 1], gz = cl[k + 2], M = cl[k + 3];
+      const Ixx = cl[k + 4], Iyy = cl[k + 5], Izz = cl[k + 6], Ixy = cl[k + 7], Ixz = cl[k + 8], Iyz = cl[k + 9];
+      const tr = Ixx + Iyy + Izz;
+      const dxa = gx - xa, dya = gy - ya, dza = gz - za, dxb = gx - xb, dyb = gy - yb, dzb = gz - zb;
+      const ia = 1 / sqrt(dxa * dxa + dya * dya + dza * dza + eps2), ib = 1 / sqrt(dxb * dxb + dyb * dyb + dzb * dzb + eps2);
+      const ia2 = ia * ia, ia3 = ia2 * ia, ib2 = ib * ib, ib3 = ib2 * ib;
+      const dIa = dxa * (Ixx * dxa + Ixy * dya + Ixz * dza) + dya * (Ixy * dxa + Iyy * dya + Iyz * dza) + dza * (Ixz * dxa + Iyz * dya + Izz * dza);
+      const dIb = dxb * (Ixx * dxb + Ixy * dyb + Ixz * dzb) + dyb * (Ixy * dxb + Iyy * dyb + Iyz * dzb) + dzb * (Ixz * dxb + Iyz * dyb + Izz * dzb);
+      ca += M * ia + 1.5 * dIa * ia3 * ia2 - 0.5 * tr * ia3;
+      cb += M * ib + 1.5 * dIb * ib3 * ib2 - 0.5 * tr * ib3;
+    }
+    acc[0] = pa + ca; acc[1] = pb + cb;
+  }
+
   /** The expansion above summed over the gathered cells; the potential is -G times it. */
   cellPotential(xi: number, yi: number, zi: number, kernel: PairKernel): number {
-    const { cx, cy, cz, cm, cxx, cyy, czz, cxy, cxz, cyz } = this;
+    const cl = this.cl, n = MOMENTS * this.cellCount;
     const eps2 = kernel.softening2_kpc2, alpha = kernel.yukawaAlpha, L = kernel.yukawaLambda_kpc;
     let sp = 0;
     if (alpha === 0) {
-      for (let k = 0, n = this.cellCount; k < n; k++) {
-        const dx = cx[k] - xi, dy = cy[k] - yi, dz = cz[k] - zi;
+      for (let k = 0; k < n; k += MOMENTS) {
+        const dx = cl[k] - xi, dy = cl[k + 1] - yi, dz = cl[k + 2] - zi, M = cl[k + 3];
         const inv = 1 / sqrt(dx * dx + dy * dy + dz * dz + eps2);
         const inv2 = inv * inv, inv3 = inv2 * inv;
-        const Ixx = cxx[k], Iyy = cyy[k], Izz = czz[k], Ixy = cxy[k], Ixz = cxz[k], Iyz = cyz[k];
+        const Ixx = cl[k + 4], Iyy = cl[k + 5], Izz = cl[k + 6], Ixy = cl[k + 7], Ixz = cl[k + 8], Iyz = cl[k + 9];
         const dId = dx * (Ixx * dx + Ixy * dy + Ixz * dz) + dy * (Ixy * dx + Iyy * dy + Iyz * dz) + dz * (Ixz * dx + Iyz * dy + Izz * dz);
-        sp += cm[k] * inv + 1.5 * dId * inv3 * inv2 - 0.5 * (Ixx + Iyy + Izz) * inv3;
+        sp += M * inv + 1.5 * dId * inv3 * inv2 - 0.5 * (Ixx + Iyy + Izz) * inv3;
       }
     } else {
       const iL = 1 / L, c1 = 0.5 * iL, c2 = 0.25 * iL * iL;
-      for (let k = 0, n = this.cellCount; k < n; k++) {
-        const dx = cx[k] - xi, dy = cy[k] - yi, dz = cz[k] - zi;
+      for (let k = 0; k < n; k += MOMENTS) {
+        const dx = cl[k] - xi, dy = cl[k + 1] - yi, dz = cl[k + 2] - zi, M = cl[k + 3];
         const s2 = dx * dx + dy * dy + dz * dz + eps2;
         const inv = 1 / sqrt(s2), s = s2 * inv;
         const inv2 = inv * inv, inv3 = inv2 * inv, inv5 = inv3 * inv2;
@@ -305,30 +396,37 @@ class InteractionList {
         const F0 = inv + e * inv;
         const F1 = -0.5 * inv3 - e * c1 * (s + L) * inv3;
         const F2 = 0.75 * inv5 + e * c2 * (s2 + 3 * L * s + 3 * L * L) * inv5;
-        const Ixx = cxx[k], Iyy = cyy[k], Izz = czz[k], Ixy = cxy[k], Ixz = cxz[k], Iyz = cyz[k];
+        const Ixx = cl[k + 4], Iyy = cl[k + 5], Izz = cl[k + 6], Ixy = cl[k + 7], Ixz = cl[k + 8], Iyz = cl[k + 9];
         const dId = dx * (Ixx * dx + Ixy * dy + Ixz * dz) + dy * (Ixy * dx + Iyy * dy + Iyz * dz) + dz * (Ixz * dx + Iyz * dy + Izz * dz);
-        sp += cm[k] * F0 + F1 * (Ixx + Iyy + Izz) + 2 * F2 * dId;
+        sp += M * F0 + F1 * (Ixx + Iyy + Izz) + 2 * F2 * dId;
       }
     }
     return sp;
   }
 }
 
+/**
+ * One list per thread, kept between walks so a split walk's many small ranges
+ * don't each grow a new one (walks never nest, so sharing it is safe).
+ */
+const reusedList = new InteractionList();
+
 /** Target groups of a self-field (see Octree.groups): how many there are. */
 export const treeGroups = (t: Octree): number => t.groups.length / 2;
 
 /**
- * Calls `each(targetIndex, list)` for every target a range of the work
- * covers. Self-fields (targets are the sources) walk once per group, over
+ * Calls `each(list, ids, from, to)` for every walk a range of the work needs:
+ * targets ids[from..to-1] (or from..to-1 themselves when ids is null) share
+ * the list. Self-fields (targets are the sources) walk once per group, over
  * groups iStart..iEnd-1; other targets (probes) walk one by one over
  * iStart..iEnd. Either way each target's list depends only on the tree and
  * its group, so splitting ranges across threads gives identical results.
  */
-function forEachTarget(
+function forEachWalk(
   tree: Octree, sources: Sources, targets: Points, theta: number, iStart: number, iEnd: number,
-  each: (i: number, list: InteractionList) => void,
+  each: (list: InteractionList, ids: Uint32Array | null, from: number, to: number) => void,
 ): void {
-  const list = new InteractionList();
+  const list = reusedList;
   const theta2 = theta * theta;
   if (targets === sources) {
     const { order, groups } = tree;
@@ -342,13 +440,13 @@ function forEachTarget(
         minZ = min(minZ, z[q]); maxZ = max(maxZ, z[q]);
       }
       list.collect(tree, theta2, minX, minY, minZ, maxX, maxY, maxZ);
-      for (let q = s; q < e; q++) each(order[q], list);
+      each(list, order, s, e);
     }
   } else {
     for (let i = iStart; i < iEnd; i++) {
       const xi = targets.x[i], yi = targets.y[i], zi = targets.z[i];
       list.collect(tree, theta2, xi, yi, zi, xi, yi, zi);
-      each(i, list);
+      each(list, null, i, i + 1);
     }
   }
 }
@@ -361,22 +459,47 @@ export const treeWorkUnits = (tree: Octree, sources: Sources, targets: Points): 
 export function treeFieldRange(
   tree: Octree, sources: Sources, targets: Points, kernel: PairKernel, theta: number, iStart: number, iEnd: number, out: Accelerations,
 ): void {
-  const acc = new Float64Array(3);
-  forEachTarget(tree, sources, targets, theta, iStart, iEnd, (i, list) => {
-    const xi = targets.x[i], yi = targets.y[i], zi = targets.z[i];
-    acc[0] = 0; acc[1] = 0; acc[2] = 0;
-    sumPull(list.px, list.py, list.pz, list.pm, list.particles, xi, yi, zi, kernel, acc);
-    list.cellPull(xi, yi, zi, kernel, acc);
-    out.ax[i] = G * acc[0]; out.ay[i] = G * acc[1]; out.az[i] = G * acc[2];
+  const acc = new Float64Array(6);
+  const { x, y, z } = targets;
+  const newton = kernel.yukawaAlpha === 0;
+  forEachWalk(tree, sources, targets, theta, iStart, iEnd, (list, ids, from, to) => {
+    let q = from;
+    // Newtonian targets two at a time: one pass over the list serves both.
+    for (; newton && q + 1 < to; q += 2) {
+      const i = ids ? ids[q] : q, j = ids ? ids[q + 1] : q + 1;
+      list.newtonPullTwo(x[i], y[i], z[i], x[j], y[j], z[j], kernel.softening2_kpc2, acc);
+      out.ax[i] = G * acc[0]; out.ay[i] = G * acc[1]; out.az[i] = G * acc[2];
+      out.ax[j] = G * acc[3]; out.ay[j] = G * acc[4]; out.az[j] = G * acc[5];
+    }
+    for (; q < to; q++) {
+      const i = ids ? ids[q] : q;
+      const xi = x[i], yi = y[i], zi = z[i];
+      acc[0] = 0; acc[1] = 0; acc[2] = 0;
+      sumPull(list.px, list.py, list.pz, list.pm, list.particles, xi, yi, zi, kernel, acc);
+      list.cellPull(xi, yi, zi, kernel, acc);
+      out.ax[i] = G * acc[0]; out.ay[i] = G * acc[1]; out.az[i] = G * acc[2];
+    }
   });
 }
 
 export function treePotentialRange(
   tree: Octree, sources: Sources, targets: Points, kernel: PairKernel, theta: number, iStart: number, iEnd: number, out: Float64Array,
 ): void {
-  forEachTarget(tree, sources, targets, theta, iStart, iEnd, (i, list) => {
-    const xi = targets.x[i], yi = targets.y[i], zi = targets.z[i];
-    out[i] = -G * (sumPotential(list.px, list.py, list.pz, list.pm, list.particles, xi, yi, zi, kernel) + list.cellPotential(xi, yi, zi, kernel));
+  const { x, y, z } = targets;
+  const acc = new Float64Array(2);
+  const newton = kernel.yukawaAlpha === 0;
+  forEachWalk(tree, sources, targets, theta, iStart, iEnd, (list, ids, from, to) => {
+    let q = from;
+    for (; newton && q + 1 < to; q += 2) {
+      const i = ids ? ids[q] : q, j = ids ? ids[q + 1] : q + 1;
+      list.newtonPotentialTwo(x[i], y[i], z[i], x[j], y[j], z[j], kernel.softening2_kpc2, acc);
+      out[i] = -G * acc[0]; out[j] = -G * acc[1];
+    }
+    for (; q < to; q++) {
+      const i = ids ? ids[q] : q;
+      const xi = x[i], yi = y[i], zi = z[i];
+      out[i] = -G * (sumPotential(list.px, list.py, list.pz, list.pm, list.particles, xi, yi, zi, kernel) + list.cellPotential(xi, yi, zi, kernel));
+    }
   });
 }
 
