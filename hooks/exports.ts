@@ -33,7 +33,7 @@ export function diagnosticsCsv(out: RunOutputView): string {
   ];
   const xyz = (v: { x: number; y: number; z: number } | null) => (v ? [v.x, v.y, v.z] : [null, null, null]);
   // The same on every row, so a row read alone still says what the run started from (empty for runs stored before it was recorded).
-  const eq = (out.summary as { equilibrium?: EquilibriumRecord }).equilibrium;
+  const eq = (out.summary as { equilibrium?: EquilibriumRecord } | undefined)?.equilibrium;
   const balanced = eq ? eq.balancedFor.map((b) => `${b.system}: ${b.label}`).join('; ') || 'uploaded velocities' : null;
   const own = eq?.ownLaw == null ? null : String(eq.ownLaw);
   const rows = c.step.map((_, i) =>

@@ -43,7 +43,8 @@ test('the diagnostics CSV carries the centre series, empty for runs stored witho
   const full = { ...row(1), kineticEnergy: 1, potentialEnergy: null, totalEnergy: null, energyDrift: null, momentumDrift: 0, angularMomentumDrift: 0, virialRatio: null, clausiusVirialRatio: 1, lagrangianRadii_kpc: { r10: 1, r50: 2, r90: 3 } };
   const csv = diagnosticsCsv({ diagnostics: [full, { ...full, centreOfMass: undefined, centreOfMassVelocity: undefined, densityCentre: undefined }] } as unknown as RunOutputView);
   const [header, first, second] = csv.trim().split('\n').map((l) => l.split(','));
-  expect(header.slice(-9)).toEqual(['cm_x_kpc', 'cm_y_kpc', 'cm_z_kpc', 'cm_vx_km_s', 'cm_vy_km_s', 'cm_vz_km_s', 'density_centre_x_kpc', 'density_centre_y_kpc', 'density_centre_z_kpc']);
-  expect(first.slice(-9).map(Number)).toEqual([0.030677, 0, 0, 3, 0, 0, 0, 0, 0]);
-  expect(second.slice(-9)).toEqual(['', '', '', '', '', '', '', '', '']);
+  // The centre columns, then the two equilibrium columns (empty here: no summary).
+  expect(header.slice(-11, -2)).toEqual(['cm_x_kpc', 'cm_y_kpc', 'cm_z_kpc', 'cm_vx_km_s', 'cm_vy_km_s', 'cm_vz_km_s', 'density_centre_x_kpc', 'density_centre_y_kpc', 'density_centre_z_kpc']);
+  expect(first.slice(-11, -2).map(Number)).toEqual([0.030677, 0, 0, 3, 0, 0, 0, 0, 0]);
+  expect(second.slice(-11, -2)).toEqual(['', '', '', '', '', '', '', '', '']);
 });

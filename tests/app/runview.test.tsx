@@ -79,7 +79,7 @@ test('a running run follows its event stream, then shows its results when it end
 
 test('a page opened mid-run plots the drift from t = 0: the stored samples first, then the live ones', async () => {
   mockApi({
-    'GET /api/auth/me': { body: { user: { ...owner, role: 'researcher', email: null }, csrfToken: 't' } },
+    'GET /api/auth/session': { body: { user: { ...owner, role: 'researcher', email: null }, csrfToken: 't' } },
     [`GET /api/runs/${ID}`]: { body: { ...summary, status: 'running', progress: 0.3, spec, output: null } },
   });
   const { view } = render(<RunView id={ID} />);
@@ -131,9 +131,9 @@ test('cancelling asks twice, then posts with the CSRF token', async () => {
 
 test('a finished run of mine can be carried on by more time, posted with the CSRF token', async () => {
   const calls = mockApi({
-    'GET /api/auth/me': { body: { user: { ...owner, role: 'researcher', email: null }, csrfToken: 'tok-2' } },
+    'GET /api/auth/session': { body: { user: { ...owner, role: 'researcher', email: null }, csrfToken: 'tok-2' } },
     [`GET /api/runs/${ID}`]: { body: { ...summary, status: 'finished', progress: 1, spec, output: finishedOutput() } },
-    [`GET /api/runs/${ID}/snapshots`]: { bytes: snapshots },
+    [`GET /api/runs/${ID}/snapshots?format=2`]: { bytes: snapshots },
     [`POST /api/runs/${ID}/extend`]: { status: 202, body: { ...summary, steps: 30, status: 'queued', progress: 20 / 30 } },
   });
   const { view } = render(<RunView id={ID} />);
