@@ -7,6 +7,9 @@ import { RunPool, SPLIT_MIN_PARTICLES } from '../../worker/pool';
 import type { RunResult } from '../../shared/engine';
 import { plummerRun } from './specs';
 
+/** Spec fields the timed run takes beyond the bench's Plummer sphere, such as another law. */
+type RunExtra = Parameters<typeof plummerRun>[2];
+
 export interface ThreadFigures {
   n: number;
   steps: number;
@@ -48,16 +51,16 @@ async function machineSpeedup(threads: number, iterations: number): Promise<numb
   return (threads * one) / (performance.now() - t);
 }
 
-async function warmUp(pool: RunPool, n: number): Promise<void> {
+async function warmUp(pool: RunPool, n: number, extra: RunExtra): Promise<void> {
   // A short split run first, so thread start-up and module loading stay out of the timing.
-  const warm = pool.start(plummerRun(Math.max(n, SPLIT_MIN_PARTICLES), 2), () => undefined);
+  const warm = pool.start(plummerRun(Math.max(n, SPLIT_MIN_PARTICLES), 2, extra), () => undefined);
   await warm.result;
   await warm.helped;
 }
 
-async function timedRun(pool: RunPool, n: number, steps: number): Promise<{ seconds: number; result: RunResult; helped: number }> {
+async function timedRun(pool: RunPool, n: number, steps: number, extra: RunExtra): Promise<{ seconds: number; result: RunResult; helped: number }> {
   const t = performance.now();
-  const handle = pool.start(plummerRun(n, steps), () => undefined);
+  const handle = pool.start(plummerRun(n, steps, extra), () => undefined);
   const result = await handle.result;
   const seconds = (performance.now() - t) / 1000;
   return { seconds, result, helped: await handle.helped };
@@ -69,18 +72,18 @@ function sameResults(a: RunResult, b: RunResult): boolean {
   return JSON.stringify(frames(a)) === JSON.stringify(frames(b)) && JSON.stringify(energies(a)) === JSON.stringify(energies(b));
 }
 
-export async function benchThreads({ n = 6_000, steps = 40, threads = 2, spinIterations = 2e8, repeats = 3 } = {}): Promise<ThreadFigures> {
+export async function benchThreads({ n = 6_000, steps = 40, threads = 2, spinIterations = 2e8, repeats = 3, extra = {} as RunExtra } = {}): Promise<ThreadFigures> {
   const capacity = await machineSpeedup(threads, spinIterations);
   const single = new RunPool(1);
   const split = new RunPool(threads);
   try {
-    await warmUp(single, n);
-    await warmUp(split, n);
+    await warmUp(single, n, extra);
+    await warmUp(split, n, extra);
     type Timed = Awaited<ReturnType<typeof timedRun>>;
     const ones: Timed[] = [], manys: Timed[] = [];
     for (let r = 0; r < repeats; r++) {
-      ones.push(await timedRun(single, n, steps));
-      manys.push(await timedRun(split, n, steps));
+      ones.push(await timedRun(single, n, steps, extra));
+      manys.push(await timedRun(split, n, steps, extra));
     }
     const singleSeconds = Math.min(...ones.map((o) => o.seconds));
     const splitSeconds = Math.min(...manys.map((m) => m.seconds));

@@ -15,7 +15,7 @@ const { hypot, log10, sqrt } = Math;
 
 const fieldComponent = z.number().min(-1e-8).max(1e-8);
 
-/** Node counts per side the grid offers: powers of two (the FFT needs them); 256 would need about 1.6 GB. */
+/** Node counts per side the grid offers: powers of two (the FFT needs them); 256 would hold 1.9 GB per run (README, field form). */
 export const QUMOND_GRID_SIZES = [32, 64, 128] as const;
 
 const schema = z
