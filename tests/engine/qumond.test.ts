@@ -135,6 +135,21 @@ describe('QUMOND on a grid', () => {
     expect(zero).toEqual(none);
   });
 
+  test('probes at the particles feel what the particles feel (same phantom part and the same net-force removal, to 1e-12)', () => {
+    const p = buildInitialConditions(specWith({ model: { kind: 'plummer', n: 300, mass_Msun: 1e9, scale_kpc: 1 } })).particles;
+    const sources: Sources = { x: p.x, y: p.y, z: p.z, m: p.m };
+    const law = createLaw(qumond({ grid: 32 }), { solver: directSolver, softening_kpc: 0.05 });
+    const own = allocateAccelerations(300), probed = allocateAccelerations(300);
+    law.accelerations(sources, sources, own);
+    law.accelerations(sources, { x: p.x.slice(), y: p.y.slice(), z: p.z.slice() }, probed);
+    let worst = 0, scale = 0;
+    for (let i = 0; i < 300; i++) {
+      scale = Math.max(scale, Math.hypot(own.ax[i], own.ay[i], own.az[i]));
+      worst = Math.max(worst, Math.hypot(own.ax[i] - probed.ax[i], own.ay[i] - probed.ay[i], own.az[i] - probed.az[i]));
+    }
+    expect(worst / scale).toBeLessThan(1e-12);
+  });
+
   test('phantom energy density P(y) = Q(y^2) - y^2 matches the closed form for the simple nu (to 1e-8 relative)', () => {
     // For nu = 1/2 + sqrt(1/4 + 1/y): P = -y^2/2 + integral_0^y sqrt(s^2 + 4 s) ds, and with u = s + 2,
     // integral sqrt(u^2 - 4) du = u sqrt(u^2 - 4) / 2 - 2 ln(u + sqrt(u^2 - 4)).
