@@ -1,6 +1,6 @@
 import { z } from 'zod';
 import type { RotationCurve } from '../galaxy/table';
-import { FIT_LAWS, type GalaxyFitReport } from '../galaxy/fit';
+import { FIT_LAWS, type GalaxyFitReport, type SampleFitReport } from '../galaxy/fit';
 import type { Owner } from './contract';
 import type { UploadLimits } from './accounts';
 
@@ -107,6 +107,37 @@ export const galaxyFitRequestSchema = z
   })
   .strict();
 export type GalaxyFitRequest = z.infer<typeof galaxyFitRequestSchema>;
+
+/** A sample fit takes at most this many galaxies and points in all (our choice: one fit thread for at most a minute). */
+export const SAMPLE_MAX_GALAXIES = 12;
+export const SAMPLE_MAX_POINTS = 600;
+
+/** POST /api/galaxy-samples: the galaxies (each one the caller may see) and the laws, as for one galaxy. */
+export const galaxySampleRequestSchema = galaxyFitRequestSchema.extend({
+  galaxyIds: z
+    .array(z.number('a galaxy id is a number').int('a galaxy id is a whole number').positive('a galaxy id is positive'), 'galaxyIds must be a list of galaxy ids')
+    .min(2, 'choose at least two galaxies')
+    .max(SAMPLE_MAX_GALAXIES, `a sample has at most ${SAMPLE_MAX_GALAXIES} galaxies`)
+    .refine((ids) => new Set(ids).size === ids.length, 'each galaxy once'),
+});
+export type GalaxySampleRequest = z.infer<typeof galaxySampleRequestSchema>;
+
+export interface GalaxySampleRecord {
+  id: number;
+  request: GalaxySampleRequest;
+  /** The galaxies as they were named when fitted, in the order of the request. */
+  galaxies: { id: number; name: string }[];
+  results: SampleFitReport;
+  requestedBy: Owner;
+  createdAt: string;
+}
+
+export interface GalaxySampleSummary {
+  id: number;
+  galaxies: { id: number; name: string }[];
+  laws: GalaxySampleRequest['laws'];
+  createdAt: string;
+}
 
 export interface GalaxySummary {
   id: number;
