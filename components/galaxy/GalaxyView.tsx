@@ -18,7 +18,7 @@ import { describeError, ErrorState, Loading, Notice } from '../States';
 import { Txt } from '../Txt';
 import { componentSeries, dataSeries, FIT_LOOKS, FIT_VALIDITY, otherFitSeries, rarSeries, residualSeries } from './series';
 
-const LAW_WORDS: Record<FitLaw, string> = {
+export const LAW_WORDS: Record<FitLaw, string> = {
   nfw: 'NFW halo',
   isothermal: 'cored halo',
   'mond-simple': 'MOND simple',
@@ -51,7 +51,7 @@ function FitForm({ galaxy }: { galaxy: GalaxyDetail }) {
   );
 }
 
-function paramText(p: LawFit['params'][number]): string {
+export function paramText(p: LawFit['params'][number]): string {
   const err = p.error === null ? '' : ` ± ${formatValue(p.error, 2)}`;
   return `${p.name} = ${formatValue(p.value)}${err}${p.unit ? ` ${p.unit}` : ''}${p.atBound ? ' (at its bound)' : ''}`;
 }
