@@ -38,7 +38,7 @@ export function createApp(deps: Deps, opts: { webDir?: string; logger?: Logger }
   api.use('/health', healthRouter(deps));
   api.use('/runs', runsRouter(deps));
   api.use('/runs', exportsRouter());
-  api.use('/galaxies', galaxiesRouter());
+  api.use('/galaxies', galaxiesRouter(deps));
   api.use('/galaxy-samples', galaxySamplesRouter());
   api.use('/particle-tables', particleTablesRouter());
   api.use(notFoundHandler);

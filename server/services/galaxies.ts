@@ -12,6 +12,8 @@ import {
   FIT_MAX_POINTS,
   galaxyFitRequestSchema,
   galaxySampleRequestSchema,
+  galaxyRunRequestSchema,
+  GALAXY_PAIR_LAW,
   SAMPLE_MAX_POINTS,
   type GalaxySampleRecord,
   type GalaxySampleSummary,
@@ -24,6 +26,11 @@ import {
   type GalaxyVisibility,
 } from '../../shared/api/galaxies';
 import { uploadLimits } from './quotas';
+import type { Queue } from 'bullmq';
+import type { RunJobData } from '../queue';
+import type { RunSummary } from '../../shared/api/contract';
+import { galaxyRunSpec, HALO_FITS, type HaloFit } from '../../shared/galaxy/toRun';
+import { submitRuns } from './runs';
 
 // Who may see a galaxy: its owner and admins always; a cohort galaxy also the cohort's
 // members and instructor; a public one everyone signed in. Only owner and admins change it.
@@ -238,6 +245,28 @@ export async function sampleFit(em: EntityManager, user: User, rawId: string): P
   const r = await em.findOne(GalaxySample, { id, ...sampleFilter(user) }, { populate: ['requestedBy'] });
   if (!r) throw new ApiError('NOT_FOUND', `No sample fit ${rawId}`);
   return { id: r.id, request: r.request, galaxies: r.galaxies, results: r.results, requestedBy: owner(r.requestedBy as User), createdAt: r.createdAt.toISOString() };
+}
+
+/**
+ * A pair of runs from one of the galaxy's Newtonian fits: the fitted baryons as a disk galaxy
+ * under Newton + the fitted halo, and the same particles' positions under the pair law, through
+ * the run service (spec limits, quota and queue as for any run). The runs remember the galaxy.
+ */
+export async function runsFromGalaxy(em: EntityManager, queue: Queue<RunJobData>, user: User, g: Galaxy, body: unknown): Promise<RunSummary[]> {
+  const { fitId, halo, pairLaw, ...choices } = parseInput(galaxyRunRequestSchema, body);
+  const fits = await em.find(GalaxyFit, fitId === undefined ? { galaxy: g.id } : { galaxy: g.id, id: fitId }, { orderBy: { createdAt: 'desc', id: 'desc' }, limit: FITS_KEPT });
+  if (fitId !== undefined && !fits.length) throw new ApiError('NOT_FOUND', `No fit ${fitId} of this galaxy`, { field: 'fitId' });
+  const wanted: readonly HaloFit[] = halo ? [halo] : HALO_FITS;
+  const record = fits.find((f) => f.results.laws.some((l) => (wanted as readonly string[]).includes(l.law)));
+  if (!record) throw new ApiError('BAD_REQUEST', `${fitId === undefined ? 'This galaxy has no fit' : `Fit ${fitId} has no fit`} under ${wanted.join(' or ')}; fit it under a Newtonian halo first`, { field: fitId === undefined ? 'halo' : 'fitId' });
+  const fit = record.results.laws.filter((l) => (wanted as readonly string[]).includes(l.law)).reduce((a, b) => (b.bic < a.bic ? b : a));
+  let built;
+  try {
+    built = galaxyRunSpec(fit, { ...choices, name: `${g.name} from its ${fit.law} fit` });
+  } catch (err) {
+    throw new ApiError('BAD_REQUEST', `This fit cannot start a run: ${err instanceof Error ? err.message : String(err)}`);
+  }
+  return submitRuns(em, queue, user, { spec: built.spec, pairLaw: pairLaw ?? GALAXY_PAIR_LAW }, { galaxy: g.id });
 }
 
 /** Fits at once across the server; more wait for a minute rather than crowd the machine. */
