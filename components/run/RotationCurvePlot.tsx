@@ -31,7 +31,7 @@ export function RotationCurvePlot({ runs, atFrame }: { runs: PlottedRun[]; atFra
   // A run built from a galaxy shows that galaxy's observed curve, when the viewer may see the galaxy.
   const galaxy = useGalaxy(runs.find((r) => r.galaxyId)?.galaxyId ?? 0).data;
   const observed: PlotSeries[] = galaxy
-    ? [{ id: 'observed', label: `${galaxy.name}, observed`, color: colors.text, x: galaxy.curve.radiusKpc, y: galaxy.curve.vObs, yError: galaxy.curve.vErr, pointsOnly: true, mark: 'circle', group: GROUPS.observed }]
+    ? [{ id: 'observed', label: 'observed', color: colors.text, x: galaxy.curve.radiusKpc, y: galaxy.curve.vObs, yError: galaxy.curve.vErr, pointsOnly: true, mark: 'circle', group: GROUPS.observed }]
     : [];
   // Each kind of curve has its own group, line and mark, so they are told apart without colour.
   const forces: PlotSeries[] = [];
@@ -83,8 +83,9 @@ export function RotationCurvePlot({ runs, atFrame }: { runs: PlottedRun[]; atFra
       ? `At t = ${formatValue(t)} Myr, from the law's field of the stored particles.`
       : `Measured about the density centre at t = ${formatValue(t)} Myr, from particles within one bin width of its plane (all, and each component on its own); analytic curves are the initial mass model under each law.`;
   const hiddenCount = series.filter((s) => s.hidden).length;
+  const source = galaxy ? ` Observed points: ${galaxy.name}, with 1σ error bars.` : '';
   return (
-    <Panel title="Rotation curve" note={note} right={<ChoiceChips compact value={when} onChange={setChoice} choices={choices} />}>
+    <Panel title="Rotation curve" note={note + source} right={<ChoiceChips compact value={when} onChange={setChoice} choices={choices} />}>
       {hiddenCount ? <Txt variant="caption">{`${hiddenCount} of ${series.length} curves start hidden; press a legend entry to show or hide its curve.`}</Txt> : null}
       <LinePlot series={series} xLabel="radius R [kpc]" yLabel="speed [km/s]" yFromZero accessibilityLabel={`Rotation curves ${when === 'now' ? `at t = ${formatValue(t)} Myr` : `at the ${when === 'initial' ? 'start' : 'end'} of the run`}`} testID="plot-rotation" />
     </Panel>

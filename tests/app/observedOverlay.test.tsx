@@ -25,7 +25,8 @@ test('the observed curve with error bars is overlaid at the snapshot on screen a
   await settle();
   expect(calls.map((c) => c.path)).toEqual(['/api/galaxies/5']);
   expect(view.getByRole('group', { name: 'observed galaxy (±1σ)' })).toBeTruthy();
-  const entry = view.getByRole('button', { name: 'Invented spiral, observed, points with round marks with error bars' });
+  const entry = view.getByRole('button', { name: 'observed, points with round marks with error bars' });
+  expect(view.getByText(/Observed points: Invented spiral, with 1σ error bars\./)).toBeTruthy();
   expect(entry.getAttribute('aria-pressed')).toBe('true');
   expect(barsOf(container)).toHaveLength(1);
   // Three points: three vertical bars, each 2 sigma tall on the plot (caps at v ± error).
