@@ -1,6 +1,6 @@
 import { useMutation, useQueries, useQuery, useQueryClient } from '@tanstack/react-query';
 import type { RunSummary } from '../shared/api/contract';
-import type { GalaxyDetail, GalaxyFitRecord, GalaxyFitRequest, GalaxyList, GalaxyRunRequest, GalaxySampleRecord, GalaxySampleRequest, GalaxyMapping, GalaxySummary, GalaxyVisibility, UpdateGalaxyBody } from '../shared/api/galaxies';
+import type { GalaxyDetail, GalaxyFitRecord, GalaxyFitRequest, GalaxyList, GalaxyRunRequest, GalaxySampleRecord, GalaxySampleRequest, GalaxySampleSummary, GalaxyMapping, GalaxySummary, GalaxyVisibility, UpdateGalaxyBody } from '../shared/api/galaxies';
 import type { ParticleTableUpload } from '../shared/api/particleTable';
 import { api } from './api';
 
@@ -39,6 +39,10 @@ export function useRunsFromGalaxy(id: number) {
   });
 }
 
+export function useSampleFits() {
+  return useQuery({ queryKey: ['galaxy-samples'], queryFn: ({ signal }) => api<{ samples: GalaxySampleSummary[] }>('/api/galaxy-samples', { signal }) });
+}
+
 export function useSampleFit(id: number) {
   return useQuery({ queryKey: ['galaxy-samples', id], enabled: id > 0, queryFn: ({ signal }) => api<GalaxySampleRecord>(`/api/galaxy-samples/${id}`, { signal }) });
 }
@@ -48,7 +52,10 @@ export function useFitSample() {
   const qc = useQueryClient();
   return useMutation({
     mutationFn: (body: GalaxySampleRequest) => api<GalaxySampleRecord>('/api/galaxy-samples', { method: 'POST', body }),
-    onSuccess: (r) => qc.setQueryData(['galaxy-samples', r.id], r),
+    onSuccess: (r) => {
+      qc.setQueryData(['galaxy-samples', r.id], r);
+      void qc.invalidateQueries({ queryKey: ['galaxy-samples'], exact: true });
+    },
   });
 }
 

@@ -11,7 +11,7 @@ import { Screen } from '../Screen';
 import { Empty, ErrorState, Loading } from '../States';
 import { Txt } from '../Txt';
 import { rarSeries } from './series';
-import { SampleFitForm } from './SampleView';
+import { SampleFitForm, SampleFitList } from './SampleView';
 
 function GalaxyCard({ g, selected, onSelect }: { g: GalaxySummary; selected: boolean; onSelect: () => void }) {
   return (
@@ -76,6 +76,7 @@ export function GalaxiesView() {
           </View>
           {selected.length ? <SelectionRar ids={selected} /> : null}
           {selected.length ? <SampleFitForm ids={selected} /> : null}
+          <SampleFitList />
         </>
       )}
     </Screen>

@@ -2,7 +2,7 @@ import { useState } from 'react';
 import { StyleSheet, View } from 'react-native';
 import { Link, useRouter } from 'expo-router';
 import { colors, space } from '../../constants/theme';
-import { useFitSample, useSampleFit } from '../../hooks/galaxies';
+import { useFitSample, useSampleFit, useSampleFits } from '../../hooks/galaxies';
 import { SAMPLE_MAX_GALAXIES, type GalaxySampleRecord } from '../../shared/api/galaxies';
 import { FIT_LAWS, type FitLaw, type SampleLawFit } from '../../shared/galaxy/fit';
 import { Button } from '../Button';
@@ -47,6 +47,23 @@ export function SampleFitForm({ ids }: { ids: number[] }) {
       {tooMany ? <Txt variant="caption">A sample has at most {SAMPLE_MAX_GALAXIES} galaxies.</Txt> : null}
       {laws.length === 0 ? <Txt variant="caption">Choose at least one law.</Txt> : null}
       {fit.isError ? <Notice tone="danger">{describeError(fit.error)}</Notice> : null}
+    </Panel>
+  );
+}
+
+/** One's own sample fits, newest first, each a link to its page; nothing shows until there is one. */
+export function SampleFitList() {
+  const samples = useSampleFits();
+  if (!samples.data?.samples.length) return null;
+  return (
+    <Panel title="Your sample fits">
+      {samples.data.samples.slice(0, 10).map((s) => (
+        <Link key={s.id} href={{ pathname: '/galaxies/samples/[id]', params: { id: String(s.id) } }}>
+          <Txt variant="small" color={colors.accent}>
+            {s.galaxies.map((g) => g.name.split(' (')[0]).join(', ')} · {s.laws.map((l) => LAW_WORDS[l]).join(', ')} · {formatAge(s.createdAt)}
+          </Txt>
+        </Link>
+      ))}
     </Panel>
   );
 }

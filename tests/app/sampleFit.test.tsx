@@ -25,9 +25,12 @@ test('ticked galaxies are fitted as one sample and its page opened', async () =>
     'GET /api/galaxies/5': { status: 404, body: { error: { code: 'NOT_FOUND', message: 'x' } } },
     'GET /api/galaxies/7': { status: 404, body: { error: { code: 'NOT_FOUND', message: 'x' } } },
     'POST /api/galaxy-samples': { status: 201, body: { id: 31 } },
+    'GET /api/galaxy-samples': { body: { samples: [{ id: 30, galaxies: [{ id: 5, name: 'Invented A (made up)' }, { id: 6, name: 'Invented B' }], laws: ['nfw', 'mond-simple'], createdAt: new Date().toISOString() }] } },
   });
   const { view } = render(<GalaxiesView />);
   await settle();
+  // Earlier sample fits are listed with their galaxies and laws.
+  expect(view.getByText(/^Invented A, Invented B · NFW halo, MOND simple · /)).toBeTruthy();
   press(view.getByRole('checkbox', { name: 'Add Invented A to the acceleration relation' }));
   await settle();
   expect(view.getByText('Tick at least two galaxies.')).toBeTruthy();
