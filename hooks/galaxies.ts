@@ -1,5 +1,6 @@
 import { useMutation, useQueries, useQuery, useQueryClient } from '@tanstack/react-query';
-import type { GalaxyDetail, GalaxyFitRecord, GalaxyFitRequest, GalaxyList, GalaxyMapping, GalaxySummary, GalaxyVisibility, UpdateGalaxyBody } from '../shared/api/galaxies';
+import type { RunSummary } from '../shared/api/contract';
+import type { GalaxyDetail, GalaxyFitRecord, GalaxyFitRequest, GalaxyList, GalaxyRunRequest, GalaxySampleRecord, GalaxySampleRequest, GalaxySampleSummary, GalaxyMapping, GalaxySummary, GalaxyVisibility, UpdateGalaxyBody } from '../shared/api/galaxies';
 import type { ParticleTableUpload } from '../shared/api/particleTable';
 import { api } from './api';
 
@@ -26,6 +27,35 @@ export function useFitGalaxy(id: number) {
   return useMutation({
     mutationFn: (body: GalaxyFitRequest) => api<GalaxyFitRecord>(`/api/galaxies/${id}/fits`, { method: 'POST', body }),
     onSuccess: () => void qc.invalidateQueries({ queryKey: keys.one(id) }),
+  });
+}
+
+/** A pair of runs built from the galaxy's Newtonian fit (the server builds the specs). */
+export function useRunsFromGalaxy(id: number) {
+  const qc = useQueryClient();
+  return useMutation({
+    mutationFn: (body: GalaxyRunRequest) => api<{ runs: RunSummary[] }>(`/api/galaxies/${id}/runs`, { method: 'POST', body }),
+    onSuccess: () => void qc.invalidateQueries({ queryKey: ['runs'] }),
+  });
+}
+
+export function useSampleFits() {
+  return useQuery({ queryKey: ['galaxy-samples'], queryFn: ({ signal }) => api<{ samples: GalaxySampleSummary[] }>('/api/galaxy-samples', { signal }) });
+}
+
+export function useSampleFit(id: number) {
+  return useQuery({ queryKey: ['galaxy-samples', id], enabled: id > 0, queryFn: ({ signal }) => api<GalaxySampleRecord>(`/api/galaxy-samples/${id}`, { signal }) });
+}
+
+/** One joint fit across the chosen galaxies; the answer is kept as the sample's page data. */
+export function useFitSample() {
+  const qc = useQueryClient();
+  return useMutation({
+    mutationFn: (body: GalaxySampleRequest) => api<GalaxySampleRecord>('/api/galaxy-samples', { method: 'POST', body }),
+    onSuccess: (r) => {
+      qc.setQueryData(['galaxy-samples', r.id], r);
+      void qc.invalidateQueries({ queryKey: ['galaxy-samples'], exact: true });
+    },
   });
 }
 

@@ -13,6 +13,7 @@ import { exportsRouter } from './routes/exports';
 import { securityHeaders, requestLogs, createLogger } from './http/headers';
 import type { Logger } from 'pino';
 import { galaxiesRouter } from './routes/galaxies';
+import { galaxySamplesRouter } from './routes/galaxySamples';
 import { particleTablesRouter } from './routes/particleTables';
 
 export interface Deps {
@@ -37,7 +38,8 @@ export function createApp(deps: Deps, opts: { webDir?: string; logger?: Logger }
   api.use('/health', healthRouter(deps));
   api.use('/runs', runsRouter(deps));
   api.use('/runs', exportsRouter());
-  api.use('/galaxies', galaxiesRouter());
+  api.use('/galaxies', galaxiesRouter(deps));
+  api.use('/galaxy-samples', galaxySamplesRouter());
   api.use('/particle-tables', particleTablesRouter());
   api.use(notFoundHandler);
   app.use('/api', api);

@@ -115,7 +115,7 @@ function ComparePair({ a, b }: { a: RunDetail; b: RunDetail }) {
   const specB = specOf(b);
   const specs = specA && specB ? <SpecTable columns={[{ title: labelA, color: tints[0], spec: specA }, { title: labelB, color: tints[1], spec: specB }]} /> : null;
   const sameIC = a.pairId !== null && a.pairId === b.pairId;
-  const plotted: PlottedRun[] = done ? [{ id: a.id, label: labelA, color: tints[0], out: outA }, { id: b.id, label: labelB, color: tints[1], out: outB }] : [];
+  const plotted: PlottedRun[] = done ? [{ id: a.id, label: labelA, color: tints[0], out: outA, galaxyId: a.galaxyId }, { id: b.id, label: labelB, color: tints[1], out: outB, galaxyId: b.galaxyId }] : [];
 
   return (
     <Screen wide title="Side by side" subtitle={`${a.name}  ·  ${b.name}`} actions={<Button small tone="secondary" label="Pick other runs" href="/compare" />}>

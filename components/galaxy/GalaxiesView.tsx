@@ -11,6 +11,7 @@ import { Screen } from '../Screen';
 import { Empty, ErrorState, Loading } from '../States';
 import { Txt } from '../Txt';
 import { rarSeries } from './series';
+import { SampleFitForm, SampleFitList } from './SampleView';
 
 function GalaxyCard({ g, selected, onSelect }: { g: GalaxySummary; selected: boolean; onSelect: () => void }) {
   return (
@@ -67,13 +68,15 @@ export function GalaxiesView() {
         <Empty title="No galaxies yet" hint="Import a rotation-curve table (CSV or columns of numbers) to fit it under each law." />
       ) : (
         <>
-          <Txt variant="small">Tick galaxies to see their acceleration relation together.</Txt>
+          <Txt variant="small">Tick galaxies to see their acceleration relation together, or to fit them as one sample.</Txt>
           <View role="list" style={{ gap: space.sm }}>
             {galaxies.data.galaxies.map((g) => (
               <GalaxyCard key={g.id} g={g} selected={selected.includes(g.id)} onSelect={() => flip(g.id)} />
             ))}
           </View>
           {selected.length ? <SelectionRar ids={selected} /> : null}
+          {selected.length ? <SampleFitForm ids={selected} /> : null}
+          <SampleFitList />
         </>
       )}
     </Screen>

@@ -3,7 +3,8 @@ import { StyleSheet, View } from 'react-native';
 import { useRouter } from 'expo-router';
 import { colors, space } from '../../constants/theme';
 import { useCohorts } from '../../hooks/cohorts';
-import { useDeleteGalaxy, useFitGalaxy, useGalaxy, useUpdateGalaxy } from '../../hooks/galaxies';
+import { useDeleteGalaxy, useFitGalaxy, useGalaxy, useRunsFromGalaxy, useUpdateGalaxy } from '../../hooks/galaxies';
+import { HALO_FITS } from '../../shared/galaxy/toRun';
 import { API_BASE } from '../../hooks/api';
 import { FIT_LAWS, type FitLaw, type LawFit } from '../../shared/galaxy/fit';
 import { VISIBILITY_WORDS, type GalaxyDetail, type GalaxyFitRecord, type GalaxyVisibility } from '../../shared/api/galaxies';
@@ -18,7 +19,7 @@ import { describeError, ErrorState, Loading, Notice } from '../States';
 import { Txt } from '../Txt';
 import { componentSeries, dataSeries, FIT_LOOKS, FIT_VALIDITY, otherFitSeries, rarSeries, residualSeries } from './series';
 
-const LAW_WORDS: Record<FitLaw, string> = {
+export const LAW_WORDS: Record<FitLaw, string> = {
   nfw: 'NFW halo',
   isothermal: 'cored halo',
   'mond-simple': 'MOND simple',
@@ -51,7 +52,7 @@ function FitForm({ galaxy }: { galaxy: GalaxyDetail }) {
   );
 }
 
-function paramText(p: LawFit['params'][number]): string {
+export function paramText(p: LawFit['params'][number]): string {
   const err = p.error === null ? '' : ` ± ${formatValue(p.error, 2)}`;
   return `${p.name} = ${formatValue(p.value)}${err}${p.unit ? ` ${p.unit}` : ''}${p.atBound ? ' (at its bound)' : ''}`;
 }
@@ -89,6 +90,28 @@ function FitTable({ record }: { record: GalaxyFitRecord }) {
         </Txt>
       ))}
     </View>
+  );
+}
+
+/** A pair of runs from the newest Newtonian fit: the fitted disk, bulge and halo, against field-form MOND. */
+function RunFromFit({ galaxy, record }: { galaxy: GalaxyDetail; record: GalaxyFitRecord }) {
+  const start = useRunsFromGalaxy(galaxy.id);
+  const router = useRouter();
+  const halo = record.results.laws.filter((l) => (HALO_FITS as readonly string[]).includes(l.law)).reduce<LawFit | null>((a, b) => (!a || b.bic < a.bic ? b : a), null);
+  if (!halo) return null;
+  return (
+    <Panel
+      title="Run it"
+      note="Two runs from the same particles: an exponential disk (gas folded in) and Hernquist bulge fitted to this fit's scaled baryons, under Newton with the fitted halo as a rigid field, and under field-form MOND. 1,000 particles, 250 Myr; charged to your quota."
+    >
+      <Button
+        label={`Start a pair from the ${LAW_WORDS[halo.law]} fit`}
+        busy={start.isPending}
+        onPress={() => start.mutate({ fitId: record.id, halo: halo.law as (typeof HALO_FITS)[number] }, { onSuccess: ({ runs }) => router.push({ pathname: '/compare', params: { pair: runs[0].pairId! } }) })}
+        testID="galaxy-run-pair"
+      />
+      {start.isError ? <Notice tone="danger">{describeError(start.error)}</Notice> : null}
+    </Panel>
   );
 }
 
@@ -199,6 +222,7 @@ export function GalaxyView({ id }: { id: number }) {
           <FitTable record={latest} />
         </Panel>
       ) : null}
+      {latest ? <RunFromFit galaxy={g} record={latest} /> : null}
       {g.canManage ? <Sharing galaxy={g} /> : null}
     </Screen>
   );

@@ -12,6 +12,8 @@ export interface PlottedRun {
   label: string;
   color: string;
   out: RunOutputView;
+  /** The galaxy the run was built from: its observed curve is drawn beside the run's. */
+  galaxyId?: number | null;
 }
 
 type DriftScale = 'log' | 'signed';

@@ -6,10 +6,11 @@ import { LinePlot, type PlotSeries } from '../LinePlot';
 import { Panel } from '../Panel';
 import { Txt } from '../Txt';
 import type { PlottedRun } from './DiagnosticsPlots';
+import { useGalaxy } from '../../hooks/galaxies';
 
 type When = 'now' | 'initial' | 'final';
 
-const GROUPS = { forces: 'from the law’s field (forces)', measured: 'measured from particles', analytic: 'analytic, initial mass model' };
+const GROUPS = { observed: 'observed galaxy (±1σ)', forces: 'from the law’s field (forces)', measured: 'measured from particles', analytic: 'analytic, initial mass model' };
 const MAX_SHOWN = 4;
 
 /** The curve at the snapshot on screen, per run id: circular speed from the law's field. */
@@ -27,6 +28,11 @@ export function RotationCurvePlot({ runs, atFrame }: { runs: PlottedRun[]; atFra
   const picked = choice ?? (frameReady ? 'now' : 'final');
   const when: When = picked === 'now' && !frameReady ? 'final' : picked;
   const single = runs.length === 1;
+  // A run built from a galaxy shows that galaxy's observed curve, when the viewer may see the galaxy.
+  const galaxy = useGalaxy(runs.find((r) => r.galaxyId)?.galaxyId ?? 0).data;
+  const observed: PlotSeries[] = galaxy
+    ? [{ id: 'observed', label: 'observed', color: colors.text, x: galaxy.curve.radiusKpc, y: galaxy.curve.vObs, yError: galaxy.curve.vErr, pointsOnly: true, mark: 'circle', group: GROUPS.observed }]
+    : [];
   // Each kind of curve has its own group, line and mark, so they are told apart without colour.
   const forces: PlotSeries[] = [];
   const analytic: PlotSeries[] = [];
@@ -64,8 +70,8 @@ export function RotationCurvePlot({ runs, atFrame }: { runs: PlottedRun[]; atFra
       } else if (c.law === 'newton' && !reference && !runs.some((o) => o.out.law.kind === 'newton')) reference = { ...curve, id: 'analytic-newton', label: `${c.label} (reference)`, color: colors.textFaint, mark: 'diamond' };
     }
   }
-  // At most four curves show at first: the laws' own before the particles' and the reference.
-  const byPriority = [...forces, ...analytic, ...measured, ...(reference ? [reference] : [])];
+  // At most four curves show at first: the observed galaxy and the laws' own before the particles' and the reference.
+  const byPriority = [...observed, ...forces, ...analytic, ...measured, ...(reference ? [reference] : [])];
   const series: PlotSeries[] = byPriority.map((s, k) => ({ ...s, hidden: k >= MAX_SHOWN }));
   const choices = [
     ...(frameReady ? [{ value: 'now' as const, label: 'this snapshot' }] : []),
@@ -77,8 +83,9 @@ export function RotationCurvePlot({ runs, atFrame }: { runs: PlottedRun[]; atFra
       ? `At t = ${formatValue(t)} Myr, from the law's field of the stored particles.`
       : `Measured about the density centre at t = ${formatValue(t)} Myr, from particles within one bin width of its plane (all, and each component on its own); analytic curves are the initial mass model under each law.`;
   const hiddenCount = series.filter((s) => s.hidden).length;
+  const source = galaxy ? ` Observed points: ${galaxy.name}, with 1σ error bars.` : '';
   return (
-    <Panel title="Rotation curve" note={note} right={<ChoiceChips compact value={when} onChange={setChoice} choices={choices} />}>
+    <Panel title="Rotation curve" note={note + source} right={<ChoiceChips compact value={when} onChange={setChoice} choices={choices} />}>
       {hiddenCount ? <Txt variant="caption">{`${hiddenCount} of ${series.length} curves start hidden; press a legend entry to show or hide its curve.`}</Txt> : null}
       <LinePlot series={series} xLabel="radius R [kpc]" yLabel="speed [km/s]" yFromZero accessibilityLabel={`Rotation curves ${when === 'now' ? `at t = ${formatValue(t)} Myr` : `at the ${when === 'initial' ? 'start' : 'end'} of the run`}`} testID="plot-rotation" />
     </Panel>

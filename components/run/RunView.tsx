@@ -93,7 +93,7 @@ export function RunView({ id }: { id: string }) {
   const info = out?.law ?? (spec ? lawInfo(spec.law) : null);
   const color = lawColor(r.lawKind);
   const mine = r.owner.id === session.data?.id || isAdmin(session.data);
-  const plotted: PlottedRun[] = out ? [{ id: r.id, label: r.name, color, out }] : [];
+  const plotted: PlottedRun[] = out ? [{ id: r.id, label: r.name, color, out, galaxyId: r.galaxyId }] : [];
 
   const player = out ? <SnapshotPlayer playback={playback} color={color} label={r.name} /> : null;
   const curves = out ? <RotationAtPlayhead runs={plotted} sources={[{ id: r.id, spec, frames: playback.frames, radii_kpc: out.rotationCurves.final.radii_kpc }]} playhead={playback.playhead} times={playback.times} /> : null;

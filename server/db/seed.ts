@@ -2,11 +2,12 @@
 // really computes (submitted through the same path as a user's). Runs once per database.
 import type { EntityManager } from '@mikro-orm/postgresql';
 import type { Orm } from './orm';
-import { Run } from './entities';
+import { Galaxy, Run } from './entities';
 import { seedAccounts } from './seed-accounts';
 import { seedGalaxies } from './seed-galaxies';
 import { openRunQueue } from '../queue';
 import { submitRuns } from '../services/runs';
+import { runsFromGalaxy } from '../services/galaxies';
 import { publishTemplate } from '../services/templates';
 import { RUN_SPEC_VERSION } from '../../shared/spec';
 
@@ -94,7 +95,10 @@ export async function seedDemo(orm: Orm): Promise<void> {
     await submitRuns(em, queue, researcher, SCENARIO.broken);
     await submitRuns(em, queue, researcher, SCENARIO.longDisk);
     await submitRuns(em, queue, users['amira-solberg'], SCENARIO.studentPlummer);
-    console.log('[infall] seeded the invented demo: 6 people, a cohort, a template and 7 runs for the worker');
+    // A pair built from the invented Kestrel galaxy's Newtonian fit, as the galaxy page starts one.
+    const kestrel = await em.findOneOrFail(Galaxy, { owner: users['ilse-varga'].id, invented: true, name: { $like: 'Kestrel%' } }, { exclude: ['fileBytes'] });
+    await runsFromGalaxy(em, queue, users['ilse-varga'], kestrel as Galaxy, { n: 1000, duration_Myr: 250 });
+    console.log('[infall] seeded the invented demo: 6 people, a cohort, a template and 9 runs for the worker (two built from an invented galaxy)');
   } finally {
     await queue.close();
   }

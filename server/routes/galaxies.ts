@@ -4,12 +4,13 @@ import type { EntityManager } from '@mikro-orm/postgresql';
 import { requireUser } from '../auth/guards';
 import { tableUpload } from './upload';
 import { uploadLimits } from '../services/quotas';
-import { createGalaxy, deleteGalaxy, findVisibleGalaxy, galaxyDetail, galaxyFile, listGalaxies, requestFit, updateGalaxy } from '../services/galaxies';
+import { createGalaxy, deleteGalaxy, findVisibleGalaxy, galaxyDetail, galaxyFile, listGalaxies, requestFit, runsFromGalaxy, updateGalaxy } from '../services/galaxies';
+import type { Deps } from '../app';
 import type { GalaxyList } from '../../shared/api/galaxies';
 
 const em = () => RequestContext.getEntityManager() as EntityManager;
 
-export function galaxiesRouter(): Router {
+export function galaxiesRouter({ queue }: Pick<Deps, 'queue'>): Router {
   const r = Router();
   r.use(requireUser);
 
@@ -37,6 +38,12 @@ export function galaxiesRouter(): Router {
   r.post('/:id/fits', async (req, res) => {
     const g = await findVisibleGalaxy(em(), req.user!, req.params.id);
     res.status(201).json(await requestFit(em(), req.user!, g, req.body));
+  });
+
+  // A pair of runs built from the galaxy's Newtonian fit: anyone who sees the galaxy may start one.
+  r.post('/:id/runs', async (req, res) => {
+    const g = await findVisibleGalaxy(em(), req.user!, req.params.id);
+    res.status(201).json({ runs: await runsFromGalaxy(em(), queue, req.user!, g, req.body) });
   });
 
   r.patch('/:id', async (req, res) => {

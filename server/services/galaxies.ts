@@ -1,16 +1,22 @@
 import type { EntityManager } from '@mikro-orm/postgresql';
 import { ApiError } from '../errors';
 import { idParam, parseInput } from '../routes/input';
-import { Cohort, CohortMember, Galaxy, GalaxyFit, type User } from '../db/entities';
+import { Cohort, CohortMember, Galaxy, GalaxyFit, GalaxySample, type User } from '../db/entities';
 import { parseRotationCurve, TableError } from '../../shared/galaxy/table';
 import path from 'node:path';
 import { Worker } from 'node:worker_threads';
-import type { FitOptions, GalaxyFitReport } from '../../shared/galaxy/fit';
+import type { FitOptions, GalaxyFitReport, SampleFitReport, SampleGalaxy } from '../../shared/galaxy/fit';
 import type { RotationCurve } from '../../shared/galaxy/table';
 import type { FitJob } from './fitThread';
 import {
   FIT_MAX_POINTS,
   galaxyFitRequestSchema,
+  galaxySampleRequestSchema,
+  galaxyRunRequestSchema,
+  GALAXY_PAIR_LAW,
+  SAMPLE_MAX_POINTS,
+  type GalaxySampleRecord,
+  type GalaxySampleSummary,
   updateGalaxyBodySchema,
   uploadGalaxyFieldsSchema,
   type GalaxyDetail,
@@ -20,6 +26,11 @@ import {
   type GalaxyVisibility,
 } from '../../shared/api/galaxies';
 import { uploadLimits } from './quotas';
+import type { Queue } from 'bullmq';
+import type { RunJobData } from '../queue';
+import type { RunSummary } from '../../shared/api/contract';
+import { galaxyRunSpec, HALO_FITS, type HaloFit } from '../../shared/galaxy/toRun';
+import { submitRuns } from './runs';
 
 // Who may see a galaxy: its owner and admins always; a cohort galaxy also the cohort's
 // members and instructor; a public one everyone signed in. Only owner and admins change it.
@@ -201,24 +212,83 @@ export async function requestFit(em: EntityManager, user: User, g: Galaxy, body:
   return { id: fit.id, request, results, requestedBy: owner(user), createdAt: fit.createdAt.toISOString() };
 }
 
+/**
+ * Fits one shared parameter per law across several galaxies (each one the caller may see) and
+ * keeps the result with the caller. A galaxy the caller may not see is answered as missing.
+ */
+export async function requestSampleFit(em: EntityManager, user: User, body: unknown): Promise<GalaxySampleRecord> {
+  const request = parseInput(galaxySampleRequestSchema, body);
+  const found = await em.find(Galaxy, { $and: [{ id: { $in: request.galaxyIds } }, await visibleFilter(em, user)] }, { fields: ['id', 'name', 'points', 'curve'] });
+  const byId = new Map(found.map((g) => [g.id, g]));
+  const missing = request.galaxyIds.filter((id) => !byId.has(id));
+  if (missing.length) throw new ApiError('NOT_FOUND', `No galaxy ${missing.join(', ')}`, { field: 'galaxyIds' });
+  const galaxies = request.galaxyIds.map((id) => byId.get(id)!);
+  const points = galaxies.reduce((n, g) => n + g.points, 0);
+  if (points > SAMPLE_MAX_POINTS) throw new ApiError('BAD_REQUEST', `galaxyIds: these galaxies have ${points} points in all; a sample fit through the service takes at most ${SAMPLE_MAX_POINTS}`, { field: 'galaxyIds' });
+  // Names can repeat across owners; the id keeps each galaxy's label in the report distinct.
+  const named = galaxies.map((g) => ({ id: g.id, name: g.name }));
+  const results = await fitInThread(galaxies.map((g) => ({ name: `${g.name} (#${g.id})`, curve: g.curve })), request);
+  const made = em.create(GalaxySample, { requestedBy: user.id, request, galaxies: named, results });
+  await em.flush();
+  return { id: made.id, request, galaxies: named, results, requestedBy: owner(user), createdAt: made.createdAt.toISOString() };
+}
+
+const sampleFilter = (user: User) => (user.role === 'admin' ? {} : { requestedBy: user.id });
+
+export async function listSampleFits(em: EntityManager, user: User): Promise<GalaxySampleSummary[]> {
+  const rows = await em.find(GalaxySample, sampleFilter(user), { fields: ['id', 'galaxies', 'request', 'createdAt'], orderBy: { createdAt: 'desc', id: 'desc' }, limit: 100 });
+  return rows.map((r) => ({ id: r.id, galaxies: r.galaxies, laws: r.request.laws, createdAt: r.createdAt.toISOString() }));
+}
+
+export async function sampleFit(em: EntityManager, user: User, rawId: string): Promise<GalaxySampleRecord> {
+  const id = idParam(rawId, 'sample');
+  const r = await em.findOne(GalaxySample, { id, ...sampleFilter(user) }, { populate: ['requestedBy'] });
+  if (!r) throw new ApiError('NOT_FOUND', `No sample fit ${rawId}`);
+  return { id: r.id, request: r.request, galaxies: r.galaxies, results: r.results, requestedBy: owner(r.requestedBy as User), createdAt: r.createdAt.toISOString() };
+}
+
+/**
+ * A pair of runs from one of the galaxy's Newtonian fits: the fitted baryons as a disk galaxy
+ * under Newton + the fitted halo, and the same particles' positions under the pair law, through
+ * the run service (spec limits, quota and queue as for any run). The runs remember the galaxy.
+ */
+export async function runsFromGalaxy(em: EntityManager, queue: Queue<RunJobData>, user: User, g: Galaxy, body: unknown): Promise<RunSummary[]> {
+  const { fitId, halo, pairLaw, ...choices } = parseInput(galaxyRunRequestSchema, body);
+  const fits = await em.find(GalaxyFit, fitId === undefined ? { galaxy: g.id } : { galaxy: g.id, id: fitId }, { orderBy: { createdAt: 'desc', id: 'desc' }, limit: FITS_KEPT });
+  if (fitId !== undefined && !fits.length) throw new ApiError('NOT_FOUND', `No fit ${fitId} of this galaxy`, { field: 'fitId' });
+  const wanted: readonly HaloFit[] = halo ? [halo] : HALO_FITS;
+  const record = fits.find((f) => f.results.laws.some((l) => (wanted as readonly string[]).includes(l.law)));
+  if (!record) throw new ApiError('BAD_REQUEST', `${fitId === undefined ? 'This galaxy has no fit' : `Fit ${fitId} has no fit`} under ${wanted.join(' or ')}; fit it under a Newtonian halo first`, { field: fitId === undefined ? 'halo' : 'fitId' });
+  const fit = record.results.laws.filter((l) => (wanted as readonly string[]).includes(l.law)).reduce((a, b) => (b.bic < a.bic ? b : a));
+  let built;
+  try {
+    built = galaxyRunSpec(fit, { ...choices, name: `${g.name} from its ${fit.law} fit` });
+  } catch (err) {
+    throw new ApiError('BAD_REQUEST', `This fit cannot start a run: ${err instanceof Error ? err.message : String(err)}`);
+  }
+  return submitRuns(em, queue, user, { spec: built.spec, pairLaw: pairLaw ?? GALAXY_PAIR_LAW }, { galaxy: g.id });
+}
+
 /** Fits at once across the server; more wait for a minute rather than crowd the machine. */
 const MAX_FITS_AT_ONCE = 2;
 const FIT_TIME_LIMIT_MS = 60_000;
 let fitting = 0;
 
-type FitAnswer = { ok: true; report: GalaxyFitReport } | { ok: false; refused: boolean; message: string };
+type FitAnswer<R> = { ok: true; report: R } | { ok: false; refused: boolean; message: string };
 
-/** Runs one fit in a worker thread (a .ts entry needs tsx's require hook there), with a time limit. */
-async function fitInThread(curve: RotationCurve, options: FitOptions): Promise<GalaxyFitReport> {
+/** Runs one fit (a galaxy, or a sample) in a worker thread (a .ts entry needs tsx's require hook there), with a time limit. */
+function fitInThread(curve: RotationCurve, options: FitOptions): Promise<GalaxyFitReport>;
+function fitInThread(sample: SampleGalaxy[], options: FitOptions): Promise<SampleFitReport>;
+async function fitInThread(what: RotationCurve | SampleGalaxy[], options: FitOptions): Promise<GalaxyFitReport | SampleFitReport> {
   if (fitting >= MAX_FITS_AT_ONCE) throw new ApiError('UNAVAILABLE', 'The server is busy with other fits; try again in a minute');
   fitting += 1;
   const entry = path.join(__dirname, 'fitThread.ts');
-  const job: FitJob = { curve, options };
+  const job: FitJob = Array.isArray(what) ? { sample: what, options } : { curve: what, options };
   const worker = new Worker(`require(${JSON.stringify(require.resolve('tsx/cjs'))}); require(${JSON.stringify(entry)});`, { eval: true, workerData: job });
   try {
-    const answer = await new Promise<FitAnswer>((resolve, reject) => {
+    const answer = await new Promise<FitAnswer<GalaxyFitReport | SampleFitReport>>((resolve, reject) => {
       const timer = setTimeout(() => reject(new ApiError('UNAVAILABLE', `The fit took longer than ${FIT_TIME_LIMIT_MS / 1000} s and was stopped`)), FIT_TIME_LIMIT_MS);
-      worker.once('message', (m: FitAnswer) => (clearTimeout(timer), resolve(m)));
+      worker.once('message', (m: FitAnswer<GalaxyFitReport | SampleFitReport>) => (clearTimeout(timer), resolve(m)));
       worker.once('error', (e) => (clearTimeout(timer), reject(e)));
       worker.once('exit', () => (clearTimeout(timer), reject(new Error('the fit thread stopped without an answer'))));
     });

@@ -3,7 +3,7 @@ import type { EntityManager } from '@mikro-orm/postgresql';
 import type { Queue } from 'bullmq';
 import { ApiError, withTimeout } from '../errors';
 import { config } from '../config';
-import { Run, RunOutput, RunSnapshot, type User } from '../db/entities';
+import { Run, RunOutput, RunSnapshot, type Galaxy, type User } from '../db/entities';
 import { parseRunSpec, particleCount, stepCount, estimateInteractions, type RunSpec } from '../../shared/spec';
 import { submitRunBodySchema, type ListRunsQuery } from '../../shared/api/requests';
 import type { RunDetail, RunProgress, RunSummary } from '../../shared/api/contract';
@@ -72,6 +72,7 @@ export function toSummary(run: Run): RunSummary {
     steps: run.steps,
     costInteractions: run.costInteractions,
     pairId: run.pairId ?? null,
+    galaxyId: (run.galaxy as Galaxy | null | undefined)?.id ?? null,
     error: run.error ?? null,
     createdAt: run.createdAt.toISOString(),
     startedAt: run.startedAt ? run.startedAt.toISOString() : null,
@@ -84,7 +85,7 @@ export function toSummary(run: Run): RunSummary {
  * Stores the runs and enqueues them. Rows are written first (status queued) in one
  * transaction with the usage charge, so a refused or failed admission leaves nothing.
  */
-export async function submitRuns(em: EntityManager, queue: Queue<RunJobData>, user: User, body: unknown): Promise<RunSummary[]> {
+export async function submitRuns(em: EntityManager, queue: Queue<RunJobData>, user: User, body: unknown, origin: { galaxy?: number } = {}): Promise<RunSummary[]> {
   const { name, specs } = specsFromBody(body);
   // The queue must answer before anything is stored: with Redis away the request gets 503 and nothing is charged.
   await withTimeout(queue.getBackend().client.then((c) => c.get('infall:ping')), 'The queue', config.serviceTimeoutMs);
@@ -104,6 +105,7 @@ export async function submitRuns(em: EntityManager, queue: Queue<RunJobData>, us
         steps: stepCount(spec),
         costInteractions: costs[k],
         pairId,
+        galaxy: origin.galaxy ?? null,
       }),
     );
   });

@@ -48,6 +48,8 @@ export interface RunSummary {
   steps: number;
   costInteractions: number;
   pairId: string | null;
+  /** The galaxy whose fit the run was built from (its observed curve is drawn beside the run's). */
+  galaxyId?: number | null;
   error: string | null;
   createdAt: string;
   startedAt: string | null;

@@ -1,8 +1,9 @@
 import { z } from 'zod';
 import type { RotationCurve } from '../galaxy/table';
-import { FIT_LAWS, type GalaxyFitReport } from '../galaxy/fit';
+import { FIT_LAWS, type GalaxyFitReport, type SampleFitReport } from '../galaxy/fit';
 import type { Owner } from './contract';
 import type { UploadLimits } from './accounts';
+import { HALO_FITS } from '../galaxy/toRun';
 
 // Galaxies: observed rotation curves uploaded as tables, who may see them, and the fits
 // requested on them. The upload is multipart (the file plus these fields as text).
@@ -107,6 +108,61 @@ export const galaxyFitRequestSchema = z
   })
   .strict();
 export type GalaxyFitRequest = z.infer<typeof galaxyFitRequestSchema>;
+
+/** A sample fit takes at most this many galaxies and points in all (our choice: one fit thread for at most a minute). */
+export const SAMPLE_MAX_GALAXIES = 12;
+export const SAMPLE_MAX_POINTS = 600;
+
+/** POST /api/galaxy-samples: the galaxies (each one the caller may see) and the laws, as for one galaxy. */
+export const galaxySampleRequestSchema = galaxyFitRequestSchema.extend({
+  galaxyIds: z
+    .array(z.number('a galaxy id is a number').int('a galaxy id is a whole number').positive('a galaxy id is positive'), 'galaxyIds must be a list of galaxy ids')
+    .min(2, 'choose at least two galaxies')
+    .max(SAMPLE_MAX_GALAXIES, `a sample has at most ${SAMPLE_MAX_GALAXIES} galaxies`)
+    .refine((ids) => new Set(ids).size === ids.length, 'each galaxy once'),
+});
+export type GalaxySampleRequest = z.infer<typeof galaxySampleRequestSchema>;
+
+/** The MOND member of a pair built from a galaxy unless the request names another law: the field form, grid 32 (kept cheap). */
+export const GALAXY_PAIR_LAW = { kind: 'qumond', interpolation: 'simple', a0_m_s2: 1.2e-10, grid: 32 } as const;
+
+/**
+ * POST /api/galaxies/:id/runs: a pair of runs from one of the galaxy's Newtonian fits (the newest
+ * with a halo unless fitId names one; the halo with the lower BIC unless halo names one). The spec
+ * limits and the person's quota apply as to any run.
+ */
+export const galaxyRunRequestSchema = z
+  .object({
+    fitId: z.number().int().positive('fitId is a fit id').optional(),
+    halo: z.enum(HALO_FITS, `halo is ${HALO_FITS.join(' or ')}`).optional(),
+    n: z.number().int('n is a whole number').min(100, 'n is at least 100').max(5000, 'n is at most 5000 for a run built from a galaxy').default(1000),
+    duration_Myr: z.number().positive('duration_Myr must be positive').max(10_000).default(250),
+    timestep_Myr: z.number().positive('timestep_Myr must be positive').max(100).default(0.5),
+    softening_kpc: z.number().min(0).max(10).default(0.1),
+    snapshotEvery: z.number().int().min(1).default(10),
+    seed: z.number().int().min(0).max(4_294_967_295).default(1),
+    /** The second law (checked by the run-spec schema); the field-form MOND above by default. */
+    pairLaw: z.unknown().optional(),
+  })
+  .strict();
+export type GalaxyRunRequest = z.input<typeof galaxyRunRequestSchema>;
+
+export interface GalaxySampleRecord {
+  id: number;
+  request: GalaxySampleRequest;
+  /** The galaxies as they were named when fitted, in the order of the request. */
+  galaxies: { id: number; name: string }[];
+  results: SampleFitReport;
+  requestedBy: Owner;
+  createdAt: string;
+}
+
+export interface GalaxySampleSummary {
+  id: number;
+  galaxies: { id: number; name: string }[];
+  laws: GalaxySampleRequest['laws'];
+  createdAt: string;
+}
 
 export interface GalaxySummary {
   id: number;

@@ -2,6 +2,7 @@ import { defineEntity, p, type InferEntity } from '@mikro-orm/core';
 import type { RunSpec } from '../../../shared/spec';
 import { RUN_STATUSES } from '../../../shared/api/contract';
 import { User } from './User';
+import { Galaxy } from './Galaxy';
 
 export const Run = defineEntity({
   name: 'Run',
@@ -19,6 +20,8 @@ export const Run = defineEntity({
     costInteractions: p.bigint('number'),
     // Two runs with the same initial conditions under two laws share a pair id.
     pairId: p.uuid().nullable().index(),
+    // The galaxy whose fit built the run's initial conditions; kept as null if the galaxy goes.
+    galaxy: () => p.manyToOne(Galaxy).nullable().index().deleteRule('set null'),
     status: p.enum([...RUN_STATUSES]).default('queued').index(),
     progress: p.double().$type<number>().default(0),
     error: p.text().nullable(),

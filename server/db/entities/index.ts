@@ -12,6 +12,7 @@ import { Allocation } from './Allocation';
 import { UsageEntry } from './UsageEntry';
 import { Galaxy } from './Galaxy';
 import { GalaxyFit } from './GalaxyFit';
+import { GalaxySample } from './GalaxySample';
 
-export { User, Run, RunOutput, RunSnapshot, RunCheckpoint, Session, ApiToken, Cohort, CohortMember, CohortTemplate, Allocation, UsageEntry, Galaxy, GalaxyFit };
-export const entities = [User, Run, RunOutput, RunSnapshot, RunCheckpoint, Session, ApiToken, Cohort, CohortMember, CohortTemplate, Allocation, UsageEntry, Galaxy, GalaxyFit];
+export { User, Run, RunOutput, RunSnapshot, RunCheckpoint, Session, ApiToken, Cohort, CohortMember, CohortTemplate, Allocation, UsageEntry, Galaxy, GalaxyFit, GalaxySample };
+export const entities = [User, Run, RunOutput, RunSnapshot, RunCheckpoint, Session, ApiToken, Cohort, CohortMember, CohortTemplate, Allocation, UsageEntry, Galaxy, GalaxyFit, GalaxySample];

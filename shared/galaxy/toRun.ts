@@ -1,0 +1,134 @@
+// Initial conditions from a galaxy's Newtonian fit: its fitted baryons as an exponential disk
+// (with a Hernquist bulge when the table has one) and its fitted halo as the rigid `halo` law.
+import type { LawSpec, RunSpec } from '../spec/runSpec';
+import { RUN_SPEC_VERSION } from '../spec/runSpec';
+import { exponentialDiskSpeed, hernquistSpeed } from './invented';
+import type { FittedCurve, LawFit } from './fit';
+
+/** The Newtonian fits a run can start from: their halo becomes the `halo` law. */
+export const HALO_FITS = ['nfw', 'isothermal'] as const;
+export type HaloFit = (typeof HALO_FITS)[number];
+
+/**
+ * Disk thickness: sech^2 scale height z0 = 0.15 R_d. A common choice for thin stellar disks
+ * (scale height a tenth to a fifth of the scale length; from memory, not derived).
+ */
+export const SCALE_HEIGHT_PER_LENGTH = 0.15;
+
+export interface ProfileFit {
+  mass_Msun: number;
+  scale_kpc: number;
+  /** Root-mean-square of (v_profile - v_target) over the radii, km/s. */
+  rms_km_s: number;
+}
+
+/**
+ * Least squares in v^2 of a profile M f(R; a) to target speeds squared: for each scale a the
+ * best mass is closed-form (v^2 is linear in M); the scale is searched on a log grid from
+ * 0.02 to 100 kpc and refined by golden section in ln a.
+ */
+function fitProfile(R: number[], v2: number[], unitSpeed: (scale: number, R: number) => number): ProfileFit | null {
+  const target = v2.reduce((s, x) => s + Math.max(0, x), 0);
+  if (!(target > 0)) return null;
+  const at = (lnA: number) => {
+    const a = Math.exp(lnA);
+    const f = R.map((r) => unitSpeed(a, r) ** 2);
+    const ff = f.reduce((s, x) => s + x * x, 0);
+    const mass = ff > 0 ? Math.max(0, f.reduce((s, x, i) => s + x * v2[i], 0) / ff) : 0;
+    const cost = f.reduce((s, x, i) => s + (mass * x - v2[i]) ** 2, 0);
+    return { a, mass, cost };
+  };
+  const lo = Math.log(0.02), hi = Math.log(100), N = 120;
+  let best = 0, bestCost = Infinity;
+  for (let k = 0; k <= N; k++) {
+    const c = at(lo + ((hi - lo) * k) / N).cost;
+    if (c < bestCost) (bestCost = c), (best = k);
+  }
+  const step = (hi - lo) / N;
+  let a = lo + (best - 1) * step, b = lo + (best + 1) * step;
+  const g = (Math.sqrt(5) - 1) / 2;
+  for (let i = 0; i < 60; i++) {
+    const x1 = b - g * (b - a), x2 = a + g * (b - a);
+    if (at(x1).cost < at(x2).cost) b = x2;
+    else a = x1;
+  }
+  const fit = at((a + b) / 2);
+  const rms = Math.sqrt(R.reduce((s, r, i) => s + (Math.sqrt(fit.mass) * unitSpeed(fit.a, r) - Math.sign(v2[i]) * Math.sqrt(Math.abs(v2[i]))) ** 2, 0) / R.length);
+  return { mass_Msun: fit.mass, scale_kpc: fit.a, rms_km_s: rms };
+}
+
+const signedSquare = (v: number) => v * Math.abs(v);
+
+/**
+ * The exponential disk (Freeman 1970, razor-thin curve) closest to the fitted disk: the stellar
+ * disk's speeds with the fit's mass-to-light ratio applied, plus the gas folded in (v_gas|v_gas|
+ * added to v_disk^2; one disk carries both, so the gas takes the stellar scale length).
+ */
+export function diskFromCurve(curve: FittedCurve): ProfileFit | null {
+  if (!curve.vDisk && !curve.vGas) return null;
+  const v2 = curve.radiusKpc.map((_, i) => signedSquare(curve.vDisk?.[i] ?? 0) + signedSquare(curve.vGas?.[i] ?? 0));
+  return fitProfile(curve.radiusKpc, v2, (a, R) => exponentialDiskSpeed(1, a, R));
+}
+
+/** The Hernquist (1990) sphere closest to the fitted bulge (its mass-to-light ratio applied), or null without one. */
+export function bulgeFromCurve(curve: FittedCurve): ProfileFit | null {
+  if (!curve.vBulge) return null;
+  return fitProfile(curve.radiusKpc, curve.vBulge.map(signedSquare), (a, R) => hernquistSpeed(1, a, R));
+}
+
+/** The fitted halo as the rigid `halo` law's parameters. */
+export function haloLawFromFit(fit: LawFit): Extract<LawSpec, { kind: 'halo' }> {
+  if (fit.law === 'nfw') return { kind: 'halo', profile: 'nfw', scale_kpc: fit.derived.r_s_kpc, density_Msun_kpc3: fit.derived.rho0_Msun_kpc3 };
+  if (fit.law === 'isothermal') {
+    const value = (name: string) => fit.params.find((p) => p.name === name)!.value;
+    return { kind: 'halo', profile: 'cored-isothermal', scale_kpc: value('r_core'), density_Msun_kpc3: 10 ** value('log10_rho0') };
+  }
+  throw new Error(`a run starts from a Newtonian halo fit (${HALO_FITS.join(' or ')}), not ${fit.law}`);
+}
+
+export interface GalaxyRunChoices {
+  name: string;
+  n: number;
+  duration_Myr: number;
+  timestep_Myr: number;
+  softening_kpc: number;
+  snapshotEvery: number;
+  seed: number;
+}
+
+export interface GalaxyRun {
+  /** The spec under Newton + the fitted halo (validate with parseRunSpec before use). */
+  spec: RunSpec;
+  disk: ProfileFit;
+  bulge: ProfileFit | null;
+}
+
+/** A disk-galaxy run spec under Newton + the fitted halo, from one Newtonian fit of a galaxy. */
+export function galaxyRunSpec(fit: LawFit, c: GalaxyRunChoices): GalaxyRun {
+  const law = haloLawFromFit(fit);
+  const disk = diskFromCurve(fit.curve);
+  if (!disk || disk.mass_Msun <= 0) throw new Error('the fit has no stellar disk or gas to build a disk from');
+  const bulge = bulgeFromCurve(fit.curve);
+  const spec = {
+    version: RUN_SPEC_VERSION,
+    name: c.name,
+    model: {
+      kind: 'disk',
+      n: c.n,
+      mass_Msun: disk.mass_Msun,
+      scaleLength_kpc: disk.scale_kpc,
+      scaleHeight_kpc: SCALE_HEIGHT_PER_LENGTH * disk.scale_kpc,
+      toomreQ: 1.5,
+      ...(bulge && bulge.mass_Msun > 0 ? { bulge: { mass_Msun: bulge.mass_Msun, scale_kpc: bulge.scale_kpc } } : {}),
+    },
+    law,
+    integrator: 'leapfrog',
+    solver: { kind: 'direct' },
+    timestep_Myr: c.timestep_Myr,
+    duration_Myr: c.duration_Myr,
+    softening_kpc: c.softening_kpc,
+    snapshotEvery: c.snapshotEvery,
+    seed: c.seed,
+  } as RunSpec;
+  return { spec, disk, bulge };
+}
