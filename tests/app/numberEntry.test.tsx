@@ -8,18 +8,13 @@ import { COHORT_CEILING } from '../../shared/api/accounts';
 import { mockApi } from './support/api';
 import { resetNavigation } from './support/expoRouter';
 import { press, render, settle } from './support/render';
+import { freshUsage } from './support/usage';
 
 jest.mock('expo-router', () => require('./support/expoRouter'));
 // Every key re-renders the form and its engine preview; a loaded machine needs more than 5 s.
 jest.setTimeout(30_000);
 
-const usage = {
-  limits: { maxParticles: 2000, maxSteps: 10000, maxConcurrentRuns: 2, dailyInteractions: 1e10 },
-  used: { interactionsToday: 0, activeRuns: 0 },
-  remaining: { interactionsToday: 1e10, concurrentRuns: 2 },
-  day: '2026-12-01',
-  resetsAt: '2026-12-02T00:00:00.000Z',
-};
+const usage = freshUsage();
 
 beforeEach(() => {
   resetNavigation();

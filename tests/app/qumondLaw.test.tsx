@@ -4,16 +4,11 @@ import { setCsrfToken } from '../../hooks/api';
 import { mockApi } from './support/api';
 import { resetNavigation } from './support/expoRouter';
 import { press, render, settle, type } from './support/render';
+import { freshUsage } from './support/usage';
 
 jest.mock('expo-router', () => require('./support/expoRouter'));
 
-const usage = {
-  limits: { maxParticles: 2000, maxSteps: 10000, maxConcurrentRuns: 2, dailyInteractions: 1e13 },
-  used: { interactionsToday: 0, activeRuns: 0 },
-  remaining: { interactionsToday: 1e13, concurrentRuns: 2 },
-  day: '2026-12-01',
-  resetsAt: '2026-12-02T00:00:00.000Z',
-};
+const usage = freshUsage(1e13);
 
 beforeEach(() => {
   resetNavigation();
