@@ -5,6 +5,7 @@ import type { RngState } from '../rng';
 import { normal, uniform, uniformOpen } from '../rng';
 import { allocateAccelerations, type ParticleState, type Sources } from '../state';
 import { G } from '../units';
+import { haloProfile, sampleHaloPositions } from './halo';
 import { hernquistProfile, sampleHernquistPositions } from './hernquist';
 import { assignIsotropicVelocities, interpolate, isotropicSpeedSampler, softenedSphericalModel } from './isotropic';
 import { combinedModel, type MassModel } from './massModel';
@@ -137,13 +138,15 @@ export function thickDiskModel(d: DiskSpec, softening_kpc: number): MassModel {
 
 const bulgeParams = (d: DiskSpec) => (d.bulge ? { mass_Msun: d.bulge.mass_Msun, scale_kpc: d.bulge.scale_kpc } : null);
 
-/** Disk plus optional bulge, both softened as the run softens them. */
+/** Disk plus optional bulge and live halo, all softened as the run softens them. */
 export function diskGalaxyModel(d: DiskSpec, softening_kpc: number): MassModel {
   const b = bulgeParams(d);
   const disk = thickDiskModel(d, softening_kpc);
-  if (!b) return disk;
-  const combined = combinedModel([disk, softenedSphericalModel(hernquistProfile(b), softening_kpc)]);
-  return { ...combined, extent_kpc: disk.extent_kpc };
+  if (!b && !d.halo) return disk;
+  const parts = [disk];
+  if (b) parts.push(softenedSphericalModel(hernquistProfile(b), softening_kpc));
+  if (d.halo) parts.push(softenedSphericalModel(haloProfile(d.halo), softening_kpc));
+  return { ...combinedModel(parts), extent_kpc: disk.extent_kpc };
 }
 
 /** Particles per part: equal particle masses as far as rounding allows. */
@@ -252,10 +255,12 @@ function verticalDispersion(d: DiskSpec, law: LawSpec, ctx: LawContext, sources:
 }
 
 /**
- * Fills particles start..start+n-1 with the disk (first) and its bulge. The
- * disk lies in the x-y plane rotating counter-clockwise seen from +z. Every
- * position is drawn before any velocity, so a seed gives the same positions
- * whatever law the velocities are balanced for.
+ * Fills particles start..start+n-1 with the disk (first) and its bulge, and
+ * the next halo.n with the live halo if there is one. The disk lies in the
+ * x-y plane rotating counter-clockwise seen from +z. Every position is drawn
+ * before any velocity, so a seed gives the same positions whatever law the
+ * velocities are balanced for; the halo's positions are drawn after the
+ * baryons', so the baryons sit at the same places with or without it.
  */
 export function sampleDiskGalaxy(d: DiskSpec, law: LawSpec, ctx: LawContext, rng: RngState, out: ParticleState, start: number): Component[] {
   const model = diskGalaxyModel(d, ctx.softening_kpc);
@@ -273,8 +278,10 @@ export function sampleDiskGalaxy(d: DiskSpec, law: LawSpec, ctx: LawContext, rng
   }
   const b = bulgeParams(d);
   if (b) sampleHernquistPositions(b, rng, out, diskEnd, split.bulge);
+  if (d.halo) sampleHaloPositions(d.halo, rng, out, end);
+  const haloEnd = end + (d.halo?.n ?? 0);
 
-  const view = (a: Float64Array) => a.subarray(start, end);
+  const view = (a: Float64Array) => a.subarray(start, haloEnd);
   const sigmaZ = verticalDispersion(d, law, ctx, { x: view(out.x), y: view(out.y), z: view(out.z), m: view(out.m) });
   const kin = diskKinematics(d, law, model);
   for (let i = start; i < diskEnd; i++) {
@@ -290,6 +297,11 @@ export function sampleDiskGalaxy(d: DiskSpec, law: LawSpec, ctx: LawContext, rng
     // The bulge is treated as spherical in the whole galaxy's field: an approximation in common use for composite models.
     assignIsotropicVelocities(out, diskEnd, split.bulge, isotropicSpeedSampler(hernquistProfile(b), model, law), rng);
     components.push({ label: 'bulge', start: diskEnd, count: split.bulge });
+  }
+  if (d.halo) {
+    // The halo's distribution function in the total potential of disk, bulge and halo, the disk's taken as spherical (common practice).
+    assignIsotropicVelocities(out, end, d.halo.n, isotropicSpeedSampler(haloProfile(d.halo), model, law), rng);
+    components.push({ label: 'halo', start: end, count: d.halo.n });
   }
   return components;
 }
