@@ -205,12 +205,12 @@ function exponentialRadius(F: number): number {
  * from the thin-disk asymmetric-drift equation (Binney & Tremaine 2008,
  * eq. 4.227, tilt term dropped).
  */
-function diskKinematics(d: DiskSpec, law: LawSpec, model: MassModel) {
+function diskKinematics(d: DiskSpec, law: LawSpec, model: MassModel, correction: (R: number) => number = () => 1) {
   const Rd = d.scaleLength_kpc;
   const NODES = 256;
   const lo = log(1e-3 * Rd), hi = log(diskTruncation(d));
   const lnR = Float64Array.from({ length: NODES }, (_, k) => lo + ((hi - lo) * k) / (NODES - 1));
-  const vc2 = (R: number) => R * modelAcceleration(law, model, R);
+  const vc2 = (R: number) => R * modelAcceleration(law, model, R) * correction(R);
   const sigmaR = new Float64Array(NODES), sigmaPhi = new Float64Array(NODES), vPhi = new Float64Array(NODES);
   const kappa2 = new Float64Array(NODES), omega2 = new Float64Array(NODES), lnSS = new Float64Array(NODES);
   lnR.forEach((l, k) => {
@@ -285,6 +285,44 @@ function verticalDispersion(d: DiskSpec, law: LawSpec, ctx: LawContext, sources:
 }
 
 /**
+ * Field-form MOND's pull in the plane of a disk is not the algebraic ν g_N its
+ * model curve uses (they agree only in spherical symmetry, and where the grid
+ * resolves the disk): its velocities would be balanced for the wrong field.
+ * Returns the ratio of the law's own midplane pull on probe rings among the
+ * sampled particles to the model curve, smoothed over neighbouring rings
+ * (particle graininess, about 1% per ring), held at the end rings' values beyond them.
+ * Other laws' model curves are their field in the plane: ratio 1.
+ */
+function fieldCorrection(d: DiskSpec, law: LawSpec, ctx: LawContext, sources: Sources, model: MassModel): (R: number) => number {
+  if (law.kind !== 'qumond') return () => 1;
+  const Rd = d.scaleLength_kpc;
+  const outer = Math.min(PROBE_OUTER * Rd, diskTruncation(d));
+  const rings = PROBE_RADII, J = 4 * PROBE_AZIMUTHS;
+  const lnR = Float64Array.from({ length: rings }, (_, k) => log(PROBE_INNER * Rd) + ((log(outer) - log(PROBE_INNER * Rd)) * k) / (rings - 1));
+  const probes = { x: new Float64Array(rings * J), y: new Float64Array(rings * J), z: new Float64Array(rings * J) };
+  for (let r = 0; r < rings; r++)
+    for (let j = 0; j < J; j++) {
+      probes.x[r * J + j] = exp(lnR[r]) * cos((2 * PI * (j + 0.5)) / J);
+      probes.y[r * J + j] = exp(lnR[r]) * Math.sin((2 * PI * (j + 0.5)) / J);
+    }
+  const acc = allocateAccelerations(rings * J);
+  createLaw(law, ctx).accelerations(sources, probes, acc);
+  const raw = Float64Array.from({ length: rings }, (_, r) => {
+    const R = exp(lnR[r]);
+    let inward = 0;
+    for (let k = r * J; k < (r + 1) * J; k++) inward -= (acc.ax[k] * probes.x[k] + acc.ay[k] * probes.y[k]) / R;
+    return inward / J / modelAcceleration(law, model, R);
+  });
+  const ratio = raw.map((_, r) => {
+    const a = Math.max(0, r - 1), b = Math.min(rings - 1, r + 1);
+    let sum = 0;
+    for (let k = a; k <= b; k++) sum += raw[k];
+    return sum / (b - a + 1);
+  });
+  return (R) => interpolate(lnR, ratio, log(Math.max(R, 1e-300)));
+}
+
+/**
  * Fills particles start..start+n-1 with the disk (first) and its bulge, and
  * the next halo.n with the live halo if there is one. The disk lies in the
  * x-y plane rotating counter-clockwise seen from +z. Every position is drawn
@@ -313,7 +351,7 @@ export function sampleDiskGalaxy(d: DiskSpec, law: LawSpec, ctx: LawContext, rng
 
   const view = (a: Float64Array) => a.subarray(start, haloEnd);
   const sigmaZ = verticalDispersion(d, law, ctx, { x: view(out.x), y: view(out.y), z: view(out.z), m: view(out.m) });
-  const kin = diskKinematics(d, law, model);
+  const kin = diskKinematics(d, law, model, fieldCorrection(d, law, ctx, { x: view(out.x), y: view(out.y), z: view(out.z), m: view(out.m) }, model));
   for (let i = start; i < diskEnd; i++) {
     const R = Math.hypot(out.x[i], out.y[i]);
     const c = out.x[i] / R, s = out.y[i] / R;
