@@ -10,7 +10,9 @@ const EQUAL_MASS_MODELS = new Set(['plummer', 'hernquist', 'disk']);
 
 // The field form of MOND solves on a grid for a second or more per field: too slow to repeat in
 // the browser at every frame, so its runs show the curves the engine measured at start and end.
-export const canMeasureFrames = (spec: RunSpec | null) => Boolean(spec && EQUAL_MASS_MODELS.has(spec.model.kind) && spec.law.kind !== 'qumond');
+// A live halo's particles weigh what its own mass and count make them, so a model with one is not equal-mass.
+export const canMeasureFrames = (spec: RunSpec | null) =>
+  Boolean(spec && EQUAL_MASS_MODELS.has(spec.model.kind) && !('halo' in spec.model && spec.model.halo) && spec.law.kind !== 'qumond');
 
 /**
  * Circular speed √(R g) at the given radii from the law's own field of one stored snapshot:

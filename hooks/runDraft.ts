@@ -35,6 +35,9 @@ export const MODEL_PRESETS: Record<string, Record<string, unknown>> = {
 
 export const SYSTEM_KINDS = ['plummer', 'hernquist', 'disk'] as const;
 
+/** A live halo for the preset systems: about ten times their mass, as galaxies hold (common practice). */
+export const HALO_PRESET = { profile: 'nfw', n: 4000, mass_Msun: 5e11, scale_kpc: 15 };
+
 export const LAW_PRESETS: Record<string, LawSpec> = {
   newton: { kind: 'newton' },
   halo: { kind: 'halo', profile: 'nfw', scale_kpc: 15, density_Msun_kpc3: 7e6 },

@@ -33,13 +33,13 @@ export function refusals(cost: Cost, usage: Usage): string[] {
   return quotaRefusals(cost, usage).map((r) => describeRefusal(r, cost.runs));
 }
 
-/** The fields that set the particle count: N of the model, or of both systems of an encounter. */
+/** The fields that set the particle count: N of the model (and of its live halo), or of both systems of an encounter. */
 function particleFields(draft: Record<string, unknown>): string[] {
   const kind = (draft.model as { kind?: string } | undefined)?.kind;
   if (kind === 'encounter') return ['model.primary.n', 'model.secondary.n'];
   if (kind === 'table') return ['model.particles'];
   if (kind === 'kepler') return [];
-  return ['model.n'];
+  return (draft.model as { halo?: unknown }).halo ? ['model.n', 'model.halo.n'] : ['model.n'];
 }
 
 const finitePositive = (v: unknown): v is number => typeof v === 'number' && Number.isFinite(v) && v > 0;

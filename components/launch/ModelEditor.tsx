@@ -2,7 +2,7 @@ import { useState } from 'react';
 import { StyleSheet, View } from 'react-native';
 import type { LawSpec } from '../../shared/spec';
 import { colors, radius, space } from '../../constants/theme';
-import { getIn, isSampled, MODEL_PRESETS, SYSTEM_KINDS, withEquilibriumLaw, type Path } from '../../hooks/runDraft';
+import { getIn, HALO_PRESET, isSampled, MODEL_PRESETS, SYSTEM_KINDS, withEquilibriumLaw, type Path } from '../../hooks/runDraft';
 import { ChoiceChips, FieldRow, Toggle } from '../fields';
 import { LAW_LABELS, MODEL_LABELS } from '../format';
 import { Txt } from '../Txt';
@@ -60,6 +60,30 @@ function SystemFields({ draft, base, set, issues }: { draft: unknown; base: Path
               <SpecNumber draft={draft} path={[...base, 'bulge', 'scale_kpc']} onChange={set} issues={issues} label="Bulge scale radius" />
             </FieldRow>
           ) : null}
+        </>
+      ) : null}
+      <Toggle
+        label="Add a live dark halo of particles"
+        value={Boolean(sys.halo)}
+        onChange={(on) => set([...base, 'halo'], on ? HALO_PRESET : undefined)}
+      />
+      {sys.halo ? (
+        <>
+          <ChoiceChips
+            label="Halo profile"
+            value={String(getIn(sys, ['halo', 'profile']))}
+            onChange={(v) => set([...base, 'halo', 'profile'], v)}
+            choices={[
+              { value: 'nfw', label: 'NFW', note: 'Cusp ρ ∝ 1/r, ρ ∝ 1/r³ further out, cut off smoothly beyond the truncation radius.' },
+              { value: 'hernquist', label: 'Hernquist', note: 'Cusp ρ ∝ 1/r, ρ ∝ 1/r⁴ further out, cut sharply.' },
+            ]}
+          />
+          <FieldRow>
+            <SpecNumber draft={draft} path={[...base, 'halo', 'n']} onChange={set} issues={issues} label="Halo particles" />
+            <SpecNumber draft={draft} path={[...base, 'halo', 'mass_Msun']} onChange={set} issues={issues} label="Halo mass" />
+            <SpecNumber draft={draft} path={[...base, 'halo', 'scale_kpc']} onChange={set} issues={issues} label="Halo scale radius" />
+            <SpecNumber draft={draft} path={[...base, 'halo', 'truncationRadius_kpc']} onChange={set} issues={issues} label="Halo truncation radius" />
+          </FieldRow>
         </>
       ) : null}
     </View>

@@ -37,6 +37,17 @@ const equilibriumLaw = lawSchema
   .optional()
   .describe("law whose field the velocities are balanced in; defaults to the run's law (set it to compare laws from identical initial conditions)");
 
+const haloSchema = z
+  .strictObject({
+    profile: z.enum(['nfw', 'hernquist']).describe('NFW (Navarro, Frenk & White 1996) or Hernquist (1990) density'),
+    n: count.describe('halo particles, in addition to the model\'s n; each carries mass_Msun / n'),
+    mass_Msun: mass.describe('halo mass inside its truncation radius'),
+    scale_kpc: length.describe('scale radius r_s (NFW) or a (Hernquist)'),
+    truncationRadius_kpc: truncation.describe('NFW: where an exponential cut-off begins (decay length a tenth of it, particles out to 3 times it), default 10 r_s; Hernquist: a sharp cut, default the 99% mass radius'),
+  })
+  .optional()
+  .describe('optional live dark halo of particles, isotropic velocities from its distribution function in the whole system\'s field');
+
 const plummerSchema = z
   .strictObject({
     kind: z.literal('plummer'),
@@ -44,6 +55,7 @@ const plummerSchema = z
     mass_Msun: mass,
     scale_kpc: length.describe('Plummer radius a'),
     truncationRadius_kpc: truncation,
+    halo: haloSchema,
     equilibriumLaw,
   })
   .describe('Plummer sphere: radii as Aarseth, Henon & Wielen (1974), isotropic velocities from the distribution function in the equilibrium law\'s field');
@@ -55,6 +67,7 @@ const hernquistSchema = z
     mass_Msun: mass,
     scale_kpc: length.describe('Hernquist scale radius a'),
     truncationRadius_kpc: truncation,
+    halo: haloSchema,
     equilibriumLaw,
   })
   .describe('Hernquist (1990) sphere, isotropic velocities from the distribution function in the equilibrium law\'s field');
@@ -72,6 +85,7 @@ const diskSchema = z
       .strictObject({ mass_Msun: mass, scale_kpc: length.describe('Hernquist scale radius of the bulge') })
       .optional()
       .describe('optional Hernquist bulge; particles are shared out in proportion to mass'),
+    halo: haloSchema,
     equilibriumLaw,
   })
   .describe('Exponential disk (Freeman 1970) with sech^2 vertical profile');
@@ -146,7 +160,10 @@ export const integratorSchema = z
  */
 export const MIN_TRUNCATION_FRACTION = 0.01;
 
-function checkTruncation(m: { kind: string; truncationRadius_kpc?: number; scale_kpc?: number; scaleLength_kpc?: number }, path: (string | number)[], ctx: z.RefinementCtx): void {
+type Truncated = { kind: string; truncationRadius_kpc?: number; scale_kpc?: number; scaleLength_kpc?: number };
+
+function checkTruncation(m: Truncated & { halo?: Omit<Truncated, 'kind'> }, path: (string | number)[], ctx: z.RefinementCtx): void {
+  if (m.halo) checkTruncation({ kind: 'halo', ...m.halo }, [...path, 'halo'], ctx);
   const rt = m.truncationRadius_kpc;
   const scale = m.kind === 'disk' ? m.scaleLength_kpc : m.scale_kpc;
   const scaleName = m.kind === 'disk' ? 'scaleLength_kpc' : 'scale_kpc';
@@ -207,9 +224,12 @@ export const runSpecSchema = z
       if (m.primary) checkTruncation(m.primary, ['model', 'primary'], ctx);
       if (m.secondary) checkTruncation(m.secondary, ['model', 'secondary'], ctx);
     } else if (m) checkTruncation(m, ['model'], ctx);
+    if (m && m.kind !== 'encounter' && 'halo' in m && m.halo && m.n + m.halo.n > LIMITS.maxParticles) {
+      ctx.addIssue({ code: 'custom', path: ['model', 'halo', 'n'], message: `n + halo.n must be at most ${LIMITS.maxParticles}` });
+    }
     if (m?.kind === 'encounter' && m.primary && m.secondary) {
-      if (m.primary.n + m.secondary.n > LIMITS.maxParticles) {
-        ctx.addIssue({ code: 'custom', path: ['model', 'secondary', 'n'], message: `primary.n + secondary.n must be at most ${LIMITS.maxParticles}` });
+      if (systemParticles(m.primary) + systemParticles(m.secondary) > LIMITS.maxParticles) {
+        ctx.addIssue({ code: 'custom', path: ['model', 'secondary', 'n'], message: `primary.n + secondary.n (haloes included) must be at most ${LIMITS.maxParticles}` });
       }
       if (m.initialSeparation_kpc < m.pericentre_kpc) {
         ctx.addIssue({ code: 'custom', path: ['model', 'initialSeparation_kpc'], message: 'initialSeparation_kpc must be at least pericentre_kpc' });
@@ -223,6 +243,10 @@ export type RunSpecInput = z.input<typeof runSpecSchema>;
 export type ModelSpec = RunSpec['model'];
 export type SystemSpec = z.infer<typeof systemSchema>;
 export type DiskSpec = z.infer<typeof diskSchema>;
+export type HaloSpec = NonNullable<z.infer<typeof haloSchema>>;
+
+/** Particles of one system: its own n plus its live halo's. */
+export const systemParticles = (s: { n: number; halo?: { n: number } }): number => s.n + (s.halo?.n ?? 0);
 export type SolverSpec = RunSpec['solver'];
 export type IntegratorKind = RunSpec['integrator'];
 export type { LawSpec, LawKind } from '../engine/laws/registry';
@@ -261,9 +285,9 @@ export function particleCount(spec: RunSpec): number {
     case 'table':
       return m.particles.length;
     case 'encounter':
-      return m.primary.n + m.secondary.n;
+      return systemParticles(m.primary) + systemParticles(m.secondary);
     default:
-      return m.n;
+      return systemParticles(m);
   }
 }
 

@@ -5,6 +5,7 @@ import type { RngState } from '../rng';
 import { normal, uniform, uniformOpen } from '../rng';
 import { allocateAccelerations, type ParticleState, type Sources } from '../state';
 import { G } from '../units';
+import { haloProfile, sampleHaloPositions } from './halo';
 import { hernquistProfile, sampleHernquistPositions } from './hernquist';
 import { assignIsotropicVelocities, interpolate, isotropicSpeedSampler, softenedSphericalModel } from './isotropic';
 import { combinedModel, type MassModel } from './massModel';
@@ -122,14 +123,16 @@ export function thickDiskModel(d: DiskSpec, softening_kpc: number): MassModel {
     }
     return t;
   };
-  const R0 = exp(lo);
-  // Inside the first node the pull falls linearly to zero at the centre.
-  const lookup = (t: Float64Array, R: number) => (R <= 0 ? 0 : R < R0 ? (t[0] * R) / R0 : interpolate(lnR, t, log(R)));
+  const R0 = exp(lo), REnd = exp(hi);
+  // Inside the first node the pull falls linearly to zero at the centre; beyond the last
+  // (twice the truncation) the disk pulls as a point mass, as haloes and bulges reaching out there need.
+  const lookup = (t: Float64Array, R: number, far: number) =>
+    R <= 0 ? 0 : R < R0 ? (t[0] * R) / R0 : R > REnd ? far : interpolate(lnR, t, log(R));
   return {
     totalMass_Msun: M,
     extent_kpc: Math.min(5 * Rd, Rt),
-    newtonAccel: (R) => lookup(table(Infinity, newtonPull), R),
-    screenedAccel: (R, lambda) => lookup(table(lambda, screenedPull(lambda)), R),
+    newtonAccel: (R) => lookup(table(Infinity, newtonPull), R, (G * M) / (R * R)),
+    screenedAccel: (R, lambda) => lookup(table(lambda, screenedPull(lambda)), R, ((G * M) / (R * R)) * exp(-R / lambda) * (1 + R / lambda)),
     enclosedMass: (R) => M * (1 - (1 + R / Rd) * exp(-R / Rd)),
     enclosedMassSlope: (R) => ((M * R) / (Rd * Rd)) * exp(-R / Rd),
   };
@@ -137,13 +140,43 @@ export function thickDiskModel(d: DiskSpec, softening_kpc: number): MassModel {
 
 const bulgeParams = (d: DiskSpec) => (d.bulge ? { mass_Msun: d.bulge.mass_Msun, scale_kpc: d.bulge.scale_kpc } : null);
 
-/** Disk plus optional bulge, both softened as the run softens them. */
+/** Disk plus optional bulge and live halo, all softened as the run softens them. */
 export function diskGalaxyModel(d: DiskSpec, softening_kpc: number): MassModel {
   const b = bulgeParams(d);
   const disk = thickDiskModel(d, softening_kpc);
-  if (!b) return disk;
-  const combined = combinedModel([disk, softenedSphericalModel(hernquistProfile(b), softening_kpc)]);
-  return { ...combined, extent_kpc: disk.extent_kpc };
+  if (!b && !d.halo) return disk;
+  const parts = [disk];
+  if (b) parts.push(softenedSphericalModel(hernquistProfile(b), softening_kpc));
+  if (d.halo) parts.push(softenedSphericalModel(haloProfile(d.halo), softening_kpc));
+  return { ...combinedModel(parts), extent_kpc: disk.extent_kpc };
+}
+
+/**
+ * What a spherical part (bulge, halo) feels of the whole galaxy: the disk's
+ * monopole, its truncated mass taken in softened spherical shells (for a thin
+ * disk the mass inside a sphere is the mass inside that cylinder), plus the
+ * softened bulge and halo. Averaged over a sphere only the monopole of the
+ * disk's pull survives, so a spherical part's virial sum sees just that
+ * (the monopole is common practice for composite models); the disk's midplane
+ * pull, used before, left a bulge 7% too cold by the Clausius ratio (measured).
+ */
+function sphericalPartsField(d: DiskSpec, softening_kpc: number): MassModel {
+  const Rd = d.scaleLength_kpc, Rt = diskTruncation(d), M = d.mass_Msun;
+  const Fmax = 1 - (1 + Rt / Rd) * exp(-Rt / Rd);
+  const parts = [
+    softenedSphericalModel({
+      totalMass_Msun: M,
+      outerRadius_kpc: Rt,
+      scale_kpc: Rd,
+      extent_kpc: Math.min(5 * Rd, Rt),
+      enclosedMass: (r) => (r >= Rt ? M : (M * (1 - (1 + r / Rd) * exp(-r / Rd))) / Fmax),
+      enclosedMassSlope: (r) => (r >= Rt ? 0 : (M * r * exp(-r / Rd)) / (Rd * Rd * Fmax)),
+    }, softening_kpc),
+  ];
+  const b = bulgeParams(d);
+  if (b) parts.push(softenedSphericalModel(hernquistProfile(b), softening_kpc));
+  if (d.halo) parts.push(softenedSphericalModel(haloProfile(d.halo), softening_kpc));
+  return combinedModel(parts);
 }
 
 /** Particles per part: equal particle masses as far as rounding allows. */
@@ -172,12 +205,12 @@ function exponentialRadius(F: number): number {
  * from the thin-disk asymmetric-drift equation (Binney & Tremaine 2008,
  * eq. 4.227, tilt term dropped).
  */
-function diskKinematics(d: DiskSpec, law: LawSpec, model: MassModel) {
+function diskKinematics(d: DiskSpec, law: LawSpec, model: MassModel, correction: (R: number) => number = () => 1) {
   const Rd = d.scaleLength_kpc;
   const NODES = 256;
   const lo = log(1e-3 * Rd), hi = log(diskTruncation(d));
   const lnR = Float64Array.from({ length: NODES }, (_, k) => lo + ((hi - lo) * k) / (NODES - 1));
-  const vc2 = (R: number) => R * modelAcceleration(law, model, R);
+  const vc2 = (R: number) => R * modelAcceleration(law, model, R) * correction(R);
   const sigmaR = new Float64Array(NODES), sigmaPhi = new Float64Array(NODES), vPhi = new Float64Array(NODES);
   const kappa2 = new Float64Array(NODES), omega2 = new Float64Array(NODES), lnSS = new Float64Array(NODES);
   lnR.forEach((l, k) => {
@@ -252,10 +285,50 @@ function verticalDispersion(d: DiskSpec, law: LawSpec, ctx: LawContext, sources:
 }
 
 /**
- * Fills particles start..start+n-1 with the disk (first) and its bulge. The
- * disk lies in the x-y plane rotating counter-clockwise seen from +z. Every
- * position is drawn before any velocity, so a seed gives the same positions
- * whatever law the velocities are balanced for.
+ * Field-form MOND's pull in the plane of a disk is not the algebraic ν g_N its
+ * model curve uses (they agree only in spherical symmetry, and where the grid
+ * resolves the disk): its velocities would be balanced for the wrong field.
+ * Returns the ratio of the law's own midplane pull on probe rings among the
+ * sampled particles to the model curve, smoothed over neighbouring rings
+ * (particle graininess, about 1% per ring), held at the end rings' values beyond them.
+ * Other laws' model curves are their field in the plane: ratio 1.
+ */
+function fieldCorrection(d: DiskSpec, law: LawSpec, ctx: LawContext, sources: Sources, model: MassModel): (R: number) => number {
+  if (law.kind !== 'qumond') return () => 1;
+  const Rd = d.scaleLength_kpc;
+  const outer = Math.min(PROBE_OUTER * Rd, diskTruncation(d));
+  const rings = PROBE_RADII, J = 4 * PROBE_AZIMUTHS;
+  const lnR = Float64Array.from({ length: rings }, (_, k) => log(PROBE_INNER * Rd) + ((log(outer) - log(PROBE_INNER * Rd)) * k) / (rings - 1));
+  const probes = { x: new Float64Array(rings * J), y: new Float64Array(rings * J), z: new Float64Array(rings * J) };
+  for (let r = 0; r < rings; r++)
+    for (let j = 0; j < J; j++) {
+      probes.x[r * J + j] = exp(lnR[r]) * cos((2 * PI * (j + 0.5)) / J);
+      probes.y[r * J + j] = exp(lnR[r]) * Math.sin((2 * PI * (j + 0.5)) / J);
+    }
+  const acc = allocateAccelerations(rings * J);
+  createLaw(law, ctx).accelerations(sources, probes, acc);
+  const raw = Float64Array.from({ length: rings }, (_, r) => {
+    const R = exp(lnR[r]);
+    let inward = 0;
+    for (let k = r * J; k < (r + 1) * J; k++) inward -= (acc.ax[k] * probes.x[k] + acc.ay[k] * probes.y[k]) / R;
+    return inward / J / modelAcceleration(law, model, R);
+  });
+  const ratio = raw.map((_, r) => {
+    const a = Math.max(0, r - 1), b = Math.min(rings - 1, r + 1);
+    let sum = 0;
+    for (let k = a; k <= b; k++) sum += raw[k];
+    return sum / (b - a + 1);
+  });
+  return (R) => interpolate(lnR, ratio, log(Math.max(R, 1e-300)));
+}
+
+/**
+ * Fills particles start..start+n-1 with the disk (first) and its bulge, and
+ * the next halo.n with the live halo if there is one. The disk lies in the
+ * x-y plane rotating counter-clockwise seen from +z. Every position is drawn
+ * before any velocity, so a seed gives the same positions whatever law the
+ * velocities are balanced for; the halo's positions are drawn after the
+ * baryons', so the baryons sit at the same places with or without it.
  */
 export function sampleDiskGalaxy(d: DiskSpec, law: LawSpec, ctx: LawContext, rng: RngState, out: ParticleState, start: number): Component[] {
   const model = diskGalaxyModel(d, ctx.softening_kpc);
@@ -273,10 +346,12 @@ export function sampleDiskGalaxy(d: DiskSpec, law: LawSpec, ctx: LawContext, rng
   }
   const b = bulgeParams(d);
   if (b) sampleHernquistPositions(b, rng, out, diskEnd, split.bulge);
+  if (d.halo) sampleHaloPositions(d.halo, rng, out, end);
+  const haloEnd = end + (d.halo?.n ?? 0);
 
-  const view = (a: Float64Array) => a.subarray(start, end);
+  const view = (a: Float64Array) => a.subarray(start, haloEnd);
   const sigmaZ = verticalDispersion(d, law, ctx, { x: view(out.x), y: view(out.y), z: view(out.z), m: view(out.m) });
-  const kin = diskKinematics(d, law, model);
+  const kin = diskKinematics(d, law, model, fieldCorrection(d, law, ctx, { x: view(out.x), y: view(out.y), z: view(out.z), m: view(out.m) }, model));
   for (let i = start; i < diskEnd; i++) {
     const R = Math.hypot(out.x[i], out.y[i]);
     const c = out.x[i] / R, s = out.y[i] / R;
@@ -286,10 +361,14 @@ export function sampleDiskGalaxy(d: DiskSpec, law: LawSpec, ctx: LawContext, rng
     out.vx[i] = vR * c - vT * s; out.vy[i] = vR * s + vT * c; out.vz[i] = sigmaZ(R) * normal(rng);
   }
   const components: Component[] = [{ label: 'disk', start, count: split.disk }];
+  const spherical = b || d.halo ? sphericalPartsField(d, ctx.softening_kpc) : model;
   if (b) {
-    // The bulge is treated as spherical in the whole galaxy's field: an approximation in common use for composite models.
-    assignIsotropicVelocities(out, diskEnd, split.bulge, isotropicSpeedSampler(hernquistProfile(b), model, law), rng);
+    assignIsotropicVelocities(out, diskEnd, split.bulge, isotropicSpeedSampler(hernquistProfile(b), spherical, law), rng);
     components.push({ label: 'bulge', start: diskEnd, count: split.bulge });
+  }
+  if (d.halo) {
+    assignIsotropicVelocities(out, end, d.halo.n, isotropicSpeedSampler(haloProfile(d.halo), spherical, law), rng);
+    components.push({ label: 'halo', start: end, count: d.halo.n });
   }
   return components;
 }
