@@ -250,6 +250,33 @@ describe('health tells the truth', () => {
     expect(full.body).toMatchObject({ status: 'unavailable', down: ['workers'], workers: { count: 0 } });
     heartbeat = startHeartbeat(pool, 1);
   });
+
+  test('a run thread that stops reporting: 503 naming the workers with the quiet run counted, then whole again once the watchdog ends it', async () => {
+    const auth = await admin();
+    const terminatedBefore = pool.watch.terminated;
+    // The largest model by direct sum: its set-up (sampling, first force sums) sends no progress
+    // for far longer than this stall limit, so the thread is quiet after 1 s and ended after 2 s.
+    const quietSpec = { ...spec(), model: { ...spec().model, n: 100_000 } } as ReturnType<typeof spec>;
+    const handle = pool.start(quietSpec, () => undefined, undefined, { stallMs: 2000 });
+    const ended = handle.result.then(
+      () => null,
+      (e: Error) => e,
+    );
+    let seen: request.Response | null = null;
+    for (let i = 0; i < 100 && !seen; i++) {
+      const full = await request(server).get('/api/health').set(auth);
+      if (full.body.workers?.quietRuns === 1) seen = full;
+      else await new Promise((r) => setTimeout(r, 100));
+    }
+    expect(seen?.status).toBe(503);
+    expect(seen?.body).toMatchObject({ status: 'unavailable', down: ['workers'], workers: { count: 1, quietRuns: 1 } });
+    expect(seen?.body.workers.beats[0]).toMatchObject({ quietRuns: 1 });
+    expect((await ended)?.message).toMatch(/sent no progress for 2 s and its thread was terminated/);
+    expect(pool.watch).toEqual({ quiet: 0, terminated: terminatedBefore + 1 });
+    // The beat sent when the thread was ended clears the quiet run at once.
+    const after = await request(server).get('/api/health').set(auth).expect(200);
+    expect(after.body.workers).toMatchObject({ quietRuns: 0, beats: [{ terminatedThreads: terminatedBefore + 1 }] });
+  });
 });
 
 describe('with PostgreSQL unreachable', () => {
