@@ -268,9 +268,10 @@ describe('health tells the truth', () => {
     const auth = await admin();
     const terminatedBefore = pool.watch.terminated;
     // The largest model by direct sum: its set-up (sampling, first force sums) sends no progress
-    // for far longer than this stall limit, so the thread is quiet after 1 s and ended after 2 s.
+    // for far longer than this stall limit, so the thread counts as quiet from the watchdog's tick
+    // after 1.5 s (its ticks are a second apart) until it is ended after 3 s.
     const quietSpec = { ...spec(), model: { ...spec().model, n: 100_000 } } as ReturnType<typeof spec>;
-    const handle = pool.start(quietSpec, () => undefined, undefined, { stallMs: 2000 });
+    const handle = pool.start(quietSpec, () => undefined, undefined, { stallMs: 3000 });
     const ended = handle.result.then(
       () => null,
       (e: Error) => e,
@@ -284,7 +285,7 @@ describe('health tells the truth', () => {
     expect(seen?.status).toBe(503);
     expect(seen?.body).toMatchObject({ status: 'unavailable', down: ['workers'], workers: { count: 1, quietRuns: 1 } });
     expect(seen?.body.workers.beats[0]).toMatchObject({ quietRuns: 1 });
-    expect((await ended)?.message).toMatch(/sent no progress for 2 s and its thread was terminated/);
+    expect((await ended)?.message).toMatch(/sent no progress for 3 s and its thread was terminated/);
     expect(pool.watch).toEqual({ quiet: 0, terminated: terminatedBefore + 1 });
     // The beat sent when the thread was ended clears the quiet run at once.
     const after = await request(server).get('/api/health').set(auth).expect(200);
