@@ -32,9 +32,9 @@ export const config = {
   /** How long a request waits on PostgreSQL (connecting) or Redis before it answers 503. */
   serviceTimeoutMs: count('INFALL_SERVICE_TIMEOUT_MS', 3000, 60_000),
   /**
-   * How long one database statement may go unanswered before it fails (a PostgreSQL that
-   * stopped mid-request, its connections still open). Generous: it also bounds a worker's
-   * largest result writes, which are retried when they fail.
+   * How long one of the server's database statements may go unanswered before it fails (a
+   * PostgreSQL that stopped mid-request, its connections still open). Workers and migrations
+   * open their ORM without it (see openOrm).
    */
   queryTimeoutMs: count('INFALL_QUERY_TIMEOUT_MS', 15_000, 600_000),
   workerThreads: Math.max(1, Number(env.INFALL_WORKER_THREADS ?? 2) | 0),

@@ -5,7 +5,7 @@ export type Orm = MikroORM;
 
 export async function openOrm(opts: { longStatements?: boolean } = {}): Promise<Orm> {
   if (!opts.longStatements) return MikroORM.init(ormConfig);
-  // Migrations may rewrite whole tables: no per-statement limit for them.
+  // Migrations and a worker's large result writes: no per-statement limit for them.
   const connection = { ...(ormConfig.driverOptions as { connection: object }).connection, query_timeout: undefined };
   return MikroORM.init({ ...ormConfig, driverOptions: { ...ormConfig.driverOptions, connection } });
 }
