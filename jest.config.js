@@ -40,6 +40,7 @@ module.exports = {
       testMatch: ['<rootDir>/tests/faults/**/*.test.ts'],
       setupFiles: ['<rootDir>/tests/support/env.ts'],
       transform: { '^.+\\.ts$': tsJest },
+      moduleNameMapper: csvParseCjs,
     },
     {
       displayName: 'e2e',

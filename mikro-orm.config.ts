@@ -13,7 +13,8 @@ export default defineConfig({
   entities,
   // A request waits at most this long for a connection, then answers 503 (server/errors.ts).
   pool: { acquireTimeoutMillis: config.serviceTimeoutMs },
-  driverOptions: { connection: { connectionTimeoutMillis: config.serviceTimeoutMs } },
+  // A statement on an open connection to a stopped server fails after queryTimeoutMs instead of hanging.
+  driverOptions: { connection: { connectionTimeoutMillis: config.serviceTimeoutMs, query_timeout: config.queryTimeoutMs } },
   extensions: [Migrator],
   migrations: {
     path: './server/db/migrations',

@@ -31,6 +31,12 @@ export const config = {
   queueName: env.INFALL_QUEUE ?? 'infall-runs',
   /** How long a request waits on PostgreSQL (connecting) or Redis before it answers 503. */
   serviceTimeoutMs: count('INFALL_SERVICE_TIMEOUT_MS', 3000, 60_000),
+  /**
+   * How long one of the server's database statements may go unanswered before it fails (a
+   * PostgreSQL that stopped mid-request, its connections still open). Workers and migrations
+   * open their ORM without it (see openOrm).
+   */
+  queryTimeoutMs: count('INFALL_QUERY_TIMEOUT_MS', 15_000, 600_000),
   workerThreads: Math.max(1, Number(env.INFALL_WORKER_THREADS ?? 2) | 0),
   resilience: resilienceConfig(),
   webDir: env.INFALL_WEB_DIR ?? 'dist',

@@ -44,6 +44,8 @@ export function unavailable(err: unknown): Service | null {
   const e = err as { code?: string; name?: string; message?: string } | null;
   // Knex's pool timeout, MikroORM's wrapped connection errors, a refused socket, the server shutting down (57P01).
   if (e?.name === 'KnexTimeoutError' || e?.name === 'ConnectionException' || e?.code === 'ECONNREFUSED' || e?.code === '57P01') return 'The database';
+  // The pg driver's query_timeout: a statement the server never answered (see config.queryTimeoutMs).
+  if (/Query read timeout/.test(e?.message ?? '')) return 'The database';
   // ioredis with no offline queue refuses commands at once while disconnected.
   if (/Stream isn't writeable|Connection is closed/.test(e?.message ?? '')) return 'The queue';
   return null;

@@ -14,6 +14,7 @@ export function startHeartbeat(pool: RunPool, threads: number): { stop(): Promis
   const id = workerId();
   const beat = () => writeBeat(client, { id, threads, quietRuns: pool.watch.quiet, terminatedThreads: pool.watch.terminated, at: Date.now() }).catch(() => undefined);
   const timer = setInterval(beat, HEARTBEAT_EVERY_MS);
+  pool.onWatchChange = () => void beat();
   redis.once('ready', () => {
     void beat();
     void allBeats(client)
@@ -23,6 +24,7 @@ export function startHeartbeat(pool: RunPool, threads: number): { stop(): Promis
   return {
     stop: async () => {
       clearInterval(timer);
+      pool.onWatchChange = () => undefined;
       await dropBeats(client, [id]).catch(() => undefined);
       redis.disconnect();
     },

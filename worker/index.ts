@@ -15,7 +15,8 @@ import { runProcess } from '../server/process';
 runProcess('worker', async () => {
   // A bad setting stops the worker here with its message rather than failing every run in a thread.
   applyDirectKernelSetting(process.env.INFALL_DIRECT_KERNEL);
-  const orm = await openOrm();
+  // A worker's result writes can carry many megabytes of frames: no per-statement limit here.
+  const orm = await openOrm({ longStatements: true });
   const pool = new RunPool(config.workerThreads);
   const r = config.resilience;
   const worker = new Worker<RunJobData>(

@@ -72,6 +72,13 @@ export class RunPool {
 
   /** Runs whose thread has been quiet for more than half its stall limit, and threads terminated so far. */
   readonly watch = { quiet: 0, terminated: 0 };
+  /** Called when `watch` changes, so the heartbeat tells health at once rather than at its next beat. */
+  onWatchChange: () => void = () => undefined;
+  private setQuiet(): void {
+    if (this.watch.quiet === this.quiet.size) return;
+    this.watch.quiet = this.quiet.size;
+    this.onWatchChange();
+  }
   private readonly quiet = new Set<object>();
 
   start(spec: RunSpec, onProgress: (p: RunProgress) => void, checkpointing?: RunCheckpointing, limits: { stallMs?: number } = {}): RunHandle {
@@ -100,17 +107,19 @@ export class RunPool {
     const watchdog = setInterval(() => {
       const quietFor = Date.now() - lastSign;
       if (quietFor > stallMs / 2) this.quiet.add(me);
-      this.watch.quiet = this.quiet.size;
+      this.setQuiet();
       if (quietFor > stallMs) stopReason = `the run sent no progress for ${Math.round(stallMs / 1000)} s and its thread was terminated`;
       else if (cancelledAt !== null && Date.now() - cancelledAt > CANCEL_GRACE_MS) stopReason = `the run did not stop within ${CANCEL_GRACE_MS / 1000} s of being cancelled and its thread was terminated`;
       if (stopReason && !abort.signal.aborted) {
         this.watch.terminated++;
+        this.onWatchChange();
         abort.abort(new Error(stopReason));
       }
     }, WATCHDOG_EVERY_MS);
     port1.on('message', (p: RunProgress | { checkpoint: RunCheckpoint } | null) => {
       lastSign = Date.now();
       this.quiet.delete(me);
+      this.setQuiet();
       if (p === null) drain();
       else if ('checkpoint' in p) checkpointing?.onCheckpoint(p.checkpoint);
       else onProgress(p);
@@ -126,7 +135,7 @@ export class RunPool {
     const result = this.track(settled).finally(() => {
       clearInterval(watchdog);
       this.quiet.delete(me);
-      this.watch.quiet = this.quiet.size;
+      this.setQuiet();
       port1.close();
       // Helpers leave even if the run's thread died before it could tell them.
       if (sharedField) {

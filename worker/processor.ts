@@ -7,6 +7,7 @@ import type { RunCheckpoint } from '../shared/engine';
 import { stepCount } from '../shared/spec';
 import { markRunning, markCancelled, markRequeued, recordProgress, isCancelRequested, storeResult, markFailed } from '../server/services/runResults';
 import { loadCheckpoint, saveCheckpoint } from '../server/services/checkpoints';
+import { GAVE_UP_STALLED, STALLED_OUT_ERROR } from '../server/services/reconciler';
 import type { RunPool } from './pool';
 
 const PROGRESS_DB_EVERY_MS = 1000; // the database gets coarse progress; live events get every update
@@ -142,11 +143,10 @@ export function runProcessor({ orm, pool, onEnded, checkpointEvery, storeRetryMs
  * like any failure, so it cannot come back as a poison pill. Earlier failures are retried.
  */
 export async function failForGood(orm: Orm, job: Job<RunJobData>, err: Error): Promise<void> {
-  const stalledOut = /stalled more than allowable limit/.test(err.message);
+  // BullMQ fails a stalled-out job when a worker next takes it, through this handler.
+  const stalledOut = err.message === GAVE_UP_STALLED;
   if (!stalledOut && job.attemptsMade < (job.opts.attempts ?? 1)) return;
   const tries = Math.max(1, job.attemptsMade);
-  const why = stalledOut ? 'its worker stopped while running it too many times' : err.message;
-  await markFailed(orm.em.fork(), job.data.runId, `The run failed for good after ${tries} attempt${tries === 1 ? '' : 's'}: ${why}`).catch((e) =>
-    console.error(`[worker] could not mark run ${job.data.runId} failed`, e),
-  );
+  const error = stalledOut ? STALLED_OUT_ERROR : `The run failed for good after ${tries} attempt${tries === 1 ? '' : 's'}: ${err.message}`;
+  await markFailed(orm.em.fork(), job.data.runId, error).catch((e) => console.error(`[worker] could not mark run ${job.data.runId} failed`, e));
 }

@@ -48,7 +48,7 @@ export function mountAuth(_app: Express, api: Router, deps: Deps): void {
     next();
   });
   const tokenChain = Router();
-  const tokenLimit = badTokenLimiter();
+  const tokenLimit = badTokenLimiter(deps.queue);
   tokenChain.use(tokenLimit.guard, tokenAuth(tokenLimit.refused));
   api.use((req, res, next) => (req.get('authorization') !== undefined ? tokenChain(req, res, next) : sessionChain(req, res, next)));
   api.use(csrfGuard);
@@ -58,7 +58,7 @@ export function mountAuth(_app: Express, api: Router, deps: Deps): void {
   api.use('/auth', authRouter(auth));
   api.use('/account', accountRouter());
   api.use('/tokens', tokensRouter());
-  api.use('/cohorts', cohortsRouter());
+  api.use('/cohorts', cohortsRouter(deps.queue));
   api.use('/templates', templatesRouter());
   api.use('/admin', adminRouter());
 }

@@ -1,12 +1,51 @@
-import { ipKeyGenerator, MemoryStore, rateLimit, type Options, type RateLimitRequestHandler } from 'express-rate-limit';
+import { ipKeyGenerator, rateLimit, type Options, type RateLimitRequestHandler } from 'express-rate-limit';
+import { RedisStore } from 'rate-limit-redis';
+import type { Queue } from 'bullmq';
+import type { Redis } from 'ioredis';
 import type { Request, RequestHandler } from 'express';
 import { config } from '../config';
-import { ApiError } from '../errors';
+import { ApiError, withTimeout } from '../errors';
 
 // Limits per client address on the two doors a stranger can knock on: starting a
-// sign-in, and presenting an API token. Counts live in the server's memory (one
-// server process per stack), so a restart forgets them.
+// sign-in, and presenting an API token. The sign-in limit lives in the server's memory;
+// refused tokens and mail are counted in Redis, so every server process shares one count.
 export const LIMIT_WINDOW_MS = 10 * 60_000;
+
+/**
+ * A count in Redis over the queue's own connection, each key forgotten a window after its
+ * first hit. The store is set up on first use and again after a failure, so a server
+ * started while Redis is away counts once it is back. While the connection is down a count
+ * fails at once (503 naming the queue) rather than waiting out the service timeout.
+ */
+function redisCounter(queue: Queue, name: string, windowMs: number) {
+  let ready: Promise<RedisStore> | null = null;
+  const store = (client: Redis) =>
+    (ready ??= (async () => {
+      const s = new RedisStore({ prefix: `infall:${config.queueName}:limit:${name}:`, sendCommand: (command, ...args) => client.call(command, ...args) as Promise<never> });
+      await s.init({ windowMs } as Options);
+      return s;
+    })()).catch((e: unknown) => {
+      ready = null;
+      throw e;
+    });
+  const bounded = <T>(work: (s: RedisStore) => Promise<T>) =>
+    withTimeout(
+      // BullMQ's connection is an ioredis client underneath its narrower interface.
+      queue.getBackend().client.then((c) => {
+        const client = c as unknown as Redis;
+        if (client.status !== 'ready') throw new Error('Redis is not connected');
+        return store(client).then(work);
+      }),
+      'The queue',
+      config.serviceTimeoutMs,
+    ).catch((e: unknown) => {
+      throw e instanceof ApiError ? e : new ApiError('UNAVAILABLE', 'The queue is not answering; try again shortly');
+    });
+  return {
+    hits: (key: string) => bounded((s) => s.get(key)).then((info) => info?.totalHits ?? 0),
+    add: (key: string) => bounded((s) => s.increment(key)).then(() => undefined),
+  };
+}
 
 const minutes = Math.round(LIMIT_WINDOW_MS / 60_000);
 
@@ -21,17 +60,18 @@ export const signInLimiter = (limit = config.auth.signInLimit) => limiter(limit,
  * flight and open event streams with a good token never do); past the limit every
  * token from the address is turned away before it is checked, so guessing stops.
  */
-export function badTokenLimiter(limit = config.auth.badTokenLimit): { guard: RequestHandler; refused(req: Request): Promise<void> } {
-  const store = new MemoryStore();
-  store.init({ windowMs: LIMIT_WINDOW_MS } as Options);
+export function badTokenLimiter(queue: Queue, limit = config.auth.badTokenLimit): { guard: RequestHandler; refused(req: Request): Promise<void> } {
+  const count = redisCounter(queue, 'token', LIMIT_WINDOW_MS);
   const key = (req: Request) => ipKeyGenerator(req.ip ?? 'unknown');
   return {
+    // With Redis away the count is unknown and the token is checked as usual (reads of runs
+    // need only the database); each refusal still costs the caller a database lookup.
     guard: async (req, _res, next) => {
-      const hits = (await store.get(key(req)))?.totalHits ?? 0;
+      const hits = await count.hits(key(req)).catch(() => 0);
       if (hits >= limit) return next(new ApiError('RATE_LIMITED', `Too many requests with an unknown, expired or revoked API token from this address; try again within ${minutes} minutes`));
       next();
     },
-    refused: async (req) => void (await store.increment(key(req))),
+    refused: (req) => count.add(key(req)).catch(() => undefined),
   };
 }
 
@@ -42,17 +82,17 @@ export const MAIL_WINDOW_MS = 60 * 60_000;
  * Mail a person's request sends (cohort invitations), counted per person and hour, so one
  * account cannot turn the service into a mailer. A request that would pass the limit sends nothing.
  */
-export function mailLimiter(limit = config.auth.mailLimit): { take(userId: number, mails: number): Promise<void> } {
-  const store = new MemoryStore();
-  store.init({ windowMs: MAIL_WINDOW_MS } as Options);
+export function mailLimiter(queue: Queue, limit = config.auth.mailLimit): { take(userId: number, mails: number): Promise<void> } {
+  const count = redisCounter(queue, 'mail', MAIL_WINDOW_MS);
   return {
+    // With Redis away the count is unknown and nothing is sent: 503 naming the queue.
     take: async (userId, mails) => {
       const key = `user:${userId}`;
-      const used = (await store.get(key))?.totalHits ?? 0;
+      const used = await count.hits(key);
       if (used + mails > limit) {
         throw new ApiError('RATE_LIMITED', `At most ${limit} e-mails an hour per person; ${Math.max(0, limit - used)} left this hour, this request would send ${mails}`);
       }
-      for (let i = 0; i < mails; i++) await store.increment(key);
+      for (let i = 0; i < mails; i++) await count.add(key);
     },
   };
 }

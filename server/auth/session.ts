@@ -33,6 +33,7 @@ export function sessionMiddleware(): RequestHandler {
       // As many as the ORM's pool: each cookie request reads its session here (see `npm run load`).
       max: 10,
       connectionTimeoutMillis: config.serviceTimeoutMs,
+      query_timeout: config.queryTimeoutMs,
       // Idle connections don't keep a finished process (or test) alive.
       allowExitOnIdle: true,
     },

@@ -3,8 +3,11 @@ import ormConfig from '../../mikro-orm.config';
 
 export type Orm = MikroORM;
 
-export async function openOrm(): Promise<Orm> {
-  return MikroORM.init(ormConfig);
+export async function openOrm(opts: { longStatements?: boolean } = {}): Promise<Orm> {
+  if (!opts.longStatements) return MikroORM.init(ormConfig);
+  // Migrations and a worker's large result writes: no per-statement limit for them.
+  const connection = { ...(ormConfig.driverOptions as { connection: object }).connection, query_timeout: undefined };
+  return MikroORM.init({ ...ormConfig, driverOptions: { ...ormConfig.driverOptions, connection } });
 }
 
 /** Applies the committed migrations that the database has not seen yet. */

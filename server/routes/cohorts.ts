@@ -18,12 +18,13 @@ import {
 import { publishTemplate, templatesOf, toTemplateDetail, toTemplateSummary } from '../services/templates';
 import { idParam, parseInput } from './input';
 import { mailLimiter } from '../auth/limits';
+import type { Queue } from 'bullmq';
 
 const em = () => RequestContext.getEntityManager() as EntityManager;
 
-export function cohortsRouter(): Router {
+export function cohortsRouter(queue: Queue): Router {
   const r = Router();
-  const mail = mailLimiter();
+  const mail = mailLimiter(queue);
   r.use(requireUser);
 
   r.post('/', requireRole('instructor', 'admin'), async (req, res) => {

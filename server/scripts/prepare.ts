@@ -3,7 +3,7 @@ import { openOrm, migrate } from '../db/orm';
 import { seedDemo } from '../db/seed';
 
 async function main() {
-  const orm = await openOrm();
+  const orm = await openOrm({ longStatements: true });
   try {
     const applied = await migrate(orm);
     if (applied.length) console.log(`[infall] applied migrations: ${applied.join(', ')}`);

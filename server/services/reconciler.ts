@@ -11,7 +11,9 @@ import { markFailed, markRequeued } from './runResults';
 // many tries or when its workers kept dying, failed with its uncomputed part refunded.
 
 /** BullMQ's reason for a job whose workers died more often than the worker's maxStalledCount allows. */
-const GAVE_UP_STALLED = 'job stalled more than allowable limit';
+export const GAVE_UP_STALLED = 'job stalled more than allowable limit';
+/** The run's error when that happened: the same whether the worker that next takes the job or a reconciler pass fails it. */
+export const STALLED_OUT_ERROR = 'The workers running this run stopped unexpectedly several times; it was given up. The uncomputed part was refunded.';
 /** A job in one of these states will still reach a worker. */
 const LIVE = new Set(['waiting', 'active', 'delayed', 'prioritized', 'waiting-children']);
 
@@ -51,7 +53,7 @@ export async function reconcile(orm: Orm, queue: Queue<RunJobData>, { graceMs = 
       const requeues = job?.data.requeues ?? 0;
       const why = job?.failedReason;
       if (why === GAVE_UP_STALLED) {
-        await markFailed(orm.em.fork(), id, 'The workers running this run stopped unexpectedly several times; it was given up. The uncomputed part was refunded.');
+        await markFailed(orm.em.fork(), id, STALLED_OUT_ERROR);
       } else if (requeues >= maxRequeues) {
         await markFailed(orm.em.fork(), id, `The run could not be completed after ${requeues + 1} attempts${why ? `: ${why}` : ''}. The uncomputed part was refunded.`);
       } else {

@@ -15,7 +15,7 @@ export type { DiagnosticSample, ToomreProfile, Vector3 } from './diagnostics';
 export type { RotationCurve } from './rotationCurves';
 export { measureRotationCurve } from './rotationCurves';
 export type { EngineWarning, Timescales } from './timescales';
-export { Simulation } from './simulation';
+export { CancelledDuringSetup, Simulation } from './simulation';
 export type { SimulationState } from './simulation';
 export { buildInitialConditions, massModelFor } from './models';
 export type { Component, InitialConditions } from './models';

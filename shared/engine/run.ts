@@ -7,7 +7,7 @@ import { lawInfo } from './laws/registry';
 import type { LawInfo } from './laws/types';
 import { balancedSystems, type Component } from './models';
 import { measureRotationCurve, type RotationCurve } from './rotationCurves';
-import { Simulation, type SimulationState } from './simulation';
+import { CancelledDuringSetup, Simulation, type SimulationState } from './simulation';
 import type { FieldSolver } from './solvers';
 import { cloneParticles, firstNonFinite, type ParticleState } from './state';
 import { timescalesFor, type EngineWarning, type Timescales } from './timescales';
@@ -165,7 +165,10 @@ export function blowUpCause(warnings: EngineWarning[], suggestedTimestep_Myr: nu
 export function runSimulation(spec: RunSpec, hooks: RunHooks = {}): RunResult {
   const resume = hooks.resumeFrom;
   // The checkpoint is copied, so the caller's stays a record of where it was taken.
-  const sim = new Simulation(spec, resume && copyState(resume.state), hooks.solver);
+  // A fresh run cancelled during its set-up throws CancelledDuringSetup (it has no state to return
+  // yet); a resumed one has its checkpoint and ends through the loop's check like any cancel.
+  const setupCancel = resume ? undefined : hooks.shouldCancel;
+  const sim = new Simulation(spec, resume && copyState(resume.state), hooks.solver, setupCancel);
   if (resume) sim.forceEvaluations = resume.forceEvaluations;
   const { timescales, warnings } = timescalesFor(spec, sim.initial);
   const total = sim.totalSteps;
@@ -215,6 +218,8 @@ export function runSimulation(spec: RunSpec, hooks: RunHooks = {}): RunResult {
       energyDrift: latestDrift,
     });
 
+  // The initial curve and diagnostics sum over all pairs again: a cancel that came during the first force sum skips them.
+  if (setupCancel?.()) throw new CancelledDuringSetup();
   let initialCurve: RotationCurve;
   if (resume) {
     initialCurve = resume.initialCurve;

@@ -20,6 +20,13 @@ export interface SimulationState {
   rng: RngState;
 }
 
+/** Thrown when a run is cancelled during its set-up, before it has a first state to return. */
+export class CancelledDuringSetup extends Error {
+  constructor() {
+    super('the run was cancelled while its initial conditions were being set up');
+  }
+}
+
 export class Simulation {
   readonly spec: RunSpec;
   readonly law: ForceLaw;
@@ -30,12 +37,17 @@ export class Simulation {
   private readonly dt: number;
   forceEvaluations = 0;
 
-  /** `solver` replaces the one the spec names (see RunHooks.solver). */
-  constructor(spec: RunSpec, state?: SimulationState, solver: FieldSolver = makeSolver(spec.solver)) {
+  /**
+   * `solver` replaces the one the spec names (see RunHooks.solver). `shouldCancel` is asked
+   * once the particles are sampled: a cancel then skips the first force sum, which for the
+   * largest direct-sum models takes far longer than the sampling.
+   */
+  constructor(spec: RunSpec, state?: SimulationState, solver: FieldSolver = makeSolver(spec.solver), shouldCancel?: () => boolean) {
     this.spec = spec;
     // Initial conditions always come from a fresh generator, so a resumed run knows its t = 0 too.
     const icRng = seedRng(spec.seed);
     this.initial = buildInitialConditions(spec, icRng);
+    if (shouldCancel?.()) throw new CancelledDuringSetup();
     this.law = createLaw(spec.law, { solver, softening_kpc: spec.softening_kpc, initial: this.initial.particles });
     this.totalSteps = stepCount(spec);
     this.dt = myrToInternal(spec.timestep_Myr);

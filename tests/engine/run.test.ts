@@ -1,5 +1,5 @@
 import { defaultRunSpec, parseRunSpec, type RunSpec } from '../../shared/spec';
-import { lawInfo, precheck, runSimulation, type RunProgress } from '../../shared/engine';
+import { CancelledDuringSetup, lawInfo, precheck, runSimulation, type RunProgress } from '../../shared/engine';
 
 function spec(overrides: Record<string, unknown>): RunSpec {
   const r = parseRunSpec({ ...defaultRunSpec(), ...overrides });
@@ -43,10 +43,21 @@ describe('runSimulation', () => {
 
   test('cancellation stops early and returns what exists', () => {
     let calls = 0;
-    const r = runSimulation(small(), { shouldCancel: () => ++calls > 5 });
+    // Asked twice during set-up (after sampling, after the first force sum), then before each step.
+    const r = runSimulation(small(), { shouldCancel: () => ++calls > 7 });
     expect(r.cancelled).toBe(true);
     expect(r.summary.stepsCompleted).toBe(5);
     expect(r.diagnostics[r.diagnostics.length - 1].step).toBe(5);
+  });
+
+  test('a cancel during set-up stops before the first force sum, or before the initial curve and diagnostics', () => {
+    let evaluated = 0;
+    const counting = { kind: 'direct' as const, field: () => void evaluated++, potential: () => undefined };
+    expect(() => runSimulation(small(), { shouldCancel: () => true, solver: counting as never })).toThrow(CancelledDuringSetup);
+    expect(evaluated).toBe(0);
+    let calls = 0;
+    expect(() => runSimulation(small(), { shouldCancel: () => ++calls > 1 })).toThrow('the run was cancelled while its initial conditions were being set up');
+    expect(calls).toBe(2);
   });
 
   test('Newtonian energy drift of a Plummer sphere stays small with leapfrog (bounded error is the symplectic property; 1e-3 is our tolerance for this step size)', () => {

@@ -2,6 +2,7 @@
 // the test, PostgreSQL and Redis stopped and started through services.sh. Every child is
 // killed by killAll(), so a failed test leaves nothing running.
 import { spawn, execFileSync, type ChildProcess } from 'node:child_process';
+import { readFileSync } from 'node:fs';
 import path from 'node:path';
 
 const root = path.resolve(__dirname, '../..');
@@ -69,9 +70,19 @@ function redisDir(): string {
   return dir;
 }
 
+/** The test cluster's postmaster (first line of postmaster.pid) and its backends. */
+function pgProcesses(): number[] {
+  const postmaster = Number(readFileSync(path.join(pgDir(), 'data', 'postmaster.pid'), 'utf8').split('\n')[0]);
+  const children = execFileSync('ps', ['-o', 'pid=', '--ppid', String(postmaster)], { encoding: 'utf8' }).split('\n').map(Number).filter((n) => n > 0);
+  return [postmaster, ...children];
+}
+
 export const postgres = {
   stop: () => services(`pg_stop '${pgDir()}'`),
   start: () => services(`pg_start '${pgDir()}' ${process.env.INFALL_PG_PORT}`),
+  /** SIGSTOP: the server stops answering mid-request while its connections stay open. */
+  freeze: () => pgProcesses().forEach((pid) => process.kill(pid, 'SIGSTOP')),
+  thaw: () => pgProcesses().forEach((pid) => process.kill(pid, 'SIGCONT')),
 };
 
 export const redis = {

@@ -43,6 +43,20 @@ test('a thread that sends no progress within its limit is terminated; the run fa
   }
 });
 
+test('a run cancelled while its huge model is still being set up stops by itself, before the first force sum, without the watchdog', async () => {
+  const pool = new RunPool(1);
+  try {
+    // The largest model by direct sum: sampling takes well under a second, the first force sum and
+    // initial diagnostics far longer than the 10 s a cancelled thread gets before it is terminated.
+    const huge = pool.start(plummer(100_000, 1), () => undefined);
+    huge.cancel(); // set before the thread has finished sampling
+    await expect(huge.result).rejects.toThrow('the run was cancelled while its initial conditions were being set up');
+    expect(pool.watch.terminated).toBe(0);
+  } finally {
+    await pool.close();
+  }
+});
+
 test('a job that keeps throwing is retried, then its run is failed for good with the reason', async () => {
   const em = stack.orm.em.fork();
   const login = uniqueLogin('poison');
