@@ -34,10 +34,10 @@ export function describeDifferences(a: Side, b: Side): string[] {
   if (ea !== null && eb !== null) {
     const worse = ea > eb ? a : b;
     const ratio = Math.max(ea, eb) / Math.max(1e-300, Math.min(ea, eb));
-    lines.push(`Largest energy drift |ΔE/E₀|: ${formatValue(ea)} under ${a.label}, ${formatValue(eb)} under ${b.label}${ratio > 3 ? ` (${worse.label} is ${formatValue(ratio, 2)}× worse)` : ''}.`);
+    lines.push(`Largest energy drift |ΔE|/(K₀ + |W₀|): ${formatValue(ea)} under ${a.label}, ${formatValue(eb)} under ${b.label}${ratio > 3 ? ` (${worse.label} is ${formatValue(ratio, 2)}× worse)` : ''}.`);
   } else {
     const without = [a, b].filter((s) => !s.out.law.hasPotential).map((s) => s.label);
-    lines.push(`${without.join(' and ')} ${without.length > 1 ? 'have' : 'has'} no potential energy, so energy conservation cannot be compared; compare momentum and structure instead.`);
+    lines.push(`${without.join(' and ')} ${without.length > 1 ? 'have' : 'has'} no potential energy, so energy conservation cannot be compared; compare structure and rotation curves instead (momentum too where the law conserves it).`);
   }
   const ma = a.out.summary.finalMomentumDrift;
   const mb = b.out.summary.finalMomentumDrift;

@@ -78,7 +78,7 @@ describe('the compare summary', () => {
 
   it('compares drifts, structure and outer speeds in sentences', () => {
     const lines = describeDifferences({ label: 'Newton', out: out({ hasPotential: true, maxDrift: 1e-6, r50: [1, 1.1], label: 'Newtonian' }) }, { label: 'Yukawa', out: out({ hasPotential: true, maxDrift: 1e-4, r50: [1, 0.8], label: 'Yukawa' }) });
-    expect(lines[0]).toBe('Largest energy drift |ΔE/E₀|: 1.00e-6 under Newton, 1.00e-4 under Yukawa (Yukawa is 100× worse).');
+    expect(lines[0]).toBe('Largest energy drift |ΔE|/(K₀ + |W₀|): 1.00e-6 under Newton, 1.00e-4 under Yukawa (Yukawa is 100× worse).');
     expect(lines).toContain('Half-mass radius changed +10% under Newton and -20% under Yukawa.');
     expect(lines).toContain('Outermost circular speed at the end: 120 km/s at 2 kpc under Newton, 120 km/s at 2 kpc under Yukawa.');
   });
