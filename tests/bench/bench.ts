@@ -4,7 +4,7 @@ import os from 'node:os';
 import { benchDirect, type DirectFigures } from './direct';
 import { benchTree, type TreeFigure } from './tree';
 import { benchQumond, qumondKey, type QumondFigure } from './qumond';
-import { benchSplitRun, benchThreads, type SplitFigures, type ThreadFigures } from './threads';
+import { benchThreads, type ThreadFigures } from './threads';
 import { benchEndToEnd, benchSnapshots, type EndToEndFigures, type SnapshotFigures, type StackTarget } from './stack';
 import type { ClientFigures } from './client';
 
@@ -12,8 +12,6 @@ export interface PureSizes {
   direct: { n: number; repeats: number };
   tree: { sizes: number[]; thetas: number[]; sampleTargets: number; repeats: number };
   threads: { n: number; steps: number; treeN: number; treeSteps: number; threads: number; spinIterations: number; repeats: number };
-  /** The same comparison for a field-form MOND run (direct pair sum, grid `grid`). */
-  threadsQumond: { n: number; steps: number; threads: number; spinIterations: number; repeats: number; grid: QumondFigure['grid'] };
   qumond: { grids: QumondFigure['grid'][]; sizes: number[]; repeats: number };
 }
 
@@ -21,7 +19,6 @@ export const FULL_SIZES: PureSizes = {
   direct: { n: 4096, repeats: 7 },
   tree: { sizes: [1_000, 3_000, 10_000, 100_000, 300_000], thetas: [0.5, 0.7], sampleTargets: 1_000, repeats: 3 },
   threads: { n: 6_000, steps: 25, treeN: 20_000, treeSteps: 4, threads: 2, spinIterations: 2e8, repeats: 3 },
-  threadsQumond: { n: 6_000, steps: 10, threads: 2, spinIterations: 2e8, repeats: 2, grid: 64 },
   qumond: { grids: [64, 128], sizes: [10_000, 100_000], repeats: 2 },
 };
 
@@ -29,7 +26,6 @@ export interface PureReport {
   directSum: DirectFigures;
   tree: TreeFigure[];
   threads: ThreadFigures;
-  threadsQumond: SplitFigures & { grid: QumondFigure['grid'] };
   qumond: QumondFigure[];
 }
 
@@ -52,13 +48,9 @@ export async function benchPure(sizes: PureSizes = FULL_SIZES): Promise<PureRepo
   const tree = benchTree(sizes.tree);
   log(`threads: one ${sizes.threads.n}-particle direct and one ${sizes.threads.treeN}-particle tree run on 1 and ${sizes.threads.threads} threads`);
   const threads = await benchThreads(sizes.threads);
-  const tq = sizes.threadsQumond;
-  log(`threads: one ${tq.n}-particle field-form MOND run (grid ${tq.grid}) on 1 and ${tq.threads} threads`);
-  const law = { kind: 'qumond', interpolation: 'simple', a0_m_s2: 1.2e-10, grid: tq.grid } as const;
-  const threadsQumond = { ...(await benchSplitRun({ ...tq, extra: { law } })), grid: tq.grid };
   log(`field-form MOND: grid ${sizes.qumond.grids.join(', ')} at N = ${sizes.qumond.sizes.join(', ')}`);
   const qumond = benchQumond(sizes.qumond);
-  return { directSum, tree, threads, threadsQumond, qumond };
+  return { directSum, tree, threads, qumond };
 }
 
 export async function benchStackSections(
@@ -81,7 +73,7 @@ export function toJson(r: BenchReport): Record<string, unknown> {
   return {
     directSum: r.directSum ?? { interactionsPerSecond: null, referenceInteractionsPerSecond: null, ratio: null, nativeReferenceInteractionsPerSecond: null, maxRelativeDifference: null },
     tree: r.tree ?? [],
-    threads: { ...(r.threads ?? { speedup: null }), qumondSpeedup: r.threadsQumond?.speedup ?? null },
+    threads: r.threads ?? { speedup: null },
     ...Object.fromEntries((r.qumond ?? []).map((f) => [qumondKey(f), { msPerEval: f.msPerEval, pairMsPerEval: f.pairMsPerEval }])),
     e2e: r.e2e ?? { firstProgressMs: null, diskRunSeconds: null, bigDiskRunSeconds: null },
     snapshot: r.snapshot ?? { bytesPerParticle: null },
@@ -130,11 +122,6 @@ export function toTable(r: BenchReport): string {
     rows.push([`threads: ${t.treeN}-particle tree run, ${t.treeSteps} steps, 1 -> ${t.threads} threads`, `${fmt(t.treeSingleSeconds)} s -> ${fmt(t.treeSplitSeconds)} s`, t.treeIdentical ? 'bit-identical' : 'RESULTS DIFFER', mark(t.treeIdentical)]);
     rows.push(['threads: tree speed-up', `${fmt(t.treeSpeedup)}x`, '>= 1.7x', mark(t.treeSpeedup >= 1.7)]);
     rows.push([`threads: plain loop on ${t.threads} threads, same moment`, `${fmt(t.machineSpeedup)}x`, 'the most this machine gave', '']);
-  }
-  const q = r.threadsQumond;
-  if (q) {
-    rows.push([`threads: ${q.n}-particle field-form MOND run (grid ${q.grid}^3), ${q.steps} steps, 1 -> ${q.threads} threads`, `${fmt(q.singleSeconds)} s -> ${fmt(q.splitSeconds)} s`, q.identical ? 'bit-identical' : 'RESULTS DIFFER', mark(q.identical)]);
-    rows.push(['threads: field-form MOND speed-up (pair sum split, grid on one thread)', `${fmt(q.speedup)}x`, '>= 1.6x', mark(q.speedup >= 1.6)]);
   }
   for (const f of r.qumond ?? []) {
     rows.push([`field-form MOND grid=${f.grid}^3 N=${f.n}: ms per force evaluation`, fmt(f.msPerEval), `pair sum alone (tree, theta 0.7): ${fmt(f.pairMsPerEval)} ms`, '']);

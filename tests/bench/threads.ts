@@ -9,17 +9,6 @@ import type { RunResult } from '../../shared/engine';
 import type { RunSpec } from '../../shared/spec';
 import { plummerRun } from './specs';
 
-/** Spec fields the timed run takes beyond the bench's Plummer sphere, such as another law. */
-type RunExtra = Parameters<typeof plummerRun>[2];
-
-export interface SplitFigures extends Split {
-  n: number;
-  steps: number;
-  threads: number;
-  repeats: number;
-  machineSpeedup: number;
-}
-
 export interface ThreadFigures {
   n: number;
   steps: number;
@@ -117,19 +106,6 @@ async function compare(single: RunPool, split: RunPool, spec: RunSpec, warm: Run
     helperChunks: Math.min(...manys.map((m) => m.helped)),
     identical: manys.every((m) => sameResults(ones[0].result, m.result)) && ones.every((o) => sameResults(ones[0].result, o.result)),
   };
-}
-
-/** One run of `n` particles (with `extra` spec fields, such as another law) on 1 and `threads` threads. */
-export async function benchSplitRun({ n = 6_000, steps = 10, threads = 2, spinIterations = 2e8, repeats = 2, extra = {} as RunExtra } = {}): Promise<SplitFigures> {
-  const capacity = await machineSpeedup(threads, spinIterations);
-  const single = new RunPool(1);
-  const split = new RunPool(threads);
-  try {
-    const d = await compare(single, split, plummerRun(n, steps, extra), plummerRun(Math.max(n, SPLIT_MIN_PARTICLES), 2, extra), repeats);
-    return { n, steps, threads, repeats, ...d, machineSpeedup: capacity };
-  } finally {
-    await Promise.all([single.close(), split.close()]);
-  }
 }
 
 export async function benchThreads({ n = 6_000, steps = 40, treeN = 20_000, treeSteps = 4, threads = 2, spinIterations = 2e8, repeats = 3 } = {}): Promise<ThreadFigures> {

@@ -8,7 +8,6 @@ const TINY: PureSizes = {
   direct: { n: 64, repeats: 2 },
   tree: { sizes: [300, 600], thetas: [0.5, 0.7], sampleTargets: 50, repeats: 1 },
   threads: { n: 200, steps: 2, treeN: 300, treeSteps: 2, threads: 2, spinIterations: 1e5, repeats: 2 },
-  threadsQumond: { n: 200, steps: 1, threads: 2, spinIterations: 1e5, repeats: 1, grid: 32 },
   qumond: { grids: [32], sizes: [300], repeats: 1 },
 };
 
@@ -39,8 +38,6 @@ test('the pure sections give every JSON key a finite number, and the table names
   expect(report.threads.identical).toBe(true);
   expect(finite(json.threads.treeSpeedup)).toBe(true);
   expect(report.threads.treeIdentical).toBe(true);
-  expect(finite(json.threads.qumondSpeedup)).toBe(true);
-  expect(report.threadsQumond.identical).toBe(true);
   // Without a stack (skipped here; tests/server/bench-stack.test.ts covers those sections) the keys are present and null.
   expect(json.e2e).toEqual({ firstProgressMs: null, diskRunSeconds: null, bigDiskRunSeconds: null });
   expect(json.snapshot).toEqual({ bytesPerParticle: null });

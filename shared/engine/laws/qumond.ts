@@ -4,7 +4,7 @@ import {
   type GridGeometry, type GridVectors,
 } from '../solvers/grid';
 import { newtonKernel } from '../solvers/types';
-import { allocateAccelerations, type Accelerations, type Points, type Sources } from '../state';
+import type { Points, Sources } from '../state';
 import { accelFromSI, G } from '../units';
 import { mondLaw, mondNu } from './mond';
 import { pairPotentialEnergy, scratchFor } from './pairwise';
@@ -15,7 +15,7 @@ const { hypot, log10, sqrt } = Math;
 
 const fieldComponent = z.number().min(-1e-8).max(1e-8);
 
-/** Node counts per side the grid offers: powers of two (the FFT needs them); 256 would hold 1.9 GB per run (README, field form). */
+/** Node counts per side the grid offers: powers of two (the FFT needs them); 256 would need about 1.6 GB. */
 export const QUMOND_GRID_SIZES = [32, 64, 128] as const;
 
 const schema = z
@@ -175,13 +175,9 @@ export function qumondGridNotes(params: QumondParams, initial: Sources, halfMass
  * taken out: the system falls freely with it, so particles feel only the
  * difference). The bracket vanishes far from the system, so the isolated,
  * zero-padded solve suits it. Steps per evaluation: cloud-in-cell deposit,
- * Poisson solve for the grid's Phi_N, g_N by differences, the bracket w and its
- * divergence, a second Poisson solve for Phi_P, and g_P by differences.
- * g_P is w plus a divergence-free field (g_P is the part of w that is a gradient), and in
- * spherical symmetry the two are equal. w is sharply peaked where g_N vanishes
- * (it goes as sqrt(|g_N|)), which the grid resolves poorly, so the grid keeps only
- * the smooth difference g_P - w, and each target gets w from its own exact g_N
- * plus that difference by cloud-in-cell interpolation.
+ * Poisson solve for the grid's Phi_N, g_N by differences, the bracket and its
+ * divergence, a second Poisson solve for Phi_P, g_P by differences, and
+ * cloud-in-cell interpolation to the targets.
  */
 class PhantomGrid {
   readonly geo: GridGeometry;
@@ -192,8 +188,8 @@ class PhantomGrid {
   private readonly phi: Float64Array;
   /** The grid's g_N, overwritten by the bracket w once that is formed. */
   private readonly gN: GridVectors;
-  /** Phantom field minus the bracket w at the nodes, after `solve`. */
-  private readonly gP: GridVectors;
+  /** Phantom field at the nodes after `solve`. */
+  readonly gP: GridVectors;
   private readonly a0: number;
   private readonly ge: [number, number, number];
   private readonly nuE: number;
@@ -250,25 +246,6 @@ class PhantomGrid {
     }
     this.poisson.potential(source, this.geo.h, this.phi);
     negativeGradient(this.geo, this.phi, this.gP);
-    for (let q = 0; q < w.x.length; q++) { this.gP.x[q] -= w.x[q]; this.gP.y[q] -= w.y[q]; this.gP.z[q] -= w.z[q]; }
-  }
-
-  /**
-   * Phantom field at points whose exact Newtonian fields are gN, after `solve`: the algebraic
-   * form plus the grid's g_P - w inside the ball, the algebraic form alone outside it.
-   * Flags the points inside the ball.
-   */
-  phantomAt(pts: Points, gN: Accelerations, v: { x: Float64Array; y: Float64Array; z: Float64Array; inside: Uint8Array }): void {
-    interpolateVectors(this.geo, this.gP, pts, v.x, v.y, v.z, v.inside);
-    const a = [0, 0, 0];
-    for (let i = 0; i < pts.x.length; i++) {
-      this.algebraicPhantom(gN.ax[i], gN.ay[i], gN.az[i], a);
-      if (v.inside[i] && this.inBall(pts.x[i], pts.y[i], pts.z[i])) {
-        v.x[i] += a[0]; v.y[i] += a[1]; v.z[i] += a[2];
-      } else {
-        v.inside[i] = 0; v.x[i] = a[0]; v.y[i] = a[1]; v.z[i] = a[2];
-      }
-    }
   }
 
   /** The phantom part of the QUMOND energy, -(a0^2 / 8 pi G) sum h^3 [P(|g|/a0) - P(|g_e|/a0) - 2 (nu_e - 1) g_e.g_N / a0^2]. */
@@ -331,7 +308,7 @@ export const qumondLaw = defineLaw({
     };
     const atSources = scratchVectors();
     const atTargets = scratchVectors();
-    let sourceField: Accelerations = allocateAccelerations(0);
+    const fallback = [0, 0, 0];
     return {
       info: info(params),
       accelerations(sources: Sources, targets: Points, out) {
@@ -339,13 +316,8 @@ export const qumondLaw = defineLaw({
         const g = gridFor(sources);
         const s = atSources(sources.m.length);
         g.solve(sources, s.inside);
-        const same = (targets as Points) === sources;
-        // The net force below is the sources' own, so probes elsewhere need g_N at the sources too.
-        if (!same) {
-          if (sourceField.ax.length !== sources.m.length) sourceField = allocateAccelerations(sources.m.length);
-          solver.field(sources, sources, kernel, sourceField);
-        }
-        g.phantomAt(sources, same ? out : sourceField, s);
+        interpolateVectors(g.geo, g.gP, sources, s.x, s.y, s.z, s.inside);
+        for (let i = 0; i < sources.m.length; i++) if (s.inside[i] && !g.inBall(sources.x[i], sources.y[i], sources.z[i])) s.inside[i] = 0;
         // The discrete phantom field leaves a small net force on the particles in the grid;
         // continuum QUMOND exerts none on an isolated system (Milgrom 2010), so it is
         // discretisation error and is removed as a uniform acceleration, which leaves
@@ -357,11 +329,18 @@ export const qumondLaw = defineLaw({
           M += m; fx += m * s.x[i]; fy += m * s.y[i]; fz += m * s.z[i];
         }
         if (M > 0) { fx /= M; fy /= M; fz /= M; }
-        const t = same ? s : atTargets(targets.x.length);
-        if (!same) g.phantomAt(targets, out, t);
+        const t = (targets as Points) === sources ? s : atTargets(targets.x.length);
+        if (t !== s) {
+          interpolateVectors(g.geo, g.gP, targets, t.x, t.y, t.z, t.inside);
+          for (let i = 0; i < targets.x.length; i++) if (t.inside[i] && !g.inBall(targets.x[i], targets.y[i], targets.z[i])) t.inside[i] = 0;
+        }
         for (let i = 0; i < targets.x.length; i++) {
-          const shift = t.inside[i] ? 1 : 0;
-          out.ax[i] += t.x[i] - shift * fx; out.ay[i] += t.y[i] - shift * fy; out.az[i] += t.z[i] - shift * fz;
+          if (t.inside[i]) {
+            out.ax[i] += t.x[i] - fx; out.ay[i] += t.y[i] - fy; out.az[i] += t.z[i] - fz;
+          } else {
+            g.algebraicPhantom(out.ax[i], out.ay[i], out.az[i], fallback);
+            out.ax[i] += fallback[0]; out.ay[i] += fallback[1]; out.az[i] += fallback[2];
+          }
         }
       },
       potentialEnergy(sources) {
