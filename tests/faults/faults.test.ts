@@ -138,6 +138,9 @@ test('a run whose worker is killed twice is taken over from its checkpoints and 
     // Killed once it has stored a checkpoint beyond the one it started from.
     lastStep = await poll(`checkpoint past step ${lastStep}`, () => checkpointAt(id), (s) => s > lastStep, 90_000);
     await killHard(w);
+    // A checkpoint write in flight at the kill may have landed after the poll read: the next
+    // worker must get past the newest one, so it is read again once the worker is gone.
+    lastStep = await checkpointAt(id);
   }
   const whole = runSimulation(spec); // computed here while the last worker runs
   const last = startProcess('worker/index.ts', WORKER_ENV);
