@@ -1,12 +1,11 @@
 import { Simulation } from '../../shared/engine/simulation';
-import { allocateAccelerations, centreOfMass } from '../../shared/engine/state';
 import { lagrangianRadii } from '../../shared/engine/diagnostics';
 import { modelAcceleration } from '../../shared/engine/laws/registry';
 import { buildInitialConditions } from '../../shared/engine';
 import { myrToInternal } from '../../shared/engine/units';
 import { diskParticleSplit } from '../../shared/engine/models/disk';
 import type { DiskSpec } from '../../shared/spec';
-import { specWith } from './helpers';
+import { forceCurve, specWith } from './helpers';
 
 // The disk of tests/engine/equilibrium.test.ts (5,000 particles, bulge, Q = 2), under field-form MOND.
 const RD = 3;
@@ -19,24 +18,6 @@ const spec = specWith({
   seed: 1,
 });
 
-/** Circular speed from the law's own pull on 128 probes per midplane ring about the centre of mass. */
-function forceCurve(sim: Simulation, radii: number[]): number[] {
-  const p = sim.particles, c = centreOfMass(p), J = 128;
-  const probes = { x: new Float64Array(radii.length * J), y: new Float64Array(radii.length * J), z: new Float64Array(radii.length * J).fill(c.z) };
-  radii.forEach((R, r) => {
-    for (let j = 0; j < J; j++) {
-      probes.x[r * J + j] = c.x + R * Math.cos((2 * Math.PI * (j + 0.5)) / J);
-      probes.y[r * J + j] = c.y + R * Math.sin((2 * Math.PI * (j + 0.5)) / J);
-    }
-  });
-  const acc = allocateAccelerations(probes.x.length);
-  sim.law.accelerations(p, probes, acc);
-  return radii.map((R, r) => {
-    let inward = 0;
-    for (let k = r * J; k < (r + 1) * J; k++) inward -= (acc.ax[k] * (probes.x[k] - c.x) + acc.ay[k] * (probes.y[k] - c.y)) / R;
-    return Math.sqrt(Math.max(0, (R * inward) / J));
-  });
-}
 
 // The field form's pull in a disk's plane is not the algebraic curve (they agree in spherical
 // symmetry only): here it starts 8.6% below it at 0.5 R_d (measured). Balanced for the algebraic

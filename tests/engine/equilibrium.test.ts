@@ -8,10 +8,10 @@ import { Simulation } from '../../shared/engine/simulation';
 import { makeSolver } from '../../shared/engine/solvers';
 import { newtonKernel } from '../../shared/engine/solvers/types';
 import { timescalesFor } from '../../shared/engine/timescales';
-import { allocateAccelerations, centreOfMass } from '../../shared/engine/state';
+import { allocateAccelerations } from '../../shared/engine/state';
 import { G, myrToInternal } from '../../shared/engine/units';
 import { parseRunSpec, type RunSpec } from '../../shared/spec';
-import { specWith } from './helpers';
+import { forceCurve, specWith } from './helpers';
 
 // Spheres balanced for each law. The sphere is chosen so every law matters:
 // at its scale radius the Newtonian pull is about a0 (MOND) and a_M (emergent),
@@ -84,24 +84,6 @@ const diskSpec = (law: Record<string, unknown>) =>
     seed: 1,
   });
 
-/** Circular speed from the law's own pull on 128 probes per midplane ring about the centre of mass. */
-function forceCurve(sim: Simulation, radii: number[]): number[] {
-  const p = sim.particles, c = centreOfMass(p), J = 128;
-  const probes = { x: new Float64Array(radii.length * J), y: new Float64Array(radii.length * J), z: new Float64Array(radii.length * J).fill(c.z) };
-  radii.forEach((R, r) => {
-    for (let j = 0; j < J; j++) {
-      probes.x[r * J + j] = c.x + R * Math.cos((2 * Math.PI * (j + 0.5)) / J);
-      probes.y[r * J + j] = c.y + R * Math.sin((2 * Math.PI * (j + 0.5)) / J);
-    }
-  });
-  const acc = allocateAccelerations(probes.x.length);
-  sim.law.accelerations(p, probes, acc);
-  return radii.map((R, r) => {
-    let inward = 0;
-    for (let k = r * J; k < (r + 1) * J; k++) inward -= (acc.ax[k] * (probes.x[k] - c.x) + acc.ay[k] * (probes.y[k] - c.y)) / R;
-    return Math.sqrt(Math.max(0, (R * inward) / J));
-  });
-}
 
 describe('disks balanced for their law', () => {
   // Tolerance 5% (the requirement), from 0.5 to 5 scale lengths, at t = 0 and after one rotation period at 5 R_d.

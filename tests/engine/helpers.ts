@@ -1,5 +1,7 @@
 import { defaultRunSpec, parseRunSpec, type RunSpec } from '../../shared/spec';
 import { G, myrToInternal } from '../../shared/engine/units';
+import type { Simulation } from '../../shared/engine/simulation';
+import { allocateAccelerations, centreOfMass } from '../../shared/engine/state';
 
 /** A valid spec: the default with the given fields replaced (defaults of nested objects filled in by the schema). */
 export function specWith(overrides: Record<string, unknown>): RunSpec {
@@ -30,4 +32,23 @@ export function keplerOrbitSpec(o: { m1: number; m2: number; a: number; e: numbe
     snapshotEvery: o.stepsPerPeriod,
   });
   return { spec, P_Myr };
+}
+
+/** Circular speed from the law's own pull on 128 probes per midplane ring about the centre of mass. */
+export function forceCurve(sim: Simulation, radii: number[]): number[] {
+  const p = sim.particles, c = centreOfMass(p), J = 128;
+  const probes = { x: new Float64Array(radii.length * J), y: new Float64Array(radii.length * J), z: new Float64Array(radii.length * J).fill(c.z) };
+  radii.forEach((R, r) => {
+    for (let j = 0; j < J; j++) {
+      probes.x[r * J + j] = c.x + R * Math.cos((2 * Math.PI * (j + 0.5)) / J);
+      probes.y[r * J + j] = c.y + R * Math.sin((2 * Math.PI * (j + 0.5)) / J);
+    }
+  });
+  const acc = allocateAccelerations(probes.x.length);
+  sim.law.accelerations(p, probes, acc);
+  return radii.map((R, r) => {
+    let inward = 0;
+    for (let k = r * J; k < (r + 1) * J; k++) inward -= (acc.ax[k] * (probes.x[k] - c.x) + acc.ay[k] * (probes.y[k] - c.y)) / R;
+    return Math.sqrt(Math.max(0, (R * inward) / J));
+  });
 }
