@@ -42,9 +42,11 @@ export async function reconcile(orm: Orm, queue: Queue<RunJobData>, { graceMs = 
     if (!ok) return; // another process is reconciling
     const open = await em.find(Run, { status: { $in: ['queued', 'running'] } }, { fields: ['id', 'createdAt'], disableIdentityMap: true });
     for (const { id, createdAt } of open) {
-      const job = await queue.getJob(id);
-      const state = job ? await job.getState() : 'missing';
+      const state = await queue.getJobState(id);
       if (LIVE.has(state)) continue;
+      // Read after its state: a job read first could still be waiting with no failure reason and
+      // be failed (given up as stalled) before its state is read, and would then be requeued.
+      const job = await queue.getJob(id);
       if (!job && Date.now() - createdAt.getTime() < graceMs) continue;
       // Read again after the queue: the worker may have ended the run in between.
       const fresh = await orm.em.fork().findOne(Run, { id }, { fields: ['status'], disableIdentityMap: true });

@@ -156,8 +156,9 @@ test('a run whose worker is killed twice is taken over from its checkpoints and 
 test('a run whose workers keep dying (kill -9 past maxStalledCount) is failed for good by the next worker, final in the database, with the uncomputed part refunded', async () => {
   const env = { ...WORKER_ENV, INFALL_WORKER_MAX_STALLS: '1' };
   const before = await ledger();
-  // Five times longer than the others: it must still be running at each kill, and is never computed to its end.
-  const id = await submit({ ...longSpec(12), duration_Myr: 1000 }, 'keeps dying');
+  // Some 70 times the work of the others (5x the steps of 3,000 particles): it must still be running
+  // at each kill and is never computed to its end, even by the WebAssembly direct sum.
+  const id = await submit({ ...longSpec(12), model: { ...base.model, n: 3000 } as RunSpec['model'], duration_Myr: 1000 }, 'keeps dying');
   let lastStep = 0;
   for (let k = 0; k < 2; k++) {
     const w = startProcess('worker/index.ts', env);
