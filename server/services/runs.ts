@@ -12,7 +12,7 @@ import type { Component } from '../../shared/engine';
 import type { RunJobData } from '../queue';
 import { visibleRunsFilter, canSeeRun, canManageRun } from './access';
 import { admitRuns } from './admission';
-import { refundUncomputed } from './runResults';
+import { refundUncomputed } from './quotas';
 import { notifyRunEnded } from './notifications';
 
 function firstIssue(issues: { path: string; message: string }[], prefix: string): ApiError {

@@ -1,20 +1,10 @@
+import { serialize, deserialize } from 'node:v8';
 import { LockMode, type EntityManager } from '@mikro-orm/postgresql';
-import { Run, RunOutput, RunSnapshot, UsageEntry } from '../db/entities';
-import { ENGINE_VERSION, type RunResult } from '../../shared/engine';
-import { budgetDay } from './quotas';
+import { Run, RunCheckpoint, RunOutput, RunSnapshot } from '../server/db/entities';
+import { refundUncomputed } from '../server/services/quotas';
+import { ENGINE_VERSION, type RunCheckpoint as EngineCheckpoint, type RunResult } from '../shared/engine';
 
-// How the worker records a run's life in the database.
-
-/**
- * Gives back to the ledger the part of a run's cost that was never computed (all of it for a
- * run that never started), on the day it was charged. Called once, where the run's status
- * leaves queued or running, inside the transaction that changes it.
- */
-export function refundUncomputed(em: EntityManager, run: Run, fractionComputed: number): void {
-  const refund = Math.floor(run.costInteractions * (1 - Math.min(1, Math.max(0, fractionComputed))));
-  if (refund <= 0) return;
-  em.create(UsageEntry, { user: run.owner, day: budgetDay(run.createdAt), interactions: -refund, runs: 0 });
-}
+// The worker's writes: how a run's life, its checkpoints and its result reach the database.
 
 /** Ends a run that did not finish, refunding what it did not compute; a run already ended is left alone. */
 async function endUnfinished(em: EntityManager, runId: string, status: 'cancelled' | 'failed', error?: string): Promise<void> {
@@ -105,4 +95,23 @@ export async function markCancelled(em: EntityManager, runId: string): Promise<v
 /** A failed run keeps the charge for the steps it computed (its last recorded progress). */
 export async function markFailed(em: EntityManager, runId: string, reason: string): Promise<void> {
   await endUnfinished(em, runId, 'failed', reason);
+}
+
+// A run's latest checkpoint, one row per run. Only a later step replaces a stored
+// one, so a slow write from a worker that lost the run cannot set it back.
+
+export async function saveCheckpoint(em: EntityManager, runId: string, checkpoint: EngineCheckpoint): Promise<void> {
+  const data = serialize(checkpoint);
+  const step = checkpoint.state.step;
+  await em.getConnection().execute(
+    `insert into "run_checkpoints" ("run_id", "step", "data", "taken_at") values (?, ?, ?, now())
+     on conflict ("run_id") do update set "step" = excluded."step", "data" = excluded."data", "taken_at" = excluded."taken_at"
+     where "run_checkpoints"."step" < excluded."step"`,
+    [runId, step, data],
+  );
+}
+
+export async function loadCheckpoint(em: EntityManager, runId: string): Promise<EngineCheckpoint | null> {
+  const row = await em.findOne(RunCheckpoint, { run: runId }, { disableIdentityMap: true });
+  return row ? (deserialize(row.data as Buffer) as EngineCheckpoint) : null;
 }
