@@ -3,6 +3,7 @@ import { LockMode, type EntityManager } from '@mikro-orm/postgresql';
 import { Run, RunCheckpoint, RunOutput, RunSnapshot } from '../server/db/entities';
 import { refundUncomputed } from '../server/services/quotas';
 import { ENGINE_VERSION, type RunCheckpoint as EngineCheckpoint, type RunResult } from '../shared/engine';
+import type { RunOutputData } from '../shared/api/contract';
 
 // The worker's writes: how a run's life, its checkpoints and its result reach the database.
 
@@ -50,6 +51,9 @@ export async function isCancelRequested(em: EntityManager, runId: string): Promi
 // Typed arrays are stored as their bytes (little-endian on every machine Node runs on).
 const bytesOf = (a: Float32Array | Float64Array | Uint32Array) => Buffer.from(a.buffer, a.byteOffset, a.byteLength);
 
+/** The part of an engine result stored as JSON (the run_outputs row's JSON columns). */
+export const outputData = ({ law, timescales, warnings, diagnostics, rotationCurves, summary }: RunResult): RunOutputData => ({ law, timescales, warnings, diagnostics, rotationCurves, summary });
+
 /** Writes output, snapshots and the final status in one transaction: all or nothing. */
 export async function storeResult(em: EntityManager, runId: string, result: RunResult): Promise<void> {
   await em.transactional(async (tx) => {
@@ -58,12 +62,7 @@ export async function storeResult(em: EntityManager, runId: string, result: RunR
     await tx.nativeDelete(RunOutput, { run: runId });
     tx.create(RunOutput, {
       run: runId,
-      law: result.law,
-      timescales: result.timescales,
-      warnings: result.warnings,
-      diagnostics: result.diagnostics,
-      rotationCurves: result.rotationCurves,
-      summary: result.summary,
+      ...outputData(result),
       snapshotParticles: result.snapshots.length ? result.snapshots[0].positions.length / 3 : 0,
       particleIds: bytesOf(Uint32Array.from(result.snapshotParticles)),
       masses: bytesOf(Float64Array.from(result.snapshotMasses)),
