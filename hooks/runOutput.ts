@@ -1,22 +1,12 @@
-import type { FrameInfo, RunDetail } from '../shared/api/contract';
-import type { AnalyticCurves, DiagnosticSample, EngineWarning, LawInfo, RotationCurve, RunSummary as EngineSummary, Timescales } from '../shared/engine';
+import type { RunDetail, RunOutputBody } from '../shared/api/contract';
+import type { DiagnosticSample } from '../shared/engine';
 import type { RunSpec } from '../shared/spec';
 
-/** A run's stored output with the engine's types put back on (the API ships it as JSON). */
-export interface RunOutputView {
-  law: LawInfo;
-  timescales: Timescales;
-  warnings: EngineWarning[];
-  diagnostics: DiagnosticSample[];
-  rotationCurves: { initial: RotationCurve; final: RotationCurve; analytic: AnalyticCurves };
-  summary: EngineSummary;
-  snapshotParticles: number;
-  frames: FrameInfo[];
-}
+/** A run's stored output: the engine's own types, as the API ships them (shared/api/contract.ts). */
+export type RunOutputView = RunOutputBody;
 
 export function readOutput(run: RunDetail | undefined): RunOutputView | null {
-  if (!run?.output) return null;
-  return run.output as unknown as RunOutputView;
+  return run?.output ?? null;
 }
 
 export const specOf = (run: RunDetail | undefined): RunSpec | null => (run?.spec as RunSpec | undefined) ?? null;

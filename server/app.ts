@@ -6,7 +6,9 @@ import type { Queue } from 'bullmq';
 import type { Orm } from './db/orm';
 import type { RunJobData, RunSignals } from './queue';
 import { errorHandler, notFoundHandler } from './errors';
-import { mountAuth } from './auth';
+import { createAuth } from './auth';
+import { jsonBodies } from './http/body';
+import { installAfterCommit } from './services/after-commit';
 import { healthDeadline, healthRouter } from './routes/health';
 import { runsRouter } from './routes/runs';
 import { exportsRouter } from './routes/exports';
@@ -15,6 +17,11 @@ import type { Logger } from 'pino';
 import { galaxiesRouter } from './routes/galaxies';
 import { galaxySamplesRouter } from './routes/galaxySamples';
 import { particleTablesRouter } from './routes/particleTables';
+import { accountRouter } from './routes/account';
+import { tokensRouter } from './routes/tokens';
+import { cohortsRouter } from './routes/cohorts';
+import { templatesRouter } from './routes/templates';
+import { adminRouter } from './routes/admin';
 
 export interface Deps {
   orm: Orm;
@@ -31,11 +38,22 @@ export function createApp(deps: Deps, opts: { webDir?: string; logger?: Logger }
   app.use(securityHeaders());
   app.use((_req, _res, next) => RequestContext.create(deps.orm.em, next));
 
-  // Bodies are read after authentication (server/http/body.ts, mounted by mountAuth).
+  installAfterCommit(deps.orm);
+  const auth = createAuth(deps);
+
+  // Every router is mounted here. Health's deadline runs first, so a hanging session store
+  // still gets an answer; then who is asking, and only then are bodies read (server/http/body.ts).
   const api = express.Router();
   api.use('/health', healthDeadline);
-  mountAuth(app, api, deps);
+  api.use(auth.authenticate);
+  api.use(jsonBodies());
+  api.use('/auth', auth.routes);
   api.use('/health', healthRouter(deps));
+  api.use('/account', accountRouter());
+  api.use('/tokens', tokensRouter());
+  api.use('/cohorts', cohortsRouter(deps.queue));
+  api.use('/templates', templatesRouter());
+  api.use('/admin', adminRouter());
   api.use('/runs', runsRouter(deps));
   api.use('/runs', exportsRouter());
   api.use('/galaxies', galaxiesRouter(deps));

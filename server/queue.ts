@@ -10,7 +10,7 @@ export const RUN_ATTEMPTS = 3;
 
 export interface RunJobData {
   runId: string;
-  /** How many times the reconciler has put this run back in the queue (see services/reconciler.ts). */
+  /** How many times the reconciler has put this run back in the queue (see worker/reconciler.ts). */
   requeues?: number;
 }
 

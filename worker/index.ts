@@ -9,7 +9,7 @@ import { RunPool } from './pool';
 import { failForGood, runProcessor } from './processor';
 import { startHeartbeat } from './heartbeat';
 import { notifyRunEnded } from '../server/services/notifications';
-import { reconcile } from '../server/services/reconciler';
+import { reconcile } from './reconciler';
 import { runProcess } from '../server/process';
 
 runProcess('worker', async () => {

@@ -5,9 +5,8 @@ import type { RunJobData } from '../server/queue';
 import type { RunProgress } from '../shared/api/contract';
 import type { RunCheckpoint } from '../shared/engine';
 import { stepCount } from '../shared/spec';
-import { markRunning, markCancelled, markRequeued, recordProgress, isCancelRequested, storeResult, markFailed } from '../server/services/runResults';
-import { loadCheckpoint, saveCheckpoint } from '../server/services/checkpoints';
-import { GAVE_UP_STALLED, STALLED_OUT_ERROR } from '../server/services/reconciler';
+import { markRunning, markCancelled, markRequeued, recordProgress, isCancelRequested, storeResult, markFailed, loadCheckpoint, saveCheckpoint } from './store';
+import { GAVE_UP_STALLED, STALLED_OUT_ERROR } from './reconciler';
 import type { RunPool } from './pool';
 
 const PROGRESS_DB_EVERY_MS = 1000; // the database gets coarse progress; live events get every update

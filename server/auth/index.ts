@@ -1,21 +1,14 @@
-import { Router, type Express, type Request, type RequestHandler } from 'express';
+import { Router, type Request, type RequestHandler } from 'express';
 import { RequestContext } from '@mikro-orm/core';
 import type { EntityManager } from '@mikro-orm/postgresql';
 import type { Deps } from '../app';
 import { ApiError } from '../errors';
 import { userForToken } from '../services/tokens';
-import { installAfterCommit } from '../services/after-commit';
 import { createPassport } from './passport';
 import { sessionMiddleware } from './session';
 import { csrfGuard } from './csrf';
-import { jsonBodies } from '../http/body';
 import { badTokenLimiter, signInLimiter } from './limits';
 import { authRouter } from '../routes/auth';
-import { accountRouter } from '../routes/account';
-import { tokensRouter } from '../routes/tokens';
-import { cohortsRouter } from '../routes/cohorts';
-import { templatesRouter } from '../routes/templates';
-import { adminRouter } from '../routes/admin';
 
 // A request is authenticated either by "Authorization: Bearer <personal token>" or
 // by the session cookie, never both: with the header present the session is not read.
@@ -36,11 +29,11 @@ function tokenAuth(refused: (req: Request) => Promise<void>): RequestHandler {
 }
 
 /**
- * Sign-in, sessions, tokens, CSRF and the account-side routes, mounted on the API
- * router before the run routes so every one of them sees req.user.
+ * The auth module: `authenticate` sets req.user from the bearer token or the session
+ * cookie (never both) and holds session requests that change state to their CSRF token;
+ * `routes` are sign-in, sign-out and who-am-I, mounted by the app at /auth.
  */
-export function mountAuth(_app: Express, api: Router, deps: Deps): void {
-  installAfterCommit(deps.orm);
+export function createAuth({ queue }: Pick<Deps, 'queue'>): { authenticate: Router; routes: Router } {
   const auth = createPassport();
   const sessionChain = Router();
   sessionChain.use(sessionMiddleware(), auth.initialize(), auth.session(), (req, _res, next) => {
@@ -48,17 +41,14 @@ export function mountAuth(_app: Express, api: Router, deps: Deps): void {
     next();
   });
   const tokenChain = Router();
-  const tokenLimit = badTokenLimiter(deps.queue);
+  const tokenLimit = badTokenLimiter(queue);
   tokenChain.use(tokenLimit.guard, tokenAuth(tokenLimit.refused));
-  api.use((req, res, next) => (req.get('authorization') !== undefined ? tokenChain(req, res, next) : sessionChain(req, res, next)));
-  api.use(csrfGuard);
-  api.use(jsonBodies());
+  const authenticate = Router();
+  authenticate.use((req, res, next) => (req.get('authorization') !== undefined ? tokenChain(req, res, next) : sessionChain(req, res, next)));
+  authenticate.use(csrfGuard);
 
-  api.use(['/auth/signin', '/auth/callback'], signInLimiter());
-  api.use('/auth', authRouter(auth));
-  api.use('/account', accountRouter());
-  api.use('/tokens', tokensRouter());
-  api.use('/cohorts', cohortsRouter(deps.queue));
-  api.use('/templates', templatesRouter());
-  api.use('/admin', adminRouter());
+  const routes = Router();
+  routes.use(['/signin', '/callback'], signInLimiter());
+  routes.use(authRouter(auth));
+  return { authenticate, routes };
 }

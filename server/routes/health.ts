@@ -1,7 +1,7 @@
 import { Router, type RequestHandler } from 'express';
 import type { Deps } from '../app';
 import { withTimeout } from '../errors';
-import { liveBeats, type BeatClient } from '../services/heartbeat';
+import { liveBeats } from '../services/heartbeat';
 import { Run } from '../db/entities';
 
 /** Each check gets this long; the whole answer leaves within HEALTH_DEADLINE_MS whatever is down. */
@@ -43,7 +43,7 @@ export function healthRouter({ orm, queue }: Deps): Router {
     const [database, counts, beats, failed, stale] = await Promise.all([
       settle(em.getConnection().execute('select 1 as ok'), 'The database'),
       settle(queue.getJobCounts('waiting', 'active', 'delayed', 'failed', 'completed'), 'The queue'),
-      settle(queue.getBackend().client.then((c) => liveBeats(c as unknown as BeatClient)), 'The queue'),
+      settle(queue.getBackend().client.then((c) => liveBeats(c)), 'The queue'),
       settle(queue.getFailed(0, 19), 'The queue'),
       settle(
         em.find(Run, { $or: [{ status: 'queued', createdAt: { $lt: since } }, { status: 'running', startedAt: { $lt: since } }] }, { fields: ['id'], limit: 50, orderBy: { createdAt: 'asc' } }),

@@ -1,13 +1,12 @@
 import { LockMode, type EntityManager } from '@mikro-orm/postgresql';
 import type { Queue } from 'bullmq';
 import { ApiError } from '../errors';
-import { Run, type User } from '../db/entities';
+import { Run, RunCheckpoint, type User } from '../db/entities';
 import { extendRunBodySchema } from '../../shared/api/requests';
 import { estimateInteractions, parseRunSpec, stepCount } from '../../shared/spec';
 import type { RunJobData } from '../queue';
 import { canManageRun } from './access';
 import { admitRuns } from './admission';
-import { checkpointStep } from './checkpoints';
 
 /**
  * Carries a finished run on from its last state by more simulated time. The run's spec gets the
@@ -25,7 +24,9 @@ export async function extendRun(em: EntityManager, queue: Queue<RunJobData>, use
     throw new ApiError('BAD_REQUEST', `${field}: ${issue.message}`, { field });
   }
   if (run.status !== 'finished') throw new ApiError('CONFLICT', `Run is ${run.status}; only a finished run can be extended`);
-  if ((await checkpointStep(em, run.id)) !== run.steps) {
+  // The worker keeps one checkpoint per run, its latest (worker/store.ts).
+  const kept = await em.findOne(RunCheckpoint, { run: run.id }, { fields: ['step'], disableIdentityMap: true });
+  if (kept?.step !== run.steps) {
     throw new ApiError('CONFLICT', 'This run kept no state at its last step (it ran before checkpoints were kept), so it cannot be extended; submit a longer run instead');
   }
   const longer = parseRunSpec({ ...run.spec, duration_Myr: run.spec.duration_Myr + parsed.data.more_Myr });

@@ -1,6 +1,6 @@
-// Worker heartbeats in Redis: each worker process writes its line every few seconds;
-// health reads them to tell how many workers are alive and whether their threads move.
-import { hostname } from 'node:os';
+// Worker heartbeats in Redis: each worker process writes its line every few seconds
+// (worker/heartbeat.ts); health reads them to tell how many workers are alive and whether
+// their threads move.
 import { config } from '../config';
 
 export const HEARTBEAT_EVERY_MS = 5000;
@@ -20,22 +20,11 @@ export interface WorkerBeat {
 /** A hash: field = worker id, value = its last beat as JSON. */
 export const heartbeatKey = () => `infall:${config.queueName}:workers`;
 
-export const workerId = (): string => `${hostname()}:${process.pid}`;
-
 /** The Redis commands used here, which both ioredis and BullMQ's own client offer. */
 export interface BeatClient {
   hset(key: string, data: Record<string, string>): Promise<unknown>;
   hgetall(key: string): Promise<Record<string, string>>;
   hdel(key: string, ...fields: string[]): Promise<unknown>;
-}
-
-export async function writeBeat(client: BeatClient, beat: WorkerBeat): Promise<void> {
-  await client.hset(heartbeatKey(), { [beat.id]: JSON.stringify(beat) });
-}
-
-/** Forgets a worker: at its orderly stop, and for beats a day old (a worker killed outright). */
-export async function dropBeats(client: BeatClient, ids: string[]): Promise<void> {
-  if (ids.length) await client.hdel(heartbeatKey(), ...ids);
 }
 
 /** Every beat on record, live or not. */

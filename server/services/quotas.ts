@@ -1,5 +1,5 @@
 import type { EntityManager } from '@mikro-orm/postgresql';
-import { Allocation, Cohort, CohortMember, Run, type User } from '../db/entities';
+import { Allocation, Cohort, CohortMember, Run, UsageEntry, type User } from '../db/entities';
 import { ROLE_LIMITS, ROLE_UPLOAD_LIMITS, type AccountUsage, type QuotaLimits, type Role, type UploadLimits } from '../../shared/api/accounts';
 
 // Quotas come from three places, most specific first: an admin's per-user grant,
@@ -80,4 +80,15 @@ export async function lockAllocation(em: EntityManager, userId: number): Promise
   await em.execute('insert into allocations (user_id) values (?) on conflict do nothing', [userId]);
   const [row] = await em.execute<Record<string, unknown>[]>('select * from allocations where user_id = ? for update', [userId]);
   return em.map(Allocation, row);
+}
+
+/**
+ * Gives back to the ledger the part of a run's cost that was never computed (all of it for a
+ * run that never started), on the day it was charged. Called once, where the run's status
+ * leaves queued or running, inside the transaction that changes it.
+ */
+export function refundUncomputed(em: EntityManager, run: Run, fractionComputed: number): void {
+  const refund = Math.floor(run.costInteractions * (1 - Math.min(1, Math.max(0, fractionComputed))));
+  if (refund <= 0) return;
+  em.create(UsageEntry, { user: run.owner, day: budgetDay(run.createdAt), interactions: -refund, runs: 0 });
 }

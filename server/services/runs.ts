@@ -8,11 +8,10 @@ import { parseRunSpec, particleCount, stepCount, estimateInteractions, type RunS
 import { submitRunBodySchema, type ListRunsQuery } from '../../shared/api/requests';
 import type { RunDetail, RunProgress, RunSummary } from '../../shared/api/contract';
 import { encodeSnapshots, type ParticleParts } from '../../shared/api/snapshots';
-import type { Component } from '../../shared/engine';
 import type { RunJobData } from '../queue';
 import { visibleRunsFilter, canSeeRun, canManageRun } from './access';
 import { admitRuns } from './admission';
-import { refundUncomputed } from './runResults';
+import { refundUncomputed } from './quotas';
 import { notifyRunEnded } from './notifications';
 
 function firstIssue(issues: { path: string; message: string }[], prefix: string): ApiError {
@@ -148,7 +147,7 @@ export async function runDetail(em: EntityManager, run: Run): Promise<RunDetail>
           law: output.law,
           timescales: output.timescales,
           warnings: output.warnings,
-          diagnostics: output.diagnostics as unknown[],
+          diagnostics: output.diagnostics,
           rotationCurves: output.rotationCurves,
           summary: output.summary,
           snapshotParticles: output.snapshotParticles,
@@ -166,7 +165,7 @@ export async function progressSoFar(queue: Queue<RunJobData>, runId: string): Pr
 
 /** Each stored particle's id and component, for runs stored since ids and components were kept. */
 export function storedParts(output: RunOutput): (ParticleParts & { ids: Uint32Array }) | null {
-  const components = (output.components as Component[] | null) ?? null;
+  const components = output.components ?? null;
   if (!output.particleIds || !components) return null;
   const b = output.particleIds as Uint8Array;
   const copy = new Uint8Array(b.byteLength);

@@ -1,4 +1,6 @@
 // The shapes the HTTP API speaks, shared by server, app and tests.
+import type { RunResult } from '../engine';
+import type { RunSpec } from '../spec';
 
 export const RUN_STATUSES = ['queued', 'running', 'finished', 'failed', 'cancelled'] as const;
 export type RunStatus = (typeof RUN_STATUSES)[number];
@@ -63,20 +65,21 @@ export interface FrameInfo {
   time_Myr: number;
 }
 
-export interface RunOutputBody {
-  law: unknown;
-  timescales: unknown;
-  warnings: unknown;
-  /** The engine's DiagnosticSample rows, incl. centreOfMass, centreOfMassVelocity and densityCentre (absent in runs stored before those existed). */
-  diagnostics: unknown[];
-  rotationCurves: unknown;
-  summary: unknown;
+/**
+ * The JSON part of a run's result, as the engine hands it over: the worker stores it in the
+ * run_outputs row's JSON columns (server/db/entities/RunOutput.ts) and the API ships it in
+ * RunDetail.output. Runs stored by an older engine may lack fields added since (a diagnostic
+ * row's centres, the summary's equilibrium record); readers that use those say so.
+ */
+export type RunOutputData = Pick<RunResult, 'law' | 'timescales' | 'warnings' | 'diagnostics' | 'rotationCurves' | 'summary'>;
+
+export interface RunOutputBody extends RunOutputData {
   snapshotParticles: number;
   frames: FrameInfo[];
 }
 
 export interface RunDetail extends RunSummary {
-  spec: unknown;
+  spec: RunSpec;
   output: RunOutputBody | null;
 }
 

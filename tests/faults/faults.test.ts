@@ -10,7 +10,7 @@ import { defaultRunSpec, type RunSpec } from '../../shared/spec';
 import { FINAL_STATUSES } from '../../shared/api/contract';
 import { createToken } from '../../server/services/tokens';
 import { RunEndAnnouncer } from '../../server/queue';
-import { GAVE_UP_STALLED, STALLED_OUT_ERROR } from '../../server/services/reconciler';
+import { GAVE_UP_STALLED, STALLED_OUT_ERROR } from '../../worker/reconciler';
 import http from 'node:http';
 import net from 'node:net';
 

@@ -13,6 +13,7 @@ import { Run, RunOutput, RunSnapshot, type User } from '../../server/db/entities
 import { planSnapshotFile } from '../../server/services/exports';
 import { RunPool } from '../../worker/pool';
 import { runProcessor } from '../../worker/processor';
+import { outputData } from '../../worker/store';
 import { ENGINE_VERSION, runSimulation } from '../../shared/engine';
 import { defaultRunSpec, parseRunSpec, type RunSpec } from '../../shared/spec';
 import { SNAPSHOT_FILE } from '../../shared/api/snapshots';
@@ -189,7 +190,7 @@ describe('runs without a complete snapshot record', () => {
       id: randomUUID(), owner: owner.user.id, name: 'Old run (invented)', spec, modelKind: 'disk', lawKind: 'newton',
       particles: 240, steps: 20, costInteractions: 0, status: 'finished', progress: 1, finishedAt: new Date(),
     });
-    em.create(RunOutput, { run: legacy.id, law: {}, timescales: {}, warnings: [], diagnostics: [], rotationCurves: {}, summary: {}, snapshotParticles: 2 });
+    em.create(RunOutput, { run: legacy.id, ...outputData(runSimulation(spec)), snapshotParticles: 2 });
     const frames = [new Float32Array([1, 2, 3, 4, 5, 6]), new Float32Array([1.5, 2.5, 3.5, 4.5, 5.5, 6.5])];
     frames.forEach((p, frame) => em.create(RunSnapshot, { run: legacy.id, frame, step: frame * 4, timeMyr: frame * 2, positions: Buffer.from(p.buffer) }));
     await em.flush();

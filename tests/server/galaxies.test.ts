@@ -4,7 +4,9 @@ import request from 'supertest';
 import { openAuthStack, userWithToken, type AuthStack } from './auth/harness';
 import { randomUUID } from 'node:crypto';
 import { Cohort, CohortMember, Galaxy, GalaxyFit, Run, RunOutput, RunSnapshot, type User } from '../../server/db/entities';
-import { defaultRunSpec } from '../../shared/spec';
+import { defaultRunSpec, parseRunSpec } from '../../shared/spec';
+import { runSimulation } from '../../shared/engine';
+import { outputData } from '../../worker/store';
 import { seedGalaxies } from '../../server/db/seed-galaxies';
 import { ROLE_UPLOAD_LIMITS } from '../../shared/api/accounts';
 import { newEnrolmentCode } from '../../server/services/cohorts';
@@ -311,16 +313,21 @@ describe('a snapshot file from the export as a particle table', () => {
     res.on('end', () => done(null, Buffer.concat(chunks)));
   };
 
+  // A three-particle run: its stored JSON output is a real engine result, its frames are invented.
+  const parsed = parseRunSpec({ ...defaultRunSpec(), model: { kind: 'plummer', n: 3, mass_Msun: 6e9, scale_kpc: 1 }, duration_Myr: 1 });
+  if (!parsed.ok) throw new Error(JSON.stringify(parsed.issues));
+  const spec = parsed.spec;
+
   /** A finished run's rows as the worker stores them (invented numbers), exported as HDF5 through the API. */
   async function exportedFile(withVelocities: boolean): Promise<{ bytes: Buffer; last: { positions: Float32Array; velocities: Float32Array }; masses: Float64Array }> {
     const em = s.em();
     const run = em.create(Run, {
-      id: randomUUID(), owner: owner.user.id, name: 'Export to restart (invented)', spec: defaultRunSpec(), modelKind: 'plummer', lawKind: 'newton',
+      id: randomUUID(), owner: owner.user.id, name: 'Export to restart (invented)', spec, modelKind: 'plummer', lawKind: 'newton',
       particles: 3, steps: 20, costInteractions: 0, status: 'finished', progress: 1, finishedAt: new Date(),
     });
     const masses = Float64Array.from([1e9, 2e9, 3e9]);
     em.create(RunOutput, {
-      run: run.id, law: {}, timescales: {}, warnings: [], diagnostics: [], rotationCurves: {}, summary: {}, snapshotParticles: 3,
+      run: run.id, ...outputData(runSimulation(spec)), snapshotParticles: 3,
       particleIds: Buffer.from(Uint32Array.from([0, 1, 2]).buffer), masses: Buffer.from(masses.buffer), components: [{ label: 'sphere', start: 0, count: 3 }], engineVersion: 'test',
     });
     const frames = [0, 1].map((k) => ({ positions: Float32Array.from({ length: 9 }, (_, i) => i + k / 2), velocities: Float32Array.from({ length: 9 }, (_, i) => 10 * i - k) }));

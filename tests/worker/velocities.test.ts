@@ -3,7 +3,7 @@
 import { randomUUID } from 'node:crypto';
 import { openTestStack, uniqueLogin, type TestStack } from '../support/stack';
 import { Run, RunOutput, RunSnapshot, User } from '../../server/db/entities';
-import { storeResult } from '../../server/services/runResults';
+import { storeResult } from '../../worker/store';
 import { ENGINE_VERSION, runSimulation } from '../../shared/engine';
 import { defaultRunSpec, particleCount, stepCount, type RunSpec } from '../../shared/spec';
 import { RunPool } from '../../worker/pool';

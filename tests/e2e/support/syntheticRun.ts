@@ -44,7 +44,9 @@ export function syntheticRun(n: number, frames: SnapshotFrame[], owner = { id: 0
   const law = { kind: 'newton' } as const;
   const times = frames.map((f) => f.time_Myr);
   const radii = Array.from({ length: 24 }, (_, k) => (k + 0.5) * 0.5);
-  const curve = (time_Myr: number) => ({ step: 0, time_Myr, radii_kpc: radii, meanAzimuthal_km_s: radii.map((R) => 150 * (1 - Math.exp(-R / 2))), particleCounts: radii.map(() => 100), circular_km_s: radii.map((R) => 160 * (1 - Math.exp(-R / 2))) });
+  const measured = { meanRadius_kpc: radii, meanAzimuthal_km_s: radii.map((R) => 150 * (1 - Math.exp(-R / 2))), particleCounts: radii.map(() => 100) };
+  const curve = (time_Myr: number) => ({ step: 0, time_Myr, radii_kpc: radii, planeCut_kpc: 0.5, ...measured, byComponent: [{ label: 'disk', ...measured }], circular_km_s: radii.map((R) => 160 * (1 - Math.exp(-R / 2))) });
+  const origin = { x: 0, y: 0, z: 0 };
   const now = new Date().toISOString();
   return {
     id: SYNTHETIC_RUN_ID,
@@ -82,9 +84,12 @@ export function syntheticRun(n: number, frames: SnapshotFrame[], owner = { id: 0
         clausiusVirialRatio: 1,
         lagrangianRadii_kpc: { r10: 1, r50: 3, r90: 7 },
         toomreQ: null,
+        centreOfMass: origin,
+        centreOfMassVelocity: origin,
+        densityCentre: origin,
       })),
       rotationCurves: { initial: curve(0), final: curve(times[times.length - 1]), analytic: { radii_kpc: radii, curves: [{ law: 'newton', label: 'Newtonian', v_km_s: radii.map((R) => 160 * (1 - Math.exp(-R / 2))) }] } },
-      summary: { particleCount: n, totalSteps: 600, stepsCompleted: 600, forceEvaluations: 600, finalTime_Myr: times[times.length - 1], finalEnergyDrift: 1e-5, maxAbsEnergyDrift: 1e-5, finalMomentumDrift: 1e-15, finalAngularMomentumDrift: 1e-14, quantities: { energy: 'conserved', momentum: 'conserved', angularMomentum: 'conserved' } },
+      summary: { particleCount: n, totalSteps: 600, stepsCompleted: 600, forceEvaluations: 600, finalTime_Myr: times[times.length - 1], finalEnergyDrift: 1e-5, maxAbsEnergyDrift: 1e-5, finalMomentumDrift: 1e-15, finalAngularMomentumDrift: 1e-14, quantities: { energy: 'conserved', momentum: 'conserved', angularMomentum: 'conserved' }, equilibrium: { balancedFor: [{ system: 'disk', law: 'newton', label: 'Newtonian', ownLaw: true }], ownLaw: true, initialClausiusRatio: 1 } },
       snapshotParticles: n,
       frames: frames.map((f, k) => ({ frame: k, step: f.step, time_Myr: f.time_Myr })),
     },

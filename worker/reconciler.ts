@@ -1,8 +1,8 @@
 import type { Queue } from 'bullmq';
-import type { Orm } from '../db/orm';
-import { Run } from '../db/entities';
-import type { RunJobData } from '../queue';
-import { markFailed, markRequeued } from './runResults';
+import type { Orm } from '../server/db/orm';
+import { Run } from '../server/db/entities';
+import type { RunJobData } from '../server/queue';
+import { markFailed, markRequeued } from './store';
 
 // Brings the database and the queue back together after an outage or a crash.
 // Every run the database calls queued or running must have a job BullMQ will

@@ -1,20 +1,11 @@
+import { serialize, deserialize } from 'node:v8';
 import { LockMode, type EntityManager } from '@mikro-orm/postgresql';
-import { Run, RunOutput, RunSnapshot, UsageEntry } from '../db/entities';
-import { ENGINE_VERSION, type RunResult } from '../../shared/engine';
-import { budgetDay } from './quotas';
+import { Run, RunCheckpoint, RunOutput, RunSnapshot } from '../server/db/entities';
+import { refundUncomputed } from '../server/services/quotas';
+import { ENGINE_VERSION, type RunCheckpoint as EngineCheckpoint, type RunResult } from '../shared/engine';
+import type { RunOutputData } from '../shared/api/contract';
 
-// How the worker records a run's life in the database.
-
-/**
- * Gives back to the ledger the part of a run's cost that was never computed (all of it for a
- * run that never started), on the day it was charged. Called once, where the run's status
- * leaves queued or running, inside the transaction that changes it.
- */
-export function refundUncomputed(em: EntityManager, run: Run, fractionComputed: number): void {
-  const refund = Math.floor(run.costInteractions * (1 - Math.min(1, Math.max(0, fractionComputed))));
-  if (refund <= 0) return;
-  em.create(UsageEntry, { user: run.owner, day: budgetDay(run.createdAt), interactions: -refund, runs: 0 });
-}
+// The worker's writes: how a run's life, its checkpoints and its result reach the database.
 
 /** Ends a run that did not finish, refunding what it did not compute; a run already ended is left alone. */
 async function endUnfinished(em: EntityManager, runId: string, status: 'cancelled' | 'failed', error?: string): Promise<void> {
@@ -60,6 +51,9 @@ export async function isCancelRequested(em: EntityManager, runId: string): Promi
 // Typed arrays are stored as their bytes (little-endian on every machine Node runs on).
 const bytesOf = (a: Float32Array | Float64Array | Uint32Array) => Buffer.from(a.buffer, a.byteOffset, a.byteLength);
 
+/** The part of an engine result stored as JSON (the run_outputs row's JSON columns). */
+export const outputData = ({ law, timescales, warnings, diagnostics, rotationCurves, summary }: RunResult): RunOutputData => ({ law, timescales, warnings, diagnostics, rotationCurves, summary });
+
 /** Writes output, snapshots and the final status in one transaction: all or nothing. */
 export async function storeResult(em: EntityManager, runId: string, result: RunResult): Promise<void> {
   await em.transactional(async (tx) => {
@@ -68,12 +62,7 @@ export async function storeResult(em: EntityManager, runId: string, result: RunR
     await tx.nativeDelete(RunOutput, { run: runId });
     tx.create(RunOutput, {
       run: runId,
-      law: result.law,
-      timescales: result.timescales,
-      warnings: result.warnings,
-      diagnostics: result.diagnostics,
-      rotationCurves: result.rotationCurves,
-      summary: result.summary,
+      ...outputData(result),
       snapshotParticles: result.snapshots.length ? result.snapshots[0].positions.length / 3 : 0,
       particleIds: bytesOf(Uint32Array.from(result.snapshotParticles)),
       masses: bytesOf(Float64Array.from(result.snapshotMasses)),
@@ -105,4 +94,23 @@ export async function markCancelled(em: EntityManager, runId: string): Promise<v
 /** A failed run keeps the charge for the steps it computed (its last recorded progress). */
 export async function markFailed(em: EntityManager, runId: string, reason: string): Promise<void> {
   await endUnfinished(em, runId, 'failed', reason);
+}
+
+// A run's latest checkpoint, one row per run. Only a later step replaces a stored
+// one, so a slow write from a worker that lost the run cannot set it back.
+
+export async function saveCheckpoint(em: EntityManager, runId: string, checkpoint: EngineCheckpoint): Promise<void> {
+  const data = serialize(checkpoint);
+  const step = checkpoint.state.step;
+  await em.getConnection().execute(
+    `insert into "run_checkpoints" ("run_id", "step", "data", "taken_at") values (?, ?, ?, now())
+     on conflict ("run_id") do update set "step" = excluded."step", "data" = excluded."data", "taken_at" = excluded."taken_at"
+     where "run_checkpoints"."step" < excluded."step"`,
+    [runId, step, data],
+  );
+}
+
+export async function loadCheckpoint(em: EntityManager, runId: string): Promise<EngineCheckpoint | null> {
+  const row = await em.findOne(RunCheckpoint, { run: runId }, { disableIdentityMap: true });
+  return row ? (deserialize(row.data as Buffer) as EngineCheckpoint) : null;
 }
