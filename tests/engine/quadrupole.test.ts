@@ -3,7 +3,8 @@
 import { buildInitialConditions } from '../../shared/engine';
 import { directSolver } from '../../shared/engine/solvers/direct';
 import { treeSolver } from '../../shared/engine/solvers/tree';
-import { newtonKernel, type PairKernel } from '../../shared/engine/solvers/types';
+import { newtonKernel } from '../../shared/engine/laws/newton';
+import type { PairKernel } from '../../shared/engine/solvers/types';
 import { allocateAccelerations, type Sources } from '../../shared/engine/state';
 import { quantile, specWith } from './helpers';
 
@@ -53,7 +54,7 @@ describe('tree cells to second order', () => {
   });
 
   test.each([0, 0.3])('with a Yukawa term (alpha 0.5, lambda 4 kpc) and softening %p kpc the far-cell error also falls as distance^-3: the quadrupole of the Yukawa kernel is right', (eps) => {
-    const kernel = { softening2_kpc2: eps * eps, yukawaAlpha: 0.5, yukawaLambda_kpc: 4 };
+    const kernel = { name: 'yukawa', softening2_kpc2: eps * eps, params: [0.5, 4] };
     const near = farError(4, eps, kernel), far = farError(8, eps, kernel);
     // The Yukawa part's higher orders fall faster than Newton's at d ~ lambda, so allow 6..14.
     expect(near.field / far.field).toBeGreaterThan(6);
@@ -64,7 +65,7 @@ describe('tree cells to second order', () => {
 
   test('Plummer sphere of 2,000 under a Yukawa kernel: median force error at most 1e-3 at theta 0.5, as for Newton (our target)', () => {
     const p = buildInitialConditions(specWith({ model: { kind: 'plummer', n: 2000, mass_Msun: 1e10, scale_kpc: 1 }, seed: 4 })).particles;
-    const kernel = { softening2_kpc2: 0.0025, yukawaAlpha: 0.5, yukawaLambda_kpc: 1 };
+    const kernel = { name: 'yukawa', softening2_kpc2: 0.0025, params: [0.5, 1] };
     const exact = allocateAccelerations(p.n), out = allocateAccelerations(p.n);
     directSolver.field(p, p, kernel, exact);
     treeSolver(0.5).field(p, p, kernel, out);
