@@ -62,9 +62,9 @@ const INDEX_BITS = 12;
 const INDEX_MASK = (1 << INDEX_BITS) - 1;
 /** Round tags wrap here; a stale claim would have to sleep through this many rounds to match again. */
 const TAG_MASK = (1 << (31 - INDEX_BITS)) - 1;
-/** Float64 slots before the arrays: softening^2, name length, parameter count, the parameters, then the name's bytes. */
-const PARAMS = 3 + MAX_KERNEL_PARAMS + MAX_KERNEL_NAME / 8;
-const NAME_BYTE = 8 * (3 + MAX_KERNEL_PARAMS);
+/** Float64 slots before the arrays: softening^2, name length, parameter count, generic-loops flag, the parameters, then the name's bytes. */
+const PARAMS = 4 + MAX_KERNEL_PARAMS + MAX_KERNEL_NAME / 8;
+const NAME_BYTE = 8 * (4 + MAX_KERNEL_PARAMS);
 /** Arrays of n: source x, y, z, m; target x, y, z; output x, y, z (output x alone holds potentials). */
 const ARRAYS = 10;
 /** Chunks per thread and round: enough to even out threads that start late or run slow. */
@@ -141,13 +141,14 @@ function writeKernel(v: Views, kernel: PairKernel): void {
   v.params[0] = kernel.softening2_kpc2;
   v.params[1] = kernel.name.length;
   v.params[2] = kernel.params.length;
-  v.params.set(kernel.params, 3);
+  v.params[3] = kernel.generic ? 1 : 0;
+  v.params.set(kernel.params, 4);
   for (let k = 0; k < kernel.name.length; k++) v.name[k] = kernel.name.charCodeAt(k);
 }
 
 function readKernel(v: Views): PairKernel {
-  const params = Array.from(v.params.subarray(3, 3 + v.params[2]));
-  return { name: String.fromCharCode(...v.name.subarray(0, v.params[1])), softening2_kpc2: v.params[0], params };
+  const params = Array.from(v.params.subarray(4, 4 + v.params[2]));
+  return { name: String.fromCharCode(...v.name.subarray(0, v.params[1])), softening2_kpc2: v.params[0], params, generic: v.params[3] === 1 };
 }
 
 /** Claims and computes chunks of the open round until none is left; returns how many this thread did. */

@@ -12,6 +12,7 @@ import type { RunResult } from '../../shared/engine';
 import { RunPool, SPLIT_MIN_PARTICLES } from '../../worker/pool';
 import { activeHelpers, createSharedField, SplitSolver, stopSharedField } from '../../worker/sharedField';
 import { plummerParticles, plummerRun } from '../bench/specs';
+import { everyKernel } from '../engine/helpers';
 
 jest.setTimeout(120_000);
 
@@ -27,7 +28,7 @@ test('a force sum split with a helper thread equals the single-thread direct sum
   const n = 1001; // odd, so chunks and pairs of targets do not line up
   const p = plummerParticles(n);
   const probes: Points = { x: p.x.slice(0, 333).map((v) => v + 0.01), y: p.y.slice(0, 333), z: p.z.slice(0, 333) };
-  const kernels: PairKernel[] = [newtonKernel(0.05), newtonKernel(0), { name: 'yukawa', softening2_kpc2: 0.01, params: [0.5, 2] }];
+  const kernels: PairKernel[] = [...everyKernel(0.05), ...everyKernel(0)];
   const pool = new Piscina({ filename: taskFile, maxThreads: 1, execArgv: ['--import', 'tsx'] });
   const shared = createSharedField(n, 1);
   const helper = pool.run({ sharedField: shared }, { name: 'fieldHelper' }) as Promise<number>;
@@ -133,7 +134,7 @@ test('a tree walk split with a helper thread equals the single-thread walk bit f
   const n = 3001;
   const p = plummerParticles(n);
   const probes: Points = { x: p.x.slice(0, 333).map((v) => v + 0.01), y: p.y.slice(0, 333), z: p.z.slice(0, 333) };
-  const kernels: PairKernel[] = [newtonKernel(0.05), { name: 'yukawa', softening2_kpc2: 0.01, params: [0.5, 2] }];
+  const kernels: PairKernel[] = everyKernel(0.05);
   const theta = 0.6;
   const alone = treeSolver(theta);
   const pool = new Piscina({ filename: taskFile, maxThreads: 1, execArgv: ['--import', 'tsx'] });

@@ -21,7 +21,7 @@ const { sqrt } = Math;
  * (Dehnen 2002, J. Comput. Phys. 179, 27, sec. 2; common practice), truncated
  * after the quadrupole.
  */
-export function genericLoops(def: PairKernelDefinition): PairLoops {
+function genericLoops(def: PairKernelDefinition): PairLoops {
   const { pull, potential, derivatives } = def;
   const D = new Float64Array(3);
   return {
@@ -77,13 +77,13 @@ export function genericLoops(def: PairKernelDefinition): PairLoops {
 const generic = new Map<string, PairLoops>();
 
 /** The generic loops of a registered kernel, built once per thread. */
-export function genericLoopsOf(name: string): PairLoops {
+function genericLoopsOf(name: string): PairLoops {
   let loops = generic.get(name);
   if (!loops) generic.set(name, (loops = genericLoops(pairKernelDefinition(name))));
   return loops;
 }
 
-/** The loops the solvers sum `kernel` with: its fast path where it has one, else the generic loops of its registered definition. */
+/** The loops the solvers sum `kernel` with: its fast path where it has one (unless told not to), else the generic loops of its registered definition. */
 export function loopsFor(kernel: PairKernel): PairLoops {
-  return FAST_PATHS.get(kernel.name) ?? genericLoopsOf(kernel.name);
+  return (!kernel.generic && FAST_PATHS.get(kernel.name)) || genericLoopsOf(kernel.name);
 }

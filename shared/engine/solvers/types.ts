@@ -10,6 +10,8 @@ export interface PairKernel {
   name: string;
   softening2_kpc2: number;
   params: readonly number[];
+  /** Sum with the generic loops even where the kernel has its own (to check and time those against them). */
+  generic?: boolean;
 }
 
 /**
