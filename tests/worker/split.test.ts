@@ -193,8 +193,8 @@ test('a large direct-sum run through the pool is split across its free thread an
   }
 });
 
-test('a large tree run through the pool is split across its free thread and ends bit-identical to a one-thread run', async () => {
-  const spec = plummerRun(SPLIT_MIN_PARTICLES + 1, 6, { snapshotEvery: 2, diagnosticsEvery: 2, solver: { kind: 'tree', theta: 0.5 } });
+test.each([{ kind: 'newton' }, { kind: 'yukawa', alpha: 0.5, lambda_kpc: 2 }] as const)('a large tree run through the pool under %o is split across its free thread and ends bit-identical to a one-thread run', async (law) => {
+  const spec = plummerRun(SPLIT_MIN_PARTICLES + 1, 6, { snapshotEvery: 2, diagnosticsEvery: 2, solver: { kind: 'tree', theta: 0.5 }, law });
   const one = new RunPool(1), two = new RunPool(2);
   try {
     const alone = one.start(spec, () => undefined);
