@@ -18,10 +18,15 @@
 // sleep on a wake counter that every change they must see bumps (a new round,
 // the end of the run, a dismissal), so no wake-up is lost between a helper's
 // last look and its sleep.
+//
+// The pair kernel crosses as data: its registered name (ASCII bytes), softening
+// and parameters; each thread's solvers look the kernel's loops up by that name.
 import { buildOctree, directFieldRange, directPotentialRange, treeFieldRange, treePotentialRange, treeWorkUnits, type Octree } from '../shared/engine/solvers';
 import { directSolver } from '../shared/engine/solvers/direct';
 import { CELL_DOUBLES, CELL_INTS, treeSolver } from '../shared/engine/solvers/tree';
 import type { FieldSolver, PairKernel } from '../shared/engine/solvers';
+import { pairKernelDefinition } from '../shared/engine/laws/kernels';
+import { MAX_KERNEL_NAME, MAX_KERNEL_PARAMS } from '../shared/engine/solvers/types';
 import type { Accelerations, Points, Sources } from '../shared/engine/state';
 
 /** The shared memory of one split run. Plain data: it reaches pool threads by structured clone, the buffers shared, not copied. */
@@ -57,8 +62,9 @@ const INDEX_BITS = 12;
 const INDEX_MASK = (1 << INDEX_BITS) - 1;
 /** Round tags wrap here; a stale claim would have to sleep through this many rounds to match again. */
 const TAG_MASK = (1 << (31 - INDEX_BITS)) - 1;
-/** Float64 slots before the arrays: softening^2, Yukawa alpha and lambda. */
-const PARAMS = 3;
+/** Float64 slots before the arrays: softening^2, name length, parameter count, generic-loops flag, the parameters, then the name's bytes. */
+const PARAMS = 4 + MAX_KERNEL_PARAMS + MAX_KERNEL_NAME / 8;
+const NAME_BYTE = 8 * (4 + MAX_KERNEL_PARAMS);
 /** Arrays of n: source x, y, z, m; target x, y, z; output x, y, z (output x alone holds potentials). */
 const ARRAYS = 10;
 /** Chunks per thread and round: enough to even out threads that start late or run slow. */
@@ -93,6 +99,7 @@ export function createSharedField(n: number, helpers: number, theta?: number): S
 interface Views {
   c: Int32Array;
   params: Float64Array;
+  name: Uint8Array;
   sources: Sources;
   targets: Points;
   out: Accelerations;
@@ -105,6 +112,7 @@ function views(f: SharedField): Views {
   return {
     c: new Int32Array(f.control),
     params: d.subarray(0, PARAMS),
+    name: new Uint8Array(f.data, NAME_BYTE, MAX_KERNEL_NAME),
     sources: { x: at(0), y: at(1), z: at(2), m: at(3) },
     targets: { x: at(4), y: at(5), z: at(6) },
     out: { ax: at(7), ay: at(8), az: at(9) },
@@ -126,6 +134,23 @@ function sharedTree(t: NonNullable<Views['tree']>, n: number, nodes: number, gro
   };
 }
 
+/** Publishes the round's kernel; a name not registered is refused here, before any helper would meet it. */
+function writeKernel(v: Views, kernel: PairKernel): void {
+  const def = pairKernelDefinition(kernel.name);
+  if (kernel.params.length !== def.params.length) throw new Error(`pair kernel "${kernel.name}" takes ${def.params.length} parameters, got ${kernel.params.length}`);
+  v.params[0] = kernel.softening2_kpc2;
+  v.params[1] = kernel.name.length;
+  v.params[2] = kernel.params.length;
+  v.params[3] = kernel.generic ? 1 : 0;
+  v.params.set(kernel.params, 4);
+  for (let k = 0; k < kernel.name.length; k++) v.name[k] = kernel.name.charCodeAt(k);
+}
+
+function readKernel(v: Views): PairKernel {
+  const params = Array.from(v.params.subarray(4, 4 + v.params[2]));
+  return { name: String.fromCharCode(...v.name.subarray(0, v.params[1])), softening2_kpc2: v.params[0], params, generic: v.params[3] === 1 };
+}
+
 /** Claims and computes chunks of the open round until none is left; returns how many this thread did. */
 function work(v: Views): number {
   const c = v.c;
@@ -142,7 +167,7 @@ function work(v: Views): number {
     const size = c[CHUNK_SIZE];
     const start = chunk * size;
     const end = Math.min(c[TARGETS], start + size);
-    const kernel: PairKernel = { softening2_kpc2: v.params[0], yukawaAlpha: v.params[1], yukawaLambda_kpc: v.params[2] };
+    const kernel = readKernel(v);
     const targets = c[SAME] === 1 ? v.sources : v.targets;
     if (v.tree) {
       const tree = sharedTree(v.tree, v.sources.m.length, c[NODES], c[GROUPS]);
@@ -250,13 +275,13 @@ export class SplitSolver implements FieldSolver {
    * shared room is walked here alone, straight into the shared output as well.
    */
   private compute(sources: Sources, targets: Points, kernel: PairKernel, mode: number): void {
-    const { c, sources: s, targets: t, params } = this.v;
+    const { c, sources: s, targets: t } = this.v;
+    writeKernel(this.v, kernel);
     s.x.set(sources.x); s.y.set(sources.y); s.z.set(sources.z); s.m.set(sources.m);
     const same = targets === sources;
     if (!same) {
       t.x.set(targets.x); t.y.set(targets.y); t.z.set(targets.z);
     }
-    params[0] = kernel.softening2_kpc2; params[1] = kernel.yukawaAlpha; params[2] = kernel.yukawaLambda_kpc;
     let units = targets.x.length;
     const room = this.v.tree;
     if (room) {

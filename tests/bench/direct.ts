@@ -7,7 +7,7 @@ import os from 'node:os';
 import path from 'node:path';
 import { directKernelInUse, setDirectKernel, type DirectKernelChoice } from '../../shared/engine/solvers/directWasm';
 import { directSolver } from '../../shared/engine/solvers/direct';
-import { newtonKernel } from '../../shared/engine/solvers/types';
+import { newtonKernel } from '../../shared/engine/laws/newton';
 import { allocateAccelerations, type Accelerations, type Sources } from '../../shared/engine/state';
 import { G } from '../../shared/engine/units';
 import { plummerParticles } from './specs';

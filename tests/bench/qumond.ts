@@ -2,7 +2,7 @@
 // grid's two isolated FFT solves) and of the pair sum alone, so the grid's share reads off.
 import { createLaw } from '../../shared/engine/laws/registry';
 import { treeSolver } from '../../shared/engine/solvers/tree';
-import { newtonKernel } from '../../shared/engine/solvers/types';
+import { newtonKernel } from '../../shared/engine/laws/newton';
 import { allocateAccelerations } from '../../shared/engine/state';
 import { plummerParticles } from './specs';
 

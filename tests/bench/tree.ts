@@ -3,7 +3,7 @@
 // targets; up to DIRECT_UP_TO particles, the direct sum's own cost beside it.
 import { directSolver } from '../../shared/engine/solvers/direct';
 import { treeSolver } from '../../shared/engine/solvers/tree';
-import { newtonKernel } from '../../shared/engine/solvers/types';
+import { newtonKernel } from '../../shared/engine/laws/newton';
 import { allocateAccelerations, type Points } from '../../shared/engine/state';
 import { seedRng, uniform } from '../../shared/engine/rng';
 import { plummerParticles } from './specs';

@@ -5,7 +5,7 @@ import { build } from 'esbuild';
 import type { Browser } from 'playwright-core';
 import { directFieldRange, directPotentialRange } from '../../shared/engine/solvers/direct';
 import { directKernelInUse } from '../../shared/engine/solvers/directWasm';
-import { newtonKernel } from '../../shared/engine/solvers/types';
+import { newtonKernel } from '../../shared/engine/laws/newton';
 import { allocateAccelerations } from '../../shared/engine/state';
 import { plummerParticles } from '../bench/specs';
 import { launch } from './support/browser';
@@ -48,7 +48,7 @@ test('Chromium runs the WebAssembly kernel and its field and potential equal Nod
         type Engine = typeof import('./support/engineBundle');
         const engine = (globalThis as unknown as { infallEngine: Engine }).infallEngine;
         const s = { x: new Float64Array(x), y: new Float64Array(y), z: new Float64Array(z), m: new Float64Array(m) };
-        const k = { softening2_kpc2: eps2, yukawaAlpha: 0, yukawaLambda_kpc: Infinity };
+        const k = { name: 'newton', softening2_kpc2: eps2, params: [] };
         const run = () => {
           const out = { ax: new Float64Array(x.length), ay: new Float64Array(x.length), az: new Float64Array(x.length) };
           const pot = new Float64Array(x.length);

@@ -5,7 +5,8 @@ import { execFileSync } from 'node:child_process';
 import path from 'node:path';
 import { directFieldRange, directPotentialRange } from '../../shared/engine/solvers/direct';
 import { applyDirectKernelSetting, directKernelInUse, setDirectKernel } from '../../shared/engine/solvers/directWasm';
-import { newtonKernel, type PairKernel } from '../../shared/engine/solvers/types';
+import { newtonKernel } from '../../shared/engine/laws/newton';
+import type { PairKernel } from '../../shared/engine/solvers/types';
 import { allocateAccelerations, type Points, type Sources } from '../../shared/engine/state';
 import { plummerParticles } from '../bench/specs';
 
@@ -79,7 +80,7 @@ test('a bigger run after a smaller one (the module grows its memory) still match
 
 test('unsoftened and Yukawa kernels, which the WebAssembly kernel does not cover, take the JS loops with either choice', () => {
   const p = plummerParticles(101);
-  for (const k of [newtonKernel(0), { softening2_kpc2: 0.01, yukawaAlpha: 0.5, yukawaLambda_kpc: 2 }]) {
+  for (const k of [newtonKernel(0), { name: 'yukawa', softening2_kpc2: 0.01, params: [0.5, 2] }]) {
     expectSameBits(sums('wasm', p, p, k, 0, 101), sums('js', p, p, k, 0, 101));
   }
 });

@@ -6,7 +6,7 @@ import { softenedSphericalModel } from '../../shared/engine/models/isotropic';
 import { isotropicDirection, seedRng, uniform } from '../../shared/engine/rng';
 import { Simulation } from '../../shared/engine/simulation';
 import { makeSolver } from '../../shared/engine/solvers';
-import { newtonKernel } from '../../shared/engine/solvers/types';
+import { newtonKernel } from '../../shared/engine/laws/newton';
 import { timescalesFor } from '../../shared/engine/timescales';
 import { allocateAccelerations } from '../../shared/engine/state';
 import { G, myrToInternal } from '../../shared/engine/units';

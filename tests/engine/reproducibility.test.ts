@@ -1,6 +1,6 @@
 import { Simulation } from '../../shared/engine';
 import { directFieldRange } from '../../shared/engine/solvers/direct';
-import { newtonKernel } from '../../shared/engine/solvers/types';
+import { newtonKernel } from '../../shared/engine/laws/newton';
 import { allocateAccelerations, cloneParticles } from '../../shared/engine/state';
 import { specWith } from './helpers';
 

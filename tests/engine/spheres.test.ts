@@ -1,5 +1,6 @@
 import { buildInitialConditions } from '../../shared/engine';
 import { lagrangianRadii } from '../../shared/engine/diagnostics';
+import { newtonKernel } from '../../shared/engine/laws/newton';
 import { directPotentialRange } from '../../shared/engine/solvers';
 import type { ParticleState } from '../../shared/engine/state';
 import { G } from '../../shared/engine/units';
@@ -12,7 +13,7 @@ const N_PAIRS = 4000, N_RADII = 20_000;
 /** Unsoftened W = 1/2 sum m_i phi_i, straight from the pair sum. */
 function potentialEnergy(p: ParticleState): number {
   const pot = new Float64Array(p.n);
-  directPotentialRange(p, p, { softening2_kpc2: 0, yukawaAlpha: 0, yukawaLambda_kpc: Infinity }, 0, p.n, pot);
+  directPotentialRange(p, p, newtonKernel(0), 0, p.n, pot);
   let w = 0;
   for (let i = 0; i < p.n; i++) w += 0.5 * p.m[i] * pot[i];
   return w;

@@ -1,7 +1,7 @@
 import { buildInitialConditions, runSimulation } from '../../shared/engine';
 import { directFieldRange, directPotentialRange } from '../../shared/engine/solvers/direct';
 import { buildOctree, treeFieldRange, treeSolver, treeWorkUnits } from '../../shared/engine/solvers/tree';
-import { newtonKernel } from '../../shared/engine/solvers/types';
+import { newtonKernel } from '../../shared/engine/laws/newton';
 import { allocateAccelerations, allocateParticles } from '../../shared/engine/state';
 import { quantile, specWith } from './helpers';
 
@@ -58,18 +58,6 @@ describe('Barnes & Hut (1986) tree', () => {
     expect(seen.every((v) => v === 1)).toBe(true);
     // Merged siblings make groups fuller than single cells of at most 32 would be (about 9 particles each here).
     expect(N / (tree.groups.length / 2)).toBeGreaterThan(15);
-  });
-
-  test('Newtonian targets taken two at a time get the pull and potential of the one-at-a-time loop (a vanishing Yukawa term) to rounding', () => {
-    const newton = allocateAccelerations(N), yukawa = allocateAccelerations(N);
-    treeSolver(0.5).field(p, p, kernel, newton);
-    treeSolver(0.5).field(p, p, { ...kernel, yukawaAlpha: 1e-300, yukawaLambda_kpc: 1 }, yukawa);
-    const worst = Math.max(...Array.from({ length: N }, (_, i) => Math.hypot(newton.ax[i] - yukawa.ax[i], newton.ay[i] - yukawa.ay[i], newton.az[i] - yukawa.az[i]) / Math.hypot(yukawa.ax[i], yukawa.ay[i], yukawa.az[i])));
-    expect(worst).toBeLessThan(1e-12);
-    const pn = new Float64Array(N), py = new Float64Array(N);
-    treeSolver(0.5).potential(p, p, kernel, pn);
-    treeSolver(0.5).potential(p, p, { ...kernel, yukawaAlpha: 1e-300, yukawaLambda_kpc: 1 }, py);
-    expect(Math.max(...Array.from(pn, (v, i) => Math.abs(v / py[i] - 1)))).toBeLessThan(1e-12);
   });
 
   test('the error shrinks as theta shrinks', () => {

@@ -5,12 +5,14 @@ import { Piscina } from 'piscina';
 import { directSolver } from '../../shared/engine/solvers/direct';
 import { directKernelInUse, setDirectKernel } from '../../shared/engine/solvers/directWasm';
 import { buildOctree, treeSolver } from '../../shared/engine/solvers/tree';
-import { newtonKernel, type PairKernel } from '../../shared/engine/solvers/types';
+import { newtonKernel } from '../../shared/engine/laws/newton';
+import type { PairKernel } from '../../shared/engine/solvers/types';
 import { allocateAccelerations, type Points } from '../../shared/engine/state';
 import type { RunResult } from '../../shared/engine';
 import { RunPool, SPLIT_MIN_PARTICLES } from '../../worker/pool';
 import { activeHelpers, createSharedField, SplitSolver, stopSharedField } from '../../worker/sharedField';
 import { plummerParticles, plummerRun } from '../bench/specs';
+import { everyKernel } from '../engine/helpers';
 
 jest.setTimeout(120_000);
 
@@ -26,7 +28,7 @@ test('a force sum split with a helper thread equals the single-thread direct sum
   const n = 1001; // odd, so chunks and pairs of targets do not line up
   const p = plummerParticles(n);
   const probes: Points = { x: p.x.slice(0, 333).map((v) => v + 0.01), y: p.y.slice(0, 333), z: p.z.slice(0, 333) };
-  const kernels: PairKernel[] = [newtonKernel(0.05), newtonKernel(0), { softening2_kpc2: 0.01, yukawaAlpha: 0.5, yukawaLambda_kpc: 2 }];
+  const kernels: PairKernel[] = [...everyKernel(0.05), ...everyKernel(0)];
   const pool = new Piscina({ filename: taskFile, maxThreads: 1, execArgv: ['--import', 'tsx'] });
   const shared = createSharedField(n, 1);
   const helper = pool.run({ sharedField: shared }, { name: 'fieldHelper' }) as Promise<number>;
@@ -132,7 +134,7 @@ test('a tree walk split with a helper thread equals the single-thread walk bit f
   const n = 3001;
   const p = plummerParticles(n);
   const probes: Points = { x: p.x.slice(0, 333).map((v) => v + 0.01), y: p.y.slice(0, 333), z: p.z.slice(0, 333) };
-  const kernels: PairKernel[] = [newtonKernel(0.05), { softening2_kpc2: 0.01, yukawaAlpha: 0.5, yukawaLambda_kpc: 2 }];
+  const kernels: PairKernel[] = everyKernel(0.05);
   const theta = 0.6;
   const alone = treeSolver(theta);
   const pool = new Piscina({ filename: taskFile, maxThreads: 1, execArgv: ['--import', 'tsx'] });
@@ -191,8 +193,8 @@ test('a large direct-sum run through the pool is split across its free thread an
   }
 });
 
-test('a large tree run through the pool is split across its free thread and ends bit-identical to a one-thread run', async () => {
-  const spec = plummerRun(SPLIT_MIN_PARTICLES + 1, 6, { snapshotEvery: 2, diagnosticsEvery: 2, solver: { kind: 'tree', theta: 0.5 } });
+test.each([{ kind: 'newton' }, { kind: 'yukawa', alpha: 0.5, lambda_kpc: 2 }] as const)('a large tree run through the pool under %o is split across its free thread and ends bit-identical to a one-thread run', async (law) => {
+  const spec = plummerRun(SPLIT_MIN_PARTICLES + 1, 6, { snapshotEvery: 2, diagnosticsEvery: 2, solver: { kind: 'tree', theta: 0.5 }, law });
   const one = new RunPool(1), two = new RunPool(2);
   try {
     const alone = one.start(spec, () => undefined);

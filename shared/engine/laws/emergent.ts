@@ -3,7 +3,7 @@ import { densityCentre } from '../centre';
 import { radialProfile, type RadialMassProfile } from '../radialProfile';
 import { allocateAccelerations, type Accelerations, type Points } from '../state';
 import type { Vector3 } from '../diagnostics';
-import { newtonKernel } from '../solvers/types';
+import { newtonKernel } from './newton';
 import { C_KM_S, G } from '../units';
 import { defineLaw, type LawInfo } from './types';
 

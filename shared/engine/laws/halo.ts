@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { newtonKernel } from '../solvers/types';
+import { newtonKernel } from './newton';
 import { G } from '../units';
 import { pairPotentialEnergy, scratchFor } from './pairwise';
 import { defineLaw, type LawInfo } from './types';

@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { newtonKernel } from '../solvers/types';
+import { newtonKernel } from './newton';
 import { accelFromSI } from '../units';
 import { defineLaw, type LawInfo } from './types';
 

@@ -1,7 +1,23 @@
 import { z } from 'zod';
-import { newtonKernel } from '../solvers/types';
+import { definePairKernel, pairKernel, type PairKernel } from '../solvers/types';
 import { pairPotentialEnergy, scratchFor } from './pairwise';
 import { defineLaw, type LawInfo } from './types';
+
+/** Plummer-softened Newton: phi(s) = 1/s. */
+export const newtonPairKernel = definePairKernel({
+  name: 'newton',
+  params: [],
+  sample: [],
+  potential: (s) => 1 / s,
+  pull: (s) => 1 / (s * s * s),
+  derivatives(s, _p, out) {
+    const i2 = 1 / (s * s), i3 = i2 / s;
+    out[0] = -i3; out[1] = 3 * i3 * i2; out[2] = -15 * i3 * i2 * i2;
+  },
+});
+
+/** The softened Newtonian kernel, which the laws that scale or add to Newton's field also sum with. */
+export const newtonKernel = (softening_kpc: number): PairKernel => pairKernel(newtonPairKernel, softening_kpc, []);
 
 const info = (): LawInfo => ({
   kind: 'newton',

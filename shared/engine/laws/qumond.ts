@@ -3,7 +3,7 @@ import {
   allocateGridVectors, depositMass, divergence, interpolateVectors, IsolatedPoisson, negativeGradient,
   type GridGeometry, type GridVectors,
 } from '../solvers/grid';
-import { newtonKernel } from '../solvers/types';
+import { newtonKernel } from './newton';
 import type { Points, Sources } from '../state';
 import { accelFromSI, G } from '../units';
 import { mondLaw, mondNu } from './mond';

@@ -1,7 +1,29 @@
 import { z } from 'zod';
 import { pairPotentialEnergy, scratchFor } from './pairwise';
 import { defineLaw, type LawInfo } from './types';
-import type { PairKernel } from '../solvers/types';
+import { definePairKernel, pairKernel } from '../solvers/types';
+
+const { exp } = Math;
+
+/**
+ * phi(s) = (1 + alpha e^(-s/lambda)) / s. With e = alpha e^(-s/lambda) and L = lambda
+ * (our own differentiation, checked against finite differences in the tests):
+ * D1 = -(1 + e (1 + s/L)) / s^3, D2 = 3/s^5 + e (s^2 + 3 L s + 3 L^2) / (L^2 s^5),
+ * D3 = -15/s^7 - e (s^3 + 6 L s^2 + 15 L^2 s + 15 L^3) / (L^3 s^7).
+ */
+export const yukawaPairKernel = definePairKernel({
+  name: 'yukawa',
+  params: ['alpha', 'lambda_kpc'],
+  sample: [0.5, 2],
+  potential: (s, [alpha, L]) => (1 + alpha * exp(-s / L)) / s,
+  pull: (s, [alpha, L]) => (1 + alpha * exp(-s / L) * (1 + s / L)) / (s * s * s),
+  derivatives(s, [alpha, L], out) {
+    const e = alpha * exp(-s / L), i = 1 / s, i2 = i * i, i3 = i2 * i, i5 = i3 * i2, i7 = i5 * i2;
+    out[0] = -i3 - (e * (s + L) * i3) / L;
+    out[1] = 3 * i5 + (e * (s * s + 3 * L * s + 3 * L * L) * i5) / (L * L);
+    out[2] = -15 * i7 - (e * (s * s * s + 6 * L * s * s + 15 * L * L * s + 15 * L * L * L) * i7) / (L * L * L);
+  },
+});
 
 const schema = z
   .strictObject({
@@ -29,11 +51,7 @@ export const yukawaLaw = defineLaw({
   schema,
   info,
   create(params, { solver, softening_kpc }) {
-    const kernel: PairKernel = {
-      softening2_kpc2: softening_kpc * softening_kpc,
-      yukawaAlpha: params.alpha,
-      yukawaLambda_kpc: params.lambda_kpc,
-    };
+    const kernel = pairKernel(yukawaPairKernel, softening_kpc, [params.alpha, params.lambda_kpc]);
     const scratch = scratchFor();
     return {
       info: info(params),

@@ -3,7 +3,7 @@ import { directSolver } from './direct';
 import { treeSolver } from './tree';
 import type { FieldSolver } from './types';
 
-export type { FieldSolver, PairKernel } from './types';
+export type { FieldSolver, PairKernel, PairKernelDefinition } from './types';
 export { directFieldRange, directPotentialRange } from './direct';
 export { applyDirectKernelSetting, directKernelInUse, setDirectKernel } from './directWasm';
 export type { DirectKernelChoice } from './directWasm';

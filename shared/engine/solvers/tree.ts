@@ -1,11 +1,11 @@
 import type { Accelerations, Points, Sources } from '../state';
 import { G } from '../units';
-import { sumPotential, sumPull } from './pair';
-import type { FieldSolver, PairKernel } from './types';
+import { loopsFor } from './pair';
+import { MOMENTS, type FieldSolver, type GatheredList, type PairKernel } from './types';
 
 // Module-local aliases: inside a vm context (Jest, sandboxes) every global
 // lookup of Math is slow enough to dominate a hot loop.
-const { min, max, sqrt, exp } = Math;
+const { min, max } = Math;
 
 /** Particles per leaf before it splits (common practice: small buckets beat single-particle leaves). */
 const LEAF_SIZE = 8;
@@ -56,8 +56,7 @@ const LINK = 4;
 /** Doubles and integers per cell, for copying a tree into memory shared between threads. */
 export const CELL_DOUBLES = CELL, CELL_INTS = LINK;
 const FIRST_CHILD = 0, CHILD_COUNT = 1, FIRST_SLOT = 2, SLOT_COUNT = 3;
-/** A cell's numbers that act on targets, from COM_X to IYZ: one record of an interaction list. */
-const MOMENTS = 10;
+// A cell's numbers that act on targets, COM_X to IYZ, are one record of an interaction list (MOMENTS of them).
 /**
  * Accepted cells of at most this many particles act through their particles:
  * exact, and cheaper than one quadrupole term. Of 1, 2 and 3, 2 was fastest
@@ -195,10 +194,10 @@ function room(a: Float64Array, need: number): Float64Array {
  * inside large, lopsided cells). Sharing the walk among a group's particles is
  * the grouping of Barnes (1990); for a single point it is the 1986 criterion.
  * Accepted cells act through monopole plus quadrupole terms of the pair
- * kernel, Newton's or Newton plus Yukawa (see cellPull), except cells of FEW
- * particles or fewer, whose particles join the pair list.
+ * kernel (PairLoops.cellPull; the expansion is written out in pair.ts), except
+ * cells of FEW particles or fewer, whose particles join the pair list.
  */
-class InteractionList {
+class InteractionList implements GatheredList {
   // Particles of opened leaves: summed by the pair loop.
   px = list(); py = list(); pz = list(); pm = list();
   particles = 0;
@@ -253,155 +252,6 @@ class InteractionList {
         for (let q = links[l + FIRST_CHILD] + links[l + CHILD_COUNT] - 1; q >= links[l + FIRST_CHILD]; q--) stack[top++] = q;
       }
     }
-  }
-
-  /**
-   * Pull of the gathered cells at (xi, yi, zi), still to be multiplied by G, added into acc[0..2].
-   * With d = com - target, q = d^2, the kernel F(q) = f(sqrt(q + eps^2)) and I the second moments
-   * about the com, sum_j m_j F(|d + delta_j|^2) expands (Taylor to second order; the first-order
-   * term vanishes about the com) to M F + F' tr(I) + 2 F'' d.I.d, F' = dF/dq. The pull is minus
-   * its gradient in d: -(2 M F' + 2 F'' tr(I) + 4 F''' d.I.d) d - 4 F'' I.d. For softened Newton,
-   * f = 1/s: F' = -s^-3 / 2, F'' = 3 s^-5 / 4, F''' = -15 s^-7 / 8. A Yukawa term alpha e^(-s/lambda) / s
-   * adds, with e = alpha e^(-s/lambda) and L = lambda (our own differentiation, checked in the tests):
-   * F' = -e (s + L) / (2 L s^3), F'' = e (s^2 + 3 L s + 3 L^2) / (4 L^2 s^5),
-   * F''' = -e (s^3 + 6 L s^2 + 15 L^2 s + 15 L^3) / (8 L^3 s^7).
-   */
-  cellPull(xi: number, yi: number, zi: number, kernel: PairKernel, acc: Float64Array): void {
-    const cl = this.cl, n = MOMENTS * this.cellCount;
-    const eps2 = kernel.softening2_kpc2, alpha = kernel.yukawaAlpha, L = kernel.yukawaLambda_kpc;
-    let sx = 0, sy = 0, sz = 0;
-    if (alpha === 0) {
-      for (let k = 0; k < n; k += MOMENTS) {
-        const dx = cl[k] - xi, dy = cl[k + 1] - yi, dz = cl[k + 2] - zi, M = cl[k + 3];
-        const inv = 1 / sqrt(dx * dx + dy * dy + dz * dz + eps2);
-        const inv2 = inv * inv, inv3 = inv2 * inv, inv5 = inv3 * inv2;
-        const Ixx = cl[k + 4], Iyy = cl[k + 5], Izz = cl[k + 6], Ixy = cl[k + 7], Ixz = cl[k + 8], Iyz = cl[k + 9];
-        const Idx = Ixx * dx + Ixy * dy + Ixz * dz, Idy = Ixy * dx + Iyy * dy + Iyz * dz, Idz = Ixz * dx + Iyz * dy + Izz * dz;
-        const radial = M * inv3 + 7.5 * (dx * Idx + dy * Idy + dz * Idz) * inv5 * inv2 - 1.5 * (Ixx + Iyy + Izz) * inv5;
-        const q = 3 * inv5;
-        sx += radial * dx - q * Idx; sy += radial * dy - q * Idy; sz += radial * dz - q * Idz;
-      }
-    } else {
-      const iL = 1 / L, c1 = 0.5 * iL, c2 = 0.25 * iL * iL, c3 = 0.125 * iL * iL * iL;
-      for (let k = 0; k < n; k += MOMENTS) {
-        const dx = cl[k] - xi, dy = cl[k + 1] - yi, dz = cl[k + 2] - zi, M = cl[k + 3];
-        const s2 = dx * dx + dy * dy + dz * dz + eps2;
-        const inv = 1 / sqrt(s2), s = s2 * inv;
-        const inv2 = inv * inv, inv3 = inv2 * inv, inv5 = inv3 * inv2, inv7 = inv5 * inv2;
-        const e = alpha * exp(-s * iL);
-        const F1 = -0.5 * inv3 - e * c1 * (s + L) * inv3;
-        const F2 = 0.75 * inv5 + e * c2 * (s2 + 3 * L * s + 3 * L * L) * inv5;
-        const F3 = -1.875 * inv7 - e * c3 * (s2 * s + 6 * L * s2 + 15 * L * L * s + 15 * L * L * L) * inv7;
-        const Ixx = cl[k + 4], Iyy = cl[k + 5], Izz = cl[k + 6], Ixy = cl[k + 7], Ixz = cl[k + 8], Iyz = cl[k + 9];
-        const Idx = Ixx * dx + Ixy * dy + Ixz * dz, Idy = Ixy * dx + Iyy * dy + Iyz * dz, Idz = Ixz * dx + Iyz * dy + Izz * dz;
-        const radial = -(2 * M * F1 + 2 * F2 * (Ixx + Iyy + Izz) + 4 * F3 * (dx * Idx + dy * Idy + dz * Idz));
-        const q = 4 * F2;
-        sx += radial * dx - q * Idx; sy += radial * dy - q * Idy; sz += radial * dz - q * Idz;
-      }
-    }
-    acc[0] += sx; acc[1] += sy; acc[2] += sz;
-  }
-
-  /**
-   * The Newtonian pull of the whole list (particles, then cells, as sumPull and
-   * cellPull sum them) at two targets in one pass: each list entry is loaded
-   * once for both, and the two targets' arithmetic interleaves. Writes, still
-   * to be multiplied by G, a's pull into acc[0..2] and b's into acc[3..5].
-   */
-  newtonPullTwo(xa: number, ya: number, za: number, xb: number, yb: number, zb: number, eps2: number, acc: Float64Array): void {
-    const { px, py, pz, pm, cl } = this;
-    let ax = 0, ay = 0, az = 0, bx = 0, by = 0, bz = 0;
-    for (let j = 0, n = this.particles; j < n; j++) {
-      const sx = px[j], sy = py[j], sz = pz[j], m = pm[j];
-      const dxa = sx - xa, dya = sy - ya, dza = sz - za, dxb = sx - xb, dyb = sy - yb, dzb = sz - zb;
-      const ra = dxa * dxa + dya * dya + dza * dza, rb = dxb * dxb + dyb * dyb + dzb * dzb;
-      // A particle does not act on itself.
-      if (ra !== 0) {
-        const inv = 1 / sqrt(ra + eps2), f = m * inv * inv * inv;
-        ax += f * dxa; ay += f * dya; az += f * dza;
-      }
-      if (rb !== 0) {
-        const inv = 1 / sqrt(rb + eps2), f = m * inv * inv * inv;
-        bx += f * dxb; by += f * dyb; bz += f * dzb;
-      }
-    }
-    let cax = 0, cay = 0, caz = 0, cbx = 0, cby = 0, cbz = 0;
-    for (let k = 0, n = MOMENTS * this.cellCount; k < n; k += MOMENTS) {
-      const gx = cl[k], gy = cl[k + 1], gz = cl[k + 2], M = cl[k + 3];
-      const Ixx = cl[k + 4], Iyy = cl[k + 5], Izz = cl[k + 6], Ixy = cl[k + 7], Ixz = cl[k + 8], Iyz = cl[k + 9];
-      const tr = 1.5 * (Ixx + Iyy + Izz);
-      const dxa = gx - xa, dya = gy - ya, dza = gz - za, dxb = gx - xb, dyb = gy - yb, dzb = gz - zb;
-      const ia = 1 / sqrt(dxa * dxa + dya * dya + dza * dza + eps2), ib = 1 / sqrt(dxb * dxb + dyb * dyb + dzb * dzb + eps2);
-      const ia2 = ia * ia, ia3 = ia2 * ia, ia5 = ia3 * ia2, ib2 = ib * ib, ib3 = ib2 * ib, ib5 = ib3 * ib2;
-      const Ixa = Ixx * dxa + Ixy * dya + Ixz * dza, Iya = Ixy * dxa + Iyy * dya + Iyz * dza, Iza = Ixz * dxa + Iyz * dya + Izz * dza;
-      const Ixb = Ixx * dxb + Ixy * dyb + Ixz * dzb, Iyb = Ixy * dxb + Iyy * dyb + Iyz * dzb, Izb = Ixz * dxb + Iyz * dyb + Izz * dzb;
-      const ra = M * ia3 + 7.5 * (dxa * Ixa + dya * Iya + dza * Iza) * ia5 * ia2 - tr * ia5, qa = 3 * ia5;
-      const rb = M * ib3 + 7.5 * (dxb * Ixb + dyb * Iyb + dzb * Izb) * ib5 * ib2 - tr * ib5, qb = 3 * ib5;
-      cax += ra * dxa - qa * Ixa; cay += ra * dya - qa * Iya; caz += ra * dza - qa * Iza;
-      cbx += rb * dxb - qb * Ixb; cby += rb * dyb - qb * Iyb; cbz += rb * dzb - qb * Izb;
-    }
-    acc[0] = ax + cax; acc[1] = ay + cay; acc[2] = az + caz;
-    acc[3] = bx + cbx; acc[4] = by + cby; acc[5] = bz + cbz;
-  }
-
-  /** The Newtonian sum of the whole list (as sumPotential and cellPotential add it) at two targets in one pass; a's into acc[0], b's into acc[1]. */
-  newtonPotentialTwo(xa: number, ya: number, za: number, xb: number, yb: number, zb: number, eps2: number, acc: Float64Array): void {
-    const { px, py, pz, pm, cl } = this;
-    let pa = 0, pb = 0;
-    for (let j = 0, n = this.particles; j < n; j++) {
-      const sx = px[j], sy = py[j], sz = pz[j];
-      const dxa = sx - xa, dya = sy - ya, dza = sz - za, dxb = sx - xb, dyb = sy - yb, dzb = sz - zb;
-      const ra = dxa * dxa + dya * dya + dza * dza, rb = dxb * dxb + dyb * dyb + dzb * dzb;
-      if (ra !== 0) pa += pm[j] / sqrt(ra + eps2);
-      if (rb !== 0) pb += pm[j] / sqrt(rb + eps2);
-    }
-    let ca = 0, cb = 0;
-    for (let k = 0, n = MOMENTS * this.cellCount; k < n; k += MOMENTS) {
-      const gx = cl[k], gy = cl[k + 1], gz = cl[k + 2], M = cl[k + 3];
-      const Ixx = cl[k + 4], Iyy = cl[k + 5], Izz = cl[k + 6], Ixy = cl[k + 7], Ixz = cl[k + 8], Iyz = cl[k + 9];
-      const tr = Ixx + Iyy + Izz;
-      const dxa = gx - xa, dya = gy - ya, dza = gz - za, dxb = gx - xb, dyb = gy - yb, dzb = gz - zb;
-      const ia = 1 / sqrt(dxa * dxa + dya * dya + dza * dza + eps2), ib = 1 / sqrt(dxb * dxb + dyb * dyb + dzb * dzb + eps2);
-      const ia2 = ia * ia, ia3 = ia2 * ia, ib2 = ib * ib, ib3 = ib2 * ib;
-      const dIa = dxa * (Ixx * dxa + Ixy * dya + Ixz * dza) + dya * (Ixy * dxa + Iyy * dya + Iyz * dza) + dza * (Ixz * dxa + Iyz * dya + Izz * dza);
-      const dIb = dxb * (Ixx * dxb + Ixy * dyb + Ixz * dzb) + dyb * (Ixy * dxb + Iyy * dyb + Iyz * dzb) + dzb * (Ixz * dxb + Iyz * dyb + Izz * dzb);
-      ca += M * ia + 1.5 * dIa * ia3 * ia2 - 0.5 * tr * ia3;
-      cb += M * ib + 1.5 * dIb * ib3 * ib2 - 0.5 * tr * ib3;
-    }
-    acc[0] = pa + ca; acc[1] = pb + cb;
-  }
-
-  /** The expansion above summed over the gathered cells; the potential is -G times it. */
-  cellPotential(xi: number, yi: number, zi: number, kernel: PairKernel): number {
-    const cl = this.cl, n = MOMENTS * this.cellCount;
-    const eps2 = kernel.softening2_kpc2, alpha = kernel.yukawaAlpha, L = kernel.yukawaLambda_kpc;
-    let sp = 0;
-    if (alpha === 0) {
-      for (let k = 0; k < n; k += MOMENTS) {
-        const dx = cl[k] - xi, dy = cl[k + 1] - yi, dz = cl[k + 2] - zi, M = cl[k + 3];
-        const inv = 1 / sqrt(dx * dx + dy * dy + dz * dz + eps2);
-        const inv2 = inv * inv, inv3 = inv2 * inv;
-        const Ixx = cl[k + 4], Iyy = cl[k + 5], Izz = cl[k + 6], Ixy = cl[k + 7], Ixz = cl[k + 8], Iyz = cl[k + 9];
-        const dId = dx * (Ixx * dx + Ixy * dy + Ixz * dz) + dy * (Ixy * dx + Iyy * dy + Iyz * dz) + dz * (Ixz * dx + Iyz * dy + Izz * dz);
-        sp += M * inv + 1.5 * dId * inv3 * inv2 - 0.5 * (Ixx + Iyy + Izz) * inv3;
-      }
-    } else {
-      const iL = 1 / L, c1 = 0.5 * iL, c2 = 0.25 * iL * iL;
-      for (let k = 0; k < n; k += MOMENTS) {
-        const dx = cl[k] - xi, dy = cl[k + 1] - yi, dz = cl[k + 2] - zi, M = cl[k + 3];
-        const s2 = dx * dx + dy * dy + dz * dz + eps2;
-        const inv = 1 / sqrt(s2), s = s2 * inv;
-        const inv2 = inv * inv, inv3 = inv2 * inv, inv5 = inv3 * inv2;
-        const e = alpha * exp(-s * iL);
-        const F0 = inv + e * inv;
-        const F1 = -0.5 * inv3 - e * c1 * (s + L) * inv3;
-        const F2 = 0.75 * inv5 + e * c2 * (s2 + 3 * L * s + 3 * L * L) * inv5;
-        const Ixx = cl[k + 4], Iyy = cl[k + 5], Izz = cl[k + 6], Ixy = cl[k + 7], Ixz = cl[k + 8], Iyz = cl[k + 9];
-        const dId = dx * (Ixx * dx + Ixy * dy + Ixz * dz) + dy * (Ixy * dx + Iyy * dy + Iyz * dz) + dz * (Ixz * dx + Iyz * dy + Izz * dz);
-        sp += M * F0 + F1 * (Ixx + Iyy + Izz) + 2 * F2 * dId;
-      }
-    }
-    return sp;
   }
 }
 
@@ -461,13 +311,14 @@ export function treeFieldRange(
 ): void {
   const acc = new Float64Array(6);
   const { x, y, z } = targets;
-  const newton = kernel.yukawaAlpha === 0;
+  const loops = loopsFor(kernel), eps2 = kernel.softening2_kpc2, p = kernel.params;
+  const two = loops.listPullTwo;
   forEachWalk(tree, sources, targets, theta, iStart, iEnd, (list, ids, from, to) => {
     let q = from;
-    // Newtonian targets two at a time: one pass over the list serves both.
-    for (; newton && q + 1 < to; q += 2) {
+    // Where the kernel has a loop for it, targets two at a time: one pass over the list serves both.
+    for (; two && q + 1 < to; q += 2) {
       const i = ids ? ids[q] : q, j = ids ? ids[q + 1] : q + 1;
-      list.newtonPullTwo(x[i], y[i], z[i], x[j], y[j], z[j], kernel.softening2_kpc2, acc);
+      two(list, x[i], y[i], z[i], x[j], y[j], z[j], eps2, p, acc);
       out.ax[i] = G * acc[0]; out.ay[i] = G * acc[1]; out.az[i] = G * acc[2];
       out.ax[j] = G * acc[3]; out.ay[j] = G * acc[4]; out.az[j] = G * acc[5];
     }
@@ -475,8 +326,8 @@ export function treeFieldRange(
       const i = ids ? ids[q] : q;
       const xi = x[i], yi = y[i], zi = z[i];
       acc[0] = 0; acc[1] = 0; acc[2] = 0;
-      sumPull(list.px, list.py, list.pz, list.pm, list.particles, xi, yi, zi, kernel, acc);
-      list.cellPull(xi, yi, zi, kernel, acc);
+      loops.pull(list.px, list.py, list.pz, list.pm, list.particles, xi, yi, zi, eps2, p, acc);
+      loops.cellPull(list.cl, list.cellCount, xi, yi, zi, eps2, p, acc);
       out.ax[i] = G * acc[0]; out.ay[i] = G * acc[1]; out.az[i] = G * acc[2];
     }
   });
@@ -487,18 +338,20 @@ export function treePotentialRange(
 ): void {
   const { x, y, z } = targets;
   const acc = new Float64Array(2);
-  const newton = kernel.yukawaAlpha === 0;
+  const loops = loopsFor(kernel), eps2 = kernel.softening2_kpc2, p = kernel.params;
+  const two = loops.listPotentialTwo;
   forEachWalk(tree, sources, targets, theta, iStart, iEnd, (list, ids, from, to) => {
     let q = from;
-    for (; newton && q + 1 < to; q += 2) {
+    for (; two && q + 1 < to; q += 2) {
       const i = ids ? ids[q] : q, j = ids ? ids[q + 1] : q + 1;
-      list.newtonPotentialTwo(x[i], y[i], z[i], x[j], y[j], z[j], kernel.softening2_kpc2, acc);
+      two(list, x[i], y[i], z[i], x[j], y[j], z[j], eps2, p, acc);
       out[i] = -G * acc[0]; out[j] = -G * acc[1];
     }
     for (; q < to; q++) {
       const i = ids ? ids[q] : q;
       const xi = x[i], yi = y[i], zi = z[i];
-      out[i] = -G * (sumPotential(list.px, list.py, list.pz, list.pm, list.particles, xi, yi, zi, kernel) + list.cellPotential(xi, yi, zi, kernel));
+      out[i] = -G * (loops.potential(list.px, list.py, list.pz, list.pm, list.particles, xi, yi, zi, eps2, p)
+        + loops.cellPotential(list.cl, list.cellCount, xi, yi, zi, eps2, p));
     }
   });
 }
