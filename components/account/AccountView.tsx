@@ -20,7 +20,7 @@ import { bytesText } from '../../shared/api/quotaWords';
 function UsagePanel() {
   const usage = useUsage();
   return (
-    <Panel title="Budget today" note="Counted in pair interactions; the day is UTC.">
+    <Panel title="Budget and limits" note="Compute is counted in pair interactions, per UTC day; the limits come from your role, cohort and any allocation.">
       {usage.isPending ? (
         <Loading what="Loading your budget" />
       ) : usage.isError ? (
