@@ -15,11 +15,12 @@ import { describeError, Empty, ErrorState, Loading, Notice } from '../States';
 import { Txt } from '../Txt';
 import { Fact } from '../run/RunFacts';
 import { DEFAULT_TOKEN_LIFETIME_DAYS, TOKEN_LIFETIME_CHOICES_DAYS } from '../../shared/api/accounts';
+import { bytesText } from '../../shared/api/quotaWords';
 
 function UsagePanel() {
   const usage = useUsage();
   return (
-    <Panel title="Budget today" note="Counted in pair interactions; the day is UTC.">
+    <Panel title="Budget and limits" note="Compute is counted in pair interactions, per UTC day; the limits come from your role, cohort and any allocation.">
       {usage.isPending ? (
         <Loading what="Loading your budget" />
       ) : usage.isError ? (
@@ -33,6 +34,8 @@ function UsagePanel() {
             <Fact label="runs active" value={`${usage.data.used.activeRuns} / ${usage.data.limits.maxConcurrentRuns}`} />
             <Fact label="max particles" value={formatCount(usage.data.limits.maxParticles)} />
             <Fact label="max steps" value={formatCount(usage.data.limits.maxSteps)} />
+            <Fact label="largest table file" value={bytesText(usage.data.limits.maxUploadBytes)} />
+            <Fact label="rows per table" value={formatCount(usage.data.limits.maxUploadRows)} />
           </View>
           <Txt variant="caption">Resets {new Date(usage.data.resetsAt).toUTCString()}.</Txt>
         </>

@@ -1,6 +1,7 @@
 import { useState } from 'react';
 import { Pressable, StyleSheet, View, useWindowDimensions } from 'react-native';
 import { LIMIT_CEILINGS, ROLES, type AdminUser, type Role } from '../../shared/api/accounts';
+import { bytesText } from '../../shared/api/quotaWords';
 import { colors, radius, space, WIDE_BREAKPOINT } from '../../constants/theme';
 import { useAdminUser, useAdminUsers, useGrantRole, useSetAllocation } from '../../hooks/admin';
 import { ChoiceChips, TextField } from '../fields';
@@ -29,6 +30,8 @@ function UserDetail({ user }: { user: AdminUser }) {
         <Fact label="steps" value={formatCount(current.limits.maxSteps)} />
         <Fact label="runs at a time" value={String(current.limits.maxConcurrentRuns)} />
         <Fact label="daily compute" value={formatInteractions(current.limits.dailyInteractions)} />
+        <Fact label="largest table file" value={bytesText(current.limits.maxUploadBytes)} />
+        <Fact label="rows per table" value={formatCount(current.limits.maxUploadRows)} />
         {detail.data ? <Fact label="used today" value={formatInteractions(detail.data.usage.used.interactionsToday)} /> : null}
       </View>
       <Txt variant="label">Allocation (overrides role and cohort limits)</Txt>

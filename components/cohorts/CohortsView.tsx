@@ -10,6 +10,7 @@ import { Panel } from '../Panel';
 import { Screen } from '../Screen';
 import { describeError, Empty, ErrorState, Loading, Notice } from '../States';
 import { Txt } from '../Txt';
+import { bytesText } from '../../shared/api/quotaWords';
 
 /** The cohorts an instructor runs (all of them, for an admin), and a new one. */
 export function CohortsView() {
@@ -47,7 +48,7 @@ export function CohortsView() {
                   {c.enrolmentCode ? ` · code ${c.enrolmentCode}` : ''}
                 </Txt>
                 <Txt variant="caption">
-                  Quota: {formatCount(c.quota.maxParticles)} particles, {formatCount(c.quota.maxSteps)} steps, {c.quota.maxConcurrentRuns} at a time, {formatInteractions(c.quota.dailyInteractions)} interactions a day
+                  Quota: {formatCount(c.quota.maxParticles)} particles, {formatCount(c.quota.maxSteps)} steps, {c.quota.maxConcurrentRuns} at a time, {formatInteractions(c.quota.dailyInteractions)} interactions a day; tables up to {bytesText(c.quota.maxUploadBytes)} and {formatCount(c.quota.maxUploadRows)} rows
                 </Txt>
               </View>
               <Button small label="Open" href={{ pathname: '/cohorts/[id]', params: { id: String(c.id) } }} accessibilityLabel={`Open cohort ${c.name}`} />

@@ -15,7 +15,7 @@ export function galaxiesRouter({ queue }: Pick<Deps, 'queue'>): Router {
   r.use(requireUser);
 
   r.get('/', async (req, res) => {
-    const body: GalaxyList = { galaxies: await listGalaxies(em(), req.user!), limits: uploadLimits(req.user!) };
+    const body: GalaxyList = { galaxies: await listGalaxies(em(), req.user!), limits: await uploadLimits(em(), req.user!) };
     res.json(body);
   });
 

@@ -2,7 +2,7 @@ import { randomInt } from 'node:crypto';
 import type { EntityManager } from '@mikro-orm/postgresql';
 import { ApiError } from '../errors';
 import { Cohort, CohortMember, type User } from '../db/entities';
-import type { CohortMemberUsage, CohortSummary, QuotaLimits } from '../../shared/api/accounts';
+import { limitText, type CohortMemberUsage, type CohortQuotaBody, type CohortSummary } from '../../shared/api/accounts';
 import { accountUsage, cohortLimits, COHORT_CEILING, LIMIT_KEYS, ROLE_LIMITS } from './quotas';
 import { toAccountUser } from './users';
 import { sendCohortInvitation } from './notifications';
@@ -15,11 +15,15 @@ export function newEnrolmentCode(): string {
   return `${pick()}-${pick()}`;
 }
 
-function checkCeiling(quota: QuotaLimits): void {
+function checkCeiling(quota: CohortQuotaBody): void {
   for (const k of LIMIT_KEYS) {
-    if (quota[k] > COHORT_CEILING[k]) throw new ApiError('BAD_REQUEST', `quota.${k}: a cohort quota is at most ${COHORT_CEILING[k]}`, { field: `quota.${k}` });
+    const v = quota[k];
+    if (v != null && v > COHORT_CEILING[k]) throw new ApiError('BAD_REQUEST', `quota.${k}: a cohort quota is at most ${limitText(k, COHORT_CEILING[k])}`, { field: `quota.${k}` });
   }
 }
+
+/** The row values of a quota: upload limits left out are stored as not set. */
+const quotaColumns = (quota: CohortQuotaBody) => ({ ...quota, maxUploadBytes: quota.maxUploadBytes ?? null, maxUploadRows: quota.maxUploadRows ?? null });
 
 export async function toCohortSummary(em: EntityManager, c: Cohort, viewer: User): Promise<CohortSummary> {
   await em.populate(c, ['instructor']);
@@ -36,10 +40,10 @@ export async function toCohortSummary(em: EntityManager, c: Cohort, viewer: User
   };
 }
 
-export async function createCohort(em: EntityManager, instructor: User, name: string, quota: QuotaLimits = ROLE_LIMITS.student): Promise<Cohort> {
+export async function createCohort(em: EntityManager, instructor: User, name: string, quota: CohortQuotaBody = ROLE_LIMITS.student): Promise<Cohort> {
   checkCeiling(quota);
   // 31^8 codes: a clash is unlikely enough to leave to the unique constraint.
-  const c = em.create(Cohort, { name, instructor: instructor.id, enrolmentCode: newEnrolmentCode(), ...quota });
+  const c = em.create(Cohort, { name, instructor: instructor.id, enrolmentCode: newEnrolmentCode(), ...quotaColumns(quota) });
   await em.flush();
   return c;
 }
@@ -77,9 +81,9 @@ export async function joinCohort(em: EntityManager, student: User, code: string)
   return c;
 }
 
-export async function setCohortQuota(em: EntityManager, c: Cohort, quota: QuotaLimits): Promise<void> {
+export async function setCohortQuota(em: EntityManager, c: Cohort, quota: CohortQuotaBody): Promise<void> {
   checkCeiling(quota);
-  Object.assign(c, quota);
+  Object.assign(c, quotaColumns(quota));
   await em.flush();
 }
 

@@ -26,6 +26,7 @@ import {
   type GalaxyVisibility,
 } from '../../shared/api/galaxies';
 import { uploadLimits } from './quotas';
+import { quotaLimitText, type QuotaLimits, type UploadLimits } from '../../shared/api/accounts';
 import type { Queue } from 'bullmq';
 import type { RunJobData } from '../queue';
 import type { RunSummary } from '../../shared/api/contract';
@@ -107,10 +108,10 @@ export function cleanFileName(name: string): string {
 export async function createGalaxy(em: EntityManager, user: User, file: UploadedFile | undefined, fields: unknown): Promise<Galaxy> {
   const input = parseInput(uploadGalaxyFieldsSchema, fields);
   if (!file) throw new ApiError('BAD_REQUEST', 'file: attach the rotation-curve table as the multipart field "file"', { field: 'file' });
-  const limits = uploadLimits(user);
+  const limits = await uploadLimits(em, user);
   const mapping: GalaxyMapping = input.mapping ?? { columns: {}, radiusUnit: 'kpc' };
   const cohort = await shareTarget(em, user, input.visibility, input.cohortId);
-  const curve = readCurve(file.buffer, mapping, limits.maxUploadBytes, limits.maxUploadRows);
+  const curve = readCurve(file.buffer, mapping, limits);
   const g = em.create(Galaxy, {
     owner: user,
     name: input.name,
@@ -129,20 +130,23 @@ export async function createGalaxy(em: EntityManager, user: User, file: Uploaded
 }
 
 /** The table parser's refusal as a 400 naming line and column (or 413 for a table over the limits). */
-export function tableRefusal(err: TableError): ApiError {
-  // The parser words its size and row refusals as "... the limit ..." and names no line.
+export function tableRefusal(err: TableError, rowLimit?: { key: keyof QuotaLimits; max: number }): ApiError {
+  // The parser words its size and row refusals as "... the limit ..." and names no line. The
+  // size is refused by the upload middleware before the parser sees the file, so an over-limit
+  // refusal here is the row limit, which the caller names.
   const overLimit = err.line === undefined && /\bthe limit\b/.test(err.message);
-  return new ApiError(overLimit ? 'PAYLOAD_TOO_LARGE' : 'BAD_REQUEST', `file: ${err.message}`, {
+  const named = overLimit && rowLimit ? `; ${quotaLimitText(rowLimit.key, rowLimit.max)}` : '';
+  return new ApiError(overLimit ? 'PAYLOAD_TOO_LARGE' : 'BAD_REQUEST', `file: ${err.message}${named}`, {
     field: 'file',
     details: { line: err.line ?? null, column: err.column ?? null },
   });
 }
 
-function readCurve(bytes: Uint8Array, mapping: GalaxyMapping, maxBytes: number, maxRows: number) {
+function readCurve(bytes: Uint8Array, mapping: GalaxyMapping, limits: UploadLimits) {
   try {
-    return parseRotationCurve(bytes, { maxBytes, maxRows, ...mapping });
+    return parseRotationCurve(bytes, { maxBytes: limits.maxUploadBytes, maxRows: limits.maxUploadRows, ...mapping });
   } catch (err) {
-    throw err instanceof TableError ? tableRefusal(err) : err;
+    throw err instanceof TableError ? tableRefusal(err, { key: 'maxUploadRows', max: limits.maxUploadRows }) : err;
   }
 }
 

@@ -8,15 +8,19 @@ import type { User } from '../db/entities';
 import { ApiError } from '../errors';
 import { TableError } from '../../shared/galaxy/table';
 import { parseParticleTable, type ParticleTableUpload, type TableParticle } from '../../shared/api/particleTable';
-import { effectiveLimits, uploadLimits } from './quotas';
+import { effectiveLimits } from './quotas';
+import { quotaLimitText } from '../../shared/api/accounts';
 import { cleanFileName, tableRefusal, type UploadedFile } from './galaxies';
 import type { ParticleFileAnswer } from './particleFileThread';
+
+/** The lower of the two quota limits on a particle file's rows: rows per table, particles per run. */
+type RowLimit = { key: 'maxUploadRows' | 'maxParticles'; max: number };
 
 /** The first eight bytes of every HDF5 file. */
 const HDF5_SIGNATURE = Buffer.from([0x89, 0x48, 0x44, 0x46, 0x0d, 0x0a, 0x1a, 0x0a]);
 
 /** The last frame of a snapshot file written by the export, read in a worker thread. */
-async function particlesOfSnapshotFile(bytes: Buffer, maxRows: number): Promise<TableParticle[]> {
+async function particlesOfSnapshotFile(bytes: Buffer, rowLimit: RowLimit): Promise<TableParticle[]> {
   const file = path.join(os.tmpdir(), `infall-particles-${randomUUID()}.h5`);
   await fs.writeFile(file, bytes);
   const entry = path.join(__dirname, 'particleFileThread.ts');
@@ -29,7 +33,7 @@ async function particlesOfSnapshotFile(bytes: Buffer, maxRows: number): Promise<
     });
     if (!answer.ok) throw new ApiError('BAD_REQUEST', `file: ${answer.message}`, { field: 'file' });
     const n = answer.masses.length;
-    if (n > maxRows) throw new ApiError('PAYLOAD_TOO_LARGE', `file: the snapshot file has ${n} particles; your limit is ${maxRows}`, { field: 'file' });
+    if (n > rowLimit.max) throw new ApiError('PAYLOAD_TOO_LARGE', `file: the snapshot file has ${n} particles; ${quotaLimitText(rowLimit.key, rowLimit.max)}`, { field: 'file' });
     const { positions: x, velocities: v, masses: m } = answer;
     return Array.from({ length: n }, (_, i) => ({ x_kpc: x[3 * i], y_kpc: x[3 * i + 1], z_kpc: x[3 * i + 2], vx_km_s: v[3 * i], vy_km_s: v[3 * i + 1], vz_km_s: v[3 * i + 2], mass_Msun: m[i] }));
   } finally {
@@ -46,13 +50,13 @@ async function particlesOfSnapshotFile(bytes: Buffer, maxRows: number): Promise<
  */
 export async function readParticleUpload(em: EntityManager, user: User, file: UploadedFile | undefined): Promise<ParticleTableUpload> {
   if (!file) throw new ApiError('BAD_REQUEST', 'file: attach the particle table as the multipart field "file"', { field: 'file' });
-  const { maxUploadBytes, maxUploadRows } = uploadLimits(user);
-  const maxRows = Math.min(maxUploadRows, (await effectiveLimits(em, user)).maxParticles);
+  const { maxUploadBytes, maxUploadRows, maxParticles } = await effectiveLimits(em, user);
+  const rowLimit: RowLimit = maxUploadRows <= maxParticles ? { key: 'maxUploadRows', max: maxUploadRows } : { key: 'maxParticles', max: maxParticles };
   const fileName = cleanFileName(file.originalname);
-  if (file.buffer.subarray(0, 8).equals(HDF5_SIGNATURE)) return { fileName, particles: await particlesOfSnapshotFile(file.buffer, maxRows) };
+  if (file.buffer.subarray(0, 8).equals(HDF5_SIGNATURE)) return { fileName, particles: await particlesOfSnapshotFile(file.buffer, rowLimit) };
   try {
-    return { fileName, particles: parseParticleTable(file.buffer, { maxBytes: maxUploadBytes, maxRows }) };
+    return { fileName, particles: parseParticleTable(file.buffer, { maxBytes: maxUploadBytes, maxRows: rowLimit.max }) };
   } catch (err) {
-    throw err instanceof TableError ? tableRefusal(err) : err;
+    throw err instanceof TableError ? tableRefusal(err, rowLimit) : err;
   }
 }

@@ -1,12 +1,12 @@
 import type { EntityManager } from '@mikro-orm/postgresql';
 import { Allocation, Cohort, CohortMember, Run, UsageEntry, type User } from '../db/entities';
-import { ROLE_LIMITS, ROLE_UPLOAD_LIMITS, type AccountUsage, type QuotaLimits, type Role, type UploadLimits } from '../../shared/api/accounts';
+import { ROLE_LIMITS, type AccountUsage, type QuotaLimits, type Role, type UploadLimits } from '../../shared/api/accounts';
 
 // Quotas come from three places, most specific first: an admin's per-user grant,
 // then (for students) the most generous of their cohorts' quotas, then the role.
 export { COHORT_CEILING, ROLE_LIMITS } from '../../shared/api/accounts';
 
-export const LIMIT_KEYS = ['maxParticles', 'maxSteps', 'maxConcurrentRuns', 'dailyInteractions'] as const satisfies readonly (keyof QuotaLimits)[];
+export const LIMIT_KEYS = ['maxParticles', 'maxSteps', 'maxConcurrentRuns', 'dailyInteractions', 'maxUploadBytes', 'maxUploadRows'] as const satisfies readonly (keyof QuotaLimits)[];
 
 export const ACTIVE_STATUSES = ['queued', 'running'] as const;
 
@@ -21,12 +21,20 @@ function nextDayStart(day: string): Date {
   return d;
 }
 
-export function cohortLimits(c: Cohort): QuotaLimits {
-  return { maxParticles: c.maxParticles, maxSteps: c.maxSteps, maxConcurrentRuns: c.maxConcurrentRuns, dailyInteractions: c.dailyInteractions };
+function limitsFrom(pick: (k: keyof QuotaLimits) => number): QuotaLimits {
+  return {
+    maxParticles: pick('maxParticles'),
+    maxSteps: pick('maxSteps'),
+    maxConcurrentRuns: pick('maxConcurrentRuns'),
+    dailyInteractions: pick('dailyInteractions'),
+    maxUploadBytes: pick('maxUploadBytes'),
+    maxUploadRows: pick('maxUploadRows'),
+  };
 }
 
-function limitsFrom(pick: (k: keyof QuotaLimits) => number): QuotaLimits {
-  return { maxParticles: pick('maxParticles'), maxSteps: pick('maxSteps'), maxConcurrentRuns: pick('maxConcurrentRuns'), dailyInteractions: pick('dailyInteractions') };
+/** What a cohort gives its students; a limit the cohort leaves unset (null) is the student default. */
+export function cohortLimits(c: Cohort): QuotaLimits {
+  return limitsFrom((k) => c[k] ?? ROLE_LIMITS.student[k]);
 }
 
 export async function effectiveLimits(em: EntityManager, user: User): Promise<QuotaLimits> {
@@ -43,9 +51,10 @@ export async function effectiveLimits(em: EntityManager, user: User): Promise<Qu
   return limitsFrom((k) => grant[k] ?? base[k]);
 }
 
-/** Size and row limits on uploaded tables: by role (cohort quotas and grants do not set them). */
-export function uploadLimits(user: User): UploadLimits {
-  return ROLE_UPLOAD_LIMITS[user.role as Role];
+/** Size and row limits on an uploaded table: the person's effective quota. */
+export async function uploadLimits(em: EntityManager, user: User): Promise<UploadLimits> {
+  const { maxUploadBytes, maxUploadRows } = await effectiveLimits(em, user);
+  return { maxUploadBytes, maxUploadRows };
 }
 
 export async function interactionsOn(em: EntityManager, userId: number, day: string): Promise<number> {

@@ -1,7 +1,7 @@
 import { z } from 'zod';
 import { runNameSchema } from '../spec/runSpec';
 import { LIMITS } from '../spec/runSpec';
-import { groupDigits, interactionsText } from './quotaWords';
+import { bytesText, groupDigits, interactionsText } from './quotaWords';
 
 // Accounts, tokens, cohorts, quotas and templates: request bodies the app and
 // the server both check, and the shapes the server answers with.
@@ -35,7 +35,17 @@ export interface QuotaLimits {
   maxConcurrentRuns: number;
   /** Daily compute budget in pair interactions (N^2 x steps for direct sum). */
   dailyInteractions: number;
+  /** Largest uploaded table file (rotation curve, particle file), bytes. */
+  maxUploadBytes: number;
+  /** Most data rows in one uploaded table. */
+  maxUploadRows: number;
 }
+
+/** The two limits on one uploaded table; the import screens get them with the galaxy list. */
+export type UploadLimits = Pick<QuotaLimits, 'maxUploadBytes' | 'maxUploadRows'>;
+
+/** The limits a run submission is checked against. */
+export type RunLimit = Exclude<keyof QuotaLimits, keyof UploadLimits>;
 
 /** GET /api/account/usage: what the new-run form needs to show a cost before submitting. */
 export interface AccountUsage {
@@ -54,7 +64,7 @@ export interface AccountSettings {
 
 /** details of a QUOTA_EXCEEDED error. */
 export interface QuotaRefusal {
-  limit: keyof QuotaLimits;
+  limit: RunLimit;
   max: number;
   needed: number;
   remaining: number;
@@ -126,33 +136,28 @@ export const LIMIT_WORDS: Record<keyof QuotaLimits, string> = {
   maxSteps: 'steps per run',
   maxConcurrentRuns: 'runs at a time',
   dailyInteractions: 'pair interactions a day',
+  maxUploadBytes: 'largest table file',
+  maxUploadRows: 'rows per table',
 };
+
+/** Where a refusal points: "your quota's rows per table: 2 000". */
+export function quotaLimitText(key: keyof QuotaLimits, n: number): string {
+  return `your quota's ${LIMIT_WORDS[key]}: ${limitText(key, n)}`;
+}
+
+/** A limit's value in words: bytes in KB or MB, pair interactions in powers of ten, counts in groups. */
+export function limitText(key: keyof QuotaLimits, n: number): string {
+  if (key === 'maxUploadBytes') return bytesText(n);
+  if (key === 'dailyInteractions') return interactionsText(n);
+  return groupDigits(n);
+}
 
 // The numbers are our own choice for a small shared machine, not from any source.
 export const ROLE_LIMITS: Record<Role, QuotaLimits> = {
-  student: { maxParticles: 2_000, maxSteps: 5_000, maxConcurrentRuns: 2, dailyInteractions: 5e10 },
-  instructor: { maxParticles: 10_000, maxSteps: 20_000, maxConcurrentRuns: 4, dailyInteractions: 1e12 },
-  researcher: { maxParticles: 50_000, maxSteps: 100_000, maxConcurrentRuns: 8, dailyInteractions: 2e13 },
-  admin: { maxParticles: 100_000, maxSteps: 200_000, maxConcurrentRuns: 16, dailyInteractions: 1e14 },
-};
-
-/** Limits on one uploaded table (a rotation curve, a particle file). */
-export interface UploadLimits {
-  /** Largest table file, bytes. */
-  maxUploadBytes: number;
-  /** Most data rows in one table. */
-  maxUploadRows: number;
-}
-
-/**
- * Uploaded tables (rotation curves, particle tables): largest file and most data rows, by role.
- * Our own choice for a small shared machine, not from any source.
- */
-export const ROLE_UPLOAD_LIMITS: Record<Role, UploadLimits> = {
-  student: { maxUploadBytes: 256 * 1024, maxUploadRows: 2_000 },
-  instructor: { maxUploadBytes: 1024 * 1024, maxUploadRows: 10_000 },
-  researcher: { maxUploadBytes: 4 * 1024 * 1024, maxUploadRows: 50_000 },
-  admin: { maxUploadBytes: 8 * 1024 * 1024, maxUploadRows: 100_000 },
+  student: { maxParticles: 2_000, maxSteps: 5_000, maxConcurrentRuns: 2, dailyInteractions: 5e10, maxUploadBytes: 256 * 1024, maxUploadRows: 2_000 },
+  instructor: { maxParticles: 10_000, maxSteps: 20_000, maxConcurrentRuns: 4, dailyInteractions: 1e12, maxUploadBytes: 1024 * 1024, maxUploadRows: 10_000 },
+  researcher: { maxParticles: 50_000, maxSteps: 100_000, maxConcurrentRuns: 8, dailyInteractions: 2e13, maxUploadBytes: 4 * 1024 * 1024, maxUploadRows: 50_000 },
+  admin: { maxParticles: 100_000, maxSteps: 200_000, maxConcurrentRuns: 16, dailyInteractions: 1e14, maxUploadBytes: 8 * 1024 * 1024, maxUploadRows: 100_000 },
 };
 
 /**
@@ -164,7 +169,13 @@ export const LIMIT_CEILINGS: QuotaLimits = {
   maxSteps: LIMITS.maxSteps,
   maxConcurrentRuns: 64,
   dailyInteractions: 1e15,
+  // Each upload is held in memory while it is read, and kept in PostgreSQL.
+  maxUploadBytes: 16 * 1024 * 1024,
+  maxUploadRows: 100_000,
 };
+
+/** The least any limit may be set to; a byte limit below 1 KB would refuse even a short curve. */
+export const LIMIT_FLOORS: QuotaLimits = { maxParticles: 1, maxSteps: 1, maxConcurrentRuns: 1, dailyInteractions: 1, maxUploadBytes: 1024, maxUploadRows: 1 };
 
 /** An instructor can give a cohort at most what instructors have themselves. */
 export const COHORT_CEILING: QuotaLimits = ROLE_LIMITS.instructor;
@@ -173,22 +184,28 @@ const limitField = (key: keyof QuotaLimits, ceiling: QuotaLimits, why: string) =
   z
     .number(`${LIMIT_WORDS[key]} must be a number`)
     .int(`${LIMIT_WORDS[key]} must be a whole number`)
-    .min(1, `${LIMIT_WORDS[key]} must be at least 1`)
-    .max(ceiling[key], `${LIMIT_WORDS[key]} can be at most ${key === 'dailyInteractions' ? interactionsText(ceiling[key]) : groupDigits(ceiling[key])} (${why})`);
+    .min(LIMIT_FLOORS[key], `${LIMIT_WORDS[key]} must be at least ${limitText(key, LIMIT_FLOORS[key])}`)
+    .max(ceiling[key], `${LIMIT_WORDS[key]} can be at most ${limitText(key, ceiling[key])} (${why})`);
 
 const COHORT = 'what instructors have themselves';
 const allocationField = (key: keyof QuotaLimits) =>
   limitField(key, LIMIT_CEILINGS, key === 'maxParticles' || key === 'maxSteps' ? "the engine's limit" : 'the most any allocation may give').nullable().optional();
 
-/** A cohort's quota: every limit, none above what instructors have (itself within the engine's limits). */
+/**
+ * A cohort's quota: every limit, none above what instructors have (itself within the engine's
+ * limits). The upload limits may be left out or null: the cohort then gives the student default.
+ */
 export const quotaLimitsSchema = z
   .object({
     maxParticles: limitField('maxParticles', COHORT_CEILING, COHORT),
     maxSteps: limitField('maxSteps', COHORT_CEILING, COHORT),
     maxConcurrentRuns: limitField('maxConcurrentRuns', COHORT_CEILING, COHORT),
     dailyInteractions: limitField('dailyInteractions', COHORT_CEILING, COHORT),
+    maxUploadBytes: limitField('maxUploadBytes', COHORT_CEILING, COHORT).nullable().optional(),
+    maxUploadRows: limitField('maxUploadRows', COHORT_CEILING, COHORT).nullable().optional(),
   })
   .strict();
+export type CohortQuotaBody = z.infer<typeof quotaLimitsSchema>;
 
 const name = (max: number) => z.string().trim().min(1, 'name must not be empty').max(max, `name is at most ${max} characters`);
 
@@ -248,6 +265,8 @@ export const allocationBodySchema = z
     maxSteps: allocationField('maxSteps'),
     maxConcurrentRuns: allocationField('maxConcurrentRuns'),
     dailyInteractions: allocationField('dailyInteractions'),
+    maxUploadBytes: allocationField('maxUploadBytes'),
+    maxUploadRows: allocationField('maxUploadRows'),
   })
   .strict();
 export type AllocationBody = z.infer<typeof allocationBodySchema>;

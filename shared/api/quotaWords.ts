@@ -15,6 +15,17 @@ export function interactionsText(n: number): string {
   return `${Number(mantissa)}e${Number(exponent)}`;
 }
 
+/**
+ * A size in bytes as people read file sizes: bytes below 1 KB, then KB and MB of 1024 (as file
+ * managers commonly show them), to at most two decimals: 256 KB, 1.5 MB.
+ */
+export function bytesText(n: number): string {
+  if (!Number.isFinite(n)) return String(n);
+  const [value, unit] = Math.abs(n) >= 1024 * 1024 ? [n / (1024 * 1024), 'MB'] : Math.abs(n) >= 1024 ? [n / 1024, 'KB'] : [n, 'bytes'];
+  if (unit === 'bytes') return `${groupDigits(value)} bytes`;
+  return `${Number(value.toFixed(Math.abs(value) < 10 ? 2 : Math.abs(value) < 100 ? 1 : 0))} ${unit}`;
+}
+
 /** Why a submission is refused; `runs` is how many runs it starts (2 for a pair). */
 export function describeRefusal(r: QuotaRefusal, runs = 1): string {
   // Over the limit itself it never fits; otherwise it fits later (a slot frees, the day turns).

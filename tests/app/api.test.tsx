@@ -37,7 +37,7 @@ describe('the API client', () => {
 
 describe('quota refusals before submitting', () => {
   const usage = {
-    limits: { maxParticles: 1000, maxSteps: 500, maxConcurrentRuns: 2, dailyInteractions: 1e9 },
+    limits: { maxParticles: 1000, maxSteps: 500, maxConcurrentRuns: 2, dailyInteractions: 1e9, maxUploadBytes: 256 * 1024, maxUploadRows: 2000 },
     used: { interactionsToday: 9e8, activeRuns: 1 },
     remaining: { interactionsToday: 1e8, concurrentRuns: 1 },
     day: '2026-12-01',

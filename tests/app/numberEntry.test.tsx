@@ -4,7 +4,7 @@ import { LaunchForm } from '../../components/launch/LaunchForm';
 import { QuotaEditor } from '../../components/cohorts/QuotaEditor';
 import { parseNumberText } from '../../components/numberText';
 import { setCsrfToken } from '../../hooks/api';
-import { COHORT_CEILING } from '../../shared/api/accounts';
+import { COHORT_CEILING, LIMIT_CEILINGS, ROLE_LIMITS } from '../../shared/api/accounts';
 import { mockApi } from './support/api';
 import { resetNavigation } from './support/expoRouter';
 import { press, render, settle } from './support/render';
@@ -34,6 +34,7 @@ function typeKeys(el: HTMLInputElement, text: string, { clear = true } = {}): vo
 // Thin spaces group digits; the default normalizer would turn them into plain spaces.
 const exact = getDefaultNormalizer({ collapseWhitespace: false, trim: false });
 const input = (container: HTMLElement, testID: string) => container.querySelector(`[data-testid="${testID}"]`) as HTMLInputElement;
+const UPLOADS = { maxUploadBytes: ROLE_LIMITS.student.maxUploadBytes, maxUploadRows: ROLE_LIMITS.student.maxUploadRows };
 const fieldText = (el: HTMLElement) => el.closest('[data-testid]')!.parentElement!.parentElement!.textContent ?? '';
 
 describe('reading typed numbers', () => {
@@ -202,7 +203,7 @@ describe('the person\u2019s own limits in the new-run form', () => {
 describe('quota fields', () => {
   test('a cohort quota takes 1e9 typed key by key, keeps 2,5 as typed, and stops at what instructors have', async () => {
     const saved: unknown[] = [];
-    const { container, view } = render(<QuotaEditor value={{ maxParticles: 1000, maxSteps: 4000, maxConcurrentRuns: 2, dailyInteractions: 1e9 }} onSave={(q) => saved.push(q)} saving={false} error={null} />);
+    const { container, view } = render(<QuotaEditor value={{ maxParticles: 1000, maxSteps: 4000, maxConcurrentRuns: 2, dailyInteractions: 1e9, ...UPLOADS }} onSave={(q) => saved.push(q)} saving={false} error={null} />);
     const daily = input(container, 'quota-dailyInteractions');
     typeKeys(daily, '2e9');
     const runs = input(container, 'quota-maxConcurrentRuns');
@@ -219,6 +220,53 @@ describe('quota fields', () => {
     typeKeys(particles, '1e4');
     expect(save.getAttribute('aria-disabled')).not.toBe('true');
     press(save);
-    expect(saved).toEqual([{ maxParticles: 10000, maxSteps: 4000, maxConcurrentRuns: 3, dailyInteractions: 2e9 }]);
+    expect(saved).toEqual([{ maxParticles: 10000, maxSteps: 4000, maxConcurrentRuns: 3, dailyInteractions: 2e9, ...UPLOADS }]);
+  });
+
+  test('a cohort quota shows the upload limits, the file size in KB, and submits them typed key by key', async () => {
+    const saved: unknown[] = [];
+    const { container, view } = render(<QuotaEditor value={{ maxParticles: 1000, maxSteps: 4000, maxConcurrentRuns: 2, dailyInteractions: 1e9, ...UPLOADS }} onSave={(q) => saved.push(q)} saving={false} error={null} />);
+    const bytes = input(container, 'quota-maxUploadBytes');
+    const rows = input(container, 'quota-maxUploadRows');
+    expect(bytes.value).toBe('256');
+    expect(bytes.getAttribute('aria-label')).toBe('Largest table file in KB');
+    expect(rows.value).toBe('2000');
+    expect(fieldText(bytes)).toContain('Range 1 – 1\u2009024 KB');
+    const save = view.getByRole('button', { name: 'Save quota' });
+
+    // Over what instructors have (1 MB), then part of a KB: both marked, both block saving.
+    typeKeys(bytes, '2048');
+    expect(fieldText(bytes)).toContain('Allowed: 1 – 1\u2009024 KB');
+    expect(save.getAttribute('aria-disabled')).toBe('true');
+    typeKeys(bytes, '1.5');
+    expect(bytes.value).toBe('1.5');
+    expect(fieldText(bytes)).toContain('Largest table file takes whole numbers only');
+    expect(save.getAttribute('aria-disabled')).toBe('true');
+    typeKeys(bytes, '512');
+    expect(bytes.value).toBe('512');
+    typeKeys(rows, `${COHORT_CEILING.maxUploadRows + 1}`);
+    expect(save.getAttribute('aria-disabled')).toBe('true');
+    typeKeys(rows, '3e3');
+    expect(rows.value).toBe('3e3');
+    expect(save.getAttribute('aria-disabled')).not.toBe('true');
+    press(save);
+    expect(saved).toEqual([{ maxParticles: 1000, maxSteps: 4000, maxConcurrentRuns: 2, dailyInteractions: 1e9, maxUploadBytes: 512 * 1024, maxUploadRows: 3000 }]);
+  });
+
+  test("an admin's allocation takes upload limits up to the ceilings; an empty field is no override", async () => {
+    const saved: unknown[] = [];
+    const none = { maxParticles: null, maxSteps: null, maxConcurrentRuns: null, dailyInteractions: null, maxUploadBytes: null, maxUploadRows: null };
+    const { container, view } = render(<QuotaEditor nullable ceiling={LIMIT_CEILINGS} value={{ ...none, maxUploadRows: 5000 }} onSave={(q) => saved.push(q)} saving={false} error={null} saveLabel="Save allocation" />);
+    const bytes = input(container, 'quota-maxUploadBytes');
+    const rows = input(container, 'quota-maxUploadRows');
+    expect(bytes.value).toBe('');
+    expect(fieldText(bytes)).toContain('Range 1 – 16\u2009384 KB');
+    typeKeys(bytes, '16385');
+    const save = view.getByRole('button', { name: 'Save allocation' });
+    expect(save.getAttribute('aria-disabled')).toBe('true');
+    typeKeys(bytes, '16384');
+    typeKeys(rows, '');
+    press(save);
+    expect(saved).toEqual([{ ...none, maxUploadBytes: 16 * 1024 * 1024 }]);
   });
 });

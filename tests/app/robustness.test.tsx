@@ -2,6 +2,7 @@ import fc from 'fast-check';
 import { Try } from 'expo-router/build/views/Try';
 import { formatAge, formatBound, formatCount, formatDuration, formatExpiry, formatInput, formatInteractions, formatValue } from '../../components/format';
 import { formatTick, makeScale, niceDomain } from '../../components/plot/scale';
+import { bytesText } from '../../shared/api/quotaWords';
 import { ErrorBoundary as RunScreenBoundary } from '../../app/(signed-in)/runs/[id]';
 import { ErrorBoundary as RootBoundary } from '../../app/_layout';
 import { navigation, resetNavigation } from './support/expoRouter';
@@ -46,6 +47,16 @@ describe('formatters take any number without throwing', () => {
     expect(formatInteractions(-Infinity)).toBe('−∞');
     expect(formatCount(1e300)).toBe('1e300');
     expect(formatInteractions(4.2e16)).toBe('4.2e16');
+  });
+
+  it('bytesText names a size in bytes, KB or MB for any number', () => {
+    fc.assert(
+      fc.property(awkward, (v) => {
+        expect(bytesText(v)).toMatch(Number.isFinite(v) ? / (bytes|KB|MB)$/ : /^(NaN|-?Infinity)$/);
+      }),
+      { numRuns: 2000 },
+    );
+    expect([512, 1024, 1536, 256 * 1024, 1024 * 1024, 16 * 1024 * 1024, 4_500_000].map(bytesText)).toEqual(['512 bytes', '1 KB', '1.5 KB', '256 KB', '1 MB', '16 MB', '4.29 MB']);
   });
 
   it('formatInput gives text that reads back as the same number, or nothing', () => {

@@ -8,7 +8,8 @@ import { defaultRunSpec, parseRunSpec } from '../../shared/spec';
 import { runSimulation } from '../../shared/engine';
 import { outputData } from '../../worker/store';
 import { seedGalaxies } from '../../server/db/seed-galaxies';
-import { ROLE_UPLOAD_LIMITS } from '../../shared/api/accounts';
+import { ROLE_LIMITS } from '../../shared/api/accounts';
+import { bytesText } from '../../shared/api/quotaWords';
 import { newEnrolmentCode } from '../../server/services/cohorts';
 import { inventedCurve } from '../../shared/galaxy/invented';
 import { accelFromSI } from '../../shared/engine/units';
@@ -102,16 +103,16 @@ describe('uploading a rotation-curve table', () => {
   });
 
   test('a table over the person’s byte limit is refused while it streams in, and nothing is stored', async () => {
-    const { maxUploadBytes } = ROLE_UPLOAD_LIMITS.student;
+    const { maxUploadBytes } = ROLE_LIMITS.student;
     const line = '1.0,50,3\n';
     const big = 'R,V,dV\n' + line.repeat(Math.ceil((maxUploadBytes + 10) / line.length));
     const res = await upload(student.auth, big).expect(413);
-    expect(res.body.error.message).toContain(`upload limit of ${maxUploadBytes} bytes`);
+    expect(res.body.error.message).toContain(`your quota's largest table file: ${bytesText(maxUploadBytes)}`);
     expect(await stored(student.user)).toBe(0);
   });
 
   test('a table over the person’s row limit is refused, and nothing is stored', async () => {
-    const { maxUploadRows } = ROLE_UPLOAD_LIMITS.student;
+    const { maxUploadRows } = ROLE_LIMITS.student;
     const rows = Array.from({ length: maxUploadRows + 1 }, (_, i) => `${i + 1},50,3`).join('\n');
     const res = await upload(student.auth, rows).expect(413);
     expect(res.body.error.message).toMatch(new RegExp(`${maxUploadRows} data rows`));
@@ -299,7 +300,7 @@ describe('particle tables through the same upload path', () => {
   });
 
   test('rows beyond the particles a run may have are refused', async () => {
-    const rows = Array.from({ length: ROLE_UPLOAD_LIMITS.student.maxUploadRows + 1 }, (_, i) => `${i},0,0,0,0,0,1e6`).join('\n');
+    const rows = Array.from({ length: ROLE_LIMITS.student.maxUploadRows + 1 }, (_, i) => `${i},0,0,0,0,0,1e6`).join('\n');
     const res = await post(student.auth, rows).expect(413);
     expect(res.body.error.message).toMatch(/data rows/);
     await request(s.app).post('/api/particle-tables').attach('file', Buffer.from('1,0,0,0,0,0,1'), 'p.csv').expect(401);

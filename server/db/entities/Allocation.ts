@@ -13,6 +13,8 @@ export const Allocation = defineEntity({
     maxSteps: p.integer().nullable(),
     maxConcurrentRuns: p.integer().nullable(),
     dailyInteractions: p.bigint('number').nullable(),
+    maxUploadBytes: p.integer().nullable(),
+    maxUploadRows: p.integer().nullable(),
     // UTC day the 80 % budget warning was last sent, so it goes out once a day.
     warnedOn: p.date().nullable(),
   },

@@ -14,6 +14,9 @@ export const Cohort = defineEntity({
     maxSteps: p.integer(),
     maxConcurrentRuns: p.integer(),
     dailyInteractions: p.bigint('number'),
+    // Upload limits came later: null means the cohort gives the student default.
+    maxUploadBytes: p.integer().nullable(),
+    maxUploadRows: p.integer().nullable(),
     createdAt: p.datetime().onCreate(() => new Date()),
   },
 });

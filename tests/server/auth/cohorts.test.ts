@@ -3,6 +3,9 @@ import { openAuthStack, type AuthStack } from './harness';
 import { signIn, type Agent } from '../../support/auth';
 import { uniqueLogin } from '../../support/stack';
 import { defaultRunSpec } from '../../../shared/spec';
+import { ROLE_LIMITS } from '../../../shared/api/accounts';
+
+const STUDENT_UPLOADS = { maxUploadBytes: ROLE_LIMITS.student.maxUploadBytes, maxUploadRows: ROLE_LIMITS.student.maxUploadRows };
 
 let s: AuthStack;
 let instructor: Agent;
@@ -43,7 +46,8 @@ describe('a cohort from creation to a cloned template', () => {
     await student.agent.post('/api/cohorts/join').set('X-CSRF-Token', student.csrf).send({ code: cohort.enrolmentCode }).expect(200); // idempotent
 
     const usage = await student.agent.get('/api/account/usage').expect(200);
-    expect(usage.body.limits).toEqual({ maxParticles: 1500, maxSteps: 4000, maxConcurrentRuns: 1, dailyInteractions: 2e9 });
+    // The cohort set no upload limits: its students keep the student default for them.
+    expect(usage.body.limits).toEqual({ maxParticles: 1500, maxSteps: 4000, maxConcurrentRuns: 1, dailyInteractions: 2e9, ...STUDENT_UPLOADS });
 
     await instructor.put(`/api/cohorts/${cohort.id}/quota`).set('X-CSRF-Token', instructorCsrf).send({ maxParticles: 1800, maxSteps: 4000, maxConcurrentRuns: 2, dailyInteractions: 3e9 }).expect(200);
     expect((await student.agent.get('/api/account/usage').expect(200)).body.limits.maxParticles).toBe(1800);
@@ -142,6 +146,6 @@ describe('a cohort from creation to a cloned template', () => {
     expect(members.body.members.map((m: { user: { login: string } }) => m.user.login).sort()).toEqual(['amira-solberg', 'jonas-achterberg', 'priya-ndlovu']);
     const amira = request.agent(s.app);
     await signIn(amira, 'amira-solberg');
-    expect((await amira.get('/api/account/usage').expect(200)).body.limits).toEqual({ maxParticles: 3000, maxSteps: 8000, maxConcurrentRuns: 2, dailyInteractions: 1e11 });
+    expect((await amira.get('/api/account/usage').expect(200)).body.limits).toEqual({ maxParticles: 3000, maxSteps: 8000, maxConcurrentRuns: 2, dailyInteractions: 1e11, ...STUDENT_UPLOADS });
   });
 });
