@@ -84,5 +84,12 @@ export function galaxyPairLaw(): LawSpec {
 /** Every way to fit an observed rotation curve, over all laws, in registry order. */
 export const fitFamilies = (): LawFitFamily[] => LAW_MODULES.flatMap((m: LawModule<any>) => m.fits ?? []);
 
+/** The fit family stored under `id`. */
+export function fitFamily(id: string): LawFitFamily {
+  const found = fitFamilies().find((f) => f.id === id);
+  if (!found) throw new Error(`unknown fit "${id}"`);
+  return found;
+}
+
 /** Work per force evaluation beyond the pair sum (a grid), in pair interactions, for the quota's estimate. */
 export const extraInteractions = (law: LawSpec): number => lawModule(law.kind).extraInteractions?.(law) ?? 0;
