@@ -45,6 +45,9 @@ export const createLaw = (law: LawSpec, ctx: LawContext): ForceLaw => lawModule(
 export const modelAcceleration = (law: LawSpec, model: MassModel, R_kpc: number): number =>
   lawModule(law.kind).modelAcceleration(law, model, R_kpc);
 
+/** The law's parameters as JSON Schema (titles, units, option labels from `.meta`): what forms are generated from. */
+export const lawJsonSchema = (kind: string) => z.toJSONSchema(lawModule(kind).schema, { io: 'input' });
+
 export const lawLabel = (kind: string): string => lawModule(kind).label;
 export const lawShortLabel = (kind: string): string => lawModule(kind).shortLabel;
 export const lawColour = (kind: string): LawColourToken => lawModule(kind).colour;
