@@ -27,6 +27,7 @@ export const runNameSchema = z
   .meta({ title: 'Name' });
 
 export { solverSchema } from './solver';
+export { modelSchema } from '../engine/models/registry';
 
 export const integratorSchema = z
   .enum(['leapfrog', 'yoshida4', 'rk4'])
