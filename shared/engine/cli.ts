@@ -126,7 +126,8 @@ function fit(args: string[]): void {
   }
 }
 
-function main(argv: string[]): number {
+/** The command line's work: exported so a test can run it in-process (with its own registries). */
+export function main(argv: string[]): number {
   const [command, ...args] = argv;
   try {
     applyDirectKernelSetting(process.env.INFALL_DIRECT_KERNEL);
@@ -156,4 +157,4 @@ function main(argv: string[]): number {
   }
 }
 
-process.exitCode = main(process.argv.slice(2));
+if (require.main === module) process.exitCode = main(process.argv.slice(2));

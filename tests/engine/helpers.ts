@@ -2,7 +2,7 @@ import { defaultRunSpec, parseRunSpec, type RunSpec } from '../../shared/spec';
 import { G, myrToInternal } from '../../shared/engine/units';
 import type { Simulation } from '../../shared/engine/simulation';
 import { allocateAccelerations, centreOfMass } from '../../shared/engine/state';
-import { PAIR_KERNELS } from '../../shared/engine/laws/kernels';
+import { pairKernels } from '../../shared/engine/laws/kernels';
 import { pairKernel, type PairKernel } from '../../shared/engine/solvers/types';
 
 /** A valid spec: the default with the given fields replaced (defaults of nested objects filled in by the schema). */
@@ -57,7 +57,7 @@ export function forceCurve(sim: Simulation, radii: number[]): number[] {
 
 /** Every registered pair kernel at its sample parameters, through its own loops and through the generic ones. */
 export function everyKernel(softening_kpc: number): PairKernel[] {
-  return PAIR_KERNELS.flatMap((def) => {
+  return pairKernels().flatMap((def) => {
     const k = pairKernel(def, softening_kpc, def.sample);
     return [k, { ...k, generic: true }];
   });

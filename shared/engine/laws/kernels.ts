@@ -1,14 +1,19 @@
-// Every pair kernel the solvers can sum, declared by the law modules that own
-// them. A law with a pair potential of its own adds its definition here (one
-// line); the direct sum, the tree and the thread split find it by name.
+// Every pair kernel the solvers can sum: those the law modules declare (`pairKernel`), so a
+// law with a pair potential of its own adds nothing here; the direct sum, the tree and the
+// thread split find a kernel by name.
 import type { PairKernelDefinition } from '../solvers/types';
-import { newtonPairKernel } from './newton';
-import { yukawaPairKernel } from './yukawa';
+import { LAW_MODULES } from './list';
 
-export const PAIR_KERNELS: readonly PairKernelDefinition[] = [newtonPairKernel, yukawaPairKernel];
+let kernels: readonly PairKernelDefinition[] | undefined;
+
+/** Read on first use, not at load: the solvers that ask are themselves loaded by the law modules. */
+export function pairKernels(): readonly PairKernelDefinition[] {
+  kernels ??= LAW_MODULES.flatMap((m) => (m.pairKernel ? [m.pairKernel] : []));
+  return kernels;
+}
 
 export function pairKernelDefinition(name: string): PairKernelDefinition {
-  const found = PAIR_KERNELS.find((k) => k.name === name);
-  if (!found) throw new Error(`unknown pair kernel "${name}" (registered: ${PAIR_KERNELS.map((k) => k.name).join(', ')})`);
+  const found = pairKernels().find((k) => k.name === name);
+  if (!found) throw new Error(`unknown pair kernel "${name}" (registered: ${pairKernels().map((k) => k.name).join(', ')})`);
   return found;
 }

@@ -39,6 +39,7 @@ export const newtonLaw = defineLaw({
   preset: { kind: 'newton' },
   virial: 'potential',
   reference: true,
+  pairKernel: newtonPairKernel,
   info,
   create(_params, { solver, softening_kpc }) {
     const kernel = newtonKernel(softening_kpc);

@@ -1,22 +1,9 @@
 import { z } from 'zod';
-import { emergentLaw } from './emergent';
-import { haloLaw } from './halo';
-import { mondLaw } from './mond';
-import { newtonLaw } from './newton';
-import { qumondLaw } from './qumond';
+import { LAW_MODULES } from './list';
 import type { ForceLaw, LawColourToken, LawContext, LawFitFamily, LawInfo, LawModule } from './types';
-import { yukawaLaw } from './yukawa';
 import type { MassModel } from '../models/massModel';
 
-/** Every force law the engine offers. A new law is one module plus one line here. */
-export const LAW_MODULES = [
-  newtonLaw,
-  haloLaw,
-  mondLaw,
-  qumondLaw,
-  emergentLaw,
-  yukawaLaw,
-] as const;
+export { LAW_MODULES };
 
 type SchemasOf<T extends readonly LawModule<any>[]> = { -readonly [K in keyof T]: T[K] extends LawModule<infer S> ? S : never };
 

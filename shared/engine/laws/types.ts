@@ -1,6 +1,6 @@
 import type { z } from 'zod';
 import type { MassModel } from '../models/massModel';
-import type { FieldSolver } from '../solvers/types';
+import type { FieldSolver, PairKernelDefinition } from '../solvers/types';
 import type { Accelerations, Points, Sources } from '../state';
 import type { EngineWarning } from '../timescales';
 import type { ModelTraits } from '../models/types';
@@ -151,6 +151,11 @@ export interface LawModule<S extends LawSchema = LawSchema> {
   galaxyPairPreset?: z.input<S>;
   /** Ways to fit an observed rotation curve under this law. */
   fits?: readonly LawFitFamily[];
+  /**
+   * The pair potential its particles interact through, when it is not softened Newton's alone
+   * (or is Newton's: the reference declares it): the solvers and threads find it by name here.
+   */
+  pairKernel?: PairKernelDefinition;
 }
 
 export const defineLaw = <S extends LawSchema>(module: LawModule<S>): LawModule<S> => module;

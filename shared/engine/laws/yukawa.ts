@@ -55,6 +55,7 @@ export const yukawaLaw = defineLaw({
   // Typical textbook magnitudes (from memory), not a fit to any system.
   preset: { kind: 'yukawa', alpha: 0.5, lambda_kpc: 10 },
   virial: 'clausius',
+  pairKernel: yukawaPairKernel,
   info,
   create(params, { solver, softening_kpc }) {
     const kernel = pairKernel(yukawaPairKernel, softening_kpc, [params.alpha, params.lambda_kpc]);

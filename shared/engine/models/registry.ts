@@ -1,21 +1,8 @@
 import { z } from 'zod';
-import { diskModule } from './disk';
-import { encounterModule } from './encounter';
-import { hernquistModule } from './hernquist';
-import { keplerModule } from './kepler';
-import { plummerModule } from './plummer';
-import { tableModule } from './table';
+import { MODEL_MODULES } from './list';
 import type { ModelModule } from './types';
 
-/** Every initial-conditions model the engine offers. A new model is one module plus one line here (and one in systems.ts if an encounter may hold it). */
-export const MODEL_MODULES = [
-  keplerModule,
-  plummerModule,
-  hernquistModule,
-  diskModule,
-  encounterModule,
-  tableModule,
-] as const;
+export { MODEL_MODULES };
 
 type SchemasOf<T extends readonly ModelModule<any>[]> = { -readonly [K in keyof T]: T[K] extends ModelModule<infer S> ? S : never };
 
