@@ -5,10 +5,10 @@ import { join } from 'node:path';
 // The law and model modules import each other through the registries (a disk samples with
 // a law; a law's notes read a model's traits), so there are import cycles. A module that
 // reads a cycle partner's value while it initialises breaks only for some entry points
-// (a worker, a browser bundle). Each file is loaded here first, in a fresh module cache;
+// (a worker thread, a browser bundle); the solvers find pair kernels through the law list. Each file is loaded here first, in a fresh module cache;
 // tsx turns such a read into a "before initialization" error.
 const root = join(__dirname, '../..');
-const dirs = ['shared/engine/laws', 'shared/engine/models', 'shared/spec', 'shared/galaxy'];
+const dirs = ['shared/engine/laws', 'shared/engine/models', 'shared/engine/solvers', 'shared/spec', 'shared/galaxy'];
 const files = dirs.flatMap((d) => readdirSync(join(root, d)).filter((f) => f.endsWith('.ts')).map((f) => join(root, d, f)));
 
 const script = `
