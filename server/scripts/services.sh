@@ -93,10 +93,15 @@ redis_stop() {
 }
 
 # Installs npm dependencies when node_modules is missing or older than the lock file.
+# Installs when the lockfile's content differs from the one last installed (a stamp in node_modules):
+# file dates alone would reinstall after any checkout that merely touched the lockfile.
 ensure_node_modules() {
-  if [ ! -f node_modules/.package-lock.json ] || [ package-lock.json -nt node_modules/.package-lock.json ]; then
+  local want stamp=node_modules/.infall-lock-sha256
+  want=$(sha256sum package-lock.json | cut -d' ' -f1)
+  if [ ! -f node_modules/.package-lock.json ] || [ "$(cat "$stamp" 2>/dev/null)" != "$want" ]; then
     echo "[infall] installing npm dependencies (npm ci)"
     npm ci --no-audit --no-fund --loglevel=error
+    echo "$want" >"$stamp"
   fi
 }
 
