@@ -1,7 +1,7 @@
 import { z } from 'zod';
 import {
-  allocateGridVectors, depositMass, divergence, interpolateVectors, IsolatedPoisson, negativeGradient,
-  type GridGeometry, type GridVectors,
+  depositMass, divergenceLines, interpolateVectors, IsolatedPoisson, kernelLength, negativeGradientLines, nodeLines, poissonWorkLength,
+  type GridGeometry, type GridThreads, type GridVectors,
 } from '../solvers/grid';
 import { newtonKernel } from './newton';
 import type { Points, Sources } from '../state';
@@ -166,6 +166,30 @@ export function qumondGridNotes(params: QumondParams, initial: Sources, halfMass
   return notes;
 }
 
+/** What any thread needs to build its view of a run's phantom grid: plain data. */
+export interface PhantomSetup {
+  params: QumondParams;
+  box: { side_kpc: number; cx: number; cy: number; cz: number };
+  softening_kpc: number;
+}
+
+/**
+ * Lengths of a phantom grid's working arrays: node masses, potential, g_N (x, y, z), g_P (x, y, z),
+ * the Poisson work array, the plain kernel's transform and, with softening, the softened one.
+ * 256 nodes a side would need about 1.8 GB (64: 30 MB, 128: 230 MB).
+ */
+export function phantomGridLengths({ params, softening_kpc }: PhantomSetup): number[] {
+  const n = params.grid, nodes = n * n * n;
+  return [...Array(8).fill(nodes), poissonWorkLength(n), kernelLength(n), ...(softening_kpc > 0 ? [kernelLength(n)] : [])];
+}
+
+/**
+ * The passes of a grid evaluation, a barrier after each: the first Poisson solve (5 passes), g_N by
+ * differences, the bracket, its divergence into phantom mass, the second solve (5 passes), g_P;
+ * `energy` sums the phantom energy density line by line after the first three steps.
+ */
+const PASS = { softSolve: 0, gradientN: 5, bracket: 6, divergence: 7, plainSolve: 8, gradientP: 13, energy: 14 } as const;
+
 /**
  * How the field is split: the Newtonian field g_N comes from the run's pair
  * solver (direct or tree), exact down to the softening length. The grid
@@ -179,10 +203,11 @@ export function qumondGridNotes(params: QumondParams, initial: Sources, halfMass
  * divergence, a second Poisson solve for Phi_P, g_P by differences, and
  * cloud-in-cell interpolation to the targets.
  */
-class PhantomGrid {
+export class PhantomGrid {
   readonly geo: GridGeometry;
   private readonly poisson: IsolatedPoisson;
-  /** The pair sum's softening on the grid, so the phantom part follows the same softened g_N. */
+  /** Transform of the plain kernel, and of the pair sum's softening on the grid so the phantom part follows the same softened g_N. */
+  private readonly plain: Float64Array;
   private readonly softened: Float64Array;
   private readonly mass: Float64Array;
   private readonly phi: Float64Array;
@@ -193,17 +218,39 @@ class PhantomGrid {
   private readonly a0: number;
   private readonly ge: [number, number, number];
   private readonly nuE: number;
+  private readonly p: QumondParams;
 
-  constructor(private readonly p: QumondParams, box: { side_kpc: number; cx: number; cy: number; cz: number }, softening_kpc: number) {
+  /**
+   * The grid of a run, in the run's thread: its working arrays come from `threads` when they
+   * have room (and its passes are then shared with them), else from this thread.
+   */
+  static create(setup: PhantomSetup, threads?: GridThreads): PhantomGrid {
+    const shared = threads?.open(setup, phantomGridLengths(setup));
+    return new PhantomGrid(setup, shared ?? phantomGridLengths(setup).map((l) => new Float64Array(l)), shared ? threads : undefined, true);
+  }
+
+  /** Another thread's view of a grid whose run thread published `setup` and filled `arrays` (kernels included). */
+  static view(setup: PhantomSetup, arrays: Float64Array[]): PhantomGrid {
+    return new PhantomGrid(setup, arrays, undefined, false);
+  }
+
+  private constructor(setup: PhantomSetup, arrays: Float64Array[], private readonly threads: GridThreads | undefined, fillKernels: boolean) {
+    const { params: p, box, softening_kpc } = setup;
     const n = p.grid;
     const h = box.side_kpc / (n - 1);
+    this.p = p;
     this.geo = { n, h, x0: box.cx - box.side_kpc / 2, y0: box.cy - box.side_kpc / 2, z0: box.cz - box.side_kpc / 2 };
-    this.poisson = new IsolatedPoisson(n);
-    this.softened = softening_kpc > 0 ? this.poisson.kernel(softening_kpc / h) : this.poisson.plain;
-    this.mass = new Float64Array(n * n * n);
-    this.phi = new Float64Array(n * n * n);
-    this.gN = allocateGridVectors(n);
-    this.gP = allocateGridVectors(n);
+    const [mass, phi, gNx, gNy, gNz, gPx, gPy, gPz, work, plain, softened] = arrays;
+    this.mass = mass; this.phi = phi;
+    this.gN = { x: gNx, y: gNy, z: gNz };
+    this.gP = { x: gPx, y: gPy, z: gPz };
+    this.poisson = new IsolatedPoisson(n, work);
+    this.plain = plain;
+    this.softened = softened ?? plain;
+    if (fillKernels) {
+      this.poisson.kernel(0, true, plain);
+      if (softened) this.poisson.kernel(softening_kpc / h, true, softened);
+    }
     this.a0 = accelFromSI(p.a0_m_s2);
     const e = p.externalField_m_s2 ?? [0, 0, 0];
     this.ge = [accelFromSI(e[0]), accelFromSI(e[1]), accelFromSI(e[2])];
@@ -211,20 +258,52 @@ class PhantomGrid {
     this.nuE = geMag > 0 ? mondNu(p.interpolation, geMag / this.a0) : 1;
   }
 
+  /** Units of a pass: lines of a transform or lines of nodes. */
+  private count(pass: number): number {
+    if (pass < PASS.gradientN) return this.poisson.lines(pass - PASS.softSolve);
+    if (pass >= PASS.plainSolve && pass < PASS.gradientP) return this.poisson.lines(pass - PASS.plainSolve);
+    return nodeLines(this.geo);
+  }
+
+  /** Runs a whole pass, across the threads when there are any. */
+  private run(pass: number): void {
+    const count = this.count(pass);
+    if (this.threads) this.threads.run(pass, count);
+    else this.range(pass, 0, count);
+  }
+
+  /** Units [from, to) of a pass (see PASS); whichever thread computes a unit, it gets the same bits. */
+  range(pass: number, from: number, to: number): void {
+    const { geo, mass, phi } = this;
+    if (pass < PASS.gradientN) this.poisson.pass(pass - PASS.softSolve, mass, geo.h, phi, this.softened, from, to);
+    else if (pass === PASS.gradientN) negativeGradientLines(geo, phi, this.gN, from, to);
+    else if (pass === PASS.bracket) this.bracketLines(from, to);
+    else if (pass === PASS.divergence) this.phantomMassLines(from, to);
+    else if (pass < PASS.gradientP) this.poisson.pass(pass - PASS.plainSolve, mass, geo.h, phi, this.plain, from, to);
+    else if (pass === PASS.gradientP) negativeGradientLines(geo, phi, this.gP, from, to);
+    else if (pass === PASS.energy) this.energyLines(from, to);
+    else throw new Error(`no grid pass ${pass}`);
+  }
+
   /** Grid g_N from the sources; `inside` flags the sources that lie in the grid. */
   newtonian(src: Sources, inside: Uint8Array): void {
     depositMass(this.geo, src, this.mass, inside);
-    this.poisson.potential(this.mass, this.geo.h, this.phi, this.softened);
-    negativeGradient(this.geo, this.phi, this.gN);
+    for (let pass = PASS.softSolve; pass <= PASS.gradientN; pass++) this.run(pass);
   }
 
   /** Phantom field at the nodes from the sources. */
   solve(src: Sources, inside: Uint8Array): void {
     this.newtonian(src, inside);
+    for (let pass = PASS.bracket; pass <= PASS.gradientP; pass++) this.run(pass);
+  }
+
+  /** The bracket w of the phantom source, formed in place of g_N, node by node. */
+  private bracketLines(from: number, to: number): void {
     const { gN, a0, ge, nuE, p } = this;
-    const w = gN; // formed in place, node by node
+    const w = gN;
     const [ex, ey, ez] = ge;
-    for (let q = 0; q < gN.x.length; q++) {
+    const n = this.geo.n;
+    for (let q = from * n; q < to * n; q++) {
       const gx = gN.x[q] + ex, gy = gN.y[q] + ey, gz = gN.z[q] + ez;
       const g = sqrt(gx * gx + gy * gy + gz * gz);
       // (nu - 1) g -> sqrt(a0 g) -> 0 as g -> 0, so a null field contributes nothing.
@@ -233,34 +312,50 @@ class PhantomGrid {
       w.y[q] = f * gy - (nuE - 1) * ey;
       w.z[q] = f * gz - (nuE - 1) * ez;
     }
-    // lap Phi_P = -div w, i.e. a phantom mass -div(w) h^3 / (4 pi G) per node.
+  }
+
+  /** lap Phi_P = -div w, i.e. a phantom mass -div(w) h^3 / (4 pi G) per node, into the mass array. */
+  private phantomMassLines(from: number, to: number): void {
     const source = this.mass;
-    divergence(this.geo, w, source);
+    divergenceLines(this.geo, this.gN, source, from, to);
     const toMass = -(this.geo.h ** 3) / (4 * Math.PI * G);
     // Phantom mass only inside the ball: what a sphere leaves out acts on no point within it
     // when it is spherically distributed, as it is far from any bound system; a cube's corners would not.
     const { n } = this.geo, c = (n - 1) / 2, r2Max = (c - 1) * (c - 1);
-    for (let i = 0, q = 0; i < n; i++) for (let j = 0; j < n; j++) for (let k = 0; k < n; k++, q++) {
-      const r2 = (i - c) * (i - c) + (j - c) * (j - c) + (k - c) * (k - c);
-      source[q] = r2 <= r2Max ? source[q] * toMass : 0;
+    for (let line = from; line < to; line++) {
+      const i = Math.floor(line / n), j = line - i * n;
+      for (let k = 0, q = line * n; k < n; k++, q++) {
+        const r2 = (i - c) * (i - c) + (j - c) * (j - c) + (k - c) * (k - c);
+        source[q] = r2 <= r2Max ? source[q] * toMass : 0;
+      }
     }
-    this.poisson.potential(source, this.geo.h, this.phi);
-    negativeGradient(this.geo, this.phi, this.gP);
   }
 
   /** The phantom part of the QUMOND energy, -(a0^2 / 8 pi G) sum h^3 [P(|g|/a0) - P(|g_e|/a0) - 2 (nu_e - 1) g_e.g_N / a0^2]. */
   phantomEnergy(src: Sources, inside: Uint8Array): number {
     this.newtonian(src, inside);
+    this.run(PASS.energy);
+    // Summed line by line in order, so the total does not depend on how the lines were shared.
+    let sum = 0;
+    for (let line = 0, lines = nodeLines(this.geo); line < lines; line++) sum += this.phi[line];
+    return (-(this.a0 * this.a0) / (8 * Math.PI * G)) * this.geo.h ** 3 * sum;
+  }
+
+  /** Each line's sum of the bracket of `phantomEnergy`, into phi[line] (phi is free once g_N is formed). */
+  private energyLines(from: number, to: number): void {
     const { gN, a0, ge, nuE, p } = this;
     const [ex, ey, ez] = ge;
     const pE = phantomEnergyDensity(p.interpolation, hypot(ex, ey, ez) / a0);
-    let sum = 0;
-    for (let q = 0; q < gN.x.length; q++) {
-      const gx = gN.x[q], gy = gN.y[q], gz = gN.z[q];
-      const y = hypot(gx + ex, gy + ey, gz + ez) / a0;
-      sum += phantomEnergyDensity(p.interpolation, y) - pE - (2 * (nuE - 1) * (ex * gx + ey * gy + ez * gz)) / (a0 * a0);
+    const n = this.geo.n;
+    for (let line = from; line < to; line++) {
+      let sum = 0;
+      for (let q = line * n; q < (line + 1) * n; q++) {
+        const gx = gN.x[q], gy = gN.y[q], gz = gN.z[q];
+        const y = hypot(gx + ex, gy + ey, gz + ez) / a0;
+        sum += phantomEnergyDensity(p.interpolation, y) - pE - (2 * (nuE - 1) * (ex * gx + ey * gy + ez * gz)) / (a0 * a0);
+      }
+      this.phi[line] = sum;
     }
-    return (-(a0 * a0) / (8 * Math.PI * G)) * this.geo.h ** 3 * sum;
   }
 
   /** Whether a point lies in the ball where the phantom field is solved. */
@@ -303,7 +398,7 @@ export const qumondLaw = defineLaw({
     let grid: PhantomGrid | undefined;
     // The box is fixed once, from the run's initial particles when known, so a resumed run uses the same grid.
     const gridFor = (src: Sources): PhantomGrid => {
-      grid ??= new PhantomGrid(params, gridGeometryFor(params, initial ?? src).box, softening_kpc);
+      grid ??= PhantomGrid.create({ params, box: gridGeometryFor(params, initial ?? src).box, softening_kpc }, solver.gridThreads);
       return grid;
     };
     const atSources = scratchVectors();
