@@ -1,6 +1,6 @@
-// Threads: one large direct-sum run and one large tree run through the worker's
-// pool, each alone on one thread and then split across two, with the results
-// compared bit for bit.
+// Threads: one large direct-sum run, one large tree run and one field-form MOND
+// run through the worker's pool, each alone on one thread and then split across
+// two, with the results compared bit for bit.
 // Each is timed several times, alternating, and the fastest counts: on a shared
 // machine the slow timings measure the neighbours (common benchmarking practice).
 import { Worker } from 'node:worker_threads';
@@ -36,6 +36,15 @@ export interface ThreadFigures {
   treeSpeedup: number;
   treeHelperChunks: number;
   treeIdentical: boolean;
+  /** The same for a field-form MOND run (direct pair sum) of gridN particles on a grid of `grid` nodes a side, where the grid's passes take most of the time. */
+  gridN: number;
+  grid: 32 | 64 | 128;
+  gridSteps: number;
+  gridSingleSeconds: number;
+  gridSplitSeconds: number;
+  gridSpeedup: number;
+  gridHelperChunks: number;
+  gridIdentical: boolean;
 }
 
 interface Split {
@@ -108,7 +117,7 @@ async function compare(single: RunPool, split: RunPool, spec: RunSpec, warm: Run
   };
 }
 
-export async function benchThreads({ n = 6_000, steps = 40, treeN = 20_000, treeSteps = 4, threads = 2, spinIterations = 2e8, repeats = 3 } = {}): Promise<ThreadFigures> {
+export async function benchThreads({ n = 6_000, steps = 40, treeN = 20_000, treeSteps = 4, gridN = 2_000, grid = 64 as ThreadFigures['grid'], gridSteps = 6, threads = 2, spinIterations = 2e8, repeats = 3 } = {}): Promise<ThreadFigures> {
   const capacity = await machineSpeedup(threads, spinIterations);
   const single = new RunPool(1);
   const split = new RunPool(threads);
@@ -116,6 +125,8 @@ export async function benchThreads({ n = 6_000, steps = 40, treeN = 20_000, tree
   try {
     const d = await compare(single, split, plummerRun(n, steps), plummerRun(Math.max(n, SPLIT_MIN_PARTICLES), 2), repeats);
     const t = await compare(single, split, plummerRun(treeN, treeSteps, tree), plummerRun(Math.max(treeN, SPLIT_MIN_PARTICLES), 1, tree), repeats);
+    const qumond = { law: { kind: 'qumond' as const, interpolation: 'simple' as const, a0_m_s2: 1.2e-10, grid } };
+    const g = await compare(single, split, plummerRun(gridN, gridSteps, qumond), plummerRun(gridN, 1, qumond), repeats);
     return {
       n,
       steps,
@@ -130,6 +141,14 @@ export async function benchThreads({ n = 6_000, steps = 40, treeN = 20_000, tree
       treeSpeedup: t.speedup,
       treeHelperChunks: t.helperChunks,
       treeIdentical: t.identical,
+      gridN,
+      grid,
+      gridSteps,
+      gridSingleSeconds: g.singleSeconds,
+      gridSplitSeconds: g.splitSeconds,
+      gridSpeedup: g.speedup,
+      gridHelperChunks: g.helperChunks,
+      gridIdentical: g.identical,
     };
   } finally {
     await Promise.all([single.close(), split.close()]);

@@ -1,6 +1,6 @@
 import { z } from 'zod';
 import {
-  depositMass, divergenceLines, interpolateVectors, IsolatedPoisson, kernelLength, negativeGradientLines, nodeLines, poissonWorkLength,
+  depositMass, divergenceLines, KERNEL_PASSES, interpolateVectors, IsolatedPoisson, kernelLength, negativeGradientLines, nodeLines, poissonWorkLength,
   type GridGeometry, type GridThreads, type GridVectors,
 } from '../solvers/grid';
 import { newtonKernel } from './newton';
@@ -186,9 +186,10 @@ export function phantomGridLengths({ params, softening_kpc }: PhantomSetup): num
 /**
  * The passes of a grid evaluation, a barrier after each: the first Poisson solve (5 passes), g_N by
  * differences, the bracket, its divergence into phantom mass, the second solve (5 passes), g_P;
- * `energy` sums the phantom energy density line by line after the first three steps.
+ * `energy` sums the phantom energy density line by line after the first three steps. The kernels'
+ * transforms (5 passes each) are made once, when the grid is set up.
  */
-const PASS = { softSolve: 0, gradientN: 5, bracket: 6, divergence: 7, plainSolve: 8, gradientP: 13, energy: 14 } as const;
+const PASS = { softSolve: 0, gradientN: 5, bracket: 6, divergence: 7, plainSolve: 8, gradientP: 13, energy: 14, plainKernel: 15, softKernel: 20, end: 25 } as const;
 
 /**
  * How the field is split: the Newtonian field g_N comes from the run's pair
@@ -219,6 +220,8 @@ export class PhantomGrid {
   private readonly ge: [number, number, number];
   private readonly nuE: number;
   private readonly p: QumondParams;
+  /** The pair sum's softening in node spacings. */
+  private readonly softening: number;
 
   /**
    * The grid of a run, in the run's thread: its working arrays come from `threads` when they
@@ -247,19 +250,21 @@ export class PhantomGrid {
     this.poisson = new IsolatedPoisson(n, work);
     this.plain = plain;
     this.softened = softened ?? plain;
-    if (fillKernels) {
-      this.poisson.kernel(0, true, plain);
-      if (softened) this.poisson.kernel(softening_kpc / h, true, softened);
-    }
+    this.softening = softening_kpc / h;
     this.a0 = accelFromSI(p.a0_m_s2);
     const e = p.externalField_m_s2 ?? [0, 0, 0];
     this.ge = [accelFromSI(e[0]), accelFromSI(e[1]), accelFromSI(e[2])];
     const geMag = hypot(...this.ge);
     this.nuE = geMag > 0 ? mondNu(p.interpolation, geMag / this.a0) : 1;
+    if (fillKernels) {
+      for (let k = 0; k < KERNEL_PASSES; k++) this.run(PASS.plainKernel + k);
+      if (softened) for (let k = 0; k < KERNEL_PASSES; k++) this.run(PASS.softKernel + k);
+    }
   }
 
   /** Units of a pass: lines of a transform or lines of nodes. */
   private count(pass: number): number {
+    if (pass >= PASS.plainKernel) return (this.geo.n + 1) ** 2;
     if (pass < PASS.gradientN) return this.poisson.lines(pass - PASS.softSolve);
     if (pass >= PASS.plainSolve && pass < PASS.gradientP) return this.poisson.lines(pass - PASS.plainSolve);
     return nodeLines(this.geo);
@@ -282,6 +287,8 @@ export class PhantomGrid {
     else if (pass < PASS.gradientP) this.poisson.pass(pass - PASS.plainSolve, mass, geo.h, phi, this.plain, from, to);
     else if (pass === PASS.gradientP) negativeGradientLines(geo, phi, this.gP, from, to);
     else if (pass === PASS.energy) this.energyLines(from, to);
+    else if (pass < PASS.softKernel) this.poisson.kernelPass(pass - PASS.plainKernel, 0, this.plain, from, to);
+    else if (pass < PASS.end) this.poisson.kernelPass(pass - PASS.softKernel, this.softening, this.softened, from, to);
     else throw new Error(`no grid pass ${pass}`);
   }
 

@@ -153,6 +153,8 @@ export const kernelLength = (n: number): number => (n + 1) ** 3;
 
 /** The passes of one solve, in order, with a barrier between each: see `IsolatedPoisson.pass`. */
 export const POISSON_PASSES = 5;
+/** The passes of a kernel's transform, each of (n+1)^2 lines: see `IsolatedPoisson.kernelPass`. */
+export const KERNEL_PASSES = 5;
 
 /**
  * Isolated Poisson solver on an n^3 node grid (n a power of two): the node
@@ -183,38 +185,54 @@ export class IsolatedPoisson {
 
   /**
    * Transform of the Plummer-softened kernel 1/sqrt(r^2 + e^2), e in node spacings (0: plain
-   * 1/r), written into `k` (kernelLength(n) doubles). The self-term blends the cube's 1/r average with 1/e, so it tends to each in its limit.
-   * With `deconvolve` the cloud-in-cell window is divided out (see below).
-   * The kernel is even in each axis, so each 1-D transform maps a half line [0, n] to a real half line [0, n].
+   * 1/r), written into `k` (kernelLength(n) doubles), all passes in this thread (see `kernelPass`).
    */
   kernel(e: number, deconvolve = true, k: Float64Array = new Float64Array(kernelLength(this.n))): Float64Array {
+    const lines = (this.n + 1) ** 2;
+    for (let p = 0; p < KERNEL_PASSES; p++) if (p < KERNEL_PASSES - 1 || deconvolve) this.kernelPass(p, e, k, 0, lines);
+    return k;
+  }
+
+  /**
+   * Lines [from, to) of the (n+1)^2 of pass `p` of a kernel's transform: 0 samples the kernel;
+   * 1 to 3 transform along x, y, z; 4 divides out the cloud-in-cell window.
+   * The self-term blends the cube's 1/r average with 1/e, so it tends to each in its limit.
+   * The kernel is even in each axis, so each 1-D transform maps a half line [0, n] to a real half line [0, n].
+   */
+  kernelPass(p: number, e: number, k: Float64Array, from: number, to: number): void {
     const n = this.n, m = 2 * n, s = n + 1, e2 = e * e;
-    for (let i = 0; i <= n; i++) for (let j = 0; j <= n; j++) for (let l = 0; l <= n; l++) {
-      const r2 = i * i + j * j + l * l;
-      k[(i * s + j) * s + l] = r2 === 0 ? 1 / sqrt(e2 + 1 / (CUBE_CENTRE_POTENTIAL * CUBE_CENTRE_POTENTIAL)) : 1 / sqrt(r2 + e2);
-    }
-    const { a, b } = this;
-    const strides = [s * s, s, 1];
-    for (let axis = 0; axis < 3; axis++) {
-      const st = strides[axis];
-      for (let base = 0; base < k.length; base++) {
-        if (floor(base / st) % s !== 0) continue; // one line per start point of this axis
+    if (p === 0) {
+      for (let line = from; line < to; line++) {
+        const i = floor(line / s), j = line - i * s;
+        for (let l = 0; l <= n; l++) {
+          const r2 = i * i + j * j + l * l;
+          k[line * s + l] = r2 === 0 ? 1 / sqrt(e2 + 1 / (CUBE_CENTRE_POTENTIAL * CUBE_CENTRE_POTENTIAL)) : 1 / sqrt(r2 + e2);
+        }
+      }
+    } else if (p <= 3) {
+      const { a, b } = this;
+      const st = p === 1 ? s * s : p === 2 ? s : 1;
+      for (let line = from; line < to; line++) {
+        const u = floor(line / s), v = line - u * s;
+        const base = p === 1 ? u * s + v : p === 2 ? u * s * s + v : line * s;
         for (let q = 0; q < m; q++) { a[2 * q] = k[base + min(q, m - q) * st]; a[2 * q + 1] = 0; }
         this.fft.transform(b, a);
         for (let q = 0; q <= n; q++) k[base + q * st] = b[2 * q];
       }
+    } else {
+      // Divide out the cloud-in-cell window, sinc^2(k h / 2) per axis, once: a common-practice
+      // correction that undoes the smoothing of the deposit (first solve) or of the
+      // interpolation that follows (second solve), so fields stay sharp a few cells from a mass.
+      const window = new Float64Array(s);
+      for (let q = 0; q <= n; q++) {
+        const x = (Math.PI * q) / m;
+        window[q] = q === 0 ? 1 : (Math.sin(x) / x) ** 2;
+      }
+      for (let line = from; line < to; line++) {
+        const i = floor(line / s), j = line - i * s;
+        for (let l = 0; l <= n; l++) k[line * s + l] /= window[i] * window[j] * window[l];
+      }
     }
-    if (!deconvolve) return k;
-    // Divide out the cloud-in-cell window, sinc^2(k h / 2) per axis, once: a common-practice
-    // correction that undoes the smoothing of the deposit (first solve) or of the
-    // interpolation that follows (second solve), so fields stay sharp a few cells from a mass.
-    const window = new Float64Array(s);
-    for (let q = 0; q <= n; q++) {
-      const x = (Math.PI * q) / m;
-      window[q] = q === 0 ? 1 : (Math.sin(x) / x) ** 2;
-    }
-    for (let i = 0; i <= n; i++) for (let j = 0; j <= n; j++) for (let l = 0; l <= n; l++) k[(i * s + j) * s + l] /= window[i] * window[j] * window[l];
-    return k;
   }
 
   /** Lines in pass `p` of a solve (0 to POISSON_PASSES - 1). */
