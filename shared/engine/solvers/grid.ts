@@ -65,28 +65,6 @@ export function depositMass(g: GridGeometry, src: Sources, mass: Float64Array, i
 }
 
 /**
- * Cloud-in-cell interpolation of a node field to points, the adjoint of the
- * deposit (so a particle feels no force from its own deposit under a symmetric
- * Green's function and central differences). Writes out[p] for points inside
- * the node cloud; returns a flag per point.
- */
-export function interpolateVectors(g: GridGeometry, f: GridVectors, pts: Points, ox: Float64Array, oy: Float64Array, oz: Float64Array, inside: Uint8Array): void {
-  const n = g.n, c = new Float64Array(6);
-  for (let p = 0; p < pts.x.length; p++) {
-    if (!cicCell(g, pts.x[p], pts.y[p], pts.z[p], c)) { inside[p] = 0; continue; }
-    inside[p] = 1;
-    const i = c[0], j = c[1], k = c[2], fx = c[3], fy = c[4], fz = c[5];
-    const b = (i * n + j) * n + k, b1 = b + n * n;
-    const w000 = (1 - fx) * (1 - fy) * (1 - fz), w001 = (1 - fx) * (1 - fy) * fz, w010 = (1 - fx) * fy * (1 - fz), w011 = (1 - fx) * fy * fz;
-    const w100 = fx * (1 - fy) * (1 - fz), w101 = fx * (1 - fy) * fz, w110 = fx * fy * (1 - fz), w111 = fx * fy * fz;
-    const at = (a: Float64Array) =>
-      w000 * a[b] + w001 * a[b + 1] + w010 * a[b + n] + w011 * a[b + n + 1] +
-      w100 * a[b1] + w101 * a[b1 + 1] + w110 * a[b1 + n] + w111 * a[b1 + n + 1];
-    ox[p] = at(f.x); oy[p] = at(f.y); oz[p] = at(f.z);
-  }
-}
-
-/**
  * d/dx along one axis at node idx (position pos of n, stride s): fourth-order
  * central differences inside, second-order central one node from a face, and
  * second-order one-sided (three nodes) on the faces.
@@ -187,19 +165,20 @@ export class IsolatedPoisson {
    * Transform of the Plummer-softened kernel 1/sqrt(r^2 + e^2), e in node spacings (0: plain
    * 1/r), written into `k` (kernelLength(n) doubles), all passes in this thread (see `kernelPass`).
    */
-  kernel(e: number, deconvolve = true, k: Float64Array = new Float64Array(kernelLength(this.n))): Float64Array {
+  kernel(e: number, windowPower: number, k: Float64Array = new Float64Array(kernelLength(this.n))): Float64Array {
     const lines = (this.n + 1) ** 2;
-    for (let p = 0; p < KERNEL_PASSES; p++) if (p < KERNEL_PASSES - 1 || deconvolve) this.kernelPass(p, e, k, 0, lines);
+    for (let p = 0; p < KERNEL_PASSES; p++) this.kernelPass(p, e, windowPower, k, 0, lines);
     return k;
   }
 
   /**
    * Lines [from, to) of the (n+1)^2 of pass `p` of a kernel's transform: 0 samples the kernel;
-   * 1 to 3 transform along x, y, z; 4 divides out the cloud-in-cell window.
+   * 1 to 3 transform along x, y, z; 4 divides out the cloud-in-cell window, sinc^2(k h / 2) per
+   * axis, to the power `windowPower` (1: sinc^2 itself; 0: nothing).
    * The self-term blends the cube's 1/r average with 1/e, so it tends to each in its limit.
    * The kernel is even in each axis, so each 1-D transform maps a half line [0, n] to a real half line [0, n].
    */
-  kernelPass(p: number, e: number, k: Float64Array, from: number, to: number): void {
+  kernelPass(p: number, e: number, windowPower: number, k: Float64Array, from: number, to: number): void {
     const n = this.n, m = 2 * n, s = n + 1, e2 = e * e;
     if (p === 0) {
       for (let line = from; line < to; line++) {
@@ -219,14 +198,13 @@ export class IsolatedPoisson {
         this.fft.transform(b, a);
         for (let q = 0; q <= n; q++) k[base + q * st] = b[2 * q];
       }
-    } else {
-      // Divide out the cloud-in-cell window, sinc^2(k h / 2) per axis, once: a common-practice
-      // correction that undoes the smoothing of the deposit (first solve) or of the
-      // interpolation that follows (second solve), so fields stay sharp a few cells from a mass.
+    } else if (windowPower !== 0) {
+      // Dividing out the cloud-in-cell window once (power 1) is a common-practice correction that
+      // undoes the smoothing of the deposit, so fields stay sharp a few cells from a mass.
       const window = new Float64Array(s);
       for (let q = 0; q <= n; q++) {
         const x = (Math.PI * q) / m;
-        window[q] = q === 0 ? 1 : (Math.sin(x) / x) ** 2;
+        window[q] = q === 0 ? 1 : (Math.sin(x) / x) ** (2 * windowPower);
       }
       for (let line = from; line < to; line++) {
         const i = floor(line / s), j = line - i * s;
@@ -315,5 +293,41 @@ export class IsolatedPoisson {
   /** The whole solve in this thread: potential per unit mass at the nodes due to node masses (see `pass`). */
   potential(mass: Float64Array, h: number, out: Float64Array, green: Float64Array): void {
     for (let p = 0; p < POISSON_PASSES; p++) this.pass(p, mass, h, out, green, 0, this.lines(p));
+  }
+}
+
+/** Weights of the four nodes -1, 0, 1, 2 of cubic Lagrange interpolation at t in [0, 1]. */
+function cubicWeights(t: number, w: Float64Array, at: number): void {
+  w[at] = (-t * (t - 1) * (t - 2)) / 6;
+  w[at + 1] = ((t + 1) * (t - 1) * (t - 2)) / 2;
+  w[at + 2] = (-(t + 1) * t * (t - 2)) / 2;
+  w[at + 3] = ((t + 1) * t * (t - 1)) / 6;
+}
+
+/**
+ * Tricubic Lagrange interpolation of a node field to points (64 nodes each): exact for cubics,
+ * so a field that bends on the scale of a few cells keeps its value, where the cloud-in-cell
+ * weights would average it down. Writes out[p] for points at least one spacing inside the
+ * node cloud (the stencil reaches one node below and two above); returns a flag per point.
+ */
+export function interpolateVectorsCubic(g: GridGeometry, f: GridVectors, pts: Points, ox: Float64Array, oy: Float64Array, oz: Float64Array, inside: Uint8Array): void {
+  const n = g.n, nn = n * n, w = new Float64Array(12);
+  for (let p = 0; p < pts.x.length; p++) {
+    const u = (pts.x[p] - g.x0) / g.h, v = (pts.y[p] - g.y0) / g.h, s = (pts.z[p] - g.z0) / g.h;
+    if (!(u >= 1 && u <= n - 2 && v >= 1 && v <= n - 2 && s >= 1 && s <= n - 2)) { inside[p] = 0; continue; }
+    inside[p] = 1;
+    const i = min(floor(u), n - 3), j = min(floor(v), n - 3), k = min(floor(s), n - 3);
+    cubicWeights(u - i, w, 0); cubicWeights(v - j, w, 4); cubicWeights(s - k, w, 8);
+    let sx = 0, sy = 0, sz = 0;
+    for (let a = 0; a < 4; a++) {
+      for (let b = 0; b < 4; b++) {
+        const wab = w[a] * w[4 + b], row = (i - 1 + a) * nn + (j - 1 + b) * n + k - 1;
+        for (let c = 0; c < 4; c++) {
+          const wt = wab * w[8 + c];
+          sx += wt * f.x[row + c]; sy += wt * f.y[row + c]; sz += wt * f.z[row + c];
+        }
+      }
+    }
+    ox[p] = sx; oy[p] = sy; oz[p] = sz;
   }
 }
