@@ -8,6 +8,7 @@ import type { Points, Sources } from '../../shared/engine/state';
 import { allocateAccelerations, cloneParticles } from '../../shared/engine/state';
 import { G } from '../../shared/engine/units';
 import { estimateInteractions, parseRunSpec, type LawSpec } from '../../shared/spec';
+import { ROLE_LIMITS } from '../../shared/api/accounts';
 import { M_PER_KPC, specWith } from './helpers';
 
 /** a0 = 1.2e-10 m/s^2 in (km/s)^2/kpc, from the IAU kpc written out in the helpers. */
@@ -168,10 +169,21 @@ describe('QUMOND on a grid', () => {
   test('the quota counts the grid: 30 g^3 log2(2g) pair interactions per evaluation on top of the pair sum', () => {
     const base = { model: { kind: 'plummer', n: 1000, mass_Msun: 1e9, scale_kpc: 1 }, integrator: 'yoshida4', timestep_Myr: 1, duration_Myr: 10 };
     const newton = estimateInteractions(specWith({ ...base, law: { kind: 'newton' } }));
-    for (const g of [32, 64, 128]) {
+    for (const g of [32, 64, 128, 256]) {
       const field = estimateInteractions(specWith({ ...base, law: qumond({ grid: g }) }));
       expect(field - newton).toBe(Math.round(30 * g ** 3 * Math.log2(2 * g) * 3 * 10));
     }
+  });
+
+  test('a 256-node grid is offered where the daily budget holds it: 100 leapfrog steps fit a researcher\'s day, not a student\'s', () => {
+    const spec = specWith({ model: { kind: 'plummer', n: 1000, mass_Msun: 1e9, scale_kpc: 1 }, law: qumond({ grid: 256 }), timestep_Myr: 1, duration_Myr: 100 });
+    const cost = estimateInteractions(spec);
+    expect(cost).toBeGreaterThan(ROLE_LIMITS.student.dailyInteractions);
+    expect(cost).toBeLessThan(ROLE_LIMITS.researcher.dailyInteractions);
+    // 512 is not a size the schema offers, and the message lists those it does.
+    const refused = parseRunSpec({ ...spec, law: { ...spec.law, grid: 512 } });
+    expect(refused.ok).toBe(false);
+    if (!refused.ok) expect(JSON.stringify(refused.issues)).toMatch(/256/);
   });
 
   test('a run resumed from a checkpoint continues bit for bit: the grid box comes from the initial particles, not the resumed ones', () => {

@@ -15,8 +15,12 @@ const { hypot, log10, sqrt } = Math;
 
 const fieldComponent = z.number().min(-1e-8).max(1e-8);
 
-/** Node counts per side the grid offers: powers of two (the FFT needs them); 256 would need about 1.6 GB. */
-export const QUMOND_GRID_SIZES = [32, 64, 128] as const;
+/**
+ * Node counts per side the grid offers: powers of two (the FFT needs them). The quota's cost
+ * estimate counts the grid (gridInteractions in shared/spec/runSpec.ts), so 256 fits only the
+ * larger daily budgets; it also needs 1.9 GB of memory per run (see phantomGridLengths).
+ */
+export const QUMOND_GRID_SIZES = [32, 64, 128, 256] as const;
 
 const schema = z
   .object({
@@ -30,7 +34,7 @@ const schema = z
     grid: z
       .literal(QUMOND_GRID_SIZES)
       .default(64)
-      .describe('grid nodes per side for the phantom field'),
+      .describe('grid nodes per side for the phantom field; memory per run about 30 MB at 64, 240 MB at 128, 1.9 GB at 256, and the quota counts the grid\'s work'),
     box_kpc: z
       .number()
       .positive()
@@ -186,7 +190,7 @@ export interface PhantomSetup {
 /**
  * Lengths of a phantom grid's working arrays: node masses, potential, g_N (x, y, z), g_P (x, y, z),
  * the Poisson work array, the plain kernel's transform and, with softening, the softened one.
- * 256 nodes a side would need about 1.8 GB (64: 30 MB, 128: 230 MB).
+ * In bytes, with softening: 30 MB at 64 nodes a side, 240 MB at 128, 1.9 GB at 256 (measured).
  */
 export function phantomGridLengths({ params, softening_kpc }: PhantomSetup): number[] {
   const n = params.grid, nodes = n * n * n;
