@@ -124,6 +124,8 @@ export function toTable(r: BenchReport): string {
     rows.push([`threads: ${t.gridN}-particle field-form MOND run, grid ${t.grid}^3, ${t.gridSteps} steps, 1 -> ${t.threads} threads`, `${fmt(t.gridSingleSeconds)} s -> ${fmt(t.gridSplitSeconds)} s`, t.gridIdentical ? 'bit-identical' : 'RESULTS DIFFER', mark(t.gridIdentical)]);
     rows.push(['threads: field-form grid speed-up', `${fmt(t.gridSpeedup)}x`, '>= 1.6x', mark(t.gridSpeedup >= 1.6)]);
     rows.push([`threads: plain loop on ${t.threads} threads, same moment`, `${fmt(t.machineSpeedup)}x`, 'the most this machine gave', '']);
+    const cpu = (v: number | null) => (v === null ? 'n/a' : `${fmt(v)}x`);
+    rows.push(['threads: CPU-time speed-ups, direct / tree / field-form grid', `${cpu(t.cpuSpeedup)} / ${cpu(t.treeCpuSpeedup)} / ${cpu(t.gridCpuSpeedup)}`, 'one thread\'s CPU time over the busiest split thread\'s', '']);
   }
   for (const f of r.qumond ?? []) {
     rows.push([`field-form MOND grid=${f.grid}^3 N=${f.n}: ms per force evaluation`, fmt(f.msPerEval), `pair sum alone (tree, theta 0.7): ${fmt(f.pairMsPerEval)} ms`, '']);
