@@ -62,7 +62,7 @@ const info = (p: QumondParams): LawInfo => ({
   validity:
     'The field equations of MOND in their quasi-linear form, for any geometry inside the grid box. The phantom part is smoothed on the grid spacing (box / (grid - 1)); particles outside the ball inscribed in the grid get the algebraic form instead. A constant external field stands for a distant host; tides are not included.',
   notes:
-    'Newtonian part from the pairwise sum (exact momentum balance with the direct solver), phantom part from two isolated FFT Poisson solves on the grid. The grid part\'s small net force is removed each evaluation, so total momentum is conserved. Energy (QUMOND has a potential) is the pair energy plus the grid\'s phantom energy; its drift includes grid error. Angular momentum is not exactly conserved on a cubic grid.',
+    'Newtonian part from the pairwise sum (exact momentum balance with the direct solver), phantom part from two isolated FFT Poisson solves on the grid. The grid part\'s small net force is removed each evaluation, so total momentum is conserved. Energy (QUMOND has a potential) is the pair energy plus the grid\'s phantom energy; its drift includes grid error. Angular momentum is not exactly conserved on a cubic grid. Accuracy, measured on a resolved sphere: within 1% of the algebraic form (which it equals in spherical symmetry) from 3 grid cells from the centre, within 3% at 2 cells; around a mass smaller than a cell, within 1% from 8 cells only.',
 });
 
 // --- Phantom energy density ------------------------------------------------
