@@ -48,15 +48,20 @@ function carve(g: SharedGrid): Float64Array[] {
  * `round(pass, count)` runs one pass as a round of the split run and returns when every chunk is done.
  */
 export class SplitGrid implements GridThreads {
+  /** The shared arrays serve one grid: a second one opened in the same run gets none and works alone. */
+  private opened = false;
+
   constructor(private readonly g: SharedGrid, private readonly round: (pass: number, count: number) => void) {}
 
   open(setup: object, lengths: readonly number[]): Float64Array[] | undefined {
+    if (this.opened) return undefined;
     if (lengths.length !== this.g.lengths.length || lengths.some((l, k) => l !== this.g.lengths[k])) return undefined;
     const bytes = new TextEncoder().encode(JSON.stringify(setup));
     if (bytes.length > SETUP_BYTES - 4) return undefined;
     new Uint8Array(this.g.setup, 4).set(bytes);
     // Seen by other threads once a round opens (the round's atomic store publishes it).
     new Int32Array(this.g.setup, 0, 1)[0] = bytes.length;
+    this.opened = true;
     return carve(this.g);
   }
 

@@ -38,7 +38,8 @@ test('the phantom grid split with a helper thread equals one thread bit for bit:
       const helper = pool.run({ sharedField: shared }, { name: 'fieldHelper' }) as Promise<number>;
       try {
         await until(() => activeHelpers(shared) === 1, 'the helper thread');
-        const split = createLaw(law, { solver: new SplitSolver(shared), softening_kpc, initial: p });
+        const solver = new SplitSolver(shared);
+        const split = createLaw(law, { solver, softening_kpc, initial: p });
         const alone = createLaw(law, { solver: directSolver, softening_kpc, initial: p });
         for (const targets of [p, probes]) {
           const a = allocateAccelerations(targets.x.length), b = allocateAccelerations(targets.x.length);
@@ -47,6 +48,14 @@ test('the phantom grid split with a helper thread equals one thread bit for bit:
           expect(a).toEqual(b);
         }
         expect(split.potentialEnergy!(p)).toBe(alone.potentialEnergy!(p));
+        // A second grid in the same run finds the shared arrays taken and works on its own ones, to the same numbers.
+        const second = createLaw(law, { solver, softening_kpc, initial: p });
+        const a = allocateAccelerations(n), b = allocateAccelerations(n);
+        second.accelerations(p, p, a);
+        alone.accelerations(p, p, b);
+        expect(a).toEqual(b);
+        split.accelerations(p, p, a);
+        expect(a).toEqual(b);
       } finally {
         stopSharedField(shared);
       }
