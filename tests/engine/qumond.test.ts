@@ -180,6 +180,10 @@ describe('QUMOND on a grid', () => {
     const cost = estimateInteractions(spec);
     expect(cost).toBeGreaterThan(ROLE_LIMITS.student.dailyInteractions);
     expect(cost).toBeLessThan(ROLE_LIMITS.researcher.dailyInteractions);
+    // The precheck says what it holds in memory (measured 1.9 GB) and how long an evaluation takes.
+    const note = precheck(spec).warnings.find((w) => w.code === 'grid-large');
+    expect(note?.message).toMatch(/1\.9 GB/);
+    expect(precheck(specWith({ ...spec, law: qumond({ grid: 128 }) })).warnings.some((w) => w.code === 'grid-large')).toBe(false);
     // 512 is not a size the schema offers, and the message lists those it does.
     const refused = parseRunSpec({ ...spec, law: { ...spec.law, grid: 512 } });
     expect(refused.ok).toBe(false);

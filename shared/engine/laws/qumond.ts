@@ -155,6 +155,14 @@ export function qumondGridNotes(params: QumondParams, initial: Sources, halfMass
       source: 'this engine (tests/engine/qumond.test.ts)',
     });
   }
+  if (params.grid >= 256) {
+    notes.push({
+      code: 'grid-large',
+      severity: 'info',
+      message: `a ${params.grid}^3 grid holds about ${(phantomGridBytes(params.grid) / 1e9).toFixed(1)} GB while the run computes, and one force evaluation takes about 30 s on one thread of the reference machine (14 s per grid solve, two per evaluation); 128 takes 240 MB and under 4 s`,
+      source: 'this engine (README, field-form MOND: cost)',
+    });
+  }
   let outside = 0;
   for (let i = 0; i < initial.m.length; i++) {
     if (hypot(initial.x[i] - box.cx, initial.y[i] - box.cy, initial.z[i] - box.cz) > ballRadius_kpc) outside++;
@@ -196,6 +204,9 @@ export function phantomGridLengths({ params, softening_kpc }: PhantomSetup): num
   const n = params.grid, nodes = n * n * n;
   return [...Array(8).fill(nodes), poissonWorkLength(n), kernelLength(n), ...(softening_kpc > 0 ? [kernelLength(n)] : [])];
 }
+
+/** Bytes of a grid's working arrays, with softening. */
+const phantomGridBytes = (n: number): number => 8 * phantomGridLengths({ params: { grid: n } as QumondParams, box: { side_kpc: 1, cx: 0, cy: 0, cz: 0 }, softening_kpc: 1 }).reduce((a, b) => a + b, 0);
 
 /**
  * The passes of a grid evaluation, a barrier after each: the first Poisson solve (5 passes), g_N by
