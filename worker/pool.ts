@@ -5,6 +5,7 @@ import type { RunCheckpoint, RunResult } from '../shared/engine';
 import { estimateInteractions, particleCount, type RunSpec } from '../shared/spec';
 import type { RunProgress } from '../shared/api/contract';
 import { createSharedField, dismissHelper, stopSharedField, type SharedField } from './sharedField';
+import { sharedGridFor } from './sharedGrid';
 
 /** Checkpointing of one run: where to start, how often to hand out a new one, and to whom. */
 export interface RunCheckpointing {
@@ -40,8 +41,11 @@ export interface RunHandle {
  */
 export const SPLIT_MIN_PARTICLES = 1500;
 
-/** The rule for splitting one run (direct sums and tree walks both split): large enough to pay. */
-export const splits = (spec: RunSpec): boolean => particleCount(spec) >= SPLIT_MIN_PARTICLES;
+/**
+ * The rule for splitting one run (direct sums and tree walks both split): large enough to pay.
+ * A field-form run always splits: its grid's passes take tens of milliseconds or more per evaluation whatever the particle count.
+ */
+export const splits = (spec: RunSpec): boolean => particleCount(spec) >= SPLIT_MIN_PARTICLES || spec.law.kind === 'qumond';
 
 /**
  * A pool of threads, each integrating one run at a time. A large direct-sum
@@ -88,7 +92,7 @@ export class RunPool {
     if (this.busy >= this.threads) this.reclaimThread();
     const helpers = splits(spec) ? Math.max(0, this.threads - this.busy - 1) : 0;
     const theta = spec.solver.kind === 'tree' ? spec.solver.theta : undefined;
-    const sharedField = helpers > 0 ? createSharedField(particleCount(spec), helpers, theta) : undefined;
+    const sharedField = helpers > 0 ? createSharedField(particleCount(spec), helpers, theta, sharedGridFor(spec)) : undefined;
 
     const { port1, port2 } = new MessageChannel();
     const cancelFlag = new Int32Array(new SharedArrayBuffer(4));

@@ -21,6 +21,8 @@
 //
 // The pair kernel crosses as data: its registered name (ASCII bytes), softening
 // and parameters; each thread's solvers look the kernel's loops up by that name.
+//
+// A field-form run's grid passes are rounds too (mode GRID, see sharedGrid.ts).
 import { buildOctree, directFieldRange, directPotentialRange, treeFieldRange, treePotentialRange, treeWorkUnits, type Octree } from '../shared/engine/solvers';
 import { directSolver } from '../shared/engine/solvers/direct';
 import { CELL_DOUBLES, CELL_INTS, treeSolver } from '../shared/engine/solvers/tree';
@@ -28,6 +30,7 @@ import type { FieldSolver, PairKernel } from '../shared/engine/solvers';
 import { pairKernelDefinition } from '../shared/engine/laws/kernels';
 import { MAX_KERNEL_NAME, MAX_KERNEL_PARAMS } from '../shared/engine/solvers/types';
 import type { Accelerations, Points, Sources } from '../shared/engine/state';
+import { gridWorker, SplitGrid, type SharedGrid } from './sharedGrid';
 
 /** The shared memory of one split run. Plain data: it reaches pool threads by structured clone, the buffers shared, not copied. */
 export interface SharedField {
@@ -37,6 +40,8 @@ export interface SharedField {
   data: SharedArrayBuffer;
   /** Present for a tree run: room for one octree of at most `capacity` cells, rebuilt every evaluation. */
   tree?: { theta: number; capacity: number; doubles: SharedArrayBuffer; ints: SharedArrayBuffer };
+  /** Present for a field-form run: its grid's working arrays. */
+  grid?: SharedGrid;
 }
 
 // Int32 slots of `control`.
@@ -53,10 +58,12 @@ const ACTIVE = 9; // helpers inside serveSharedField
 const WANTED = 10; // helpers the pool still wants; above it, helpers leave
 const NODES = 11; // cells of this round's tree
 const GROUPS = 12; // target groups of this round's tree
-const CONTROL_SLOTS = 13;
+const PASS = 13; // the grid pass of a GRID round
+const CONTROL_SLOTS = 14;
 
 const FIELD = 0;
 const POTENTIAL = 1;
+const GRID = 2;
 /** Low bits of CLAIM and INFO: a round has at most threads x CHUNKS_PER_THREAD chunks, plus one spent claim per thread. */
 const INDEX_BITS = 12;
 const INDEX_MASK = (1 << INDEX_BITS) - 1;
@@ -80,11 +87,12 @@ const MAX_CHUNKS = INDEX_MASK >> 1;
 const treeCapacity = (n: number) => n + 64;
 
 /** Shared memory for a run of n particles; `theta` when its solver is the tree. */
-export function createSharedField(n: number, helpers: number, theta?: number): SharedField {
+export function createSharedField(n: number, helpers: number, theta?: number, grid?: SharedGrid): SharedField {
   const f: SharedField = {
     n,
     control: new SharedArrayBuffer(4 * CONTROL_SLOTS),
     data: new SharedArrayBuffer(8 * (PARAMS + ARRAYS * n)),
+    ...(grid ? { grid } : {}),
   };
   if (theta !== undefined) {
     const capacity = treeCapacity(n);
@@ -104,6 +112,7 @@ interface Views {
   targets: Points;
   out: Accelerations;
   tree?: { theta: number; capacity: number; d: Float64Array; i: Int32Array };
+  grid?: (pass: number, from: number, to: number) => void;
 }
 
 function views(f: SharedField): Views {
@@ -117,6 +126,7 @@ function views(f: SharedField): Views {
     targets: { x: at(4), y: at(5), z: at(6) },
     out: { ax: at(7), ay: at(8), az: at(9) },
     ...(f.tree ? { tree: { theta: f.tree.theta, capacity: f.tree.capacity, d: new Float64Array(f.tree.doubles), i: new Int32Array(f.tree.ints) } } : {}),
+    ...(f.grid ? { grid: gridWorker(f.grid) } : {}),
   };
 }
 
@@ -167,9 +177,10 @@ function work(v: Views): number {
     const size = c[CHUNK_SIZE];
     const start = chunk * size;
     const end = Math.min(c[TARGETS], start + size);
-    const kernel = readKernel(v);
+    const kernel = c[MODE] === GRID ? undefined : readKernel(v);
     const targets = c[SAME] === 1 ? v.sources : v.targets;
-    if (v.tree) {
+    if (!kernel) v.grid!(c[PASS], start, end);
+    else if (v.tree) {
       const tree = sharedTree(v.tree, v.sources.m.length, c[NODES], c[GROUPS]);
       if (c[MODE] === FIELD) treeFieldRange(tree, v.sources, targets, kernel, v.tree.theta, start, end, v.out);
       else treePotentialRange(tree, v.sources, targets, kernel, v.tree.theta, start, end, v.out.ax);
@@ -242,11 +253,18 @@ export class SplitSolver implements FieldSolver {
   private readonly alone: FieldSolver;
   /** Rounds opened so far; only this thread opens them. */
   private rounds = 0;
+  readonly gridThreads?: SplitGrid;
 
   constructor(private readonly shared: SharedField) {
     this.v = views(shared);
     this.kind = shared.tree ? 'tree' : 'direct';
     this.alone = shared.tree ? treeSolver(shared.tree.theta) : directSolver;
+    if (shared.grid) {
+      this.gridThreads = new SplitGrid(shared.grid, (pass, count) => {
+        this.v.c[PASS] = pass;
+        this.round(count, false, GRID);
+      });
+    }
   }
 
   field(sources: Sources, targets: Points, kernel: PairKernel, out: Accelerations): void {

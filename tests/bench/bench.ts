@@ -11,14 +11,14 @@ import type { ClientFigures } from './client';
 export interface PureSizes {
   direct: { n: number; repeats: number };
   tree: { sizes: number[]; thetas: number[]; sampleTargets: number; repeats: number };
-  threads: { n: number; steps: number; treeN: number; treeSteps: number; threads: number; spinIterations: number; repeats: number };
+  threads: { n: number; steps: number; treeN: number; treeSteps: number; gridN: number; grid: ThreadFigures['grid']; gridSteps: number; threads: number; spinIterations: number; repeats: number };
   qumond: { grids: QumondFigure['grid'][]; sizes: number[]; repeats: number };
 }
 
 export const FULL_SIZES: PureSizes = {
   direct: { n: 4096, repeats: 7 },
   tree: { sizes: [1_000, 3_000, 10_000, 100_000, 300_000], thetas: [0.5, 0.7], sampleTargets: 1_000, repeats: 3 },
-  threads: { n: 6_000, steps: 25, treeN: 20_000, treeSteps: 4, threads: 2, spinIterations: 2e8, repeats: 3 },
+  threads: { n: 6_000, steps: 25, treeN: 20_000, treeSteps: 4, gridN: 2_000, grid: 64, gridSteps: 6, threads: 2, spinIterations: 2e8, repeats: 3 },
   qumond: { grids: [64, 128], sizes: [10_000, 100_000], repeats: 2 },
 };
 
@@ -46,7 +46,7 @@ export async function benchPure(sizes: PureSizes = FULL_SIZES): Promise<PureRepo
   const directSum = benchDirect(sizes.direct);
   log(`tree at N = ${sizes.tree.sizes.join(', ')}`);
   const tree = benchTree(sizes.tree);
-  log(`threads: one ${sizes.threads.n}-particle direct and one ${sizes.threads.treeN}-particle tree run on 1 and ${sizes.threads.threads} threads`);
+  log(`threads: one ${sizes.threads.n}-particle direct, one ${sizes.threads.treeN}-particle tree and one ${sizes.threads.gridN}-particle field-form MOND run (grid ${sizes.threads.grid}^3) on 1 and ${sizes.threads.threads} threads`);
   const threads = await benchThreads(sizes.threads);
   log(`field-form MOND: grid ${sizes.qumond.grids.join(', ')} at N = ${sizes.qumond.sizes.join(', ')}`);
   const qumond = benchQumond(sizes.qumond);
@@ -121,7 +121,11 @@ export function toTable(r: BenchReport): string {
     rows.push(['threads: speed-up', `${fmt(t.speedup)}x`, '>= 1.7x', mark(t.speedup >= 1.7)]);
     rows.push([`threads: ${t.treeN}-particle tree run, ${t.treeSteps} steps, 1 -> ${t.threads} threads`, `${fmt(t.treeSingleSeconds)} s -> ${fmt(t.treeSplitSeconds)} s`, t.treeIdentical ? 'bit-identical' : 'RESULTS DIFFER', mark(t.treeIdentical)]);
     rows.push(['threads: tree speed-up', `${fmt(t.treeSpeedup)}x`, '>= 1.7x', mark(t.treeSpeedup >= 1.7)]);
+    rows.push([`threads: ${t.gridN}-particle field-form MOND run, grid ${t.grid}^3, ${t.gridSteps} steps, 1 -> ${t.threads} threads`, `${fmt(t.gridSingleSeconds)} s -> ${fmt(t.gridSplitSeconds)} s`, t.gridIdentical ? 'bit-identical' : 'RESULTS DIFFER', mark(t.gridIdentical)]);
+    rows.push(['threads: field-form grid speed-up', `${fmt(t.gridSpeedup)}x`, '>= 1.6x', mark(t.gridSpeedup >= 1.6)]);
     rows.push([`threads: plain loop on ${t.threads} threads, same moment`, `${fmt(t.machineSpeedup)}x`, 'the most this machine gave', '']);
+    const cpu = (v: number | null) => (v === null ? 'n/a' : `${fmt(v)}x`);
+    rows.push(['threads: CPU-time speed-ups, direct / tree / field-form grid', `${cpu(t.cpuSpeedup)} / ${cpu(t.treeCpuSpeedup)} / ${cpu(t.gridCpuSpeedup)}`, 'one thread\'s CPU time over the busiest split thread\'s', '']);
   }
   for (const f of r.qumond ?? []) {
     rows.push([`field-form MOND grid=${f.grid}^3 N=${f.n}: ms per force evaluation`, fmt(f.msPerEval), `pair sum alone (tree, theta 0.7): ${fmt(f.pairMsPerEval)} ms`, '']);

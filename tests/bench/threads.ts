@@ -1,8 +1,9 @@
-// Threads: one large direct-sum run and one large tree run through the worker's
-// pool, each alone on one thread and then split across two, with the results
-// compared bit for bit.
+// Threads: one large direct-sum run, one large tree run and one field-form MOND
+// run through the worker's pool, each alone on one thread and then split across
+// two, with the results compared bit for bit.
 // Each is timed several times, alternating, and the fastest counts: on a shared
 // machine the slow timings measure the neighbours (common benchmarking practice).
+import fs from 'node:fs';
 import { Worker } from 'node:worker_threads';
 import { RunPool, SPLIT_MIN_PARTICLES } from '../../worker/pool';
 import type { RunResult } from '../../shared/engine';
@@ -36,6 +37,23 @@ export interface ThreadFigures {
   treeSpeedup: number;
   treeHelperChunks: number;
   treeIdentical: boolean;
+  /** The same for a field-form MOND run (direct pair sum) of gridN particles on a grid of `grid` nodes a side, where the grid's passes take most of the time. */
+  gridN: number;
+  grid: 32 | 64 | 128;
+  gridSteps: number;
+  gridSingleSeconds: number;
+  gridSplitSeconds: number;
+  gridSpeedup: number;
+  gridHelperChunks: number;
+  gridIdentical: boolean;
+  /**
+   * CPU time of the one-thread run over that of the busiest thread of the split run (Linux only,
+   * from each thread's counters; null elsewhere): the speed-up two free cores would give if the
+   * threads never waited on each other, whatever else the machine is doing meanwhile.
+   */
+  cpuSpeedup: number | null;
+  treeCpuSpeedup: number | null;
+  gridCpuSpeedup: number | null;
 }
 
 interface Split {
@@ -44,6 +62,23 @@ interface Split {
   speedup: number;
   helperChunks: number;
   identical: boolean;
+  cpuSpeedup: number | null;
+}
+
+/** CPU seconds so far of each thread of this process (the pool's threads are among them); null without /proc. */
+function threadCpuSeconds(): Map<string, number> | null {
+  const hz = 100; // the kernel's USER_HZ on Linux
+  try {
+    const m = new Map<string, number>();
+    for (const task of fs.readdirSync('/proc/self/task')) {
+      const stat = fs.readFileSync(`/proc/self/task/${task}/stat`, 'utf8');
+      const fields = stat.slice(stat.lastIndexOf(')') + 2).split(' ');
+      m.set(task, (Number(fields[11]) + Number(fields[12])) / hz); // utime + stime
+    }
+    return m;
+  } catch {
+    return null;
+  }
 }
 
 // A fixed amount of arithmetic, the same in every thread; as source text so it runs without a loader,
@@ -73,12 +108,16 @@ async function warmUp(pool: RunPool, spec: RunSpec): Promise<void> {
   await warm.helped;
 }
 
-async function timedRun(pool: RunPool, spec: RunSpec): Promise<{ seconds: number; result: RunResult; helped: number }> {
+async function timedRun(pool: RunPool, spec: RunSpec): Promise<{ seconds: number; result: RunResult; helped: number; cpu: { total: number; busiest: number } | null }> {
+  const before = threadCpuSeconds();
   const t = performance.now();
   const handle = pool.start(spec, () => undefined);
   const result = await handle.result;
   const seconds = (performance.now() - t) / 1000;
-  return { seconds, result, helped: await handle.helped };
+  const after = threadCpuSeconds();
+  const used = before && after ? [...after].map(([task, s]) => s - (before.get(task) ?? 0)) : null;
+  const cpu = used ? { total: used.reduce((a, b) => a + b, 0), busiest: Math.max(...used) } : null;
+  return { seconds, result, helped: await handle.helped, cpu };
 }
 
 function sameResults(a: RunResult, b: RunResult): boolean {
@@ -105,10 +144,11 @@ async function compare(single: RunPool, split: RunPool, spec: RunSpec, warm: Run
     speedup: singleSeconds / splitSeconds,
     helperChunks: Math.min(...manys.map((m) => m.helped)),
     identical: manys.every((m) => sameResults(ones[0].result, m.result)) && ones.every((o) => sameResults(ones[0].result, o.result)),
+    cpuSpeedup: ones.every((o) => o.cpu) && manys.every((m) => m.cpu) ? Math.min(...ones.map((o) => o.cpu!.total)) / Math.min(...manys.map((m) => m.cpu!.busiest)) : null,
   };
 }
 
-export async function benchThreads({ n = 6_000, steps = 40, treeN = 20_000, treeSteps = 4, threads = 2, spinIterations = 2e8, repeats = 3 } = {}): Promise<ThreadFigures> {
+export async function benchThreads({ n = 6_000, steps = 40, treeN = 20_000, treeSteps = 4, gridN = 2_000, grid = 64 as ThreadFigures['grid'], gridSteps = 6, threads = 2, spinIterations = 2e8, repeats = 3 } = {}): Promise<ThreadFigures> {
   const capacity = await machineSpeedup(threads, spinIterations);
   const single = new RunPool(1);
   const split = new RunPool(threads);
@@ -116,6 +156,8 @@ export async function benchThreads({ n = 6_000, steps = 40, treeN = 20_000, tree
   try {
     const d = await compare(single, split, plummerRun(n, steps), plummerRun(Math.max(n, SPLIT_MIN_PARTICLES), 2), repeats);
     const t = await compare(single, split, plummerRun(treeN, treeSteps, tree), plummerRun(Math.max(treeN, SPLIT_MIN_PARTICLES), 1, tree), repeats);
+    const qumond = { law: { kind: 'qumond' as const, interpolation: 'simple' as const, a0_m_s2: 1.2e-10, grid } };
+    const g = await compare(single, split, plummerRun(gridN, gridSteps, qumond), plummerRun(gridN, 1, qumond), repeats);
     return {
       n,
       steps,
@@ -130,6 +172,16 @@ export async function benchThreads({ n = 6_000, steps = 40, treeN = 20_000, tree
       treeSpeedup: t.speedup,
       treeHelperChunks: t.helperChunks,
       treeIdentical: t.identical,
+      gridN,
+      grid,
+      gridSteps,
+      gridSingleSeconds: g.singleSeconds,
+      gridSplitSeconds: g.splitSeconds,
+      gridSpeedup: g.speedup,
+      gridHelperChunks: g.helperChunks,
+      gridIdentical: g.identical,
+      treeCpuSpeedup: t.cpuSpeedup,
+      gridCpuSpeedup: g.cpuSpeedup,
     };
   } finally {
     await Promise.all([single.close(), split.close()]);

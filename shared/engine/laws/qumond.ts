@@ -1,7 +1,7 @@
 import { z } from 'zod';
 import {
-  allocateGridVectors, depositMass, divergence, interpolateVectors, IsolatedPoisson, negativeGradient,
-  type GridGeometry, type GridVectors,
+  depositMass, divergenceLines, KERNEL_PASSES, interpolateVectorsCubic, IsolatedPoisson, kernelLength, negativeGradientLines, nodeLines, poissonWorkLength,
+  type GridGeometry, type GridThreads, type GridVectors,
 } from '../solvers/grid';
 import { newtonKernel } from './newton';
 import type { Points, Sources } from '../state';
@@ -15,8 +15,12 @@ const { hypot, log10, sqrt } = Math;
 
 const fieldComponent = z.number().min(-1e-8).max(1e-8);
 
-/** Node counts per side the grid offers: powers of two (the FFT needs them); 256 would need about 1.6 GB. */
-export const QUMOND_GRID_SIZES = [32, 64, 128] as const;
+/**
+ * Node counts per side the grid offers: powers of two (the FFT needs them). The quota's cost
+ * estimate counts the grid (gridInteractions in shared/spec/runSpec.ts), so 256 fits only the
+ * larger daily budgets; it also needs 1.9 GB of memory per run (see phantomGridLengths).
+ */
+export const QUMOND_GRID_SIZES = [32, 64, 128, 256] as const;
 
 const schema = z
   .object({
@@ -31,7 +35,7 @@ const schema = z
     grid: z
       .literal(QUMOND_GRID_SIZES)
       .default(64)
-      .describe('grid nodes per side for the phantom field')
+      .describe('grid nodes per side for the phantom field; memory per run about 30 MB at 64, 240 MB at 128, 1.9 GB at 256, and the quota counts the grid\'s work')
       .meta({ title: 'Grid nodes per side', optionLabels: Object.fromEntries(QUMOND_GRID_SIZES.map((g) => [g, `${g}³`])) }),
     box_kpc: z
       .number()
@@ -61,7 +65,7 @@ const info = (p: QumondParams): LawInfo => ({
   validity:
     'The field equations of MOND in their quasi-linear form, for any geometry inside the grid box. The phantom part is smoothed on the grid spacing (box / (grid - 1)); particles outside the ball inscribed in the grid get the algebraic form instead. A constant external field stands for a distant host; tides are not included.',
   notes:
-    'Newtonian part from the pairwise sum (exact momentum balance with the direct solver), phantom part from two isolated FFT Poisson solves on the grid. The grid part\'s small net force is removed each evaluation, so total momentum is conserved. Energy (QUMOND has a potential) is the pair energy plus the grid\'s phantom energy; its drift includes grid error. Angular momentum is not exactly conserved on a cubic grid.',
+    'Newtonian part from the pairwise sum (exact momentum balance with the direct solver), phantom part from two isolated FFT Poisson solves on the grid. The grid part\'s small net force is removed each evaluation, so total momentum is conserved. Energy (QUMOND has a potential) is the pair energy plus the grid\'s phantom energy; its drift includes grid error. Angular momentum is not exactly conserved on a cubic grid. Accuracy, measured on a resolved sphere: within 1% of the algebraic form (which it equals in spherical symmetry) from 3 grid cells from the centre, within 3% at 2 cells; around a mass smaller than a cell, within 1% from 8 cells only.',
 });
 
 // --- Phantom energy density ------------------------------------------------
@@ -154,6 +158,14 @@ export function qumondGridNotes(params: QumondParams, initial: Sources, halfMass
       source: 'this engine (tests/engine/qumond.test.ts)',
     });
   }
+  if (params.grid >= 256) {
+    notes.push({
+      code: 'grid-large',
+      severity: 'info',
+      message: `a ${params.grid}^3 grid holds about ${(phantomGridBytes(params.grid) / 1e9).toFixed(1)} GB while the run computes, and one force evaluation takes about 30 s on one thread of the reference machine (14 s per grid solve, two per evaluation); 128 takes 240 MB and under 4 s`,
+      source: 'this engine (README, field-form MOND: cost)',
+    });
+  }
   let outside = 0;
   for (let i = 0; i < initial.m.length; i++) {
     if (hypot(initial.x[i] - box.cx, initial.y[i] - box.cy, initial.z[i] - box.cz) > ballRadius_kpc) outside++;
@@ -170,6 +182,44 @@ export function qumondGridNotes(params: QumondParams, initial: Sources, halfMass
 }
 
 /**
+ * The second solve divides out the square root of the cloud-in-cell window (power 1/2; the first
+ * solve divides out the whole window, undoing the deposit). With the tricubic interpolation that
+ * follows, our own choice, measured (tests/engine/qumond.test.ts, diskFieldForm.test.ts): for a
+ * resolved sphere it keeps the field within 1% of the algebraic form from 3 cells (power 0: 1.8%
+ * at 3 cells; power 1: within 1% there and 1.6% at 2 cells), and a thin disk balanced in the law's
+ * field keeps its radii within 5% over a period (power 1: 5.3%, the grid's field then rings across the disk).
+ */
+const PHANTOM_WINDOW_POWER = 0.5;
+
+/** What any thread needs to build its view of a run's phantom grid: plain data. */
+export interface PhantomSetup {
+  params: QumondParams;
+  box: { side_kpc: number; cx: number; cy: number; cz: number };
+  softening_kpc: number;
+}
+
+/**
+ * Lengths of a phantom grid's working arrays: node masses, potential, g_N (x, y, z), g_P (x, y, z),
+ * the Poisson work array, the plain kernel's transform and, with softening, the softened one.
+ * In bytes, with softening: 30 MB at 64 nodes a side, 240 MB at 128, 1.9 GB at 256 (measured).
+ */
+export function phantomGridLengths({ params, softening_kpc }: PhantomSetup): number[] {
+  const n = params.grid, nodes = n * n * n;
+  return [...Array(8).fill(nodes), poissonWorkLength(n), kernelLength(n), ...(softening_kpc > 0 ? [kernelLength(n)] : [])];
+}
+
+/** Bytes of a grid's working arrays, with softening. */
+const phantomGridBytes = (n: number): number => 8 * phantomGridLengths({ params: { grid: n } as QumondParams, box: { side_kpc: 1, cx: 0, cy: 0, cz: 0 }, softening_kpc: 1 }).reduce((a, b) => a + b, 0);
+
+/**
+ * The passes of a grid evaluation, a barrier after each: the first Poisson solve (5 passes), g_N by
+ * differences, the bracket, its divergence into phantom mass, the second solve (5 passes), g_P;
+ * `energy` sums the phantom energy density line by line after the first three steps. The kernels'
+ * transforms (5 passes each) are made once, when the grid is set up.
+ */
+const PASS = { softSolve: 0, gradientN: 5, bracket: 6, divergence: 7, plainSolve: 8, gradientP: 13, energy: 14, plainKernel: 15, softKernel: 20, end: 25 } as const;
+
+/**
  * How the field is split: the Newtonian field g_N comes from the run's pair
  * solver (direct or tree), exact down to the softening length. The grid
  * supplies only the phantom field g_P = g - g_N, which obeys
@@ -180,12 +230,17 @@ export function qumondGridNotes(params: QumondParams, initial: Sources, halfMass
  * zero-padded solve suits it. Steps per evaluation: cloud-in-cell deposit,
  * Poisson solve for the grid's Phi_N, g_N by differences, the bracket and its
  * divergence, a second Poisson solve for Phi_P, g_P by differences, and
- * cloud-in-cell interpolation to the targets.
+ * tricubic interpolation to the targets. In the core of a sphere g_P bends on
+ * the scale of a cell (it goes as sqrt(r) in deep MOND), and cloud-in-cell
+ * interpolation flattened it (5.4% at 2 cells from the centre, 1% reached
+ * only from 6); tricubic weights keep it within 3% at 2 cells and 1% from 3
+ * (measured, tests/engine/qumond.test.ts). The net force left is removed below.
  */
-class PhantomGrid {
+export class PhantomGrid {
   readonly geo: GridGeometry;
   private readonly poisson: IsolatedPoisson;
-  /** The pair sum's softening on the grid, so the phantom part follows the same softened g_N. */
+  /** Transform of the plain kernel, and of the pair sum's softening on the grid so the phantom part follows the same softened g_N. */
+  private readonly plain: Float64Array;
   private readonly softened: Float64Array;
   private readonly mass: Float64Array;
   private readonly phi: Float64Array;
@@ -196,38 +251,98 @@ class PhantomGrid {
   private readonly a0: number;
   private readonly ge: [number, number, number];
   private readonly nuE: number;
+  private readonly p: QumondParams;
+  /** The pair sum's softening in node spacings. */
+  private readonly softening: number;
 
-  constructor(private readonly p: QumondParams, box: { side_kpc: number; cx: number; cy: number; cz: number }, softening_kpc: number) {
+  /**
+   * The grid of a run, in the run's thread: its working arrays come from `threads` when they
+   * have room (and its passes are then shared with them), else from this thread.
+   */
+  static create(setup: PhantomSetup, threads?: GridThreads): PhantomGrid {
+    const shared = threads?.open(setup, phantomGridLengths(setup));
+    return new PhantomGrid(setup, shared ?? phantomGridLengths(setup).map((l) => new Float64Array(l)), shared ? threads : undefined, true);
+  }
+
+  /** Another thread's view of a grid whose run thread published `setup` and filled `arrays` (kernels included). */
+  static view(setup: PhantomSetup, arrays: Float64Array[]): PhantomGrid {
+    return new PhantomGrid(setup, arrays, undefined, false);
+  }
+
+  private constructor(setup: PhantomSetup, arrays: Float64Array[], private readonly threads: GridThreads | undefined, fillKernels: boolean) {
+    const { params: p, box, softening_kpc } = setup;
     const n = p.grid;
     const h = box.side_kpc / (n - 1);
+    this.p = p;
     this.geo = { n, h, x0: box.cx - box.side_kpc / 2, y0: box.cy - box.side_kpc / 2, z0: box.cz - box.side_kpc / 2 };
-    this.poisson = new IsolatedPoisson(n);
-    this.softened = softening_kpc > 0 ? this.poisson.kernel(softening_kpc / h) : this.poisson.plain;
-    this.mass = new Float64Array(n * n * n);
-    this.phi = new Float64Array(n * n * n);
-    this.gN = allocateGridVectors(n);
-    this.gP = allocateGridVectors(n);
+    const [mass, phi, gNx, gNy, gNz, gPx, gPy, gPz, work, plain, softened] = arrays;
+    this.mass = mass; this.phi = phi;
+    this.gN = { x: gNx, y: gNy, z: gNz };
+    this.gP = { x: gPx, y: gPy, z: gPz };
+    this.poisson = new IsolatedPoisson(n, work);
+    this.plain = plain;
+    this.softened = softened ?? plain;
+    this.softening = softening_kpc / h;
     this.a0 = accelFromSI(p.a0_m_s2);
     const e = p.externalField_m_s2 ?? [0, 0, 0];
     this.ge = [accelFromSI(e[0]), accelFromSI(e[1]), accelFromSI(e[2])];
     const geMag = hypot(...this.ge);
     this.nuE = geMag > 0 ? mondNu(p.interpolation, geMag / this.a0) : 1;
+    if (fillKernels) {
+      for (let k = 0; k < KERNEL_PASSES; k++) this.run(PASS.plainKernel + k);
+      if (softened) for (let k = 0; k < KERNEL_PASSES; k++) this.run(PASS.softKernel + k);
+    }
+  }
+
+  /** Units of a pass: lines of a transform or lines of nodes. */
+  private count(pass: number): number {
+    if (pass >= PASS.plainKernel) return (this.geo.n + 1) ** 2;
+    if (pass < PASS.gradientN) return this.poisson.lines(pass - PASS.softSolve);
+    if (pass >= PASS.plainSolve && pass < PASS.gradientP) return this.poisson.lines(pass - PASS.plainSolve);
+    return nodeLines(this.geo);
+  }
+
+  /** Runs a whole pass, across the threads when there are any. */
+  private run(pass: number): void {
+    const count = this.count(pass);
+    if (this.threads) this.threads.run(pass, count);
+    else this.range(pass, 0, count);
+  }
+
+  /** Units [from, to) of a pass (see PASS); whichever thread computes a unit, it gets the same bits. */
+  range(pass: number, from: number, to: number): void {
+    const { geo, mass, phi } = this;
+    if (pass < PASS.gradientN) this.poisson.pass(pass - PASS.softSolve, mass, geo.h, phi, this.softened, from, to);
+    else if (pass === PASS.gradientN) negativeGradientLines(geo, phi, this.gN, from, to);
+    else if (pass === PASS.bracket) this.bracketLines(from, to);
+    else if (pass === PASS.divergence) this.phantomMassLines(from, to);
+    else if (pass < PASS.gradientP) this.poisson.pass(pass - PASS.plainSolve, mass, geo.h, phi, this.plain, from, to);
+    else if (pass === PASS.gradientP) negativeGradientLines(geo, phi, this.gP, from, to);
+    else if (pass === PASS.energy) this.energyLines(from, to);
+    else if (pass < PASS.softKernel) this.poisson.kernelPass(pass - PASS.plainKernel, 0, PHANTOM_WINDOW_POWER, this.plain, from, to);
+    else if (pass < PASS.end) this.poisson.kernelPass(pass - PASS.softKernel, this.softening, 1, this.softened, from, to);
+    else throw new Error(`no grid pass ${pass}`);
   }
 
   /** Grid g_N from the sources; `inside` flags the sources that lie in the grid. */
   newtonian(src: Sources, inside: Uint8Array): void {
     depositMass(this.geo, src, this.mass, inside);
-    this.poisson.potential(this.mass, this.geo.h, this.phi, this.softened);
-    negativeGradient(this.geo, this.phi, this.gN);
+    for (let pass = PASS.softSolve; pass <= PASS.gradientN; pass++) this.run(pass);
   }
 
   /** Phantom field at the nodes from the sources. */
   solve(src: Sources, inside: Uint8Array): void {
     this.newtonian(src, inside);
+    for (let pass = PASS.bracket; pass <= PASS.gradientP; pass++) this.run(pass);
+  }
+
+  /** The bracket w of the phantom source, formed in place of g_N, node by node. */
+  private bracketLines(from: number, to: number): void {
     const { gN, a0, ge, nuE, p } = this;
-    const w = gN; // formed in place, node by node
+    const w = gN;
     const [ex, ey, ez] = ge;
-    for (let q = 0; q < gN.x.length; q++) {
+    const n = this.geo.n;
+    for (let q = from * n; q < to * n; q++) {
       const gx = gN.x[q] + ex, gy = gN.y[q] + ey, gz = gN.z[q] + ez;
       const g = sqrt(gx * gx + gy * gy + gz * gz);
       // (nu - 1) g -> sqrt(a0 g) -> 0 as g -> 0, so a null field contributes nothing.
@@ -236,34 +351,50 @@ class PhantomGrid {
       w.y[q] = f * gy - (nuE - 1) * ey;
       w.z[q] = f * gz - (nuE - 1) * ez;
     }
-    // lap Phi_P = -div w, i.e. a phantom mass -div(w) h^3 / (4 pi G) per node.
+  }
+
+  /** lap Phi_P = -div w, i.e. a phantom mass -div(w) h^3 / (4 pi G) per node, into the mass array. */
+  private phantomMassLines(from: number, to: number): void {
     const source = this.mass;
-    divergence(this.geo, w, source);
+    divergenceLines(this.geo, this.gN, source, from, to);
     const toMass = -(this.geo.h ** 3) / (4 * Math.PI * G);
     // Phantom mass only inside the ball: what a sphere leaves out acts on no point within it
     // when it is spherically distributed, as it is far from any bound system; a cube's corners would not.
     const { n } = this.geo, c = (n - 1) / 2, r2Max = (c - 1) * (c - 1);
-    for (let i = 0, q = 0; i < n; i++) for (let j = 0; j < n; j++) for (let k = 0; k < n; k++, q++) {
-      const r2 = (i - c) * (i - c) + (j - c) * (j - c) + (k - c) * (k - c);
-      source[q] = r2 <= r2Max ? source[q] * toMass : 0;
+    for (let line = from; line < to; line++) {
+      const i = Math.floor(line / n), j = line - i * n;
+      for (let k = 0, q = line * n; k < n; k++, q++) {
+        const r2 = (i - c) * (i - c) + (j - c) * (j - c) + (k - c) * (k - c);
+        source[q] = r2 <= r2Max ? source[q] * toMass : 0;
+      }
     }
-    this.poisson.potential(source, this.geo.h, this.phi);
-    negativeGradient(this.geo, this.phi, this.gP);
   }
 
   /** The phantom part of the QUMOND energy, -(a0^2 / 8 pi G) sum h^3 [P(|g|/a0) - P(|g_e|/a0) - 2 (nu_e - 1) g_e.g_N / a0^2]. */
   phantomEnergy(src: Sources, inside: Uint8Array): number {
     this.newtonian(src, inside);
+    this.run(PASS.energy);
+    // Summed line by line in order, so the total does not depend on how the lines were shared.
+    let sum = 0;
+    for (let line = 0, lines = nodeLines(this.geo); line < lines; line++) sum += this.phi[line];
+    return (-(this.a0 * this.a0) / (8 * Math.PI * G)) * this.geo.h ** 3 * sum;
+  }
+
+  /** Each line's sum of the bracket of `phantomEnergy`, into phi[line] (phi is free once g_N is formed). */
+  private energyLines(from: number, to: number): void {
     const { gN, a0, ge, nuE, p } = this;
     const [ex, ey, ez] = ge;
     const pE = phantomEnergyDensity(p.interpolation, hypot(ex, ey, ez) / a0);
-    let sum = 0;
-    for (let q = 0; q < gN.x.length; q++) {
-      const gx = gN.x[q], gy = gN.y[q], gz = gN.z[q];
-      const y = hypot(gx + ex, gy + ey, gz + ez) / a0;
-      sum += phantomEnergyDensity(p.interpolation, y) - pE - (2 * (nuE - 1) * (ex * gx + ey * gy + ez * gz)) / (a0 * a0);
+    const n = this.geo.n;
+    for (let line = from; line < to; line++) {
+      let sum = 0;
+      for (let q = line * n; q < (line + 1) * n; q++) {
+        const gx = gN.x[q], gy = gN.y[q], gz = gN.z[q];
+        const y = hypot(gx + ex, gy + ey, gz + ez) / a0;
+        sum += phantomEnergyDensity(p.interpolation, y) - pE - (2 * (nuE - 1) * (ex * gx + ey * gy + ez * gz)) / (a0 * a0);
+      }
+      this.phi[line] = sum;
     }
-    return (-(a0 * a0) / (8 * Math.PI * G)) * this.geo.h ** 3 * sum;
   }
 
   /** Whether a point lies in the ball where the phantom field is solved. */
@@ -334,7 +465,7 @@ export const qumondLaw = defineLaw({
     let grid: PhantomGrid | undefined;
     // The box is fixed once, from the run's initial particles when known, so a resumed run uses the same grid.
     const gridFor = (src: Sources): PhantomGrid => {
-      grid ??= new PhantomGrid(params, gridGeometryFor(params, initial ?? src).box, softening_kpc);
+      grid ??= PhantomGrid.create({ params, box: gridGeometryFor(params, initial ?? src).box, softening_kpc }, solver.gridThreads);
       return grid;
     };
     const atSources = scratchVectors();
@@ -347,7 +478,7 @@ export const qumondLaw = defineLaw({
         const g = gridFor(sources);
         const s = atSources(sources.m.length);
         g.solve(sources, s.inside);
-        interpolateVectors(g.geo, g.gP, sources, s.x, s.y, s.z, s.inside);
+        interpolateVectorsCubic(g.geo, g.gP, sources, s.x, s.y, s.z, s.inside);
         for (let i = 0; i < sources.m.length; i++) if (s.inside[i] && !g.inBall(sources.x[i], sources.y[i], sources.z[i])) s.inside[i] = 0;
         // The discrete phantom field leaves a small net force on the particles in the grid;
         // continuum QUMOND exerts none on an isolated system (Milgrom 2010), so it is
@@ -362,7 +493,7 @@ export const qumondLaw = defineLaw({
         if (M > 0) { fx /= M; fy /= M; fz /= M; }
         const t = (targets as Points) === sources ? s : atTargets(targets.x.length);
         if (t !== s) {
-          interpolateVectors(g.geo, g.gP, targets, t.x, t.y, t.z, t.inside);
+          interpolateVectorsCubic(g.geo, g.gP, targets, t.x, t.y, t.z, t.inside);
           for (let i = 0; i < targets.x.length; i++) if (t.inside[i] && !g.inBall(targets.x[i], targets.y[i], targets.z[i])) t.inside[i] = 0;
         }
         for (let i = 0; i < targets.x.length; i++) {

@@ -1,4 +1,5 @@
 import type { Accelerations, Points, Sources } from '../state';
+import type { GridThreads } from './grid';
 
 /**
  * One pair interaction as plain data, so it crosses to worker threads as it is:
@@ -120,4 +121,6 @@ export interface FieldSolver {
   field(sources: Sources, targets: Points, kernel: PairKernel, out: Accelerations): void;
   /** Pair potential per unit mass, (km/s)^2. */
   potential(sources: Sources, targets: Points, kernel: PairKernel, out: Float64Array): void;
+  /** Threads that also share a law's grid work (the worker's split solver lends its helpers). */
+  readonly gridThreads?: GridThreads;
 }
