@@ -46,6 +46,12 @@ export interface Octree {
    * split across threads by.
    */
   groups: Int32Array;
+  /**
+   * Tells this tree's contents from another's in the same arrays (a tree rebuilt in
+   * shared memory): a kernel that copies a tree elsewhere copies it again when the
+   * arrays or the stamp differ.
+   */
+  stamp: number;
 }
 
 /** Layout of one cell in Octree.cells and Octree.links. */
@@ -63,6 +69,9 @@ const FIRST_CHILD = 0, CHILD_COUNT = 1, FIRST_SLOT = 2, SLOT_COUNT = 3;
  * (our own measurement, CPU time at 8e3 and 3e4 particles).
  */
 const FEW = 2;
+
+/** Trees built in this thread so far: each new tree's stamp. */
+let builds = 0;
 
 export function buildOctree(src: Sources): Octree {
   const n = src.m.length;
@@ -171,7 +180,7 @@ export function buildOctree(src: Sources): Octree {
     const i = order[s];
     sorted.x[s] = x[i]; sorted.y[s] = y[i]; sorted.z[s] = z[i]; sorted.m[s] = m[i];
   }
-  return { nodes: links.length / LINK, cells: Float64Array.from(cells), links: Int32Array.from(links), order, sorted, groups: Int32Array.from(groups) };
+  return { nodes: links.length / LINK, cells: Float64Array.from(cells), links: Int32Array.from(links), order, sorted, groups: Int32Array.from(groups), stamp: ++builds };
 }
 
 const list = (): Float64Array => new Float64Array(256);
@@ -271,10 +280,13 @@ export const treeGroups = (t: Octree): number => t.groups.length / 2;
  * groups iStart..iEnd-1; other targets (probes) walk one by one over
  * iStart..iEnd. Either way each target's list depends only on the tree and
  * its group, so splitting ranges across threads gives identical results.
+ * `ownWalk(from, to)`, when given, may walk and sum a self-field group itself
+ * (returning true), with the same dependence on the tree and group alone.
  */
 function forEachWalk(
   tree: Octree, sources: Sources, targets: Points, theta: number, iStart: number, iEnd: number,
   each: (list: InteractionList, ids: Uint32Array | null, from: number, to: number) => void,
+  ownWalk?: (from: number, to: number) => boolean,
 ): void {
   const list = reusedList;
   const theta2 = theta * theta;
@@ -283,6 +295,7 @@ function forEachWalk(
     const { x, y, z } = tree.sorted;
     for (let k = iStart; k < iEnd; k++) {
       const s = groups[2 * k], e = s + groups[2 * k + 1];
+      if (ownWalk?.(s, e)) continue;
       let minX = Infinity, minY = Infinity, minZ = Infinity, maxX = -Infinity, maxY = -Infinity, maxZ = -Infinity;
       for (let q = s; q < e; q++) {
         minX = min(minX, x[q]); maxX = max(maxX, x[q]);
@@ -312,7 +325,10 @@ export function treeFieldRange(
   const acc = new Float64Array(6);
   const { x, y, z } = targets;
   const loops = loopsFor(kernel), eps2 = kernel.softening2_kpc2, p = kernel.params;
-  const two = loops.listPullTwo;
+  const two = loops.listPullTwo, group = loops.treeGroupField;
+  const theta2 = theta * theta;
+  // Where the kernel walks and sums whole groups itself (Newton in WebAssembly), it does.
+  const own = group && ((from: number, to: number) => group(tree, from, to, theta2, FEW, eps2, p, out));
   forEachWalk(tree, sources, targets, theta, iStart, iEnd, (list, ids, from, to) => {
     let q = from;
     // Where the kernel has a loop for it, targets two at a time: one pass over the list serves both.
@@ -330,7 +346,7 @@ export function treeFieldRange(
       loops.cellPull(list.cl, list.cellCount, xi, yi, zi, eps2, p, acc);
       out.ax[i] = G * acc[0]; out.ay[i] = G * acc[1]; out.az[i] = G * acc[2];
     }
-  });
+  }, own);
 }
 
 export function treePotentialRange(
