@@ -355,7 +355,9 @@ export function treePotentialRange(
   const { x, y, z } = targets;
   const acc = new Float64Array(2);
   const loops = loopsFor(kernel), eps2 = kernel.softening2_kpc2, p = kernel.params;
-  const two = loops.listPotentialTwo;
+  const two = loops.listPotentialTwo, group = loops.treeGroupPotential;
+  const theta2 = theta * theta;
+  const own = group && ((from: number, to: number) => group(tree, from, to, theta2, FEW, eps2, p, out));
   forEachWalk(tree, sources, targets, theta, iStart, iEnd, (list, ids, from, to) => {
     let q = from;
     for (; two && q + 1 < to; q += 2) {
@@ -369,7 +371,7 @@ export function treePotentialRange(
       out[i] = -G * (loops.potential(list.px, list.py, list.pz, list.pm, list.particles, xi, yi, zi, eps2, p)
         + loops.cellPotential(list.cl, list.cellCount, xi, yi, zi, eps2, p));
     }
-  });
+  }, own);
 }
 
 export function treeSolver(theta: number): FieldSolver {

@@ -16,6 +16,8 @@ interface Exports {
   heapBase(): number;
   groupField(cells: number, links: number, sx: number, sy: number, sz: number, sm: number, from: number, to: number,
     theta2: number, few: number, eps2: number, ox: number, oy: number, oz: number, stack: number, scratch: number, cellScratch: number): void;
+  groupPotential(cells: number, links: number, sx: number, sy: number, sz: number, sm: number, from: number, to: number,
+    theta2: number, few: number, eps2: number, o: number, stack: number, scratch: number, cellScratch: number): void;
 }
 
 const PAGE = 65536;
@@ -70,6 +72,16 @@ export class WasmTree {
     const [ox, oy, oz] = this.out;
     for (let k = 0, nt = to - from; k < nt; k++) if (!Number.isFinite(ox[k] + oy[k] + oz[k])) return null;
     return this.out;
+  }
+
+  /** The same walk's sum of m phi (the potential is -G times it): out[0..to - from), or null on overflow. */
+  groupPotential(tree: Octree, from: number, to: number, theta2: number, few: number, eps2: number): Float64Array | null {
+    this.hold(tree);
+    const a = this.at;
+    this.ex.groupPotential(a.cells, a.links, a.sx, a.sy, a.sz, a.sm, from, to, theta2, few, eps2, a.ox, a.stack, a.scratch, a.cellScratch);
+    const o = this.out[0];
+    for (let k = 0, nt = to - from; k < nt; k++) if (!Number.isFinite(o[k])) return null;
+    return o;
   }
 
   /** Copies the tree into memory unless it is there already. */

@@ -115,6 +115,8 @@ export interface PairLoops {
    * and sums the group with the loops above).
    */
   treeGroupField?(tree: Octree, from: number, to: number, theta2: number, few: number, eps2: number, p: readonly number[], out: Accelerations): boolean;
+  /** Optional: the same for the potential (per unit mass, G-scaled), written to out at tree.order[from..to-1]. */
+  treeGroupPotential?(tree: Octree, from: number, to: number, theta2: number, few: number, eps2: number, p: readonly number[], out: Float64Array): boolean;
   /** Optional: the same for the potential sums, a's into acc[0], b's into acc[1]. */
   listPotentialTwo?(list: GatheredList, xa: number, ya: number, za: number, xb: number, yb: number, zb: number, eps2: number, p: readonly number[], acc: Float64Array): void;
 }

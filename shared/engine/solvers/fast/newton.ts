@@ -146,6 +146,15 @@ export const newtonLoops: PairLoops = {
     return true;
   },
 
+  treeGroupPotential(tree, from, to, theta2, few, eps2, _p, out) {
+    const wasm = eps2 > 0 ? wasmTree() : null;
+    const sums = wasm?.groupPotential(tree, from, to, theta2, few, eps2);
+    if (!sums) return false;
+    const order = tree.order;
+    for (let q = from; q < to; q++) out[order[q]] = -G * sums[q - from];
+    return true;
+  },
+
   listPullTwo(list, xa, ya, za, xb, yb, zb, eps2, _p, acc) {
     const { px, py, pz, pm, cl } = list;
     let ax = 0, ay = 0, az = 0, bx = 0, by = 0, bz = 0;

@@ -25,15 +25,39 @@ const BLOCK: i32 = 32;
 const CELL_BYTES: usize = 128;
 const LINK_BYTES: usize = 16;
 
+/** What the last walk gathered: particles and cells. */
+let np: i32 = 0, nc: i32 = 0;
+/** The reference point of the last walk: the group's first target. */
+let rx: f64 = 0, ry: f64 = 0, rz: f64 = 0;
+
 /**
- * Walks the tree for the targets in tree slots [from, to) and writes their pull
- * (before the factor G) to o[0..to-from). `stack` has room for 8 x 49 int32,
- * `scratch` 16 bytes for every source and `cellScratch` 48 for every cell.
+ * Pull (before the factor G) at the targets in tree slots [from, to), to o[0..to-from).
+ * `stack` has room for 8 x 49 int32, `scratch` 16 bytes for every source and
+ * `cellScratch` 48 for every cell.
  */
 export function groupField(
   cells: usize, links: usize, sx: usize, sy: usize, sz: usize, sm: usize,
   from: i32, to: i32, theta2: f64, few: i32, eps2: f64,
   ox: usize, oy: usize, oz: usize, stack: usize, scratch: usize, cellScratch: usize,
+): void {
+  gather(cells, links, sx, sy, sz, sm, from, to, theta2, few, stack, scratch, cellScratch);
+  sumField(scratch, cellScratch, sx, sy, sz, from, to, eps2, ox, oy, oz);
+}
+
+/** Sum of m phi over the list (the potential is -G times it) at the targets in tree slots [from, to), to o[0..to-from); coincident slots skipped. */
+export function groupPotential(
+  cells: usize, links: usize, sx: usize, sy: usize, sz: usize, sm: usize,
+  from: i32, to: i32, theta2: f64, few: i32, eps2: f64,
+  o: usize, stack: usize, scratch: usize, cellScratch: usize,
+): void {
+  gather(cells, links, sx, sy, sz, sm, from, to, theta2, few, stack, scratch, cellScratch);
+  sumPotential(scratch, cellScratch, sx, sy, sz, from, to, eps2, o);
+}
+
+/** The walk: tree.ts's acceptance test, in its order; the list goes to the scratch as float32 records. */
+function gather(
+  cells: usize, links: usize, sx: usize, sy: usize, sz: usize, sm: usize,
+  from: i32, to: i32, theta2: f64, few: i32, stack: usize, P: usize, C: usize,
 ): void {
   let minX = Infinity, minY = Infinity, minZ = Infinity, maxX = -Infinity, maxY = -Infinity, maxZ = -Infinity;
   for (let q = from; q < to; q++) {
@@ -44,11 +68,10 @@ export function groupField(
     minZ = min(minZ, z); maxZ = max(maxZ, z);
   }
   const r0 = <usize>from << 3;
-  const rx = load<f64>(sx + r0), ry = load<f64>(sy + r0), rz = load<f64>(sz + r0);
+  rx = load<f64>(sx + r0); ry = load<f64>(sy + r0); rz = load<f64>(sz + r0);
   // Particles as float32 x, y, z, m (relative), 16 bytes each; cells as float32 centre of mass
-  // (relative), mass, six second moments and 1.5 times their trace, 48 bytes each.
-  const P = scratch, C = cellScratch;
-  let np: i32 = 0, nc: i32 = 0;
+  // (relative), mass, six second moments and their trace, 48 bytes each.
+  np = 0; nc = 0;
   let top: i32 = 0;
   store<i32>(stack, 0);
   top = 1;
@@ -71,7 +94,7 @@ export function groupField(
       const xx = load<f64>(c, 72), yy = load<f64>(c, 80), zz = load<f64>(c, 88);
       store<f32>(o, <f32>xx, 16); store<f32>(o, <f32>yy, 20); store<f32>(o, <f32>zz, 24);
       store<f32>(o, <f32>load<f64>(c, 96), 28); store<f32>(o, <f32>load<f64>(c, 104), 32); store<f32>(o, <f32>load<f64>(c, 112), 36);
-      store<f32>(o, <f32>(1.5 * (xx + yy + zz)), 40);
+      store<f32>(o, <f32>(xx + yy + zz), 40);
       nc++;
     } else if (accept || first < 0) {
       // An accepted cell of few particles, or an opened leaf: its particles.
@@ -91,23 +114,34 @@ export function groupField(
       }
     }
   }
-  sum(P, np, C, nc, sx, sy, sz, from, to, rx, ry, rz, eps2, ox, oy, oz);
 }
 
 /** Target slot i of a group [from, to) relative to the reference: the last target repeated past the end (its lanes are not written back). */
 // @ts-ignore: decorator
 @inline function lane(t: usize, i: i32, to: i32, r: f64): f32 { return <f32>(load<f64>(t + (<usize>min(i, to - 1) << 3)) - r); }
 
-function sum(
-  P: usize, np: i32, C: usize, nc: i32, tx: usize, ty: usize, tz: usize, from: i32, to: i32, rx: f64, ry: f64, rz: f64, eps2: f64,
-  ox: usize, oy: usize, oz: usize,
-): void {
-  const e = f(<f32>eps2), one = f(1), three = f(3), seven5 = f(7.5);
+/** Four targets' coordinates relative to the reference point, as a float32 vector. */
+// @ts-ignore: decorator
+@inline function targets(t: usize, i: i32, to: i32, r: f64): v128 {
+  let v = f(lane(t, i, to, r));
+  v = f32x4.replace_lane(v, 1, lane(t, i + 1, to, r));
+  v = f32x4.replace_lane(v, 2, lane(t, i + 2, to, r));
+  return f32x4.replace_lane(v, 3, lane(t, i + 3, to, r));
+}
+
+/** Writes the four float64 lanes of (lo, hi) for the targets left of a pass. */
+// @ts-ignore: decorator
+@inline function put(o: usize, lo: v128, hi: v128, left: i32): void {
+  store<f64>(o, f64x2.extract_lane(lo, 0));
+  if (left > 1) store<f64>(o, f64x2.extract_lane(lo, 1), 8);
+  if (left > 2) store<f64>(o, f64x2.extract_lane(hi, 0), 16);
+  if (left > 3) store<f64>(o, f64x2.extract_lane(hi, 1), 24);
+}
+
+function sumField(P: usize, C: usize, tx: usize, ty: usize, tz: usize, from: i32, to: i32, eps2: f64, ox: usize, oy: usize, oz: usize): void {
+  const e = f(<f32>eps2), one = f(1), three = f(3), seven5 = f(7.5), three2 = f(1.5);
   for (let i: i32 = from; i < to; i += 4) {
-    let xt = f(lane(tx, i, to, rx)), yt = f(lane(ty, i, to, ry)), zt = f(lane(tz, i, to, rz));
-    xt = f32x4.replace_lane(xt, 1, lane(tx, i + 1, to, rx)); xt = f32x4.replace_lane(xt, 2, lane(tx, i + 2, to, rx)); xt = f32x4.replace_lane(xt, 3, lane(tx, i + 3, to, rx));
-    yt = f32x4.replace_lane(yt, 1, lane(ty, i + 1, to, ry)); yt = f32x4.replace_lane(yt, 2, lane(ty, i + 2, to, ry)); yt = f32x4.replace_lane(yt, 3, lane(ty, i + 3, to, ry));
-    zt = f32x4.replace_lane(zt, 1, lane(tz, i + 1, to, rz)); zt = f32x4.replace_lane(zt, 2, lane(tz, i + 2, to, rz)); zt = f32x4.replace_lane(zt, 3, lane(tz, i + 3, to, rz));
+    const xt = targets(tx, i, to, rx), yt = targets(ty, i, to, ry), zt = targets(tz, i, to, rz);
     // float64 sums: lanes 0-1 and 2-3 of each component.
     let X0 = f64x2.splat(0), X1 = f64x2.splat(0), Y0 = f64x2.splat(0), Y1 = f64x2.splat(0), Z0 = f64x2.splat(0), Z1 = f64x2.splat(0);
     for (let j0: i32 = 0; j0 < np; j0 += BLOCK) {
@@ -143,7 +177,7 @@ function sum(
         // M / s^3 + 7.5 d.I.d / s^7 - 1.5 tr(I) / s^5, as in the JS loops (fast/newton.ts).
         const radial = f32x4.sub(
           f32x4.add(f32x4.mul(v128.load32_splat(o, 12), inv3), f32x4.mul(f32x4.mul(f32x4.mul(seven5, dId), inv5), inv2)),
-          f32x4.mul(v128.load32_splat(o, 40), inv5),
+          f32x4.mul(f32x4.mul(three2, v128.load32_splat(o, 40)), inv5),
         );
         const q = f32x4.mul(three, inv5);
         ax = f32x4.add(ax, f32x4.sub(f32x4.mul(radial, dx), f32x4.mul(q, Idx)));
@@ -155,11 +189,52 @@ function sum(
       Z0 = f64x2.add(Z0, f64x2.promote_low_f32x4(az)); Z1 = f64x2.add(Z1, high(az));
     }
     const b = <usize>(i - from) << 3;
-    const left = to - i;
-    store<f64>(ox + b, f64x2.extract_lane(X0, 0)); store<f64>(oy + b, f64x2.extract_lane(Y0, 0)); store<f64>(oz + b, f64x2.extract_lane(Z0, 0));
-    if (left > 1) { store<f64>(ox + b, f64x2.extract_lane(X0, 1), 8); store<f64>(oy + b, f64x2.extract_lane(Y0, 1), 8); store<f64>(oz + b, f64x2.extract_lane(Z0, 1), 8); }
-    if (left > 2) { store<f64>(ox + b, f64x2.extract_lane(X1, 0), 16); store<f64>(oy + b, f64x2.extract_lane(Y1, 0), 16); store<f64>(oz + b, f64x2.extract_lane(Z1, 0), 16); }
-    if (left > 3) { store<f64>(ox + b, f64x2.extract_lane(X1, 1), 24); store<f64>(oy + b, f64x2.extract_lane(Y1, 1), 24); store<f64>(oz + b, f64x2.extract_lane(Z1, 1), 24); }
+    put(ox + b, X0, X1, to - i); put(oy + b, Y0, Y1, to - i); put(oz + b, Z0, Z1, to - i);
+  }
+}
+
+function sumPotential(P: usize, C: usize, tx: usize, ty: usize, tz: usize, from: i32, to: i32, eps2: f64, o: usize): void {
+  const e = f(<f32>eps2), one = f(1), zero = f(0), half = f(0.5), three2 = f(1.5);
+  for (let i: i32 = from; i < to; i += 4) {
+    const xt = targets(tx, i, to, rx), yt = targets(ty, i, to, ry), zt = targets(tz, i, to, rz);
+    let S0 = f64x2.splat(0), S1 = f64x2.splat(0);
+    for (let j0: i32 = 0; j0 < np; j0 += BLOCK) {
+      const j1 = min(j0 + BLOCK, np);
+      let sp = f(0);
+      for (let j = j0; j < j1; j++) {
+        const o = P + (<usize>j << 4);
+        const dx = f32x4.sub(v128.load32_splat(o), xt), dy = f32x4.sub(v128.load32_splat(o, 4), yt), dz = f32x4.sub(v128.load32_splat(o, 8), zt);
+        const r2 = f32x4.add(f32x4.add(f32x4.mul(dx, dx), f32x4.mul(dy, dy)), f32x4.mul(dz, dz));
+        const term = f32x4.div(v128.load32_splat(o, 12), f32x4.sqrt(f32x4.add(r2, e)));
+        // A coincident slot (the target's own) adds nothing.
+        sp = f32x4.add(sp, v128.and(term, f32x4.ne(r2, zero)));
+      }
+      S0 = f64x2.add(S0, f64x2.promote_low_f32x4(sp)); S1 = f64x2.add(S1, high(sp));
+    }
+    for (let k0: i32 = 0; k0 < nc; k0 += BLOCK) {
+      const k1 = min(k0 + BLOCK, nc);
+      let sp = f(0);
+      for (let k = k0; k < k1; k++) {
+        const o = C + <usize>k * 48;
+        const dx = f32x4.sub(v128.load32_splat(o), xt), dy = f32x4.sub(v128.load32_splat(o, 4), yt), dz = f32x4.sub(v128.load32_splat(o, 8), zt);
+        const r2 = f32x4.add(f32x4.add(f32x4.add(f32x4.mul(dx, dx), f32x4.mul(dy, dy)), f32x4.mul(dz, dz)), e);
+        const inv = f32x4.div(one, f32x4.sqrt(r2));
+        const inv2 = f32x4.mul(inv, inv), inv3 = f32x4.mul(inv2, inv);
+        const Ixx = v128.load32_splat(o, 16), Iyy = v128.load32_splat(o, 20), Izz = v128.load32_splat(o, 24);
+        const Ixy = v128.load32_splat(o, 28), Ixz = v128.load32_splat(o, 32), Iyz = v128.load32_splat(o, 36);
+        const dId = f32x4.add(f32x4.add(
+          f32x4.mul(dx, f32x4.add(f32x4.add(f32x4.mul(Ixx, dx), f32x4.mul(Ixy, dy)), f32x4.mul(Ixz, dz))),
+          f32x4.mul(dy, f32x4.add(f32x4.add(f32x4.mul(Ixy, dx), f32x4.mul(Iyy, dy)), f32x4.mul(Iyz, dz)))),
+          f32x4.mul(dz, f32x4.add(f32x4.add(f32x4.mul(Ixz, dx), f32x4.mul(Iyz, dy)), f32x4.mul(Izz, dz))));
+        // M / s + 1.5 d.I.d / s^5 - 0.5 tr(I) / s^3, as in the JS loops (fast/newton.ts).
+        sp = f32x4.add(sp, f32x4.sub(
+          f32x4.add(f32x4.mul(v128.load32_splat(o, 12), inv), f32x4.mul(f32x4.mul(f32x4.mul(three2, dId), inv3), inv2)),
+          f32x4.mul(f32x4.mul(half, v128.load32_splat(o, 40)), inv3),
+        ));
+      }
+      S0 = f64x2.add(S0, f64x2.promote_low_f32x4(sp)); S1 = f64x2.add(S1, high(sp));
+    }
+    put(o + (<usize>(i - from) << 3), S0, S1, to - i);
   }
 }
 
