@@ -76,15 +76,21 @@ let builds = 0;
 export function buildOctree(src: Sources): Octree {
   const n = src.m.length;
   const { x, y, z, m } = src;
-  // Cells grow as plain number arrays (V8 keeps them unboxed) and become typed arrays at the end.
-  const cells: number[] = [];
-  const links: number[] = [];
+  // Cells go into typed arrays that double when full (a smooth distribution needs about 0.4 cells a particle).
+  let room = (n >> 1) + 64;
+  let cells = new Float64Array(CELL * room);
+  let links = new Int32Array(LINK * room);
+  let nodes = 0;
   const order = Uint32Array.from({ length: n }, (_, i) => i);
   const alloc = (): number => {
-    const k = links.length / LINK;
-    for (let q = 0; q < CELL; q++) cells.push(0);
-    links.push(-1, 0, 0, 0);
-    return k;
+    if (nodes === room) {
+      room *= 2;
+      const c = new Float64Array(CELL * room), l = new Int32Array(LINK * room);
+      c.set(cells); l.set(links);
+      cells = c; links = l;
+    }
+    links[LINK * nodes + FIRST_CHILD] = -1;
+    return nodes++;
   };
 
   let minX = Infinity, minY = Infinity, minZ = Infinity, maxX = -Infinity, maxY = -Infinity, maxZ = -Infinity;
@@ -180,7 +186,7 @@ export function buildOctree(src: Sources): Octree {
     const i = order[s];
     sorted.x[s] = x[i]; sorted.y[s] = y[i]; sorted.z[s] = z[i]; sorted.m[s] = m[i];
   }
-  return { nodes: links.length / LINK, cells: Float64Array.from(cells), links: Int32Array.from(links), order, sorted, groups: Int32Array.from(groups), stamp: ++builds };
+  return { nodes, cells: cells.subarray(0, CELL * nodes), links: links.subarray(0, LINK * nodes), order, sorted, groups: Int32Array.from(groups), stamp: ++builds };
 }
 
 const list = (): Float64Array => new Float64Array(256);
