@@ -18,7 +18,7 @@ export interface PureSizes {
 export const FULL_SIZES: PureSizes = {
   direct: { n: 4096, repeats: 7 },
   tree: { sizes: [1_000, 3_000, 10_000, 100_000, 300_000], thetas: [0.5, 0.7], sampleTargets: 1_000, repeats: 3 },
-  threads: { n: 6_000, steps: 25, treeN: 20_000, treeSteps: 4, threads: 2, spinIterations: 2e8, repeats: 3 },
+  threads: { n: 6_000, steps: 25, treeN: 20_000, treeSteps: 20, threads: 2, spinIterations: 2e8, repeats: 3 },
   qumond: { grids: [64, 128], sizes: [10_000, 100_000], repeats: 2 },
 };
 
@@ -121,6 +121,7 @@ export function toTable(r: BenchReport): string {
     rows.push(['threads: speed-up', `${fmt(t.speedup)}x`, '>= 1.7x', mark(t.speedup >= 1.7)]);
     rows.push([`threads: ${t.treeN}-particle tree run, ${t.treeSteps} steps, 1 -> ${t.threads} threads`, `${fmt(t.treeSingleSeconds)} s -> ${fmt(t.treeSplitSeconds)} s`, t.treeIdentical ? 'bit-identical' : 'RESULTS DIFFER', mark(t.treeIdentical)]);
     rows.push(['threads: tree speed-up', `${fmt(t.treeSpeedup)}x`, '>= 1.7x', mark(t.treeSpeedup >= 1.7)]);
+    rows.push([`threads: tree build (serial) share of one evaluation at N=${t.treeN}`, fmt(t.treeBuildShare), `bounds the evaluation's speed-up at ${fmt(t.treeSpeedupBound)}x`, '']);
     rows.push([`threads: plain loop on ${t.threads} threads, same moment`, `${fmt(t.machineSpeedup)}x`, 'the most this machine gave', '']);
   }
   for (const f of r.qumond ?? []) {
