@@ -86,7 +86,8 @@ export function buildOctree(src: Sources): Octree {
   let cells = new Float64Array(CELL * room);
   let links = new Int32Array(LINK * room);
   let nodes = 0;
-  const order = Uint32Array.from({ length: n }, (_, i) => i);
+  const order = new Uint32Array(n);
+  for (let i = 0; i < n; i++) order[i] = i;
   const alloc = (): number => {
     if (nodes === room) {
       room *= 2;
