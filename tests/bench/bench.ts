@@ -18,7 +18,7 @@ export interface PureSizes {
 export const FULL_SIZES: PureSizes = {
   direct: { n: 4096, repeats: 7 },
   tree: { sizes: [1_000, 3_000, 10_000, 100_000, 300_000], thetas: [0.5, 0.7], sampleTargets: 1_000, repeats: 3 },
-  threads: { n: 6_000, steps: 25, treeN: 20_000, treeSteps: 20, threads: 2, spinIterations: 2e8, repeats: 3 },
+  threads: { n: 6_000, steps: 25, treeN: 20_000, treeSteps: 40, threads: 2, spinIterations: 2e8, repeats: 3 },
   qumond: { grids: [64, 128], sizes: [10_000, 100_000], repeats: 2 },
 };
 

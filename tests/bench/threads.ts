@@ -138,7 +138,7 @@ function treeBuildShare(n: number): number {
   return build / (build + walk);
 }
 
-export async function benchThreads({ n = 6_000, steps = 40, treeN = 20_000, treeSteps = 20, threads = 2, spinIterations = 2e8, repeats = 3 } = {}): Promise<ThreadFigures> {
+export async function benchThreads({ n = 6_000, steps = 40, treeN = 20_000, treeSteps = 40, threads = 2, spinIterations = 2e8, repeats = 3 } = {}): Promise<ThreadFigures> {
   const capacity = await machineSpeedup(threads, spinIterations);
   const single = new RunPool(1);
   const split = new RunPool(threads);
