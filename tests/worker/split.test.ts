@@ -58,7 +58,8 @@ test('a force sum split with a helper thread equals the single-thread direct sum
 });
 
 test('split with the WebAssembly kernel in every thread, or a helper forced to JS, equals one thread of the JS kernel bit for bit', async () => {
-  const n = 1001;
+  // Rounds long enough (a few ms in WebAssembly) for a sleeping helper to wake and take a chunk on a busy machine.
+  const n = 3001;
   const p = plummerParticles(n);
   const kernel = newtonKernel(0.05);
   const want = allocateAccelerations(n);

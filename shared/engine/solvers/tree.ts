@@ -346,13 +346,14 @@ export const treeGroups = (t: Octree): number => t.groups.length / 2;
  * groups iStart..iEnd-1; other targets (probes) walk one by one over
  * iStart..iEnd. Either way each target's list depends only on the tree and
  * its group, so splitting ranges across threads gives identical results.
- * `ownWalk(from, to)`, when given, may walk and sum a self-field group itself
- * (returning true), with the same dependence on the tree and group alone.
+ * `ownWalk(targets, from, to)`, when given, may walk and sum a group itself
+ * (returning true): a self-field group (targets null) or one probe, with the
+ * same dependence on the tree and the group alone.
  */
 function forEachWalk(
   tree: Octree, sources: Sources, targets: Points, theta: number, iStart: number, iEnd: number,
   each: (list: InteractionList, ids: Uint32Array | null, from: number, to: number) => void,
-  ownWalk?: (from: number, to: number) => boolean,
+  ownWalk?: (targets: Points | null, from: number, to: number) => boolean,
 ): void {
   const list = reusedList;
   const theta2 = theta * theta;
@@ -361,7 +362,7 @@ function forEachWalk(
     const { x, y, z } = tree.sorted;
     for (let k = iStart; k < iEnd; k++) {
       const s = groups[2 * k], e = s + groups[2 * k + 1];
-      if (ownWalk?.(s, e)) continue;
+      if (ownWalk?.(null, s, e)) continue;
       let minX = Infinity, minY = Infinity, minZ = Infinity, maxX = -Infinity, maxY = -Infinity, maxZ = -Infinity;
       for (let q = s; q < e; q++) {
         minX = min(minX, x[q]); maxX = max(maxX, x[q]);
@@ -373,6 +374,7 @@ function forEachWalk(
     }
   } else {
     for (let i = iStart; i < iEnd; i++) {
+      if (ownWalk?.(targets, i, i + 1)) continue;
       const xi = targets.x[i], yi = targets.y[i], zi = targets.z[i];
       list.collect(tree, theta2, xi, yi, zi, xi, yi, zi);
       each(list, null, i, i + 1);
@@ -393,8 +395,8 @@ export function treeFieldRange(
   const loops = loopsFor(kernel), eps2 = kernel.softening2_kpc2, p = kernel.params;
   const two = loops.listPullTwo, group = loops.treeGroupField;
   const theta2 = theta * theta;
-  // Where the kernel walks and sums whole groups itself (Newton in WebAssembly), it does.
-  const own = group && ((from: number, to: number) => group(tree, from, to, theta2, FEW, eps2, p, out));
+  // Where the kernel walks and sums whole groups and probes itself (Newton in WebAssembly), it does.
+  const own = group && ((t: Points | null, from: number, to: number) => group(tree, t, from, to, theta2, FEW, eps2, p, out));
   forEachWalk(tree, sources, targets, theta, iStart, iEnd, (list, ids, from, to) => {
     let q = from;
     // Where the kernel has a loop for it, targets two at a time: one pass over the list serves both.
@@ -423,7 +425,7 @@ export function treePotentialRange(
   const loops = loopsFor(kernel), eps2 = kernel.softening2_kpc2, p = kernel.params;
   const two = loops.listPotentialTwo, group = loops.treeGroupPotential;
   const theta2 = theta * theta;
-  const own = group && ((from: number, to: number) => group(tree, from, to, theta2, FEW, eps2, p, out));
+  const own = group && ((t: Points | null, from: number, to: number) => group(tree, t, from, to, theta2, FEW, eps2, p, out));
   forEachWalk(tree, sources, targets, theta, iStart, iEnd, (list, ids, from, to) => {
     let q = from;
     for (; two && q + 1 < to; q += 2) {

@@ -108,15 +108,16 @@ export interface PairLoops {
   /** Optional: a whole gathered list (particles, then cells) at two targets in one pass; writes a's pull to acc[0..2], b's to acc[3..5]. */
   listPullTwo?(list: GatheredList, xa: number, ya: number, za: number, xb: number, yb: number, zb: number, eps2: number, p: readonly number[], acc: Float64Array): void;
   /**
-   * Optional: walks the tree for the self-field group in tree slots [from, to) with the
-   * tree's acceptance test (theta^2; accepted cells of at most `few` particles act
-   * through their particles) and writes the group's G-scaled pulls to out at
-   * tree.order[from..to-1]. Returns false where it cannot (the caller then walks
-   * and sums the group with the loops above).
+   * Optional: walks the tree for one group of targets with the tree's acceptance test
+   * (theta^2; accepted cells of at most `few` particles act through their particles)
+   * and writes their G-scaled pulls to out: with `targets` null, the self-field group
+   * in tree slots [from, to), at tree.order[from..to-1]; else the points targets[from..to-1],
+   * at from..to-1. Returns false where it cannot (the caller then walks and sums the
+   * group with the loops above).
    */
-  treeGroupField?(tree: Octree, from: number, to: number, theta2: number, few: number, eps2: number, p: readonly number[], out: Accelerations): boolean;
-  /** Optional: the same for the potential (per unit mass, G-scaled), written to out at tree.order[from..to-1]. */
-  treeGroupPotential?(tree: Octree, from: number, to: number, theta2: number, few: number, eps2: number, p: readonly number[], out: Float64Array): boolean;
+  treeGroupField?(tree: Octree, targets: Points | null, from: number, to: number, theta2: number, few: number, eps2: number, p: readonly number[], out: Accelerations): boolean;
+  /** Optional: the same for the potential (per unit mass, G-scaled). */
+  treeGroupPotential?(tree: Octree, targets: Points | null, from: number, to: number, theta2: number, few: number, eps2: number, p: readonly number[], out: Float64Array): boolean;
   /** Optional: the same for the potential sums, a's into acc[0], b's into acc[1]. */
   listPotentialTwo?(list: GatheredList, xa: number, ya: number, za: number, xb: number, yb: number, zb: number, eps2: number, p: readonly number[], acc: Float64Array): void;
 }

@@ -132,26 +132,26 @@ export const newtonLoops: PairLoops = {
   },
 
   // With eps > 0 only: a target's own slot must add exactly zero.
-  treeGroupField(tree, from, to, theta2, few, eps2, _p, out) {
+  treeGroupField(tree, targets, from, to, theta2, few, eps2, _p, out) {
     const wasm = eps2 > 0 ? wasmTree() : null;
-    const sums = wasm?.groupField(tree, from, to, theta2, few, eps2);
+    const sums = wasm?.groupField(tree, targets, from, to, theta2, few, eps2);
     if (!sums) return false;
     const [sx, sy, sz] = sums;
     const { ax, ay, az } = out;
     const order = tree.order;
     for (let q = from; q < to; q++) {
-      const i = order[q], k = q - from;
+      const i = targets ? q : order[q], k = q - from;
       ax[i] = G * sx[k]; ay[i] = G * sy[k]; az[i] = G * sz[k];
     }
     return true;
   },
 
-  treeGroupPotential(tree, from, to, theta2, few, eps2, _p, out) {
+  treeGroupPotential(tree, targets, from, to, theta2, few, eps2, _p, out) {
     const wasm = eps2 > 0 ? wasmTree() : null;
-    const sums = wasm?.groupPotential(tree, from, to, theta2, few, eps2);
+    const sums = wasm?.groupPotential(tree, targets, from, to, theta2, few, eps2);
     if (!sums) return false;
     const order = tree.order;
-    for (let q = from; q < to; q++) out[order[q]] = -G * sums[q - from];
+    for (let q = from; q < to; q++) out[targets ? q : order[q]] = -G * sums[q - from];
     return true;
   },
 

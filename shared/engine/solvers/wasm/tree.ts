@@ -3,8 +3,9 @@
 //
 // The octree (tree.ts's layout: 16 float64 numbers and 4 int32 links a cell,
 // sources in tree order) is copied into linear memory once per force evaluation.
-// One call walks for one group with tree.ts's acceptance test, in float64 and
-// the same order, so it gathers the same list as the JS walk; then it sums the
+// One call walks for one group of targets (a self-field group, or one probe) with
+// tree.ts's acceptance test, in float64 and the same order, so it gathers the
+// same list as the JS walk; then it sums the
 // list in mixed precision: positions relative to the group's first target, in
 // float64, rounded once to float32; pairs and cells (monopole plus quadrupole)
 // summed in float32, four targets to a vector, and every BLOCK terms the float32
@@ -31,44 +32,44 @@ let np: i32 = 0, nc: i32 = 0;
 let rx: f64 = 0, ry: f64 = 0, rz: f64 = 0;
 
 /**
- * Pull (before the factor G) at the targets in tree slots [from, to), to o[0..to-from).
- * `stack` has room for 8 x 49 int32, `scratch` 16 bytes for every source and
- * `cellScratch` 48 for every cell.
+ * Pull (before the factor G) at the targets t[from..to) (the sources' own arrays for a
+ * self-field group, whose slots they are), to o[0..to-from). `stack` has room for
+ * 8 x 49 int32, `scratch` 16 bytes for every source and `cellScratch` 48 for every cell.
  */
 export function groupField(
   cells: usize, links: usize, sx: usize, sy: usize, sz: usize, sm: usize,
-  from: i32, to: i32, theta2: f64, few: i32, eps2: f64,
+  tx: usize, ty: usize, tz: usize, from: i32, to: i32, theta2: f64, few: i32, eps2: f64,
   ox: usize, oy: usize, oz: usize, stack: usize, scratch: usize, cellScratch: usize,
 ): void {
-  gather(cells, links, sx, sy, sz, sm, from, to, theta2, few, stack, scratch, cellScratch);
-  sumField(scratch, cellScratch, sx, sy, sz, from, to, eps2, ox, oy, oz);
+  gather(cells, links, sx, sy, sz, sm, tx, ty, tz, from, to, theta2, few, stack, scratch, cellScratch);
+  sumField(scratch, cellScratch, tx, ty, tz, from, to, eps2, ox, oy, oz);
 }
 
-/** Sum of m phi over the list (the potential is -G times it) at the targets in tree slots [from, to), to o[0..to-from); coincident slots skipped. */
+/** Sum of m phi over the list (the potential is -G times it) at the targets t[from..to), to o[0..to-from); coincident points skipped. */
 export function groupPotential(
   cells: usize, links: usize, sx: usize, sy: usize, sz: usize, sm: usize,
-  from: i32, to: i32, theta2: f64, few: i32, eps2: f64,
+  tx: usize, ty: usize, tz: usize, from: i32, to: i32, theta2: f64, few: i32, eps2: f64,
   o: usize, stack: usize, scratch: usize, cellScratch: usize,
 ): void {
-  gather(cells, links, sx, sy, sz, sm, from, to, theta2, few, stack, scratch, cellScratch);
-  sumPotential(scratch, cellScratch, sx, sy, sz, from, to, eps2, o);
+  gather(cells, links, sx, sy, sz, sm, tx, ty, tz, from, to, theta2, few, stack, scratch, cellScratch);
+  sumPotential(scratch, cellScratch, tx, ty, tz, from, to, eps2, o);
 }
 
 /** The walk: tree.ts's acceptance test, in its order; the list goes to the scratch as float32 records. */
 function gather(
   cells: usize, links: usize, sx: usize, sy: usize, sz: usize, sm: usize,
-  from: i32, to: i32, theta2: f64, few: i32, stack: usize, P: usize, C: usize,
+  tx: usize, ty: usize, tz: usize, from: i32, to: i32, theta2: f64, few: i32, stack: usize, P: usize, C: usize,
 ): void {
   let minX = Infinity, minY = Infinity, minZ = Infinity, maxX = -Infinity, maxY = -Infinity, maxZ = -Infinity;
   for (let q = from; q < to; q++) {
     const b = <usize>q << 3;
-    const x = load<f64>(sx + b), y = load<f64>(sy + b), z = load<f64>(sz + b);
+    const x = load<f64>(tx + b), y = load<f64>(ty + b), z = load<f64>(tz + b);
     minX = min(minX, x); maxX = max(maxX, x);
     minY = min(minY, y); maxY = max(maxY, y);
     minZ = min(minZ, z); maxZ = max(maxZ, z);
   }
   const r0 = <usize>from << 3;
-  rx = load<f64>(sx + r0); ry = load<f64>(sy + r0); rz = load<f64>(sz + r0);
+  rx = load<f64>(tx + r0); ry = load<f64>(ty + r0); rz = load<f64>(tz + r0);
   // Particles as float32 x, y, z, m (relative), 16 bytes each; cells as float32 centre of mass
   // (relative), mass, six second moments and their trace, 48 bytes each.
   np = 0; nc = 0;
