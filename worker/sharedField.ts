@@ -59,7 +59,8 @@ const WANTED = 10; // helpers the pool still wants; above it, helpers leave
 const NODES = 11; // cells of this round's tree
 const GROUPS = 12; // target groups of this round's tree
 const PASS = 13; // the grid pass of a GRID round
-const CONTROL_SLOTS = 14;
+const STAMP = 14; // this round's tree's stamp (Octree.stamp): a thread's copy of an older tree is not reused
+const CONTROL_SLOTS = 15;
 
 const FIELD = 0;
 const POTENTIAL = 1;
@@ -131,7 +132,7 @@ function views(f: SharedField): Views {
 }
 
 /** The round's tree as laid out in shared memory by SplitTreeSolver.publish. */
-function sharedTree(t: NonNullable<Views['tree']>, n: number, nodes: number, groups: number): Octree {
+function sharedTree(t: NonNullable<Views['tree']>, n: number, nodes: number, groups: number, stamp: number): Octree {
   const { d, i, capacity } = t;
   const s = CELL_DOUBLES * capacity, l = CELL_INTS * capacity;
   return {
@@ -141,6 +142,7 @@ function sharedTree(t: NonNullable<Views['tree']>, n: number, nodes: number, gro
     sorted: { x: d.subarray(s, s + n), y: d.subarray(s + n, s + 2 * n), z: d.subarray(s + 2 * n, s + 3 * n), m: d.subarray(s + 3 * n, s + 4 * n) },
     order: new Uint32Array(i.buffer, 4 * l, n),
     groups: i.subarray(l + n, l + n + 2 * groups),
+    stamp,
   };
 }
 
@@ -181,7 +183,7 @@ function work(v: Views): number {
     const targets = c[SAME] === 1 ? v.sources : v.targets;
     if (!kernel) v.grid!(c[PASS], start, end);
     else if (v.tree) {
-      const tree = sharedTree(v.tree, v.sources.m.length, c[NODES], c[GROUPS]);
+      const tree = sharedTree(v.tree, v.sources.m.length, c[NODES], c[GROUPS], c[STAMP]);
       if (c[MODE] === FIELD) treeFieldRange(tree, v.sources, targets, kernel, v.tree.theta, start, end, v.out);
       else treePotentialRange(tree, v.sources, targets, kernel, v.tree.theta, start, end, v.out.ax);
     } else if (c[MODE] === FIELD) directFieldRange(v.sources, targets, kernel, start, end, v.out);
@@ -311,11 +313,11 @@ export class SplitSolver implements FieldSolver {
         else treePotentialRange(tree, s, own, kernel, room.theta, 0, units, this.v.out.ax);
         return;
       }
-      const shared = sharedTree(room, sources.m.length, tree.nodes, tree.groups.length / 2);
+      const shared = sharedTree(room, sources.m.length, tree.nodes, tree.groups.length / 2, tree.stamp);
       shared.cells.set(tree.cells); shared.links.set(tree.links); shared.order.set(tree.order);
       shared.sorted.x.set(tree.sorted.x); shared.sorted.y.set(tree.sorted.y); shared.sorted.z.set(tree.sorted.z); shared.sorted.m.set(tree.sorted.m);
       shared.groups.set(tree.groups);
-      c[NODES] = tree.nodes; c[GROUPS] = tree.groups.length / 2;
+      c[NODES] = tree.nodes; c[GROUPS] = tree.groups.length / 2; c[STAMP] = tree.stamp;
     }
     this.round(units, same, mode);
   }

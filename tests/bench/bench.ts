@@ -18,7 +18,7 @@ export interface PureSizes {
 export const FULL_SIZES: PureSizes = {
   direct: { n: 4096, repeats: 7 },
   tree: { sizes: [1_000, 3_000, 10_000, 100_000, 300_000], thetas: [0.5, 0.7], sampleTargets: 1_000, repeats: 3 },
-  threads: { n: 6_000, steps: 25, treeN: 20_000, treeSteps: 4, gridN: 2_000, grid: 64, gridSteps: 6, threads: 2, spinIterations: 2e8, repeats: 3 },
+  threads: { n: 6_000, steps: 25, treeN: 20_000, treeSteps: 40, gridN: 2_000, grid: 64, gridSteps: 6, threads: 2, spinIterations: 2e8, repeats: 3 },
   qumond: { grids: [64, 128], sizes: [10_000, 100_000], repeats: 2 },
 };
 
@@ -123,6 +123,7 @@ export function toTable(r: BenchReport): string {
     rows.push(['threads: tree speed-up', `${fmt(t.treeSpeedup)}x`, '>= 1.7x', mark(t.treeSpeedup >= 1.7)]);
     rows.push([`threads: ${t.gridN}-particle field-form MOND run, grid ${t.grid}^3, ${t.gridSteps} steps, 1 -> ${t.threads} threads`, `${fmt(t.gridSingleSeconds)} s -> ${fmt(t.gridSplitSeconds)} s`, t.gridIdentical ? 'bit-identical' : 'RESULTS DIFFER', mark(t.gridIdentical)]);
     rows.push(['threads: field-form grid speed-up', `${fmt(t.gridSpeedup)}x`, '>= 1.6x', mark(t.gridSpeedup >= 1.6)]);
+    rows.push([`threads: tree build (serial) share of one evaluation at N=${t.treeN}`, fmt(t.treeBuildShare), `bounds the evaluation's speed-up at ${fmt(t.treeSpeedupBound)}x`, '']);
     rows.push([`threads: plain loop on ${t.threads} threads, same moment`, `${fmt(t.machineSpeedup)}x`, 'the most this machine gave', '']);
     const cpu = (v: number | null) => (v === null ? 'n/a' : `${fmt(v)}x`);
     rows.push(['threads: CPU-time speed-ups, direct / tree / field-form grid', `${cpu(t.cpuSpeedup)} / ${cpu(t.treeCpuSpeedup)} / ${cpu(t.gridCpuSpeedup)}`, 'one thread\'s CPU time over the busiest split thread\'s', '']);

@@ -8,7 +8,10 @@ import { Worker } from 'node:worker_threads';
 import { RunPool, SPLIT_MIN_PARTICLES } from '../../worker/pool';
 import type { RunResult } from '../../shared/engine';
 import type { RunSpec } from '../../shared/spec';
-import { plummerRun } from './specs';
+import { buildOctree, treeFieldRange, treeWorkUnits } from '../../shared/engine/solvers/tree';
+import { newtonKernel } from '../../shared/engine/laws/newton';
+import { allocateAccelerations } from '../../shared/engine/state';
+import { plummerParticles, plummerRun } from './specs';
 
 export interface ThreadFigures {
   n: number;
@@ -54,6 +57,14 @@ export interface ThreadFigures {
   cpuSpeedup: number | null;
   treeCpuSpeedup: number | null;
   gridCpuSpeedup: number | null;
+  /**
+   * The part of one tree force evaluation of treeN particles that only the run's
+   * thread does (the octree build), as a share of the evaluation's CPU time on one
+   * thread (best of 5); with the walk split perfectly it bounds the speed-up of
+   * the evaluation on `threads` threads at 1 / (share + (1 - share) / threads).
+   */
+  treeBuildShare: number;
+  treeSpeedupBound: number;
 }
 
 interface Split {
@@ -148,7 +159,26 @@ async function compare(single: RunPool, split: RunPool, spec: RunSpec, warm: Run
   };
 }
 
-export async function benchThreads({ n = 6_000, steps = 40, treeN = 20_000, treeSteps = 4, gridN = 2_000, grid = 64 as ThreadFigures['grid'], gridSteps = 6, threads = 2, spinIterations = 2e8, repeats = 3 } = {}): Promise<ThreadFigures> {
+/** CPU ms of the fastest of `repeats` calls. */
+function bestCpuMs(repeats: number, f: () => void): number {
+  let best = Infinity;
+  for (let r = 0; r < repeats; r++) {
+    const c = process.cpuUsage();
+    f();
+    best = Math.min(best, process.cpuUsage(c).user / 1000);
+  }
+  return best;
+}
+
+function treeBuildShare(n: number): number {
+  const p = plummerParticles(n), kernel = newtonKernel(0.05), out = allocateAccelerations(n);
+  const build = bestCpuMs(5, () => buildOctree(p));
+  const tree = buildOctree(p);
+  const walk = bestCpuMs(5, () => treeFieldRange(tree, p, p, kernel, 0.5, 0, treeWorkUnits(tree, p, p), out));
+  return build / (build + walk);
+}
+
+export async function benchThreads({ n = 6_000, steps = 40, treeN = 20_000, treeSteps = 40, gridN = 2_000, grid = 64 as ThreadFigures['grid'], gridSteps = 6, threads = 2, spinIterations = 2e8, repeats = 3 } = {}): Promise<ThreadFigures> {
   const capacity = await machineSpeedup(threads, spinIterations);
   const single = new RunPool(1);
   const split = new RunPool(threads);
@@ -158,6 +188,7 @@ export async function benchThreads({ n = 6_000, steps = 40, treeN = 20_000, tree
     const t = await compare(single, split, plummerRun(treeN, treeSteps, tree), plummerRun(Math.max(treeN, SPLIT_MIN_PARTICLES), 1, tree), repeats);
     const qumond = { law: { kind: 'qumond' as const, interpolation: 'simple' as const, a0_m_s2: 1.2e-10, grid } };
     const g = await compare(single, split, plummerRun(gridN, gridSteps, qumond), plummerRun(gridN, 1, qumond), repeats);
+    const share = treeBuildShare(treeN);
     return {
       n,
       steps,
@@ -182,6 +213,8 @@ export async function benchThreads({ n = 6_000, steps = 40, treeN = 20_000, tree
       gridIdentical: g.identical,
       treeCpuSpeedup: t.cpuSpeedup,
       gridCpuSpeedup: g.cpuSpeedup,
+      treeBuildShare: share,
+      treeSpeedupBound: 1 / (share + (1 - share) / threads),
     };
   } finally {
     await Promise.all([single.close(), split.close()]);

@@ -2,6 +2,7 @@ import { buildInitialConditions, runSimulation } from '../../shared/engine';
 import { directFieldRange, directPotentialRange } from '../../shared/engine/solvers/direct';
 import { buildOctree, treeFieldRange, treeSolver, treeWorkUnits } from '../../shared/engine/solvers/tree';
 import { newtonKernel } from '../../shared/engine/laws/newton';
+import { setDirectKernel } from '../../shared/engine/solvers/directWasm';
 import { allocateAccelerations, allocateParticles } from '../../shared/engine/state';
 import { quantile, specWith } from './helpers';
 
@@ -46,18 +47,65 @@ describe('Barnes & Hut (1986) tree', () => {
     expect(Buffer.from(whole.az.buffer).equals(Buffer.from(parts.az.buffer))).toBe(true);
   });
 
-  test('walk groups cover every particle once, each a run of at most 32 consecutive slots', () => {
+  test('with the JS walk and loops (no WebAssembly) the split equals one call bit for bit too', () => {
+    const previous = setDirectKernel('js');
+    try {
+      const tree = buildOctree(p);
+      const units = treeWorkUnits(tree, p, p);
+      const whole = allocateAccelerations(N), parts = allocateAccelerations(N);
+      treeFieldRange(tree, p, p, kernel, 0.5, 0, units, whole);
+      const cut = Math.floor(units / 2) + 1;
+      treeFieldRange(tree, p, p, kernel, 0.5, cut, units, parts);
+      treeFieldRange(tree, p, p, kernel, 0.5, 0, cut, parts);
+      expect(Buffer.from(whole.ax.buffer).equals(Buffer.from(parts.ax.buffer))).toBe(true);
+      expect(Buffer.from(whole.ay.buffer).equals(Buffer.from(parts.ay.buffer))).toBe(true);
+    } finally {
+      setDirectKernel(previous);
+    }
+  });
+
+  test('two trees walked in turn by the WebAssembly walk each give what a fresh walk gives (the module copies a tree only when it changes)', () => {
+    const q = buildInitialConditions(specWith({ model: { kind: 'plummer', n: 1500, mass_Msun: 1e10, scale_kpc: 1 }, seed: 8 })).particles;
+    const [ta, tb] = [buildOctree(p), buildOctree(q)];
+    const first = allocateAccelerations(N), again = allocateAccelerations(N), other = allocateAccelerations(1500);
+    treeFieldRange(ta, p, p, kernel, 0.5, 0, treeWorkUnits(ta, p, p), first);
+    treeFieldRange(tb, q, q, kernel, 0.5, 0, treeWorkUnits(tb, q, q), other);
+    treeFieldRange(ta, p, p, kernel, 0.5, 0, treeWorkUnits(ta, p, p), again);
+    expect(Buffer.from(first.ax.buffer).equals(Buffer.from(again.ax.buffer))).toBe(true);
+  });
+
+  test('a group whose float32 sums would overflow is summed in float64 instead: finite, and the JS walk\'s numbers', () => {
+    // 1e31 Msun 1e-3 kpc apart: m / s^3 near 1e39, beyond float32 (3.4e38), well within float64.
+    const q = allocateParticles(12);
+    for (let i = 0; i < 12; i++) {
+      q.m[i] = 1e31;
+      q.x[i] = 1e-3 * i; q.y[i] = 2e-3 * (i % 3); q.z[i] = 0;
+    }
+    const tight = newtonKernel(1e-4);
+    const wasm = allocateAccelerations(12), js = allocateAccelerations(12);
+    treeSolver(0.5).field(q, q, tight, wasm);
+    const previous = setDirectKernel('js');
+    try {
+      treeSolver(0.5).field(q, q, tight, js);
+    } finally {
+      setDirectKernel(previous);
+    }
+    expect(Array.from(wasm.ax).every(Number.isFinite)).toBe(true);
+    expect(Array.from(wasm.ax)).toEqual(Array.from(js.ax));
+  });
+
+  test('walk groups cover every particle once, each a run of at most 64 consecutive slots', () => {
     const tree = buildOctree(p);
     const seen = new Uint8Array(N);
     for (let k = 0; k < tree.groups.length; k += 2) {
       const [start, count] = [tree.groups[k], tree.groups[k + 1]];
       expect(count).toBeGreaterThan(0);
-      expect(count).toBeLessThanOrEqual(32);
+      expect(count).toBeLessThanOrEqual(64);
       for (let s = start; s < start + count; s++) seen[s]++;
     }
     expect(seen.every((v) => v === 1)).toBe(true);
-    // Merged siblings make groups fuller than single cells of at most 32 would be (about 9 particles each here).
-    expect(N / (tree.groups.length / 2)).toBeGreaterThan(15);
+    // Merged siblings make groups fuller than single cells of at most 64 would be (about 39 particles each here).
+    expect(N / (tree.groups.length / 2)).toBeGreaterThan(30);
   });
 
   test('the error shrinks as theta shrinks', () => {

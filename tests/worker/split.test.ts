@@ -58,7 +58,8 @@ test('a force sum split with a helper thread equals the single-thread direct sum
 });
 
 test('split with the WebAssembly kernel in every thread, or a helper forced to JS, equals one thread of the JS kernel bit for bit', async () => {
-  const n = 1001;
+  // Rounds long enough (a few ms in WebAssembly) for a sleeping helper to wake and take a chunk on a busy machine.
+  const n = 3001;
   const p = plummerParticles(n);
   const kernel = newtonKernel(0.05);
   const want = allocateAccelerations(n);
@@ -157,9 +158,9 @@ test('a tree walk split with a helper thread equals the single-thread walk bit f
         expect(pa).toEqual(pb);
       }
     }
-    // Clumps of coincident particles, more than a leaf holds, make chains of cells down to the tree's
+    // Clumps of 20 coincident particles, more than a leaf holds (16), make chains of cells down to the tree's
     // depth limit: more cells than the shared room, so the run's thread walks alone, to the same numbers.
-    const clump = (a: Float64Array) => a.map((_, i) => a[i - (i % 10)]);
+    const clump = (a: Float64Array) => a.map((_, i) => a[i - (i % 20)]);
     const clumped = { x: clump(p.x), y: clump(p.y), z: clump(p.z), m: p.m };
     expect(buildOctree(clumped).nodes).toBeGreaterThan(n + 64);
     const a = allocateAccelerations(n), b = allocateAccelerations(n);

@@ -1,5 +1,6 @@
 import type { Accelerations, Points, Sources } from '../state';
 import type { GridThreads } from './grid';
+import type { Octree } from './tree';
 
 /**
  * One pair interaction as plain data, so it crosses to worker threads as it is:
@@ -107,6 +108,17 @@ export interface PairLoops {
   directPotential?(sources: Sources, targets: Points, eps2: number, p: readonly number[], iStart: number, iEnd: number, out: Float64Array): number;
   /** Optional: a whole gathered list (particles, then cells) at two targets in one pass; writes a's pull to acc[0..2], b's to acc[3..5]. */
   listPullTwo?(list: GatheredList, xa: number, ya: number, za: number, xb: number, yb: number, zb: number, eps2: number, p: readonly number[], acc: Float64Array): void;
+  /**
+   * Optional: walks the tree for one group of targets with the tree's acceptance test
+   * (theta^2; accepted cells of at most `few` particles act through their particles)
+   * and writes their G-scaled pulls to out: with `targets` null, the self-field group
+   * in tree slots [from, to), at tree.order[from..to-1]; else the points targets[from..to-1],
+   * at from..to-1. Returns false where it cannot (the caller then walks and sums the
+   * group with the loops above).
+   */
+  treeGroupField?(tree: Octree, targets: Points | null, from: number, to: number, theta2: number, few: number, eps2: number, p: readonly number[], out: Accelerations): boolean;
+  /** Optional: the same for the potential (per unit mass, G-scaled). */
+  treeGroupPotential?(tree: Octree, targets: Points | null, from: number, to: number, theta2: number, few: number, eps2: number, p: readonly number[], out: Float64Array): boolean;
   /** Optional: the same for the potential sums, a's into acc[0], b's into acc[1]. */
   listPotentialTwo?(list: GatheredList, xa: number, ya: number, za: number, xb: number, yb: number, zb: number, eps2: number, p: readonly number[], acc: Float64Array): void;
 }

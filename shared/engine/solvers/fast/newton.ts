@@ -1,9 +1,12 @@
 // Softened Newton's own loops: the WebAssembly SIMD direct sum where it loads,
-// else two targets per pass over the sources, and the tree's list summed at two
-// targets per pass. Each is the generic loops' arithmetic for phi = 1/s written
-// out with the kernel's constants read once: no calls, no branch on the law.
+// else two targets per pass over the sources; the tree's self-field walked and
+// summed group by group in WebAssembly SIMD (mixed precision, treeWasm.ts) where
+// it loads, else its lists summed at two targets per pass. Each is the generic
+// loops' arithmetic for phi = 1/s written out with the kernel's constants read
+// once: no calls, no branch on the law.
 import { G } from '../../units';
 import { wasmDirect } from '../directWasm';
+import { wasmTree } from '../treeWasm';
 import { MOMENTS, type PairLoops } from '../types';
 
 // Module-local alias: inside a vm context (Jest, sandboxes) every global
@@ -126,6 +129,30 @@ export const newtonLoops: PairLoops = {
       out[i] = -G * pa; out[i + 1] = -G * pb;
     }
     return even;
+  },
+
+  // With eps > 0 only: a target's own slot must add exactly zero.
+  treeGroupField(tree, targets, from, to, theta2, few, eps2, _p, out) {
+    const wasm = eps2 > 0 ? wasmTree() : null;
+    const sums = wasm?.groupField(tree, targets, from, to, theta2, few, eps2);
+    if (!sums) return false;
+    const [sx, sy, sz] = sums;
+    const { ax, ay, az } = out;
+    const order = tree.order;
+    for (let q = from; q < to; q++) {
+      const i = targets ? q : order[q], k = q - from;
+      ax[i] = G * sx[k]; ay[i] = G * sy[k]; az[i] = G * sz[k];
+    }
+    return true;
+  },
+
+  treeGroupPotential(tree, targets, from, to, theta2, few, eps2, _p, out) {
+    const wasm = eps2 > 0 ? wasmTree() : null;
+    const sums = wasm?.groupPotential(tree, targets, from, to, theta2, few, eps2);
+    if (!sums) return false;
+    const order = tree.order;
+    for (let q = from; q < to; q++) out[targets ? q : order[q]] = -G * sums[q - from];
+    return true;
   },
 
   listPullTwo(list, xa, ya, za, xb, yb, zb, eps2, _p, acc) {
