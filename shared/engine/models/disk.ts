@@ -44,7 +44,7 @@ const schema = z
         scaleHeight_kpc: length.describe('sech^2 scale height of the gas layer').meta({ title: 'Gas scale height' }),
       })
       .optional()
-      .describe('optional exponential gas disk in the plane of the stars, cut at the same truncation radius; particles are shared out in proportion to mass; collisionless like the stars (no pressure, no cooling)')
+      .describe('optional exponential gas disk in the plane of the stars, cut at truncationRadius_kpc when given, else at 10 of its scale lengths; particles are shared out in proportion to mass; collisionless like the stars (no pressure, no cooling)')
       .meta({ title: 'Gas disk', absent: 'none' }),
     halo: liveHaloSchema,
     equilibriumLaw,
