@@ -1,5 +1,6 @@
 // Initial conditions from a galaxy's Newtonian fit: its fitted baryons as an exponential disk
-// (with a Hernquist bulge when the table has one) and its fitted halo as the rigid `halo` law.
+// (with a Hernquist bulge and an exponential gas disk when the table has them) and its fitted
+// halo as the rigid `halo` law.
 import type { LawSpec, RunSpec } from '../spec/runSpec';
 import { RUN_SPEC_VERSION } from '../spec/runSpec';
 import { exponentialDiskSpeed, hernquistSpeed } from './invented';
@@ -16,6 +17,13 @@ export type HaloFit = string;
  * (scale height a tenth to a fifth of the scale length; from memory, not derived).
  */
 export const SCALE_HEIGHT_PER_LENGTH = 0.15;
+
+/**
+ * Gas layer thickness: half the stellar disk's scale height. Cold gas lies in a thinner layer
+ * than the stars over the inner disk (from memory; a choice, not derived). With no stellar disk
+ * the gas takes the stellar ratio to its own scale length.
+ */
+export const GAS_THICKNESS_PER_STARS = 0.5;
 
 export interface ProfileFit {
   mass_Msun: number;
@@ -61,15 +69,21 @@ function fitProfile(R: number[], v2: number[], unitSpeed: (scale: number, R: num
 
 const signedSquare = (v: number) => v * Math.abs(v);
 
-/**
- * The exponential disk (Freeman 1970, razor-thin curve) closest to the fitted disk: the stellar
- * disk's speeds with the fit's mass-to-light ratio applied, plus the gas folded in (v_gas|v_gas|
- * added to v_disk^2; one disk carries both, so the gas takes the stellar scale length).
- */
+/** The exponential disk (Freeman 1970 / Binney & Tremaine 2008 eq. 2.165, razor-thin curve) closest to the given speeds, in v^2. */
+const exponentialFrom = (R: number[], v: number[]): ProfileFit | null =>
+  fitProfile(R, v.map(signedSquare), (a, r) => exponentialDiskSpeed(1, a, r));
+
+/** The exponential disk closest to the fitted stellar disk (its mass-to-light ratio applied), or null without one. */
 export function diskFromCurve(curve: FittedCurve): ProfileFit | null {
-  if (!curve.vDisk && !curve.vGas) return null;
-  const v2 = curve.radiusKpc.map((_, i) => signedSquare(curve.vDisk?.[i] ?? 0) + signedSquare(curve.vGas?.[i] ?? 0));
-  return fitProfile(curve.radiusKpc, v2, (a, R) => exponentialDiskSpeed(1, a, R));
+  return curve.vDisk ? exponentialFrom(curve.radiusKpc, curve.vDisk) : null;
+}
+
+/**
+ * The exponential gas disk closest to the table's gas curve (v_gas|v_gas|: a gas ring's outward
+ * pull on the inner points gives negative v_gas^2 there), or null without one.
+ */
+export function gasFromCurve(curve: FittedCurve): ProfileFit | null {
+  return curve.vGas ? exponentialFrom(curve.radiusKpc, curve.vGas) : null;
 }
 
 /** The Hernquist (1990) sphere closest to the fitted bulge (its mass-to-light ratio applied), or null without one. */
@@ -100,14 +114,22 @@ export interface GalaxyRun {
   spec: RunSpec;
   disk: ProfileFit;
   bulge: ProfileFit | null;
+  /** The gas disk, or null when the table has no gas or when the gas stands in for a missing stellar disk. */
+  gas: ProfileFit | null;
 }
 
 /** A disk-galaxy run spec under Newton + the fitted halo, from one Newtonian fit of a galaxy. */
 export function galaxyRunSpec(fit: LawFit, c: GalaxyRunChoices): GalaxyRun {
   const law = haloLawFromFit(fit);
-  const disk = diskFromCurve(fit.curve);
-  if (!disk || disk.mass_Msun <= 0) throw new Error('the fit has no stellar disk or gas to build a disk from');
+  const stars = diskFromCurve(fit.curve);
+  const fittedGas = gasFromCurve(fit.curve);
+  const hasStars = !!stars && stars.mass_Msun > 0, hasGas = !!fittedGas && fittedGas.mass_Msun > 0;
+  // With no stellar disk the gas is the disk.
+  const disk = hasStars ? stars : hasGas ? fittedGas : null;
+  if (!disk) throw new Error('the fit has no stellar disk or gas to build a disk from');
+  const gas = hasStars && hasGas ? fittedGas : null;
   const bulge = bulgeFromCurve(fit.curve);
+  const scaleHeight_kpc = SCALE_HEIGHT_PER_LENGTH * disk.scale_kpc;
   const spec = {
     version: RUN_SPEC_VERSION,
     name: c.name,
@@ -116,9 +138,10 @@ export function galaxyRunSpec(fit: LawFit, c: GalaxyRunChoices): GalaxyRun {
       n: c.n,
       mass_Msun: disk.mass_Msun,
       scaleLength_kpc: disk.scale_kpc,
-      scaleHeight_kpc: SCALE_HEIGHT_PER_LENGTH * disk.scale_kpc,
+      scaleHeight_kpc,
       toomreQ: 1.5,
       ...(bulge && bulge.mass_Msun > 0 ? { bulge: { mass_Msun: bulge.mass_Msun, scale_kpc: bulge.scale_kpc } } : {}),
+      ...(gas ? { gas: { mass_Msun: gas.mass_Msun, scaleLength_kpc: gas.scale_kpc, scaleHeight_kpc: GAS_THICKNESS_PER_STARS * scaleHeight_kpc } } : {}),
     },
     law,
     integrator: 'leapfrog',
@@ -129,5 +152,5 @@ export function galaxyRunSpec(fit: LawFit, c: GalaxyRunChoices): GalaxyRun {
     snapshotEvery: c.snapshotEvery,
     seed: c.seed,
   } as RunSpec;
-  return { spec, disk, bulge };
+  return { spec, disk, bulge, gas };
 }

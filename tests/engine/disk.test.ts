@@ -1,7 +1,10 @@
 import { besseli, besselk } from 'bessel';
 import { analyticCurves, buildInitialConditions, runSimulation } from '../../shared/engine';
 import { i0e, i1e, k0e, k1e } from '../../shared/engine/special';
+import { sampleDiagnostics } from '../../shared/engine/diagnostics';
+import { Simulation } from '../../shared/engine/simulation';
 import { G } from '../../shared/engine/units';
+import { defaultRunSpec, parseRunSpec } from '../../shared/spec';
 import { quantile, specWith } from './helpers';
 
 const RD = 3, Z0 = 0.3, MD = 5e10;
@@ -143,5 +146,64 @@ describe('exponential disk (Freeman 1970)', () => {
     expect(ic.components.map((c) => [c.label, c.count])).toEqual([['disk', 833], ['bulge', 167]]);
     const total = ic.particles.m.reduce((a, b) => a + b, 0);
     expect(Math.abs(total / (MD + 1e10) - 1)).toBeLessThan(1e-12);
+  });
+});
+
+describe('a gas disk beside the stars', () => {
+  const RG = 6, ZG = 0.15, MG = 2e10;
+  const gasModel = (extra: Record<string, unknown> = {}) =>
+    diskModel({ n: 20_000, bulge: { mass_Msun: 1e10, scale_kpc: 0.5 }, gas: { mass_Msun: MG, scaleLength_kpc: RG, scaleHeight_kpc: ZG }, ...extra });
+  const spec = specWith({ model: gasModel(), law: { kind: 'newton' }, solver: { kind: 'tree', theta: 0.6 }, softening_kpc: 0.2 });
+  const ic = buildInitialConditions(spec);
+  const part = (label: string) => ic.components.find((c) => c.label === label)!;
+  const indices = (label: string) => Array.from({ length: part(label).count }, (_, k) => part(label).start + k);
+
+  test('the gas is a part of its own after the bulge, with its share of particles; the masses add up exactly', () => {
+    expect(ic.components.map((c) => c.label)).toEqual(['disk', 'bulge', 'gas']);
+    // Shared out in proportion to mass: 20,000 x 2e10 / 8e10 = 5,000 gas particles.
+    expect(part('gas').count).toBe(5000);
+    const mass = (label: string) => indices(label).reduce((s, i) => s + ic.particles.m[i], 0);
+    expect(Math.abs(mass('gas') / MG - 1)).toBeLessThan(1e-12);
+    expect(Math.abs(mass('disk') / MD - 1)).toBeLessThan(1e-12);
+  });
+
+  test('gas particles follow their own exponential (half-mass radius 1.678 R_gas, within 3%) and sech^2 layer (median |z| = z0 atanh(1/2), within 4%)', () => {
+    const gas = indices('gas');
+    const R50 = quantile(gas.map((i) => Math.hypot(ic.particles.x[i], ic.particles.y[i])), 0.5);
+    // The root of 1 - (1 + x) e^-x = 1/2 is 1.6783 (as for the stellar disk above).
+    expect(Math.abs(R50 / (1.6783 * RG) - 1)).toBeLessThan(0.03);
+    const medianZ = quantile(gas.map((i) => Math.abs(ic.particles.z[i])), 0.5);
+    expect(Math.abs(medianZ / (ZG * Math.atanh(0.5)) - 1)).toBeLessThan(0.04);
+  });
+
+  test('the thinner gas layer is vertically colder than the stars at the same radii (vertical Jeans equation: sigma_z^2 grows with the layer\'s thickness, Spitzer 1942)', () => {
+    const sigmaZ = (label: string) => {
+      const sel = indices(label).filter((i) => {
+        const R = Math.hypot(ic.particles.x[i], ic.particles.y[i]);
+        return R > RD && R < 2 * RD;
+      });
+      return Math.sqrt(sel.reduce((s, i) => s + ic.particles.vz[i] ** 2, 0) / sel.length);
+    };
+    expect(sigmaZ('gas')).toBeLessThan(0.8 * sigmaZ('disk'));
+  });
+
+  test('the whole galaxy, gas included, starts in virial balance: Clausius ratio 2K/|sum m r.a| within 3% of 1 (Binney & Tremaine 2008 sec. 4.8.3)', () => {
+    const sim = new Simulation(spec);
+    const ratio = sampleDiagnostics(sim.particles, sim.law, 0, 0, null, null).sample.clausiusVirialRatio;
+    expect(Math.abs(ratio - 1)).toBeLessThan(0.03);
+  });
+
+  test('the analytic curve adds the gas disk: the model with gas pulls by exactly the gas layer\'s own curve more (v^2 adds, to 1e-9)', () => {
+    const radii = [0.5, 1, 2, 4, 8].map((x) => x * RD);
+    const curve = (model: Record<string, unknown>) => analyticCurves(specWith({ model, law: { kind: 'newton' }, softening_kpc: 0.2 }), { radii_kpc: radii }).curves[0].v_km_s;
+    const withGas = curve(gasModel()), without = curve(gasModel({ gas: undefined }));
+    const gasAlone = curve(diskModel({ mass_Msun: MG, scaleLength_kpc: RG, scaleHeight_kpc: ZG }));
+    radii.forEach((_R, k) => expect(Math.abs(withGas[k] ** 2 / (without[k] ** 2 + gasAlone[k] ** 2) - 1)).toBeLessThan(1e-9));
+  });
+
+  test('a disk with bulge and gas needs a particle for each part', () => {
+    const r = parseRunSpec({ ...defaultRunSpec(), model: gasModel({ n: 2 }) });
+    expect(r.ok).toBe(false);
+    if (!r.ok) expect(r.issues.map((i) => i.path)).toContain('model.n');
   });
 });

@@ -4,8 +4,9 @@
 import { fitGalaxyLaw } from '../../shared/galaxy/fit';
 import { exponentialDiskSpeed, inventedCurve, type InventedBaryons } from '../../shared/galaxy/invented';
 import { galaxyRunSpec, haloLawFromFit } from '../../shared/galaxy/toRun';
-import { parseRunSpec } from '../../shared/spec';
+import { parseRunSpec, type RunSpec } from '../../shared/spec';
 import { analyticCurves } from '../../shared/engine/analytic';
+import { buildInitialConditions } from '../../shared/engine';
 import { haloEnclosedMass } from '../../shared/engine/laws/halo';
 import { G } from '../../shared/engine/units';
 
@@ -48,19 +49,68 @@ test('the engine\'s curve of the built disk, thick and softened, follows the fit
   });
 });
 
-test('gas folded into the disk and a Hernquist bulge: the built model\'s curve within 5% of the fitted baryons', () => {
+test('a gas disk of its own and a Hernquist bulge: each recovers its invented profile', () => {
   const { fit, run, spec } = built({ disk: { mass_Msun: 4e10, scale_kpc: 2.5 }, gas: { mass_Msun: 1e10, scale_kpc: 5 }, bulge: { mass_Msun: 1e10, scale_kpc: 0.5 } });
   const mlBulge = fit.params.find((p) => p.name === 'ML_bulge')!.value;
-  // The bulge is an exact Hernquist curve scaled by sqrt(Upsilon_bulge): recovered to rounding.
+  const mlDisk = fit.params.find((p) => p.name === 'ML_disk')!.value;
+  // Each fitted curve is an exact exponential (Freeman 1970) or Hernquist curve, the stars' and
+  // bulge's scaled by sqrt(Upsilon), the gas at unit mass-to-light ratio: recovered to rounding (1e-6).
   expect(run.bulge!.scale_kpc).toBeCloseTo(0.5, 5);
   expect(run.bulge!.mass_Msun / (mlBulge * 1e10)).toBeCloseTo(1, 6);
-  expect(spec.model).toMatchObject({ kind: 'disk', bulge: { scale_kpc: expect.any(Number) } });
-  // Gas (scale 5 kpc) folded into one exponential with the stars: the single scale length lies between the two.
-  expect(run.disk.scale_kpc).toBeGreaterThan(2.5);
-  expect(run.disk.scale_kpc).toBeLessThan(5);
+  expect(run.disk.scale_kpc).toBeCloseTo(2.5, 5);
+  expect(run.disk.mass_Msun / (mlDisk * 4e10)).toBeCloseTo(1, 6);
+  expect(run.gas!.scale_kpc).toBeCloseTo(5, 5);
+  expect(run.gas!.mass_Msun / 1e10).toBeCloseTo(1, 6);
+  expect(spec.model).toMatchObject({
+    kind: 'disk',
+    bulge: { scale_kpc: run.bulge!.scale_kpc },
+    gas: { mass_Msun: run.gas!.mass_Msun, scaleLength_kpc: run.gas!.scale_kpc },
+  });
+  // The particles carry the gas as a part of its own, holding its mass (to rounding).
+  const ic = buildInitialConditions({ ...spec, model: { ...spec.model, n: 600 } } as RunSpec);
+  const gas = ic.components.find((c) => c.label === 'gas')!;
+  let gasMass = 0;
+  for (let i = gas.start; i < gas.start + gas.count; i++) gasMass += ic.particles.m[i];
+  expect(gasMass / run.gas!.mass_Msun).toBeCloseTo(1, 9);
+});
+
+// Invented galaxies: the test's own, and the shapes of the demo's (a bulged spiral, a gas-rich
+// dwarf whose gas outweighs its stars, a bulgeless disk).
+const GALAXIES: [string, InventedBaryons][] = [
+  ['spiral with bulge and gas', { disk: { mass_Msun: 4e10, scale_kpc: 2.5 }, gas: { mass_Msun: 1e10, scale_kpc: 5 }, bulge: { mass_Msun: 1e10, scale_kpc: 0.5 } }],
+  ['spiral with a wide gas disk', { disk: { mass_Msun: 4e10, scale_kpc: 2.5 }, bulge: { mass_Msun: 6e9, scale_kpc: 0.5 }, gas: { mass_Msun: 8e9, scale_kpc: 6 } }],
+  ['gas-rich dwarf', { disk: { mass_Msun: 6e8, scale_kpc: 1.2 }, gas: { mass_Msun: 1.5e9, scale_kpc: 2.5 } }],
+  ['bulgeless disk', { disk: { mass_Msun: 1.5e10, scale_kpc: 2 }, gas: { mass_Msun: 4e9, scale_kpc: 4.5 } }],
+];
+
+test.each(GALAXIES)("%s: the built model's baryonic curve (engine, thick and softened) follows the fitted baryonic curve from 1 to 5 R_d", (_name, baryons) => {
+  const { fit, run, spec } = built(baryons);
+  expect(run.gas).not.toBeNull();
   const v = analyticCurves(spec, { laws: [{ kind: 'newton' }], radii_kpc: R }).curves[0].v_km_s;
-  // Measured at most 4.7% low (thickness and the folded gas). Tolerance ours: 5%.
-  R.forEach((_r, i) => expect(Math.abs(v[i] / fit.curve.vBaryons[i] - 1)).toBeLessThan(0.05));
+  const Rd = run.disk.scale_kpc;
+  let checked = 0;
+  R.forEach((r, i) => {
+    if (r < Rd || r > 5 * Rd) return;
+    checked++;
+    const ratio = v[i] / fit.curve.vBaryons[i];
+    // Gas and stars each get their own exponential, so what is left is the thickness of the
+    // layers (z0 = 0.15 R_d; the fitted curves are razor-thin) and the softening, which only
+    // lower the curve: measured at most 7.5% low at 1 R_d (bulgeless disk), 5.2% at 1.5 R_d,
+    // 3.8% at 2 R_d, 1.5% at 4 R_d. Tolerances ours: 8% from 1 R_d, 5% from 2 R_d.
+    expect(ratio).toBeLessThan(1.005);
+    expect(ratio).toBeGreaterThan(r < 2 * Rd ? 0.92 : 0.95);
+  });
+  expect(checked).toBeGreaterThanOrEqual(3);
+});
+
+test('a galaxy with gas but no stellar disk: the gas is the disk', () => {
+  const curve = galaxy({ disk: { mass_Msun: 4e10, scale_kpc: 2.5 }, gas: { mass_Msun: 1e10, scale_kpc: 5 } });
+  const fit = fitGalaxyLaw({ ...curve, vDisk: null }, 'nfw', {});
+  const run = galaxyRunSpec(fit, choices);
+  expect(run.gas).toBeNull();
+  expect(run.disk.scale_kpc).toBeCloseTo(5, 5);
+  expect(run.disk.mass_Msun / 1e10).toBeCloseTo(1, 6);
+  expect(run.spec.model).not.toHaveProperty('gas');
 });
 
 test('the fitted halo becomes the halo law: its speed matches the fit\'s halo term', () => {

@@ -9,7 +9,9 @@ import { haloProfile, sampleHaloPositions } from './halo';
 import { hernquistProfile, sampleHernquistPositions } from './hernquist';
 import { assignIsotropicVelocities, interpolate, isotropicSpeedSampler, softenedSphericalModel } from './isotropic';
 import { makeSolver } from '../solvers';
-import { checkSystem, count, equilibriumLaw, length, liveHaloSchema, mass, truncation } from './fields';
+import { densityCentre } from '../centre';
+import { radialProfile, type RadialMassProfile } from '../radialProfile';
+import { checkSystem, count, equilibriumLaw, length, liveHaloSchema, mass, MIN_TRUNCATION_FRACTION, truncation } from './fields';
 import { combinedModel, type MassModel } from './massModel';
 import { defineSystem } from './system';
 import type { Component } from './types';
@@ -21,7 +23,7 @@ const { cos, sqrt, exp, log, PI } = Math;
 const schema = z
   .strictObject({
     kind: z.literal('disk'),
-    n: count.describe('number of particles, disk and bulge together'),
+    n: count.describe('number of particles, disk, bulge and gas together'),
     mass_Msun: mass.describe('disk mass'),
     scaleLength_kpc: length.describe('exponential scale length R_d').meta({ title: 'Scale length R_d' }),
     scaleHeight_kpc: length.describe('sech^2 scale height z0: rho ~ sech^2(z / z0)').meta({ title: 'Scale height z₀' }),
@@ -35,6 +37,15 @@ const schema = z
       .optional()
       .describe('optional Hernquist bulge; particles are shared out in proportion to mass')
       .meta({ title: 'Bulge', absent: 'none' }),
+    gas: z
+      .strictObject({
+        mass_Msun: mass.meta({ title: 'Gas mass' }),
+        scaleLength_kpc: length.describe('exponential scale length of the gas').meta({ title: 'Gas scale length' }),
+        scaleHeight_kpc: length.describe('sech^2 scale height of the gas layer').meta({ title: 'Gas scale height' }),
+      })
+      .optional()
+      .describe('optional exponential gas disk in the plane of the stars, cut at truncationRadius_kpc when given, else at 10 of its scale lengths; particles are shared out in proportion to mass; collisionless like the stars (no pressure, no cooling)')
+      .meta({ title: 'Gas disk', absent: 'none' }),
     halo: liveHaloSchema,
     equilibriumLaw,
   })
@@ -42,14 +53,26 @@ const schema = z
 
 export type DiskSpec = z.infer<typeof schema>;
 
+/** One exponential sech^2 layer: the stellar disk (a DiskSpec is one) or its gas. */
+export interface ExponentialLayer {
+  mass_Msun: number;
+  scaleLength_kpc: number;
+  scaleHeight_kpc: number;
+  truncationRadius_kpc?: number;
+}
+
+/** The gas layer of a disk, cut where the stars are cut when a truncation radius is given. */
+export const gasLayer = (d: DiskSpec): ExponentialLayer | null =>
+  d.gas ? { ...d.gas, truncationRadius_kpc: d.truncationRadius_kpc } : null;
+
 /** Default cut at 10 scale lengths, which holds 99.95% of an exponential disk's mass (common practice). */
 const DEFAULT_TRUNCATION_SCALE_LENGTHS = 10;
 /** Toomre (1964): Q = sigma_R kappa / (3.36 G Sigma) for a stellar disk. */
 export const TOOMRE_STELLAR = 3.36;
 
-export const diskTruncation = (d: DiskSpec): number => d.truncationRadius_kpc ?? DEFAULT_TRUNCATION_SCALE_LENGTHS * d.scaleLength_kpc;
+export const diskTruncation = (d: ExponentialLayer): number => d.truncationRadius_kpc ?? DEFAULT_TRUNCATION_SCALE_LENGTHS * d.scaleLength_kpc;
 
-export const diskSurfaceDensity = (d: DiskSpec, R: number): number =>
+export const diskSurfaceDensity = (d: ExponentialLayer, R: number): number =>
   (d.mass_Msun / (2 * Math.PI * d.scaleLength_kpc ** 2)) * exp(-R / d.scaleLength_kpc);
 
 /** Composite Simpson rule over [0, 1] with an even number of intervals. */
@@ -96,7 +119,7 @@ const screenedPull = (lambda: number): PairPull => (D2) => {
  * each height of the sech^2 layer, summed numerically. Nodes cluster at the
  * target radius and azimuth, where the kernel peaks.
  */
-function thickDiskPull(d: DiskSpec, eps2: number, R: number, pull: PairPull): number {
+function thickDiskPull(d: ExponentialLayer, eps2: number, R: number, pull: PairPull): number {
   const Rt = diskTruncation(d), z0 = d.scaleHeight_kpc;
   let total = 0;
   for (let l = 0; l < LAYER.u.length; l++) {
@@ -132,7 +155,7 @@ const MAX_TABLES = 32;
  * the one the particles feel. Each pull gets one table over ln R, made on
  * first use and interpolated after (the ring sums are costly).
  */
-export function thickDiskModel(d: DiskSpec, softening_kpc: number): MassModel {
+export function thickDiskModel(d: ExponentialLayer, softening_kpc: number): MassModel {
   const Rd = d.scaleLength_kpc, M = d.mass_Msun;
   const eps2 = softening_kpc ** 2;
   const Rt = diskTruncation(d);
@@ -167,15 +190,37 @@ export function thickDiskModel(d: DiskSpec, softening_kpc: number): MassModel {
 
 const bulgeParams = (d: DiskSpec) => (d.bulge ? { mass_Msun: d.bulge.mass_Msun, scale_kpc: d.bulge.scale_kpc } : null);
 
-/** Disk plus optional bulge and live halo, all softened as the run softens them. */
+/** Disk plus optional gas disk, bulge and live halo, all softened as the run softens them. */
 export function diskGalaxyModel(d: DiskSpec, softening_kpc: number): MassModel {
   const b = bulgeParams(d);
+  const gas = gasLayer(d);
   const disk = thickDiskModel(d, softening_kpc);
-  if (!b && !d.halo) return disk;
+  if (!b && !d.halo && !gas) return disk;
   const parts = [disk];
+  // Curves are drawn as far as the stars or the gas reach, not the halo.
+  let extent_kpc = disk.extent_kpc;
+  if (gas) {
+    const gasDisk = thickDiskModel(gas, softening_kpc);
+    parts.push(gasDisk);
+    extent_kpc = Math.max(extent_kpc, gasDisk.extent_kpc);
+  }
   if (b) parts.push(softenedSphericalModel(hernquistProfile(b), softening_kpc));
   if (d.halo) parts.push(softenedSphericalModel(haloProfile(d.halo), softening_kpc));
-  return { ...combinedModel(parts), extent_kpc: disk.extent_kpc };
+  return { ...combinedModel(parts), extent_kpc };
+}
+
+/** A layer's truncated mass in softened spherical shells (for a thin disk the mass inside a sphere is the mass inside that cylinder). */
+function layerMonopole(l: ExponentialLayer, softening_kpc: number): MassModel {
+  const Rd = l.scaleLength_kpc, Rt = diskTruncation(l), M = l.mass_Msun;
+  const Fmax = 1 - (1 + Rt / Rd) * exp(-Rt / Rd);
+  return softenedSphericalModel({
+    totalMass_Msun: M,
+    outerRadius_kpc: Rt,
+    scale_kpc: Rd,
+    extent_kpc: Math.min(5 * Rd, Rt),
+    enclosedMass: (r) => (r >= Rt ? M : (M * (1 - (1 + r / Rd) * exp(-r / Rd))) / Fmax),
+    enclosedMassSlope: (r) => (r >= Rt ? 0 : (M * r * exp(-r / Rd)) / (Rd * Rd * Fmax)),
+  }, softening_kpc);
 }
 
 /**
@@ -188,29 +233,27 @@ export function diskGalaxyModel(d: DiskSpec, softening_kpc: number): MassModel {
  * pull, used before, left a bulge 7% too cold by the Clausius ratio (measured).
  */
 function sphericalPartsField(d: DiskSpec, softening_kpc: number): MassModel {
-  const Rd = d.scaleLength_kpc, Rt = diskTruncation(d), M = d.mass_Msun;
-  const Fmax = 1 - (1 + Rt / Rd) * exp(-Rt / Rd);
-  const parts = [
-    softenedSphericalModel({
-      totalMass_Msun: M,
-      outerRadius_kpc: Rt,
-      scale_kpc: Rd,
-      extent_kpc: Math.min(5 * Rd, Rt),
-      enclosedMass: (r) => (r >= Rt ? M : (M * (1 - (1 + r / Rd) * exp(-r / Rd))) / Fmax),
-      enclosedMassSlope: (r) => (r >= Rt ? 0 : (M * r * exp(-r / Rd)) / (Rd * Rd * Fmax)),
-    }, softening_kpc),
-  ];
+  const parts = [layerMonopole(d, softening_kpc)];
+  const gas = gasLayer(d);
+  if (gas) parts.push(layerMonopole(gas, softening_kpc));
   const b = bulgeParams(d);
   if (b) parts.push(softenedSphericalModel(hernquistProfile(b), softening_kpc));
   if (d.halo) parts.push(softenedSphericalModel(haloProfile(d.halo), softening_kpc));
   return combinedModel(parts);
 }
 
-/** Particles per part: equal particle masses as far as rounding allows. */
-export function diskParticleSplit(d: DiskSpec): { disk: number; bulge: number } {
-  if (!d.bulge) return { disk: d.n, bulge: 0 };
-  const bulge = Math.min(d.n - 1, Math.max(1, Math.round((d.n * d.bulge.mass_Msun) / (d.mass_Msun + d.bulge.mass_Msun))));
-  return { disk: d.n - bulge, bulge };
+/** Particles per part, in particle order disk, bulge, gas: equal particle masses as far as rounding allows, at least one each. */
+export function diskParticleSplit(d: DiskSpec): { disk: number; bulge: number; gas: number } {
+  if (!d.gas) {
+    if (!d.bulge) return { disk: d.n, bulge: 0, gas: 0 };
+    const bulge = Math.min(d.n - 1, Math.max(1, Math.round((d.n * d.bulge.mass_Msun) / (d.mass_Msun + d.bulge.mass_Msun))));
+    return { disk: d.n - bulge, bulge, gas: 0 };
+  }
+  const total = d.mass_Msun + (d.bulge?.mass_Msun ?? 0) + d.gas.mass_Msun;
+  const share = (m: number) => Math.max(1, Math.round((d.n * m) / total));
+  const bulge = d.bulge ? Math.min(d.n - 2, share(d.bulge.mass_Msun)) : 0;
+  const gas = Math.min(d.n - bulge - 1, share(d.gas.mass_Msun));
+  return { disk: d.n - bulge - gas, bulge, gas };
 }
 
 /** Inverse of the exponential disk's cumulative mass 1 - (1 + x) e^-x, by Newton's method. */
@@ -227,12 +270,13 @@ function exponentialRadius(F: number): number {
 }
 
 /**
- * Kinematics on a grid in ln R: circular speed of `law` for the whole model,
- * epicyclic frequency, sigma_R from Toomre's Q, and the mean azimuthal speed
- * from the thin-disk asymmetric-drift equation (Binney & Tremaine 2008,
- * eq. 4.227, tilt term dropped).
+ * Kinematics of one layer on a grid in ln R: circular speed of `law` for the
+ * whole model, epicyclic frequency, sigma_R from Toomre's Q over the surface
+ * density `stable` (the stars', or stars and gas together), and the layer's
+ * mean azimuthal speed from the thin-disk asymmetric-drift equation (Binney &
+ * Tremaine 2008, eq. 4.227, tilt term dropped) with its own surface density.
  */
-function diskKinematics(d: DiskSpec, law: LawSpec, model: MassModel, correction: (R: number) => number = () => 1) {
+function diskKinematics(d: ExponentialLayer, toomreQ: number, stable: (R: number) => number, law: LawSpec, model: MassModel, correction: (R: number) => number) {
   const Rd = d.scaleLength_kpc;
   const NODES = 256;
   const lo = log(1e-3 * Rd), hi = log(diskTruncation(d));
@@ -248,7 +292,7 @@ function diskKinematics(d: DiskSpec, law: LawSpec, model: MassModel, correction:
     kappa2[k] = Math.max(0, (2 * v2) / (R * R) + (vc2(R + h) - vc2(R - h)) / (2 * h * R));
     omega2[k] = v2 / (R * R);
     const sigma = diskSurfaceDensity(d, R);
-    sigmaR[k] = kappa2[k] > 0 ? (d.toomreQ * TOOMRE_STELLAR * G * sigma) / sqrt(kappa2[k]) : 0;
+    sigmaR[k] = kappa2[k] > 0 ? (toomreQ * TOOMRE_STELLAR * G * stable(R)) / sqrt(kappa2[k]) : 0;
     lnSS[k] = log(sigma * sigmaR[k] ** 2 + 1e-300);
   });
   for (let k = 0; k < NODES; k++) {
@@ -279,7 +323,7 @@ const PROBE_LAYER = gaussLegendre01(4);
  * particles, so disk, bulge, softening and the law's boost all count. For a
  * lone self-gravitating sheet it gives pi G Sigma z0 (Spitzer 1942).
  */
-function verticalDispersion(d: DiskSpec, law: LawSpec, ctx: LawContext, sources: Sources): (R: number) => number {
+function verticalDispersion(d: ExponentialLayer, law: LawSpec, ctx: LawContext, sources: Sources): (R: number) => number {
   const Rd = d.scaleLength_kpc, z0 = d.scaleHeight_kpc;
   const outer = Math.min(PROBE_OUTER * Rd, diskTruncation(d));
   const lnR = Float64Array.from({ length: PROBE_RADII }, (_, k) => log(PROBE_INNER * Rd) + ((log(outer) - log(PROBE_INNER * Rd)) * k) / (PROBE_RADII - 1));
@@ -350,36 +394,44 @@ function fieldCorrection(d: DiskSpec, law: LawSpec, ctx: LawContext, sources: So
 }
 
 /**
- * Fills particles start..start+n-1 with the disk (first) and its bulge, and
- * the next halo.n with the live halo if there is one. The disk lies in the
- * x-y plane rotating counter-clockwise seen from +z. Every position is drawn
- * before any velocity, so a seed gives the same positions whatever law the
- * velocities are balanced for; the halo's positions are drawn after the
- * baryons', so the baryons sit at the same places with or without it.
+ * A mass model whose enclosed mass and its slope are the sampled particles' own spherically
+ * averaged profile about their density centre, the one a law built on the enclosed mass (the
+ * apparent dark mass of emergent gravity) reads from the particles during the run. The
+ * analytic model gives the cylindrical mass of the disk and the bulge's cusp, where the
+ * particles' smoothed profile has M growing as r^3 within its innermost kernels (measured:
+ * balanced for the analytic profile, the inner disk and bulge under emergent gravity expand and
+ * the curve falls 26% at 0.5 R_d within one outer period at 5,000 particles). Laws that read
+ * only the pulls (newtonAccel, screenedAccel) are unaffected.
  */
-export function sampleDiskGalaxy(d: DiskSpec, law: LawSpec, ctx: LawContext, rng: RngState, out: ParticleState, start: number): Component[] {
-  const model = diskGalaxyModel(d, ctx.softening_kpc);
-  const split = diskParticleSplit(d);
-  const Rd = d.scaleLength_kpc, z0 = d.scaleHeight_kpc;
-  const Fmax = 1 - (1 + diskTruncation(d) / Rd) * exp(-diskTruncation(d) / Rd);
-  const mDisk = d.mass_Msun / split.disk;
-  const diskEnd = start + split.disk, end = start + d.n;
-  for (let i = start; i < diskEnd; i++) {
+function withSampledProfile(sources: Sources): (model: MassModel) => MassModel {
+  let profile: RadialMassProfile | null = null;
+  const get = () => {
+    if (!profile) {
+      const c = densityCentre(sources);
+      profile = radialProfile(sources, c.x, c.y, c.z);
+    }
+    return profile;
+  };
+  return (model) => ({ ...model, enclosedMass: (r) => get().enclosedMass(r), enclosedMassSlope: (r) => get().enclosedMassSlope(r) });
+}
+
+/** Positions of `count` particles of an exponential sech^2 layer from `from` on, each of equal share of its mass. */
+function sampleLayerPositions(l: ExponentialLayer, rng: RngState, out: ParticleState, from: number, count: number): void {
+  const Rd = l.scaleLength_kpc, z0 = l.scaleHeight_kpc;
+  const Fmax = 1 - (1 + diskTruncation(l) / Rd) * exp(-diskTruncation(l) / Rd);
+  const m = l.mass_Msun / count;
+  for (let i = from; i < from + count; i++) {
     const R = Rd * exponentialRadius(uniformOpen(rng) * Fmax);
     const phi = 2 * Math.PI * uniform(rng);
     out.x[i] = R * cos(phi); out.y[i] = R * Math.sin(phi);
     out.z[i] = z0 * Math.atanh(2 * uniformOpen(rng) - 1); // inverse of the sech^2 cumulative
-    out.m[i] = mDisk;
+    out.m[i] = m;
   }
-  const b = bulgeParams(d);
-  if (b) sampleHernquistPositions(b, rng, out, diskEnd, split.bulge);
-  if (d.halo) sampleHaloPositions(d.halo, rng, out, end);
-  const haloEnd = end + (d.halo?.n ?? 0);
+}
 
-  const view = (a: Float64Array) => a.subarray(start, haloEnd);
-  const sigmaZ = verticalDispersion(d, law, ctx, { x: view(out.x), y: view(out.y), z: view(out.z), m: view(out.m) });
-  const kin = diskKinematics(d, law, model, fieldCorrection(d, law, ctx, { x: view(out.x), y: view(out.y), z: view(out.z), m: view(out.m) }, model));
-  for (let i = start; i < diskEnd; i++) {
+/** Velocities of a layer's particles from its kinematics: mean rotation plus Gaussian dispersions, counter-clockwise seen from +z. */
+function assignLayerVelocities(kin: ReturnType<typeof diskKinematics>, sigmaZ: (R: number) => number, rng: RngState, out: ParticleState, from: number, count: number): void {
+  for (let i = from; i < from + count; i++) {
     const R = Math.hypot(out.x[i], out.y[i]);
     const c = out.x[i] / R, s = out.y[i] / R;
     const k = kin(R);
@@ -387,11 +439,54 @@ export function sampleDiskGalaxy(d: DiskSpec, law: LawSpec, ctx: LawContext, rng
     const vT = k.vPhi + k.sigmaPhi * normal(rng);
     out.vx[i] = vR * c - vT * s; out.vy[i] = vR * s + vT * c; out.vz[i] = sigmaZ(R) * normal(rng);
   }
+}
+
+/**
+ * Fills particles start..start+n-1 with the disk (first), its bulge and its
+ * gas, and the next halo.n with the live halo if there is one. The disks lie
+ * in the x-y plane rotating counter-clockwise seen from +z. Every position is
+ * drawn before any velocity, so a seed gives the same positions whatever law
+ * the velocities are balanced for; the halo's positions are drawn after the
+ * baryons', so the baryons sit at the same places with or without it.
+ *
+ * The gas is collisionless like the stars. Both take sigma_R from the spec's
+ * Toomre Q over their summed surface density: with one radial dispersion, stars
+ * and gas are one layer to the local axisymmetric stability criterion, while two
+ * layers each at Q would together be less stable than Q says (two-component
+ * stability, Jog & Solomon 1984; from memory). A cold, pressureless gas layer of
+ * particles would only fragment. Each layer keeps its own sigma_z (its own scale
+ * height in the total field) and its own asymmetric drift.
+ */
+export function sampleDiskGalaxy(d: DiskSpec, law: LawSpec, ctx: LawContext, rng: RngState, out: ParticleState, start: number): Component[] {
+  const model = diskGalaxyModel(d, ctx.softening_kpc);
+  const split = diskParticleSplit(d);
+  const gas = gasLayer(d);
+  const diskEnd = start + split.disk, bulgeEnd = diskEnd + split.bulge, end = start + d.n;
+  sampleLayerPositions(d, rng, out, start, split.disk);
+  const b = bulgeParams(d);
+  if (b) sampleHernquistPositions(b, rng, out, diskEnd, split.bulge);
+  if (gas) sampleLayerPositions(gas, rng, out, bulgeEnd, split.gas);
+  if (d.halo) sampleHaloPositions(d.halo, rng, out, end);
+  const haloEnd = end + (d.halo?.n ?? 0);
+
+  const view = (a: Float64Array) => a.subarray(start, haloEnd);
+  const sources = { x: view(out.x), y: view(out.y), z: view(out.z), m: view(out.m) };
+  const sigmaZ = verticalDispersion(d, law, ctx, sources);
+  const correction = fieldCorrection(d, law, ctx, sources, model);
+  const stable = gas ? (R: number) => diskSurfaceDensity(d, R) + diskSurfaceDensity(gas, R) : (R: number) => diskSurfaceDensity(d, R);
+  const asSampled = withSampledProfile(sources);
+  const field = asSampled(model);
+  assignLayerVelocities(diskKinematics(d, d.toomreQ, stable, law, field, correction), sigmaZ, rng, out, start, split.disk);
   const components: Component[] = [{ label: 'disk', start, count: split.disk }];
-  const spherical = b || d.halo ? sphericalPartsField(d, ctx.softening_kpc) : model;
+  const spherical = b || d.halo || gas ? asSampled(sphericalPartsField(d, ctx.softening_kpc)) : field;
   if (b) {
     assignIsotropicVelocities(out, diskEnd, split.bulge, isotropicSpeedSampler(hernquistProfile(b), spherical, law), rng);
     components.push({ label: 'bulge', start: diskEnd, count: split.bulge });
+  }
+  if (gas) {
+    const gasSigmaZ = verticalDispersion(gas, law, ctx, sources);
+    assignLayerVelocities(diskKinematics(gas, d.toomreQ, stable, law, field, correction), gasSigmaZ, rng, out, bulgeEnd, split.gas);
+    components.push({ label: 'gas', start: bulgeEnd, count: split.gas });
   }
   if (d.halo) {
     assignIsotropicVelocities(out, end, d.halo.n, isotropicSpeedSampler(haloProfile(d.halo), spherical, law), rng);
@@ -404,17 +499,29 @@ export const diskModule = defineSystem({
   kind: 'disk',
   schema,
   label: 'Exponential disk',
-  note: 'A rotating exponential disk, optionally with a bulge; its velocities follow the circular speed of a law.',
+  note: 'A rotating exponential disk, optionally with a bulge and a gas disk; its velocities follow the circular speed of a law.',
   // An invented example galaxy, sized to run in seconds under the default timestep.
   preset: { kind: 'disk', n: 2000, mass_Msun: 5e10, scaleLength_kpc: 3, scaleHeight_kpc: 0.3, toomreQ: 1.5 },
   traits: { geometry: 'flattened', systems: 1 },
   // Disks were balanced for the run's own law from the first version on.
   version1Reference: false,
-  components: (d) => ['disk', ...(d.bulge ? ['bulge'] : []), ...(d.halo ? ['halo'] : [])],
-  mass: (d) => d.mass_Msun + (d.bulge?.mass_Msun ?? 0) + (d.halo?.mass_Msun ?? 0),
+  components: (d) => ['disk', ...(d.bulge ? ['bulge'] : []), ...(d.gas ? ['gas'] : []), ...(d.halo ? ['halo'] : [])],
+  mass: (d) => d.mass_Msun + (d.bulge?.mass_Msun ?? 0) + (d.gas?.mass_Msun ?? 0) + (d.halo?.mass_Msun ?? 0),
   massModel: diskGalaxyModel,
   sample: (d, law, { spec, rng }, out, start) =>
     sampleDiskGalaxy(d, law, { solver: makeSolver(spec.solver), softening_kpc: spec.softening_kpc }, rng, out, start),
-  checkSystem: (d, path, ctx) => checkSystem(d, 'scaleLength_kpc', path, ctx),
+  checkSystem(d, path, ctx) {
+    checkSystem(d, 'scaleLength_kpc', path, ctx);
+    const parts = 1 + (d.bulge ? 1 : 0) + (d.gas ? 1 : 0);
+    if (d.n < parts) ctx.addIssue({ code: 'custom', path: [...path, 'n'], message: `n must be at least ${parts}: one particle for each of disk, bulge and gas` });
+    const rt = d.truncationRadius_kpc;
+    if (d.gas && rt !== undefined && rt < MIN_TRUNCATION_FRACTION * d.gas.scaleLength_kpc) {
+      ctx.addIssue({
+        code: 'custom',
+        path: [...path, 'truncationRadius_kpc'],
+        message: `truncationRadius_kpc ${rt} is below ${MIN_TRUNCATION_FRACTION} x gas.scaleLength_kpc (${d.gas.scaleLength_kpc}); the gas disk would hold almost none of its mass`,
+      });
+    }
+  },
   diskPart: (d) => ({ component: 'disk', scaleLength_kpc: d.scaleLength_kpc }),
 });

@@ -1,7 +1,7 @@
 // How the app draws the named parts of a model: a colour token (the app's theme maps each
 // token to a colour) and a layer (lower is drawn first, so the disk and bulge show on top of
 // the halo). Parts not named here (a Plummer sphere, uploaded particles) take the run's colour.
-export const PART_COLOUR_TOKENS = ['sky', 'gold', 'plum', 'amber', 'teal'] as const;
+export const PART_COLOUR_TOKENS = ['sky', 'gold', 'plum', 'amber', 'teal', 'jade'] as const;
 export type PartColourToken = (typeof PART_COLOUR_TOKENS)[number];
 
 export interface PartLook {
@@ -13,6 +13,8 @@ const PART_LOOKS: Record<string, PartLook> = {
   halo: { colour: 'plum', layer: 0 },
   disk: { colour: 'sky', layer: 1 },
   bulge: { colour: 'gold', layer: 1 },
+  // Drawn over the stars: the gas disk reaches further out and is the thinner layer.
+  gas: { colour: 'jade', layer: 2 },
   // An encounter's two systems, where a plot shows them whole.
   primary: { colour: 'amber', layer: 1 },
   secondary: { colour: 'teal', layer: 1 },
