@@ -6,6 +6,7 @@ import { estimateInteractions, particleCount, type RunSpec } from '../shared/spe
 import type { RunProgress } from '../shared/api/contract';
 import { createSharedField, dismissHelper, stopSharedField, type SharedField } from './sharedField';
 import { sharedGridFor } from './sharedGrid';
+import { lawModule } from '../shared/engine/laws/registry';
 
 /** Checkpointing of one run: where to start, how often to hand out a new one, and to whom. */
 export interface RunCheckpointing {
@@ -43,9 +44,9 @@ export const SPLIT_MIN_PARTICLES = 1500;
 
 /**
  * The rule for splitting one run (direct sums and tree walks both split): large enough to pay.
- * A field-form run always splits: its grid's passes take tens of milliseconds or more per evaluation whatever the particle count.
+ * A run whose law has a grid always splits: its passes take tens of milliseconds or more per evaluation whatever the particle count.
  */
-export const splits = (spec: RunSpec): boolean => particleCount(spec) >= SPLIT_MIN_PARTICLES || spec.law.kind === 'qumond';
+export const splits = (spec: RunSpec): boolean => particleCount(spec) >= SPLIT_MIN_PARTICLES || Boolean(lawModule(spec.law.kind).grid);
 
 /**
  * A pool of threads, each integrating one run at a time. A large direct-sum

@@ -10,12 +10,14 @@
 // it claims with its own view of the grid over the same arrays, and the end of
 // the round is the barrier before the next pass. A line is computed by the same
 // code whichever thread takes it, so the result is bit-identical to one thread's.
-import { PhantomGrid, phantomGridLengths, type PhantomSetup } from '../shared/engine/laws/qumond';
+import { lawModule } from '../shared/engine/laws/registry';
 import type { GridThreads } from '../shared/engine/solvers/grid';
 import type { RunSpec } from '../shared/spec';
 
 /** The shared memory of one run's grid. Plain data: it reaches pool threads by structured clone, the buffers shared. */
 export interface SharedGrid {
+  /** The law whose grid it is: a helper thread takes its view of the grid from the law's module. */
+  law: string;
   /** Lengths of the arrays laid end to end in `arrays`, in doubles. */
   lengths: number[];
   arrays: SharedArrayBuffer;
@@ -26,12 +28,11 @@ export interface SharedGrid {
 /** Room for the setup's JSON: a few hundred bytes in practice. */
 const SETUP_BYTES = 4096;
 
-/** Shared room for the grid of a field-form run; none for other laws. */
+/** Shared room for the grid of a run whose law has one; none for other laws. */
 export function sharedGridFor({ law, softening_kpc }: Pick<RunSpec, 'law' | 'softening_kpc'>): SharedGrid | undefined {
-  if (law.kind !== 'qumond') return undefined;
-  // The lengths depend on the grid size and the softening only, not on the box.
-  const lengths = phantomGridLengths({ params: law, box: { side_kpc: 1, cx: 0, cy: 0, cz: 0 }, softening_kpc });
-  return { lengths, arrays: new SharedArrayBuffer(8 * lengths.reduce((a, b) => a + b, 0)), setup: new SharedArrayBuffer(SETUP_BYTES) };
+  const lengths = lawModule(law.kind).grid?.lengths(law, softening_kpc);
+  if (!lengths) return undefined;
+  return { law: law.kind, lengths, arrays: new SharedArrayBuffer(8 * lengths.reduce((a, b) => a + b, 0)), setup: new SharedArrayBuffer(SETUP_BYTES) };
 }
 
 function carve(g: SharedGrid): Float64Array[] {
@@ -75,13 +76,14 @@ export class SplitGrid implements GridThreads {
  * grid built on first use from the published setup.
  */
 export function gridWorker(g: SharedGrid): (pass: number, from: number, to: number) => void {
-  let view: PhantomGrid | undefined;
+  const grid = lawModule(g.law).grid;
+  if (!grid) throw new Error(`force law "${g.law}" has no grid`);
+  let view: ReturnType<typeof grid.view> | undefined;
   return (pass, from, to) => {
     if (!view) {
       const length = new Int32Array(g.setup, 0, 1)[0];
       if (length === 0) throw new Error('a grid pass before the grid was set up');
-      const setup = JSON.parse(new TextDecoder().decode(new Uint8Array(g.setup, 4, length).slice())) as PhantomSetup;
-      view = PhantomGrid.view(setup, carve(g));
+      view = grid.view(JSON.parse(new TextDecoder().decode(new Uint8Array(g.setup, 4, length).slice())), carve(g));
     }
     view.range(pass, from, to);
   };

@@ -446,6 +446,11 @@ export const qumondLaw = defineLaw({
   // for g nodes per side (our own measurement against the direct sum, best of four at
   // g = 32 and 64, on a busy machine).
   extraInteractions: (params) => 30 * params.grid ** 3 * Math.log2(2 * params.grid),
+  grid: {
+    // The lengths depend on the grid size and the softening only, not on the box.
+    lengths: (params, softening_kpc) => phantomGridLengths({ params, box: { side_kpc: 1, cx: 0, cy: 0, cz: 0 }, softening_kpc }),
+    view: (setup, arrays) => PhantomGrid.view(setup as PhantomSetup, arrays),
+  },
   info,
   warnings(params, { traits, particles, halfMassRadius_kpc }): EngineWarning[] {
     const notes: EngineWarning[] = [];

@@ -139,6 +139,15 @@ export interface LawModule<S extends LawSchema = LawSchema> {
   extraInteractions?(params: z.infer<S>): number;
   /** The field takes a second or more per evaluation: not recomputed per animation frame. */
   slowField?: boolean;
+  /**
+   * A field computed on a grid whose passes the worker pool may split across threads:
+   * the lengths of its working arrays for these parameters (shared memory is sized from
+   * them) and a helper thread's view of a grid the run's thread has published.
+   */
+  grid?: {
+    lengths(params: z.infer<S>, softening_kpc: number): number[];
+    view(setup: object, arrays: Float64Array[]): { range(pass: number, from: number, to: number): void };
+  };
   /** Notes and warnings on this law for a given run (model, particles). */
   warnings?(params: z.infer<S>, ctx: LawNoteContext): EngineWarning[];
   /** The Newtonian reference: drawn beside every other law's curves, and the law of a Kepler orbit. */
