@@ -54,6 +54,8 @@ export function densityCentre(p: Sources, velocities?: { vx: Float64Array; vy: F
   let radius = sqrt(r2max);
   while (count > stop && radius > 0) {
     const shrunk = radius * SHRINK, s2 = shrunk * shrunk;
+    // Below the smallest double the sphere shrinks no more (particles all at one point): the search ends.
+    if (!(shrunk < radius)) break;
     const cx = c.x, cy = c.y, cz = c.z;
     // The kept particles' centre of mass is summed as they are kept, in the order a pass over them would.
     let kept = 0, keptMax = 0, M = 0, sx = 0, sy = 0, sz = 0;
@@ -79,7 +81,7 @@ export function densityCentre(p: Sources, velocities?: { vx: Float64Array; vy: F
       continue;
     }
     // Nobody dropped: the same particles (where they were), so the same centre; skip the spheres that would still hold them all.
-    for (let s = radius * SHRINK; radius > 0 && keptMax <= s * s; s = radius * SHRINK) radius = s;
+    for (let s = radius * SHRINK; s < radius && keptMax <= s * s; s = radius * SHRINK) radius = s;
   }
   let M = 0, vx = 0, vy = 0, vz = 0;
   if (velocities) {
