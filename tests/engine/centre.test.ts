@@ -74,6 +74,52 @@ describe('density centre by shrinking spheres (Power et al. 2003, from memory)',
   });
 });
 
+/** The search written plainly, one pass over the kept indices per sphere: the engine's faster passes must give its very bits. */
+function plainDensityCentre(p: ParticleState): { x: number; y: number; z: number; vx: number; vy: number; vz: number; radius_kpc: number; count: number } {
+  const centre = (keep: number[]) => {
+    let M = 0, x = 0, y = 0, z = 0;
+    for (const i of keep) {
+      M += p.m[i]; x += p.m[i] * p.x[i]; y += p.m[i] * p.y[i]; z += p.m[i] * p.z[i];
+    }
+    return M > 0 ? { x: x / M, y: y / M, z: z / M } : { x: 0, y: 0, z: 0 };
+  };
+  const d2 = (i: number, c: { x: number; y: number; z: number }) => {
+    const dx = p.x[i] - c.x, dy = p.y[i] - c.y, dz = p.z[i] - c.z;
+    return dx * dx + dy * dy + dz * dz;
+  };
+  const stop = densityCentreCount(p.n);
+  let keep = Array.from({ length: p.n }, (_, i) => i);
+  let c = centre(keep);
+  let radius = Math.sqrt(keep.reduce((r2, i) => Math.max(r2, d2(i, c)), 0));
+  while (keep.length > stop && radius > 0) {
+    const shrunk = radius * 0.975;
+    if (!(shrunk < radius)) break;
+    const next = keep.filter((i) => d2(i, c) <= shrunk * shrunk);
+    if (next.length < stop) break;
+    [keep, radius, c] = [next, shrunk, centre(next)];
+  }
+  let M = 0, vx = 0, vy = 0, vz = 0;
+  for (const i of keep) {
+    M += p.m[i]; vx += p.m[i] * p.vx[i]; vy += p.m[i] * p.vy[i]; vz += p.m[i] * p.vz[i];
+  }
+  return { ...c, vx: vx / M, vy: vy / M, vz: vz / M, radius_kpc: radius, count: keep.length };
+}
+
+describe('density centre cost', () => {
+  test('gives the bits of the plain search, pass for pass, on a cusp with stragglers, a sampled disk with bulge and a cold clump', () => {
+    const disk = buildInitialConditions(specWith({
+      model: { kind: 'disk', n: 3000, mass_Msun: 5e10, scaleLength_kpc: 3, scaleHeight_kpc: 0.3, toomreQ: 1.5, bulge: { mass_Msun: 1e10, scale_kpc: 0.5 } }, seed: 3,
+    })).particles;
+    // Every particle at one point but one far away: passes that drop nobody are skipped, down to the
+    // smallest double, where the sphere shrinks no more and the search ends (it once went on for ever).
+    const clump = allocateParticles(120);
+    clump.m.fill(1);
+    clump.x.fill(2);
+    clump.x[119] = 40;
+    for (const p of [cuspWithStragglers(), disk, clump]) expect(densityCentre(p, p)).toEqual(plainDensityCentre(p));
+  });
+});
+
 describe('measured rotation curves about the density centre', () => {
   // A thin ring rotating at 200 km/s at R = 5 kpc, plus non-rotating particles far above the plane at the same R.
   function ringAndCloud(): ParticleState {
