@@ -2,7 +2,7 @@ import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import type { RunDetail, RunStatus, RunSummary } from '../shared/api/contract';
 import { FINAL_STATUSES } from '../shared/api/contract';
 import { decodeSnapshots, SNAPSHOT_WIRE_FORMAT, type SnapshotSet } from '../shared/api/snapshots';
-import { api, queryString } from './api';
+import { api, queryString } from '../components/lib/api';
 
 export interface RunFilters {
   status?: RunStatus;

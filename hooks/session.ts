@@ -1,6 +1,6 @@
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import type { AccountUser, SessionResponse } from '../shared/api/accounts';
-import { api, ApiError, setCsrfToken } from './api';
+import { api, ApiError, setCsrfToken } from '../components/lib/api';
 
 export type SessionUser = AccountUser;
 

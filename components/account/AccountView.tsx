@@ -1,7 +1,7 @@
 import { useState } from 'react';
 import { StyleSheet, View } from 'react-native';
 import { colors, fonts, radius, space } from '../../constants/theme';
-import { API_BASE } from '../../hooks/api';
+import { API_BASE } from '../lib/api';
 import { useAccountSettings, useCreateToken, useRevokeToken, useTokens, useUpdateAccount, useUsage } from '../../hooks/account';
 import { useCohorts, useJoinCohort, useTemplates } from '../../hooks/cohorts';
 import { useSession } from '../../hooks/session';

@@ -4,7 +4,7 @@ import type { RunDetail } from '../../shared/api/contract';
 import { colors, lawColor, space, WIDE_BREAKPOINT } from '../../constants/theme';
 import { usePlayhead, useFrameTime } from '../../hooks/playback';
 import { useRunEvents } from '../../hooks/runEvents';
-import { readOutput, specOf, type RunOutputView } from '../../hooks/runOutput';
+import { readOutput, specOf, type RunOutputView } from '../lib/runOutput';
 import { lawInfo } from '../../shared/engine';
 import { isFinal, useRun, useRuns, useSnapshots } from '../../hooks/runs';
 import { Button } from '../Button';

@@ -1,4 +1,4 @@
-import { usesPotentialVirial, type RunOutputView } from '../../hooks/runOutput';
+import { usesPotentialVirial, type RunOutputView } from '../lib/runOutput';
 import type { RunSpec } from '../../shared/spec';
 import { formatValue } from '../format';
 import { rowText, SPEC_GROUPS, specRows, type SpecGroup, type SpecRow } from '../spec/rows';

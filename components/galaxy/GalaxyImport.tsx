@@ -4,7 +4,7 @@ import { useRouter } from 'expo-router';
 import { colors, fonts, space } from '../../constants/theme';
 import { useCohorts } from '../../hooks/cohorts';
 import { useGalaxies, useUploadGalaxy } from '../../hooks/galaxies';
-import { pickTableFile, type PickedFile } from '../../hooks/pickFile';
+import { pickTableFile, type PickedFile } from '../lib/pickFile';
 import { COLUMN_KEYS, parseRotationCurve, readTableCells, TableError, type ColumnKey, type RotationCurve, type TableCells } from '../../shared/galaxy/table';
 import { galaxyMappingSchema, type GalaxyMapping, type GalaxyVisibility } from '../../shared/api/galaxies';
 import type { UploadLimits } from '../../shared/api/accounts';

@@ -5,7 +5,7 @@ import { colors, space } from '../../constants/theme';
 import { useCohorts } from '../../hooks/cohorts';
 import { useDeleteGalaxy, useFitGalaxy, useGalaxy, useRunsFromGalaxy, useUpdateGalaxy } from '../../hooks/galaxies';
 import { HALO_FITS } from '../../shared/galaxy/toRun';
-import { API_BASE } from '../../hooks/api';
+import { API_BASE } from '../lib/api';
 import { FIT_LAWS, type FitLaw, type LawFit } from '../../shared/galaxy/fit';
 import { VISIBILITY_WORDS, type GalaxyDetail, type GalaxyFitRecord, type GalaxyVisibility } from '../../shared/api/galaxies';
 import { Button } from '../Button';

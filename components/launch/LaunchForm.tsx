@@ -2,7 +2,7 @@ import { StyleSheet, View, useWindowDimensions } from 'react-native';
 import { useRouter } from 'expo-router';
 import { NAME_MAX_LENGTH, type LawSpec, type RunSpecInput } from '../../shared/spec';
 import { colors, space, WIDE_BREAKPOINT } from '../../constants/theme';
-import { ApiError } from '../../hooks/api';
+import { ApiError } from '../lib/api';
 import { LAW_PRESETS, useRunDraft } from '../../hooks/runDraft';
 import { useSubmitRun } from '../../hooks/runs';
 import { useUsage } from '../../hooks/account';

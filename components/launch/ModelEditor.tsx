@@ -9,7 +9,7 @@ import { Txt } from '../Txt';
 import { Button } from '../Button';
 import { describeError } from '../States';
 import { useParticleTableUpload } from '../../hooks/galaxies';
-import { pickTableFile } from '../../hooks/pickFile';
+import { pickTableFile } from '../lib/pickFile';
 import { styles as formStyles } from './formStyles';
 import { SpecNumber } from './SpecField';
 

@@ -1,7 +1,7 @@
 import { useMemo, useState } from 'react';
 import { StyleSheet, View, useWindowDimensions } from 'react-native';
 import { seriesColors, space, WIDE_BREAKPOINT } from '../../constants/theme';
-import { diagnosticColumns, magnitude, usesPotentialVirial, type RunOutputView } from '../../hooks/runOutput';
+import { diagnosticColumns, magnitude, usesPotentialVirial, type RunOutputView } from '../lib/runOutput';
 import { ChoiceChips } from '../fields';
 import { LinePlot, type PlotMark, type PlotSeries } from '../LinePlot';
 import { Panel } from '../Panel';

@@ -1,6 +1,6 @@
 import { within } from '@testing-library/dom';
 import { LaunchForm } from '../../components/launch/LaunchForm';
-import { setCsrfToken } from '../../hooks/api';
+import { setCsrfToken } from '../../components/lib/api';
 import { mockApi } from './support/api';
 import { resetNavigation } from './support/expoRouter';
 import { press, render, settle, type } from './support/render';

@@ -1,6 +1,6 @@
-import type { FrameInfo, RunDetail } from '../shared/api/contract';
-import type { AnalyticCurves, DiagnosticSample, EngineWarning, LawInfo, RotationCurve, RunSummary as EngineSummary, Timescales } from '../shared/engine';
-import type { RunSpec } from '../shared/spec';
+import type { FrameInfo, RunDetail } from '../../shared/api/contract';
+import type { AnalyticCurves, DiagnosticSample, EngineWarning, LawInfo, RotationCurve, RunSummary as EngineSummary, Timescales } from '../../shared/engine';
+import type { RunSpec } from '../../shared/spec';
 
 /** A run's stored output with the engine's types put back on (the API ships it as JSON). */
 export interface RunOutputView {

@@ -1,8 +1,8 @@
-import { massModelFor, makeSolver, measureRotationCurve } from '../shared/engine';
-import { createLaw } from '../shared/engine/laws/registry';
-import { allocateParticles } from '../shared/engine/state';
-import type { SnapshotFrame } from '../shared/api/snapshots';
-import type { RunSpec } from '../shared/spec';
+import { massModelFor, makeSolver, measureRotationCurve } from '../../shared/engine';
+import { createLaw } from '../../shared/engine/laws/registry';
+import { allocateParticles } from '../../shared/engine/state';
+import type { SnapshotFrame } from '../../shared/api/snapshots';
+import type { RunSpec } from '../../shared/spec';
 
 // Models whose particles all weigh the same (a disk shares particles between disk and bulge
 // in proportion to mass), so a snapshot's positions alone give back its mass distribution.
