@@ -3,7 +3,8 @@ import { analyticCurves, precheck, type AnalyticCurves, type EngineWarning, type
 import { defaultRunSpec, estimateInteractions, particleCount, runSpecSchema, stepCount, type LawSpec, type RunSpec, type RunSpecInput } from '../shared/spec';
 import type { SubmitRunInput } from './runs';
 
-export type Path = readonly (string | number)[];
+import { setIn, type Path } from '../components/launch/draft';
+
 type Draft = Record<string, unknown>;
 
 // Starting values when someone switches model or law. Invented example systems,
@@ -33,11 +34,6 @@ export const MODEL_PRESETS: Record<string, Record<string, unknown>> = {
   },
 };
 
-export const SYSTEM_KINDS = ['plummer', 'hernquist', 'disk'] as const;
-
-/** A live halo for the preset systems: about ten times their mass, as galaxies hold (common practice). */
-export const HALO_PRESET = { profile: 'nfw', n: 4000, mass_Msun: 5e11, scale_kpc: 15 };
-
 export const LAW_PRESETS: Record<string, LawSpec> = {
   newton: { kind: 'newton' },
   halo: { kind: 'halo', profile: 'nfw', scale_kpc: 15, density_Msun_kpc3: 7e6 },
@@ -46,37 +42,6 @@ export const LAW_PRESETS: Record<string, LawSpec> = {
   emergent: { kind: 'emergent', H0_km_s_Mpc: 70 },
   yukawa: { kind: 'yukawa', alpha: 0.5, lambda_kpc: 10 },
 };
-
-export function setIn<T>(obj: T, path: Path, value: unknown): T {
-  if (path.length === 0) return value as T;
-  const [head, ...rest] = path;
-  const base = (obj ?? {}) as Record<string | number, unknown>;
-  const copy = (Array.isArray(base) ? [...base] : { ...base }) as Record<string | number, unknown>;
-  if (value === undefined && rest.length === 0) delete copy[head];
-  else copy[head] = setIn(base[head], rest, value);
-  return copy as T;
-}
-
-export function getIn(obj: unknown, path: Path): unknown {
-  return path.reduce<unknown>((o, k) => (o as Record<string | number, unknown> | undefined)?.[k], obj);
-}
-
-/**
- * Every sampled system of a model (itself, or the members of an encounter) gets its velocities
- * balanced for `law`; with none, each run balances them for its own law.
- */
-export function withEquilibriumLaw(model: Record<string, unknown>, law: LawSpec | undefined): Record<string, unknown> {
-  const set = (m: Record<string, unknown>) => (law ? { ...m, equilibriumLaw: law } : setIn(m, ['equilibriumLaw'], undefined));
-  if (model.kind === 'encounter') return { ...model, primary: set(model.primary as Record<string, unknown>), secondary: set(model.secondary as Record<string, unknown>) };
-  return SAMPLED_KINDS.has(String(model.kind)) ? set(model) : model;
-}
-
-/** Models whose velocities are set by a law's field (uploaded tables bring their own; a Kepler pair is an orbit). */
-const SAMPLED_KINDS = new Set(['plummer', 'hernquist', 'disk', 'encounter']);
-
-export function isSampled(model: Record<string, unknown>): boolean {
-  return SAMPLED_KINDS.has(String(model.kind));
-}
 
 export interface Preview {
   curves: AnalyticCurves | null;

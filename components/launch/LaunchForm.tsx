@@ -6,7 +6,6 @@ import { ApiError } from '../lib/api';
 import { LAW_PRESETS, useRunDraft } from '../../hooks/runDraft';
 import { useSubmitRun } from '../../hooks/runs';
 import { useUsage } from '../../hooks/account';
-import { enumOptions } from '../../hooks/specSchema';
 import { Button } from '../Button';
 import { ChoiceChips, FieldRow, TextField, Toggle } from '../fields';
 import { Panel } from '../Panel';
@@ -18,6 +17,7 @@ import { CostPanel, quotaFieldNotes } from './CostPanel';
 import { styles as formStyles } from './formStyles';
 import { LawEditor } from './LawEditor';
 import { ModelEditor } from './ModelEditor';
+import { enumOptions, nodeAt } from './schemaForm';
 import { ChecksPreview, CurvePreview } from './PreviewPanels';
 import { QuotaLimitHints, SpecNumber } from './SpecField';
 
@@ -92,7 +92,7 @@ export function LaunchForm({ start }: { start?: LaunchStart }) {
           label="Integrator"
           value={String(draft.integrator ?? 'leapfrog')}
           onChange={(v) => set(['integrator'], v)}
-          choices={enumOptions(['integrator'], draft).map((k) => ({ value: k, label: INTEGRATOR_LABELS[k]?.label ?? k, note: INTEGRATOR_LABELS[k]?.note }))}
+          choices={enumOptions(nodeAt(['integrator'], draft)?.node ?? {}).map(({ value }) => ({ value: String(value), label: INTEGRATOR_LABELS[value]?.label ?? String(value), note: INTEGRATOR_LABELS[value]?.note }))}
         />
         <ChoiceChips
           label="Force solver"
