@@ -1,3 +1,5 @@
+import { lawColour, type LawColourToken } from '../shared/engine';
+
 // Infall's own look: "Deep Field" — a near-black blue ground, bone-white text,
 // one warm accent (the glow of gas falling in) and a cool one for the second law.
 // Every colour used on screen comes from here, so the look changes in one place.
@@ -39,19 +41,25 @@ export const colors = {
   overlay: palette.veil,
 } as const;
 
-// One colour per force law, so a law reads the same on every plot and badge.
-const LAW_COLORS: Record<string, string> = {
-  newton: '#9FB7FF',
-  halo: '#C59BFF',
-  mond: palette.infall,
-  // A deeper shade of MOND's colour: the same theory in its field form.
-  qumond: '#E07B3A',
-  emergent: palette.drift,
-  yukawa: '#F28DC0',
+// One colour per law colour token: each law module names its token, so a law reads the same on
+// every plot and badge, and a new law picks a token instead of editing this file.
+const LAW_COLOUR_HEX: Record<LawColourToken, string> = {
+  periwinkle: '#9FB7FF',
+  lavender: '#C59BFF',
+  amber: palette.infall,
+  // A deeper shade of amber: the same theory in another form.
+  ember: '#E07B3A',
+  teal: palette.drift,
+  rose: '#F28DC0',
 };
 
+/** The colour of a law kind; a kind no module has (a stored run from a retired law) is grey. */
 export function lawColor(kind: string): string {
-  return LAW_COLORS[kind] ?? palette.dust;
+  try {
+    return LAW_COLOUR_HEX[lawColour(kind)];
+  } catch {
+    return palette.dust;
+  }
 }
 
 // One colour per part of a model, so a disk reads the same in every run's animation. The halo

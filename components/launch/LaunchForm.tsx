@@ -3,7 +3,8 @@ import { useRouter } from 'expo-router';
 import { NAME_MAX_LENGTH, type LawSpec, type RunSpecInput } from '../../shared/spec';
 import { colors, space, WIDE_BREAKPOINT } from '../../constants/theme';
 import { ApiError } from '../lib/api';
-import { LAW_PRESETS, useRunDraft } from '../../hooks/runDraft';
+import { useRunDraft } from '../../hooks/runDraft';
+import { defaultPairLaw, modelModule } from '../../shared/engine';
 import { useSubmitRun } from '../../hooks/runs';
 import { useUsage } from '../../hooks/account';
 import { Button } from '../Button';
@@ -77,7 +78,7 @@ export function LaunchForm({ start }: { start?: LaunchStart }) {
         <Toggle
           label="Run as a pair under a second law"
           value={Boolean(form.pairLaw)}
-          onChange={(on) => form.setPairLaw(on ? LAW_PRESETS[law.kind === 'mond' || law.kind === 'qumond' ? 'newton' : 'qumond'] : null)}
+          onChange={(on) => form.setPairLaw(on ? defaultPairLaw(law.kind) : null)}
           hint="Same initial particles, same seed, two laws: the compare page shows them side by side."
         />
         {form.pairLaw ? (
@@ -115,7 +116,7 @@ export function LaunchForm({ start }: { start?: LaunchStart }) {
 
   const sideColumn = (
     <View style={styles.column}>
-      <CurvePreview preview={form.preview} isKepler={(draft.model as { kind: string }).kind === 'kepler'} />
+      <CurvePreview preview={form.preview} isOrbit={Boolean(modelModule(String((draft.model as { kind: string }).kind)).orbit)} />
       <ChecksPreview preview={form.preview} timestep={typeof draft.timestep_Myr === 'number' ? draft.timestep_Myr : undefined} onTimestep={(dt) => set(['timestep_Myr'], dt)} />
       <CostPanel cost={form.cost} />
       <View style={styles.submit}>

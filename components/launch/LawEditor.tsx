@@ -1,10 +1,8 @@
 import { View } from 'react-native';
 import type { LawSpec } from '../../shared/spec';
-import { lawInfo } from '../../shared/engine';
+import { lawInfo, lawModules, lawPreset } from '../../shared/engine';
 import { space } from '../../constants/theme';
-import { LAW_PRESETS } from '../../hooks/runDraft';
 import { ChoiceChips } from '../fields';
-import { LAW_LABELS } from '../format';
 import { Txt } from '../Txt';
 import { setIn } from './draft';
 import { styles as formStyles } from './formStyles';
@@ -34,10 +32,10 @@ export function LawEditor({ label, law, onChange, issues, issuePrefix, exclude, 
   } catch {
     info = null; // parameters half-typed; the fields show what is wrong
   }
-  const kinds = Object.keys(LAW_PRESETS).filter((k) => k !== exclude || k === law.kind);
+  const kinds = lawModules().filter((m) => m.kind !== exclude || m.kind === law.kind);
   return (
     <View style={formStyles.group} testID={testID}>
-      <ChoiceChips label={label} value={law.kind} onChange={(k) => onChange(LAW_PRESETS[k])} choices={kinds.map((k) => ({ value: k, label: LAW_LABELS[k] ?? k }))} />
+      <ChoiceChips label={label} value={law.kind} onChange={(k) => onChange(lawPreset(k) as LawSpec)} choices={kinds.map((m) => ({ value: m.kind, label: m.shortLabel }))} />
       <SchemaFields draft={holder} path={['law']} set={set} issues={issues} issueKey={(p) => `${issuePrefix}${p.slice(1).join('.')}`} />
       {info ? (
         <View style={{ gap: space.xs }}>

@@ -1,10 +1,10 @@
 import { useState } from 'react';
 import { StyleSheet, View } from 'react-native';
 import type { LawSpec } from '../../shared/spec';
+import { modelModule, modelModules, modelPreset } from '../../shared/engine';
 import { colors, space } from '../../constants/theme';
-import { MODEL_PRESETS } from '../../hooks/runDraft';
 import { ChoiceChips } from '../fields';
-import { LAW_LABELS, MODEL_LABELS } from '../format';
+import { lawName, modelName } from '../format';
 import { Txt } from '../Txt';
 import { Button } from '../Button';
 import { describeError } from '../States';
@@ -23,15 +23,6 @@ interface Props {
   /** The pair's second law, when there is one: disks then need one law for their velocities. */
   pairLaw: LawSpec | null;
 }
-
-const MODEL_NOTES: Record<string, string> = {
-  kepler: 'Two bodies starting at pericentre: the cleanest check of an integrator.',
-  plummer: 'A cored sphere in equilibrium, sampled from its distribution function.',
-  hernquist: 'A cuspy sphere like a galaxy bulge or elliptical.',
-  disk: 'A rotating exponential disk, optionally with a bulge; its velocities follow the circular speed of a law.',
-  encounter: 'Two systems on a parabolic orbit towards each other.',
-  table: 'Your own particles from a file: one per row as x y z [kpc] vx vy vz [km/s] mass [M☉].',
-};
 
 /**
  * The particles come from a file sent through the upload path: the server reads it with the
@@ -80,15 +71,15 @@ export function ModelEditor({ draft, set, issues, pairLaw }: Props) {
   const law = draft.law as LawSpec;
   const eqLaw = pinnedLaw(model);
   const eqChoice = !eqLaw ? 'own' : pairLaw && JSON.stringify(eqLaw) === JSON.stringify(pairLaw) ? 'pair' : 'first';
-  const kinds = { label: (k: string) => MODEL_LABELS[k] ?? k, note: (k: string) => MODEL_NOTES[k], preset: (k: string) => MODEL_PRESETS[k] };
+  const kinds = { label: modelName, note: (k: string) => modelModule(k).note, preset: modelPreset };
 
   return (
     <View style={formStyles.group}>
       <ChoiceChips
         label="Model"
         value={kind}
-        onChange={(k) => set(['model'], MODEL_PRESETS[k])}
-        choices={Object.keys(MODEL_PRESETS).map((k) => ({ value: k, label: kinds.label(k), note: kinds.note(k) }))}
+        onChange={(k) => set(['model'], modelPreset(k))}
+        choices={modelModules().map((m) => ({ value: m.kind, label: m.label, note: m.note }))}
       />
       <SchemaFields draft={draft} path={['model']} set={set} issues={issues} skip={['equilibriumLaw']} kinds={kinds} renderRows={(path) => <RowsFromFile draft={draft} path={path} set={set} issues={issues} />} />
       {pairLaw && isSampled(model) ? (
@@ -99,8 +90,8 @@ export function ModelEditor({ draft, set, issues, pairLaw }: Props) {
           hint="Both runs start from the same positions. Balanced for its own law, each run starts in equilibrium, so what differs later comes from the laws; pinned to one law, both start from identical particles and the other run starts out of equilibrium."
           choices={[
             { value: 'own', label: 'each run’s own law' },
-            { value: 'first', label: `${LAW_LABELS[law.kind] ?? law.kind} (first law)` },
-            { value: 'pair', label: `${LAW_LABELS[pairLaw.kind] ?? pairLaw.kind} (second law)` },
+            { value: 'first', label: `${lawName(law.kind)} (first law)` },
+            { value: 'pair', label: `${lawName(pairLaw.kind)} (second law)` },
           ]}
         />
       ) : null}

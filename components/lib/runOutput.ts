@@ -1,6 +1,7 @@
 import type { FrameInfo, RunDetail } from '../../shared/api/contract';
 import type { AnalyticCurves, DiagnosticSample, EngineWarning, LawInfo, RotationCurve, RunSummary as EngineSummary, Timescales } from '../../shared/engine';
 import type { RunSpec } from '../../shared/spec';
+import { usesPotentialVirial } from '../../shared/engine';
 
 /** A run's stored output with the engine's types put back on (the API ships it as JSON). */
 export interface RunOutputView {
@@ -48,9 +49,15 @@ export function diagnosticColumns(rows: DiagnosticSample[]) {
 export const magnitude = (xs: (number | null)[]) => xs.map((x) => (x === null ? null : Math.abs(x)));
 
 /**
- * 2K/|W| is 1 in equilibrium only for a pure 1/r pair potential (softened Newton);
- * a static halo or a Yukawa term breaks that, so their runs, like the laws with no
- * potential, are judged by the Clausius ratio 2K/|Σ m r·a|.
+ * Whether a run's equilibrium is read from 2K/|W| (its law module says so: 1 in equilibrium
+ * only for a pure softened 1/r pair potential) or from the Clausius ratio 2K/|Σ m r·a|, which
+ * is also what a run of a law no module has any more is read by.
  */
-export const usesPotentialVirial = (law: { kind: string }): boolean => law.kind === 'newton';
+export function readsPotentialVirial(law: { kind: string }): boolean {
+  try {
+    return usesPotentialVirial(law.kind);
+  } catch {
+    return false;
+  }
+}
 

@@ -13,7 +13,7 @@ import { useRunPlayback } from '../../hooks/runPlayback';
 import { isFinal, useCancelRun, useRun } from '../../hooks/runs';
 import { isAdmin, useSession } from '../../hooks/session';
 import { Button } from '../Button';
-import { formatAge, formatCount, LAW_LABELS, MODEL_LABELS } from '../format';
+import { formatAge, formatCount, lawName, modelName } from '../format';
 import { Panel } from '../Panel';
 import { Screen } from '../Screen';
 import { describeError, ErrorState, Loading, Notice } from '../States';
@@ -104,7 +104,7 @@ export function RunView({ id }: { id: string }) {
   return (
     <Screen
       title={r.name}
-      subtitle={`${MODEL_LABELS[r.modelKind] ?? r.modelKind} · N = ${formatCount(r.particles)} · ${formatCount(r.steps)} steps · ${r.owner.name} · ${formatAge(r.createdAt)}`}
+      subtitle={`${modelName(r.modelKind)} · N = ${formatCount(r.particles)} · ${formatCount(r.steps)} steps · ${r.owner.name} · ${formatAge(r.createdAt)}`}
       actions={
         <>
           {live && mine ? <CancelButton run={r} /> : null}
@@ -117,7 +117,7 @@ export function RunView({ id }: { id: string }) {
     >
       <View style={styles.tags}>
         <StatusBadge status={r.status} percent={(stream.progress?.percent ?? r.progress * 100)} />
-        <LawTag kind={r.lawKind} label={info?.label ?? LAW_LABELS[r.lawKind]} />
+        <LawTag kind={r.lawKind} label={info?.label ?? lawName(r.lawKind)} />
       </View>
       <ModelCaution />
       {r.status === 'failed' ? <Notice tone="danger">{`This run failed: ${r.error ?? 'no reason was recorded'}`}</Notice> : null}

@@ -1,6 +1,6 @@
 import { lawInfo } from '../../shared/engine';
 import type { LawSpec, RunSpec } from '../../shared/spec';
-import { formatCount, formatInput, LAW_LABELS, MODEL_LABELS } from '../format';
+import { formatCount, formatInput, lawName, modelName } from '../format';
 import { fieldKind, memberKind, nodeAt, pickMember, specJsonSchema, titleOf, unitOfField, type JsonNode } from '../launch/schemaForm';
 import { INTEGRATOR_LABELS, SOLVER_LABELS } from './labels';
 
@@ -31,7 +31,7 @@ function lawLabel(law: LawSpec): string {
   try {
     return lawInfo(law).label;
   } catch {
-    return LAW_LABELS[law.kind] ?? law.kind;
+    return lawName(law.kind);
   }
 }
 
@@ -79,7 +79,7 @@ function fieldRows(spec: RunSpec, obj: Obj, path: string, group: SpecGroup, labe
 
 function systemRows(spec: RunSpec, model: Obj, path: string, group: SpecGroup, labelPrefix: string): SpecRow[] {
   const kind = String(model.kind);
-  const rows: SpecRow[] = [{ key: `${path}.kind`, group, label: labelPrefix ? labelPrefix.replace(/ · $/, '') : 'Model', value: MODEL_LABELS[kind] ?? kind }];
+  const rows: SpecRow[] = [{ key: `${path}.kind`, group, label: labelPrefix ? labelPrefix.replace(/ · $/, '') : 'Model', value: modelName(kind) }];
   rows.push(...fieldRows(spec, model, path, group, labelPrefix));
   return rows;
 }
