@@ -1,5 +1,5 @@
 import type { LawSpec, RunSpec } from '../spec/runSpec';
-import { lawInfo, modelAcceleration } from './laws/registry';
+import { isReferenceLaw, lawInfo, modelAcceleration, referenceLaw } from './laws/registry';
 import { massModelFor } from './models';
 import { curveRadii } from './rotationCurves';
 
@@ -9,7 +9,7 @@ export interface AnalyticCurves {
 }
 
 export interface AnalyticCurveOptions {
-  /** Laws to draw; default the spec's law and Newton. */
+  /** Laws to draw; default the spec's law and the reference law (Newton). */
   laws?: LawSpec[];
   /** Explicit radii; otherwise `points` bin centres out to `maxRadius_kpc` (default the model's extent). */
   radii_kpc?: number[];
@@ -27,7 +27,7 @@ export const CURVE_BINS = 24;
 export function analyticCurves(spec: RunSpec, opts: AnalyticCurveOptions = {}): AnalyticCurves {
   const model = massModelFor(spec);
   const radii = opts.radii_kpc ?? curveRadii(opts.maxRadius_kpc ?? model.extent_kpc, opts.points ?? CURVE_BINS);
-  const laws: LawSpec[] = opts.laws ?? (spec.law.kind === 'newton' ? [spec.law] : [spec.law, { kind: 'newton' }]);
+  const laws: LawSpec[] = opts.laws ?? (isReferenceLaw(spec.law.kind) ? [spec.law] : [spec.law, referenceLaw()]);
   return {
     radii_kpc: radii,
     curves: laws.map((law) => ({

@@ -1,5 +1,6 @@
 import { densityCentre, type DensityCentre } from './centre';
 import type { ForceLaw } from './laws/types';
+import { usesPotentialVirial } from './laws/registry';
 import { centreOfMass, type ParticleState } from './state';
 
 // Module-local aliases: inside a vm context (Jest, sandboxes) every global
@@ -169,7 +170,7 @@ export function sampleDiagnostics(
     momentumDrift: ref.momentumScale > 0 ? distance(mo.momentum, ref.momentum) / ref.momentumScale : 0,
     angularMomentum: mo.angularMomentum,
     angularMomentumDrift: ref.angularMomentumScale > 0 ? distance(mo.angularMomentum, ref.angularMomentum) / ref.angularMomentumScale : 0,
-    virialRatio: law.info.kind !== 'newton' || W === null || W === 0 ? null : (2 * mo.kinetic) / Math.abs(W),
+    virialRatio: !usesPotentialVirial(law.info.kind) || W === null || W === 0 ? null : (2 * mo.kinetic) / Math.abs(W),
     clausiusVirialRatio: vir === 0 ? 0 : (2 * internalKinetic) / Math.abs(vir),
     lagrangianRadii_kpc: { r10, r50, r90 },
     centreOfMass: { x: cm.x, y: cm.y, z: cm.z },

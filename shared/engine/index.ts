@@ -9,16 +9,24 @@ export { ENGINE_VERSION } from './version';
 export type { EquilibriumRecord, RunHooks, RunProgress, RunResult, RunSummary, Snapshot, QuantityMeaning, RunCheckpoint } from './run';
 export { analyticCurves, CURVE_BINS } from './analytic';
 export type { AnalyticCurves, AnalyticCurveOptions } from './analytic';
-export { lawInfo, LAW_MODULES, lawSchema } from './laws/registry';
-export type { LawInfo, ForceLaw, LawModule } from './laws/types';
+export {
+  defaultPairLaw, fitFamilies, galaxyPairLaw, isReferenceLaw, lawColour, lawConservation, lawInfo, lawLabel, lawModule, lawModules,
+  LAW_MODULES, lawPreset, lawSchema, lawShortLabel, referenceLaw, usesPotentialVirial,
+} from './laws/registry';
+export type { LawKind, LawSpec, LawSpecInput } from './laws/registry';
+export { LAW_COLOUR_TOKENS } from './laws/types';
+export type { ForceLaw, LawColourToken, LawFitFamily, LawInfo, LawModule } from './laws/types';
 export type { DiagnosticSample, ToomreProfile, Vector3 } from './diagnostics';
 export type { RotationCurve } from './rotationCurves';
 export { measureRotationCurve } from './rotationCurves';
 export type { EngineWarning, Timescales } from './timescales';
 export { CancelledDuringSetup, Simulation } from './simulation';
 export type { SimulationState } from './simulation';
-export { buildInitialConditions, massModelFor } from './models';
-export type { Component, InitialConditions } from './models';
+export {
+  balancedSystems, buildInitialConditions, LIVE_HALO_PRESET, massModelFor, modelComponents, modelLabel, modelModule, modelModules,
+  MODEL_MODULES, modelPreset, modelSchema, modelTraits, SYSTEM_MODULES, systemModule,
+} from './models';
+export type { BalancedSystem, Component, InitialConditions, ModelKind, ModelModule, ModelSpec, ModelTraits, SystemModule } from './models';
 export { applyDirectKernelSetting, directFieldRange, directKernelInUse, directPotentialRange, makeSolver, setDirectKernel } from './solvers';
 export type { DirectKernelChoice, FieldSolver, PairKernel } from './solvers';
 export * as units from './units';

@@ -5,7 +5,7 @@ import { analyticCurves, CURVE_BINS, type AnalyticCurves } from './analytic';
 import { sampleDiagnostics, type DiagnosticSample, type DriftReference } from './diagnostics';
 import { lawInfo } from './laws/registry';
 import type { LawInfo } from './laws/types';
-import { balancedSystems, type Component } from './models';
+import { balancedSystems, modelModule, type Component } from './models';
 import { measureRotationCurve, type RotationCurve } from './rotationCurves';
 import { CancelledDuringSetup, Simulation, type SimulationState } from './simulation';
 import type { FieldSolver } from './solvers';
@@ -184,11 +184,11 @@ export function runSimulation(spec: RunSpec, hooks: RunHooks = {}): RunResult {
   let reference: DriftReference | null = resume?.reference ?? null;
   let latestDrift: number | null = diagnostics.length ? diagnostics[diagnostics.length - 1].energyDrift : null;
 
-  const diskPart = spec.model.kind === 'disk' ? sim.initial.components.find((c) => c.label === 'disk') : undefined;
-  const diskModel = spec.model.kind === 'disk' ? spec.model : null;
+  const disk = modelModule(spec.model.kind).diskPart?.(spec.model);
+  const diskPart = disk && sim.initial.components.find((c) => c.label === disk.component);
   const toomre =
-    diskPart && diskModel
-      ? (p: ParticleState, centre: DensityCentre) => toomreProfile(p, sim.law, diskPart, TOOMRE_RANGE_SCALE_LENGTHS * diskModel.scaleLength_kpc, TOOMRE_BINS, centre)
+    disk && diskPart
+      ? (p: ParticleState, centre: DensityCentre) => toomreProfile(p, sim.law, diskPart, TOOMRE_RANGE_SCALE_LENGTHS * disk.scaleLength_kpc, TOOMRE_BINS, centre)
       : null;
 
   const diagnose = () => {

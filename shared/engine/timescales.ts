@@ -1,11 +1,10 @@
 import type { RunSpec } from '../spec/runSpec';
 import { estimateInteractions, FORCE_EVALUATIONS_PER_STEP, particleCount, stepCount } from '../spec/runSpec';
 import { lagrangianRadii } from './diagnostics';
-import { qumondGridNotes } from './laws/qumond';
-import { lawInfo, modelAcceleration } from './laws/registry';
-import { balancedSystems, type InitialConditions } from './models';
+import { lawInfo, lawModule, modelAcceleration } from './laws/registry';
+import { balancedSystems, modelModule, type InitialConditions } from './models';
 import { totalMass } from './state';
-import { G, internalToMyr } from './units';
+import { internalToMyr } from './units';
 
 export interface Timescales {
   halfMassRadius_kpc: number;
@@ -41,9 +40,8 @@ const STEPS_PER_PERIOD = 200;
 /** Largest analytic acceleration of the model under the run's law outside the softening length. */
 function peakAcceleration(spec: RunSpec, ic: InitialConditions): number {
   const extent = ic.massModel.extent_kpc;
-  const inner = spec.model.kind === 'kepler'
-    ? Math.max(spec.softening_kpc, spec.model.semiMajorAxis_kpc * (1 - spec.model.eccentricity))
-    : Math.max(spec.softening_kpc, 1e-3 * extent);
+  const orbit = modelModule(spec.model.kind).orbit?.(spec.model);
+  const inner = Math.max(spec.softening_kpc, orbit ? orbit.innerRadius_kpc : 1e-3 * extent);
   let peak = 0;
   const samples = 200;
   for (let k = 0; k <= samples; k++) {
@@ -63,10 +61,7 @@ export function timescalesFor(spec: RunSpec, ic: InitialConditions): { timescale
   const [rHalf] = lagrangianRadii(p, [0.5]);
   const tCross = internalToMyr(rHalf / vrms);
   const tRelax = n >= 10 ? (n / (8 * Math.log(n))) * tCross : null;
-  const period =
-    spec.model.kind === 'kepler'
-      ? internalToMyr(2 * Math.PI * Math.sqrt(spec.model.semiMajorAxis_kpc ** 3 / (G * (spec.model.mass1_Msun + spec.model.mass2_Msun))))
-      : null;
+  const period = modelModule(spec.model.kind).orbit?.(spec.model).period_Myr ?? null;
 
   const warnings: EngineWarning[] = [];
   const eps = spec.softening_kpc;
@@ -128,8 +123,9 @@ export function timescalesFor(spec: RunSpec, ic: InitialConditions): { timescale
       source: 'the law itself (no pairwise potential)',
     });
   }
+  const traits = modelModule(spec.model.kind).traits;
+  warnings.push(...(lawModule(spec.law.kind).warnings?.(spec.law, { traits, particles: p, halfMassRadius_kpc: rHalf }) ?? []));
   warnings.push(...modelAndMethodNotes(spec, n));
-  if (spec.law.kind === 'qumond') warnings.push(...qumondGridNotes(spec.law, p, rHalf));
   const steps = stepCount(spec);
   return {
     timescales: {
@@ -153,42 +149,6 @@ const TREE_WORTHWHILE_N = 2000;
 /** Notes on the pairing of model, law and method that the numbers above cannot show. */
 function modelAndMethodNotes(spec: RunSpec, n: number): EngineWarning[] {
   const notes: EngineWarning[] = [];
-  const m = spec.model;
-  const flattened = m.kind === 'disk' || m.kind === 'encounter';
-  if (spec.law.kind === 'emergent' && (flattened || m.kind === 'table')) {
-    notes.push({
-      code: 'outside-validity',
-      severity: flattened ? 'warning' : 'info',
-      message: flattened
-        ? 'emergent gravity is derived for quasi-static spherical systems; for a disk or an encounter the apparent dark mass from the spherically averaged profile is only an illustration'
-        : 'emergent gravity is derived for quasi-static spherical systems; check that the uploaded system is roughly spherical',
-      source: 'Verlinde 2016',
-    });
-  }
-  if (spec.law.kind === 'mond' && flattened) {
-    notes.push({
-      code: 'algebraic-mond-approximate',
-      severity: 'info',
-      message: 'algebraic MOND is exact only for symmetric configurations; for disks and encounters it approximates the field equations (QUMOND, Milgrom 2010), and the momentum, energy and centre drift of such a run are artefacts of the algebraic form: read its curves and short-time structure only, or use the field form',
-      source: 'Milgrom 2010',
-    });
-  }
-  if (spec.law.kind === 'qumond' && flattened) {
-    notes.push({
-      code: 'disk-set-up-algebraically',
-      severity: 'info',
-      message: 'disk velocities balance the algebraic form of MOND (the field form has no closed-form curve), which differs from the field form for disks: the disk starts slightly out of balance',
-      source: 'Milgrom 2010',
-    });
-  }
-  if (spec.law.kind === 'halo' && m.kind === 'encounter') {
-    notes.push({
-      code: 'halo-fixed-at-origin',
-      severity: 'warning',
-      message: 'the static halo sits at the origin (the initial centre of mass); both systems move through it, and neither carries a halo of its own',
-      source: 'this engine',
-    });
-  }
   for (const s of balancedSystems(spec).filter((b) => !b.ownLaw)) {
     notes.push({
       code: 'set-up-for-another-law',

@@ -6,11 +6,12 @@ import type { Vector3 } from '../diagnostics';
 import { newtonKernel } from '../solvers/types';
 import { C_KM_S, G } from '../units';
 import { defineLaw, type LawInfo } from './types';
+import type { EngineWarning } from '../timescales';
 
 const schema = z
   .strictObject({
     kind: z.literal('emergent'),
-    H0_km_s_Mpc: z.number().min(20).max(200).default(70).describe('Hubble constant; sets a_M = c H0 / 6'),
+    H0_km_s_Mpc: z.number().min(20).max(200).default(70).describe('Hubble constant; sets a_M = c H0 / 6').meta({ title: 'H₀' }),
   })
   .describe('Emergent gravity, spherical form (Verlinde 2016), about the density centre and balanced so the system cannot push itself');
 
@@ -65,7 +66,24 @@ function darkPull(aM: number, profile: RadialMassProfile, c: Vector3, at: Points
 export const emergentLaw = defineLaw({
   kind: 'emergent',
   schema,
+  label: 'Emergent gravity (spherical)',
+  shortLabel: 'Emergent',
+  colour: 'teal',
+  preset: { kind: 'emergent', H0_km_s_Mpc: 70 },
+  virial: 'clausius',
   info,
+  warnings(_params, { traits }): EngineWarning[] {
+    if (traits.geometry === 'spherical') return [];
+    const flattened = traits.geometry === 'flattened';
+    return [{
+      code: 'outside-validity',
+      severity: flattened ? 'warning' : 'info',
+      message: flattened
+        ? 'emergent gravity is derived for quasi-static spherical systems; for a disk or an encounter the apparent dark mass from the spherically averaged profile is only an illustration'
+        : 'emergent gravity is derived for quasi-static spherical systems; check that the uploaded system is roughly spherical',
+      source: 'Verlinde 2016',
+    }];
+  },
   create(params, { solver, softening_kpc }) {
     const kernel = newtonKernel(softening_kpc);
     const aM = emergentScale(params);

@@ -3,6 +3,7 @@ import { newtonKernel } from '../solvers/types';
 import { G } from '../units';
 import { pairPotentialEnergy, scratchFor } from './pairwise';
 import { defineLaw, type LawInfo } from './types';
+import type { EngineWarning } from '../timescales';
 import type { Sources } from '../state';
 
 const schema = z
@@ -10,9 +11,10 @@ const schema = z
     kind: z.literal('halo'),
     profile: z
       .enum(['nfw', 'cored-isothermal'])
-      .describe('nfw: rho = rho0 / (x (1+x)^2) (Navarro, Frenk & White 1996); cored-isothermal: rho = rho0 / (1 + x^2); x = r / scale'),
-    scale_kpc: z.number().positive().max(1000).describe('NFW scale radius or isothermal core radius'),
-    density_Msun_kpc3: z.number().positive().max(1e12).describe('characteristic density rho0'),
+      .describe('nfw: rho = rho0 / (x (1+x)^2) (Navarro, Frenk & White 1996); cored-isothermal: rho = rho0 / (1 + x^2); x = r / scale')
+      .meta({ title: 'Halo profile', optionLabels: { nfw: 'NFW', 'cored-isothermal': 'cored isothermal' } }),
+    scale_kpc: z.number().positive().max(1000).describe('NFW scale radius or isothermal core radius').meta({ title: 'Scale radius' }),
+    density_Msun_kpc3: z.number().positive().max(1e12).describe('characteristic density rho0').meta({ title: 'Density ρ₀' }),
   })
   .describe('Newtonian gravity plus a static spherical dark halo fixed at the origin');
 
@@ -57,7 +59,22 @@ const info = (p: HaloParams): LawInfo => ({
 export const haloLaw = defineLaw({
   kind: 'halo',
   schema,
+  label: 'Newtonian + static dark halo',
+  shortLabel: 'Newton + halo',
+  colour: 'lavender',
+  // A typical galaxy halo's magnitude (from memory), not a fit to any galaxy.
+  preset: { kind: 'halo', profile: 'nfw', scale_kpc: 15, density_Msun_kpc3: 7e6 },
+  virial: 'clausius',
   info,
+  warnings(_params, { traits }): EngineWarning[] {
+    if (traits.systems < 2) return [];
+    return [{
+      code: 'halo-fixed-at-origin',
+      severity: 'warning',
+      message: 'the static halo sits at the origin (the initial centre of mass); both systems move through it, and neither carries a halo of its own',
+      source: 'this engine',
+    }];
+  },
   create(params, { solver, softening_kpc }) {
     const kernel = newtonKernel(softening_kpc);
     const scratch = scratchFor();

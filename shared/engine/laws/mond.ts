@@ -2,6 +2,7 @@ import { z } from 'zod';
 import { newtonKernel } from '../solvers/types';
 import { accelFromSI } from '../units';
 import { defineLaw, type LawInfo } from './types';
+import type { EngineWarning } from '../timescales';
 
 const schema = z
   .strictObject({
@@ -9,13 +10,15 @@ const schema = z
     interpolation: z
       .enum(['simple', 'standard', 'rar'])
       .default('simple')
-      .describe('simple (Famaey & Binney 2005), standard (Milgrom 1983), rar: the radial-acceleration-relation fit (McGaugh, Lelli & Schombert 2016)'),
+      .describe('simple (Famaey & Binney 2005), standard (Milgrom 1983), rar: the radial-acceleration-relation fit (McGaugh, Lelli & Schombert 2016)')
+      .meta({ title: 'Interpolating function', optionLabels: { simple: 'simple ν', standard: 'standard ν', rar: 'RAR ν' } }),
     a0_m_s2: z
       .number()
       .min(1e-12)
       .max(1e-8)
       .default(1.2e-10)
-      .describe('acceleration scale; 1.2e-10 m/s^2 as in Begeman, Broeils & Sanders 1991'),
+      .describe('acceleration scale; 1.2e-10 m/s^2 as in Begeman, Broeils & Sanders 1991')
+      .meta({ title: 'a₀' }),
   })
   .describe('MOND, algebraic form: a = nu(|g_N|/a0) g_N on each particle');
 
@@ -68,7 +71,22 @@ const info = (p: MondParams): LawInfo => ({
 export const mondLaw = defineLaw({
   kind: 'mond',
   schema,
+  label: 'MOND, algebraic form',
+  shortLabel: 'MOND (algebraic)',
+  colour: 'amber',
+  preset: { kind: 'mond', interpolation: 'simple', a0_m_s2: 1.2e-10 },
+  virial: 'clausius',
+  pairsWithReference: true,
   info,
+  warnings(_params, { traits }): EngineWarning[] {
+    if (traits.geometry !== 'flattened') return [];
+    return [{
+      code: 'algebraic-mond-approximate',
+      severity: 'info',
+      message: 'algebraic MOND is exact only for symmetric configurations; for disks and encounters it approximates the field equations (QUMOND, Milgrom 2010), and the momentum, energy and centre drift of such a run are artefacts of the algebraic form: read its curves and short-time structure only, or use the field form',
+      source: 'Milgrom 2010',
+    }];
+  },
   create(params, { solver, softening_kpc }) {
     const kernel = newtonKernel(softening_kpc);
     return {

@@ -17,6 +17,12 @@ const info = (): LawInfo => ({
 export const newtonLaw = defineLaw({
   kind: 'newton',
   schema: z.strictObject({ kind: z.literal('newton') }).describe('Newtonian gravity, Plummer-softened'),
+  label: 'Newtonian gravity',
+  shortLabel: 'Newton',
+  colour: 'periwinkle',
+  preset: { kind: 'newton' },
+  virial: 'potential',
+  reference: true,
   info,
   create(_params, { solver, softening_kpc }) {
     const kernel = newtonKernel(softening_kpc);

@@ -6,8 +6,8 @@ import type { PairKernel } from '../solvers/types';
 const schema = z
   .strictObject({
     kind: z.literal('yukawa'),
-    alpha: z.number().min(-1).max(10).describe('strength of the fifth force relative to Newton'),
-    lambda_kpc: z.number().positive().max(1e4).describe('range of the fifth force'),
+    alpha: z.number().min(-1).max(10).describe('strength of the fifth force relative to Newton').meta({ title: 'Strength α' }),
+    lambda_kpc: z.number().positive().max(1e4).describe('range of the fifth force').meta({ title: 'Range λ' }),
   })
   .describe('Newton plus a Yukawa fifth force: Phi = -G m / r (1 + alpha e^(-r/lambda)), softened');
 
@@ -27,6 +27,12 @@ const info = (p: YukawaParams): LawInfo => ({
 export const yukawaLaw = defineLaw({
   kind: 'yukawa',
   schema,
+  label: 'Newton + Yukawa fifth force',
+  shortLabel: 'Yukawa',
+  colour: 'rose',
+  // Typical textbook magnitudes (from memory), not a fit to any system.
+  preset: { kind: 'yukawa', alpha: 0.5, lambda_kpc: 10 },
+  virial: 'clausius',
   info,
   create(params, { solver, softening_kpc }) {
     const kernel: PairKernel = {

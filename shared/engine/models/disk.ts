@@ -1,5 +1,5 @@
-import type { DiskSpec, LawSpec } from '../../spec/runSpec';
-import { createLaw, modelAcceleration } from '../laws/registry';
+import { z } from 'zod';
+import { createLaw, lawModule, modelAcceleration, type LawSpec } from '../laws/registry';
 import type { LawContext } from '../laws/types';
 import type { RngState } from '../rng';
 import { normal, uniform, uniformOpen } from '../rng';
@@ -8,12 +8,39 @@ import { G } from '../units';
 import { haloProfile, sampleHaloPositions } from './halo';
 import { hernquistProfile, sampleHernquistPositions } from './hernquist';
 import { assignIsotropicVelocities, interpolate, isotropicSpeedSampler, softenedSphericalModel } from './isotropic';
+import { makeSolver } from '../solvers';
+import { checkSystem, count, equilibriumLaw, length, liveHaloSchema, mass, truncation } from './fields';
 import { combinedModel, type MassModel } from './massModel';
+import { defineSystem } from './system';
 import type { Component } from './types';
 
 // Module-local aliases: inside a vm context (Jest, sandboxes) every global
 // lookup of Math is slow enough to dominate a hot loop.
 const { cos, sqrt, exp, log, PI } = Math;
+
+const schema = z
+  .strictObject({
+    kind: z.literal('disk'),
+    n: count.describe('number of particles, disk and bulge together'),
+    mass_Msun: mass.describe('disk mass'),
+    scaleLength_kpc: length.describe('exponential scale length R_d').meta({ title: 'Scale length R_d' }),
+    scaleHeight_kpc: length.describe('sech^2 scale height z0: rho ~ sech^2(z / z0)').meta({ title: 'Scale height z₀' }),
+    toomreQ: z.number().min(0.5).max(10).default(1.5).describe('Toomre (1964) stability parameter setting the radial dispersion').meta({ title: 'Toomre Q' }),
+    truncationRadius_kpc: truncation,
+    bulge: z
+      .strictObject({
+        mass_Msun: mass.meta({ title: 'Bulge mass' }),
+        scale_kpc: length.describe('Hernquist scale radius of the bulge').meta({ title: 'Bulge scale radius' }),
+      })
+      .optional()
+      .describe('optional Hernquist bulge; particles are shared out in proportion to mass')
+      .meta({ title: 'Bulge' }),
+    halo: liveHaloSchema,
+    equilibriumLaw,
+  })
+  .describe('Exponential disk (Freeman 1970) with sech^2 vertical profile');
+
+export type DiskSpec = z.infer<typeof schema>;
 
 /** Default cut at 10 scale lengths, which holds 99.95% of an exponential disk's mass (common practice). */
 const DEFAULT_TRUNCATION_SCALE_LENGTHS = 10;
@@ -294,7 +321,7 @@ function verticalDispersion(d: DiskSpec, law: LawSpec, ctx: LawContext, sources:
  * Other laws' model curves are their field in the plane: ratio 1.
  */
 function fieldCorrection(d: DiskSpec, law: LawSpec, ctx: LawContext, sources: Sources, model: MassModel): (R: number) => number {
-  if (law.kind !== 'qumond') return () => 1;
+  if (!lawModule(law.kind).approximateCurve) return () => 1;
   const Rd = d.scaleLength_kpc;
   const outer = Math.min(PROBE_OUTER * Rd, diskTruncation(d));
   const rings = PROBE_RADII, J = 4 * PROBE_AZIMUTHS;
@@ -372,3 +399,22 @@ export function sampleDiskGalaxy(d: DiskSpec, law: LawSpec, ctx: LawContext, rng
   }
   return components;
 }
+
+export const diskModule = defineSystem({
+  kind: 'disk',
+  schema,
+  label: 'Exponential disk',
+  note: 'A rotating exponential disk, optionally with a bulge; its velocities follow the circular speed of a law.',
+  // An invented example galaxy, sized to run in seconds under the default timestep.
+  preset: { kind: 'disk', n: 2000, mass_Msun: 5e10, scaleLength_kpc: 3, scaleHeight_kpc: 0.3, toomreQ: 1.5 },
+  traits: { geometry: 'flattened', systems: 1 },
+  // Disks were balanced for the run's own law from the first version on.
+  version1Reference: false,
+  components: (d) => ['disk', ...(d.bulge ? ['bulge'] : []), ...(d.halo ? ['halo'] : [])],
+  mass: (d) => d.mass_Msun + (d.bulge?.mass_Msun ?? 0) + (d.halo?.mass_Msun ?? 0),
+  massModel: diskGalaxyModel,
+  sample: (d, law, { spec, rng }, out, start) =>
+    sampleDiskGalaxy(d, law, { solver: makeSolver(spec.solver), softening_kpc: spec.softening_kpc }, rng, out, start),
+  checkSystem: (d, path, ctx) => checkSystem(d, 'scaleLength_kpc', path, ctx),
+  diskPart: (d) => ({ component: 'disk', scaleLength_kpc: d.scaleLength_kpc }),
+});

@@ -1,4 +1,4 @@
-import type { HaloSpec } from '../../spec/runSpec';
+import type { HaloSpec } from './fields';
 import type { RngState } from '../rng';
 import { isotropicDirection, MAX_REJECTION_DRAWS, rejectionGaveUp, uniform } from '../rng';
 import type { ParticleState } from '../state';

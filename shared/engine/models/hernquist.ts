@@ -1,7 +1,11 @@
+import { z } from 'zod';
 import type { RngState } from '../rng';
 import { isotropicDirection, MAX_REJECTION_DRAWS, rejectionGaveUp, uniform } from '../rng';
 import type { ParticleState } from '../state';
+import { checkSystem, count, equilibriumLaw, length, liveHaloSchema, mass, truncation } from './fields';
 import { sphericalModel, type MassModel, type SphericalProfile } from './massModel';
+import { sampleSphere, sphereComponents, sphereMass, sphereMassModel } from './sphere';
+import { defineSystem } from './system';
 
 export interface HernquistParams {
   mass_Msun: number;
@@ -56,3 +60,36 @@ export function sampleHernquistPositions(p: HernquistParams, rng: RngState, out:
     out.m[i] = m;
   }
 }
+
+const schema = z
+  .strictObject({
+    kind: z.literal('hernquist'),
+    n: count,
+    mass_Msun: mass,
+    scale_kpc: length.describe('Hernquist scale radius a').meta({ title: 'Scale radius a' }),
+    truncationRadius_kpc: truncation,
+    halo: liveHaloSchema,
+    equilibriumLaw,
+  })
+  .describe('Hernquist (1990) sphere, isotropic velocities from the distribution function in the equilibrium law\'s field');
+
+export type HernquistSpec = z.infer<typeof schema>;
+
+const LABEL = 'Hernquist sphere';
+
+export const hernquistModule = defineSystem({
+  kind: 'hernquist',
+  schema,
+  label: LABEL,
+  note: 'A cuspy sphere like a galaxy bulge or elliptical.',
+  // An invented example system, sized to run in seconds under the default timestep.
+  preset: { kind: 'hernquist', n: 1000, mass_Msun: 5e10, scale_kpc: 2 },
+  traits: { geometry: 'spherical', systems: 1 },
+  version1Reference: true,
+  components: (s) => sphereComponents(LABEL, s),
+  mass: sphereMass,
+  massModel: (s) => sphereMassModel(hernquistProfile(s), s.halo),
+  sample: (s, law, ctx, out, start) =>
+    sampleSphere(s, LABEL, hernquistProfile(s), (rng, o, from, n) => sampleHernquistPositions(s, rng, o, from, n), law, ctx, out, start),
+  checkSystem: (s, path, ctx) => checkSystem(s, 'scale_kpc', path, ctx),
+});

@@ -1,7 +1,11 @@
+import { z } from 'zod';
 import type { RngState } from '../rng';
 import { isotropicDirection, MAX_REJECTION_DRAWS, rejectionGaveUp, uniform } from '../rng';
 import type { ParticleState } from '../state';
+import { checkSystem, count, equilibriumLaw, length, liveHaloSchema, mass, truncation } from './fields';
 import { sphericalModel, type MassModel, type SphericalProfile } from './massModel';
+import { sampleSphere, sphereComponents, sphereMass, sphereMassModel } from './sphere';
+import { defineSystem } from './system';
 
 export interface PlummerParams {
   mass_Msun: number;
@@ -57,3 +61,36 @@ export function samplePlummerPositions(p: PlummerParams, rng: RngState, out: Par
     out.m[i] = m;
   }
 }
+
+const schema = z
+  .strictObject({
+    kind: z.literal('plummer'),
+    n: count,
+    mass_Msun: mass,
+    scale_kpc: length.describe('Plummer radius a').meta({ title: 'Scale radius a' }),
+    truncationRadius_kpc: truncation,
+    halo: liveHaloSchema,
+    equilibriumLaw,
+  })
+  .describe('Plummer sphere: radii as Aarseth, Henon & Wielen (1974), isotropic velocities from the distribution function in the equilibrium law\'s field');
+
+export type PlummerSpec = z.infer<typeof schema>;
+
+const LABEL = 'Plummer sphere';
+
+export const plummerModule = defineSystem({
+  kind: 'plummer',
+  schema,
+  label: LABEL,
+  note: 'A cored sphere in equilibrium, sampled from its distribution function.',
+  // An invented example system, sized to run in seconds under the default timestep.
+  preset: { kind: 'plummer', n: 500, mass_Msun: 1e10, scale_kpc: 1 },
+  traits: { geometry: 'spherical', systems: 1 },
+  version1Reference: true,
+  components: (s) => sphereComponents(LABEL, s),
+  mass: sphereMass,
+  massModel: (s) => sphereMassModel(plummerProfile(s), s.halo),
+  sample: (s, law, ctx, out, start) =>
+    sampleSphere(s, LABEL, plummerProfile(s), (rng, o, from, n) => samplePlummerPositions(s, rng, o, from, n), law, ctx, out, start),
+  checkSystem: (s, path, ctx) => checkSystem(s, 'scale_kpc', path, ctx),
+});

@@ -1,0 +1,85 @@
+import { z } from 'zod';
+import {
+  buildInitialConditions, defaultPairLaw, galaxyPairLaw, LAW_COLOUR_TOKENS, lawModules, lawPreset, lawSchema, modelComponents, modelModules,
+  modelPreset, referenceLaw, usesPotentialVirial,
+} from '../../shared/engine';
+import { parseRunSpec, runSpecSchema, type RunSpec } from '../../shared/spec';
+
+// The registries are the product's one source for what it says about a law or a model:
+// these checks keep every module complete, so forms, tables and plots generated from them
+// have nothing to fill in by hand.
+
+type Node = { title?: string; optionLabels?: Record<string, string>; enum?: unknown[]; properties?: Record<string, Node>; oneOf?: Node[]; anyOf?: Node[]; items?: Node; $ref?: string };
+
+/** Every object property below `node` (through unions, arrays and $defs), with its path. */
+function properties(node: Node, defs: Record<string, Node>, path: string, out: [string, Node][], seen = new Set<string>()): [string, Node][] {
+  if (node.$ref) {
+    const name = node.$ref.replace('#/$defs/', '');
+    if (seen.has(name)) return out;
+    return properties(defs[name], defs, path, out, new Set([...seen, name]));
+  }
+  for (const [key, child] of Object.entries(node.properties ?? {})) {
+    out.push([`${path}.${key}`, child]);
+    properties(child, defs, `${path}.${key}`, out, seen);
+  }
+  for (const alt of [...(node.oneOf ?? []), ...(node.anyOf ?? [])]) properties(alt, defs, path, out, seen);
+  if (node.items) properties(node.items, defs, `${path}[]`, out, seen);
+  return out;
+}
+
+const titleOf = (node: Node, defs: Record<string, Node>): string | undefined =>
+  node.title ?? (node.$ref ? defs[node.$ref.replace('#/$defs/', '')]?.title : undefined) ?? [...(node.anyOf ?? []), ...(node.oneOf ?? [])].map((n) => titleOf(n, defs)).find(Boolean);
+
+describe('field titles travel through the public JSON Schema conversion', () => {
+  const json = z.toJSONSchema(runSpecSchema, { io: 'input', unrepresentable: 'any' }) as Node & { $defs?: Record<string, Node> };
+  const defs = json.$defs ?? {};
+  const props = properties(json, defs, 'spec', []);
+
+  test('every field of every law and model (and of the spec) has a title, except the kind tags and the version', () => {
+    const untitled = props.filter(([path, node]) => !/\.(kind|version)$/.test(path) && !titleOf(node, defs)).map(([path]) => path);
+    expect(props.length).toBeGreaterThan(60);
+    expect([...new Set(untitled)]).toEqual([]);
+  });
+
+  test('every enum field labels each of its options', () => {
+    const enums = props.filter(([, node]) => Array.isArray(node.enum) && node.enum.length > 1);
+    expect(enums.length).toBeGreaterThan(3);
+    for (const [path, node] of enums) {
+      expect([path, Object.keys(node.optionLabels ?? {}).sort()]).toEqual([path, node.enum!.map(String).sort()]);
+    }
+  });
+});
+
+describe('law modules', () => {
+  test('each preset parses under its own schema, and each law takes a colour token of its own', () => {
+    for (const m of lawModules()) expect(lawSchema.safeParse(lawPreset(m.kind)).success).toBe(true);
+    const colours = lawModules().map((m) => m.colour);
+    expect(new Set(colours).size).toBe(colours.length);
+    for (const c of colours) expect(LAW_COLOUR_TOKENS).toContain(c);
+  });
+
+  test('roles: one reference law, which alone is judged by 2K/|W|; pairs default to a law other than the first', () => {
+    const reference = referenceLaw();
+    expect(lawModules().filter((m) => m.reference).map((m) => m.kind)).toEqual([reference.kind]);
+    expect(lawModules().filter((m) => usesPotentialVirial(m.kind)).map((m) => m.kind)).toEqual([reference.kind]);
+    for (const m of lawModules()) expect(defaultPairLaw(m.kind).kind).not.toBe(m.kind);
+    expect(lawSchema.safeParse(galaxyPairLaw()).success).toBe(true);
+  });
+});
+
+describe('model modules', () => {
+  const specFor = (model: unknown): RunSpec => {
+    const parsed = parseRunSpec({ version: 2, model, law: referenceLaw(), timestep_Myr: 0.5, duration_Myr: 1, softening_kpc: 0.1, snapshotEvery: 1 });
+    if (!parsed.ok) throw new Error(JSON.stringify(parsed.issues));
+    return parsed.spec;
+  };
+
+  test.each(modelModules().map((m) => [m.kind]))('%s: the preset is a valid model whose particles are the parts and count the module declares', (kind) => {
+    const spec = specFor(modelPreset(kind));
+    const m = modelModules().find((x) => x.kind === kind)!;
+    const ic = buildInitialConditions(spec);
+    expect(ic.components.map((c) => c.label)).toEqual(modelComponents(spec.model));
+    expect(ic.particles.n).toBe(m.particleCount(spec.model));
+    expect(ic.components.reduce((n, c) => n + c.count, 0)).toBe(ic.particles.n);
+  });
+});
