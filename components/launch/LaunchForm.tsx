@@ -13,12 +13,12 @@ import { Panel } from '../Panel';
 import { Screen } from '../Screen';
 import { describeError, Notice } from '../States';
 import { Txt } from '../Txt';
-import { INTEGRATOR_LABELS, labelOf, SOLVER_LABELS } from '../spec/labels';
+import { INTEGRATOR_NOTES, SOLVER_LABELS } from '../spec/labels';
 import { CostPanel, quotaFieldNotes } from './CostPanel';
 import { styles as formStyles } from './formStyles';
 import { LawEditor } from './LawEditor';
 import { ModelEditor } from './ModelEditor';
-import { enumOptions, nodeAt } from './schemaForm';
+import { enumOptions, nodeAt, titleOf } from './schemaForm';
 import { ChecksPreview, CurvePreview } from './PreviewPanels';
 import { QuotaLimitHints, SpecNumber } from './SpecField';
 
@@ -62,7 +62,17 @@ export function LaunchForm({ start }: { start?: LaunchStart }) {
 
   const submitError = submit.error ? describeError(submit.error) : null;
   // Named, because on a phone the marked field may be a long way above the button.
-  const problemNames = [...new Set(Object.keys(form.issues).map((k) => (k === 'pairLaw' ? 'Second law' : labelOf(k.split('.').pop()!))))];
+  const problemNames = [
+    ...new Set(
+      Object.keys(form.issues).map((k) => {
+        if (k === 'pairLaw') return 'Second law';
+        // The pair's second law is checked as the law of a spec: its fields sit at law.*.
+        const path = k.split('.');
+        const where = path[0] === 'pairLaw' ? nodeAt(['law', ...path.slice(1)], { law: form.pairLaw }) : nodeAt(path, draft);
+        return titleOf(path[path.length - 1], where?.node ?? {});
+      }),
+    ),
+  ];
   const problems = problemNames.length;
 
   const formColumn = (
@@ -93,7 +103,7 @@ export function LaunchForm({ start }: { start?: LaunchStart }) {
           label="Integrator"
           value={String(draft.integrator ?? 'leapfrog')}
           onChange={(v) => set(['integrator'], v)}
-          choices={enumOptions(nodeAt(['integrator'], draft)?.node ?? {}).map(({ value }) => ({ value: String(value), label: INTEGRATOR_LABELS[value]?.label ?? String(value), note: INTEGRATOR_LABELS[value]?.note }))}
+          choices={enumOptions(nodeAt(['integrator'], draft)?.node ?? {}).map(({ value, label }) => ({ value: String(value), label, note: INTEGRATOR_NOTES[value] }))}
         />
         <ChoiceChips
           label="Force solver"

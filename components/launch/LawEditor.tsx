@@ -1,6 +1,6 @@
 import { View } from 'react-native';
 import type { LawSpec } from '../../shared/spec';
-import { lawInfo, lawModules, lawPreset } from '../../shared/engine';
+import { lawInfo, lawModule, lawModules } from '../../shared/engine';
 import { space } from '../../constants/theme';
 import { ChoiceChips } from '../fields';
 import { Txt } from '../Txt';
@@ -35,7 +35,7 @@ export function LawEditor({ label, law, onChange, issues, issuePrefix, exclude, 
   const kinds = lawModules().filter((m) => m.kind !== exclude || m.kind === law.kind);
   return (
     <View style={formStyles.group} testID={testID}>
-      <ChoiceChips label={label} value={law.kind} onChange={(k) => onChange(lawPreset(k) as LawSpec)} choices={kinds.map((m) => ({ value: m.kind, label: m.shortLabel }))} />
+      <ChoiceChips label={label} value={law.kind} onChange={(k) => onChange(lawModule(k).preset as LawSpec)} choices={kinds.map((m) => ({ value: m.kind, label: m.shortLabel }))} />
       <SchemaFields draft={holder} path={['law']} set={set} issues={issues} issueKey={(p) => `${issuePrefix}${p.slice(1).join('.')}`} />
       {info ? (
         <View style={{ gap: space.xs }}>

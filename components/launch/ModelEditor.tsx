@@ -1,7 +1,7 @@
 import { useState } from 'react';
 import { StyleSheet, View } from 'react-native';
 import type { LawSpec } from '../../shared/spec';
-import { modelModule, modelModules, modelPreset } from '../../shared/engine';
+import { LIVE_HALO_PRESET, modelModule, modelModules } from '../../shared/engine';
 import { colors, space } from '../../constants/theme';
 import { ChoiceChips } from '../fields';
 import { lawName, modelName } from '../format';
@@ -71,17 +71,18 @@ export function ModelEditor({ draft, set, issues, pairLaw }: Props) {
   const law = draft.law as LawSpec;
   const eqLaw = pinnedLaw(model);
   const eqChoice = !eqLaw ? 'own' : pairLaw && JSON.stringify(eqLaw) === JSON.stringify(pairLaw) ? 'pair' : 'first';
-  const kinds = { label: modelName, note: (k: string) => modelModule(k).note, preset: modelPreset };
+  // Presets go into the draft as they are: the form only ever replaces values, never mutates them.
+  const kinds = { label: modelName, note: (k: string) => modelModule(k).note, preset: (k: string) => modelModule(k).preset };
 
   return (
     <View style={formStyles.group}>
       <ChoiceChips
         label="Model"
         value={kind}
-        onChange={(k) => set(['model'], modelPreset(k))}
+        onChange={(k) => set(['model'], kinds.preset(k))}
         choices={modelModules().map((m) => ({ value: m.kind, label: m.label, note: m.note }))}
       />
-      <SchemaFields draft={draft} path={['model']} set={set} issues={issues} skip={['equilibriumLaw']} kinds={kinds} renderRows={(path) => <RowsFromFile draft={draft} path={path} set={set} issues={issues} />} />
+      <SchemaFields draft={draft} path={['model']} set={set} issues={issues} skip={['equilibriumLaw']} kinds={kinds} partPresets={[LIVE_HALO_PRESET]} renderRows={(path) => <RowsFromFile draft={draft} path={path} set={set} issues={issues} />} />
       {pairLaw && isSampled(model) ? (
         <ChoiceChips
           label="Velocities balanced for"

@@ -28,6 +28,8 @@ export interface SchemaFieldsProps {
   kinds?: KindCatalogue;
   /** Draws a list of rows (uploaded particles). */
   renderRows?: (path: Path) => ReactNode;
+  /** Starting values for optional parts, each used where its fields fit (the registry's live halo). */
+  partPresets?: readonly unknown[];
 }
 
 // Components of a three-vector, the only tuples the spec holds.
@@ -38,7 +40,7 @@ const AXES = ['x', 'y', 'z'];
  * enums as chips, optional parts behind a switch, tuples as a row, unions by `kind`.
  */
 export function SchemaFields(props: SchemaFieldsProps) {
-  const { draft, path, set, issues, issueKey = (p: Path) => p.join('.'), skip = [], kinds, renderRows } = props;
+  const { draft, path, set, issues, issueKey = (p: Path) => p.join('.'), skip = [], kinds, renderRows, partPresets = [] } = props;
   const found = nodeAt(path, draft);
   const value = getIn(draft, path);
   const node = found ? pickMember(found.node, value) : null;
@@ -65,7 +67,7 @@ export function SchemaFields(props: SchemaFieldsProps) {
     }
     flush();
     // An optional part is switched on with a valid starting value and off by leaving it out.
-    const toggle = optional && (kind === 'tuple' || kind === 'object') ? <Toggle key={`${key}-on`} label={title} hint={child.description} value={v !== undefined} onChange={(on) => set(p, on ? startValue(child) : undefined)} /> : null;
+    const toggle = optional && (kind === 'tuple' || kind === 'object') ? <Toggle key={`${key}-on`} label={title} hint={child.description} value={v !== undefined} onChange={(on) => set(p, on ? startValue(child, partPresets) : undefined)} /> : null;
     if (toggle) out.push(toggle);
     if (kind === 'choice') {
       const choices = enumOptions(child);

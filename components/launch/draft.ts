@@ -1,8 +1,9 @@
 import type { LawSpec } from '../../shared/spec';
-import { fieldKind, nodeAt, pickMember, type Path } from './schemaForm';
+import { modelModule } from '../../shared/engine';
+import type { Path } from './schemaForm';
 
-// Plain helpers over the launch form's draft spec: reading and writing by path, and which
-// systems of a model take their velocities from a law.
+// Plain helpers over the launch form's draft spec: reading and writing by path, and pinning the
+// law a model's systems take their velocities from.
 
 export type { Path };
 
@@ -21,21 +22,16 @@ export function getIn(obj: unknown, path: Path): unknown {
 }
 
 /**
- * The systems of a model (paths inside it) whose velocities are balanced in a law's field: every
- * part whose schema has an `equilibriumLaw` (the model itself, or the members of an encounter).
- * Uploaded particles bring their own velocities and a two-body orbit has none to balance.
+ * The systems of a model (paths inside it) whose velocities are balanced in a law's field, as its
+ * module lists them: the model itself, or the members of an encounter; none for particles that
+ * bring their own velocities or a two-body orbit.
  */
 export function balancedSystems(model: unknown): Path[] {
-  const walk = (path: Path): Path[] => {
-    const found = nodeAt(['model', ...path], { model });
-    const node = found ? pickMember(found.node, getIn(model, path)) : null;
-    if (!node?.properties) return [];
-    if (node.properties.equilibriumLaw) return [path];
-    return Object.entries(node.properties)
-      .filter(([key, child]) => fieldKind(child) === 'union' && getIn(model, [...path, key]) !== undefined)
-      .flatMap(([key]) => walk([...path, key]));
-  };
-  return walk([]);
+  try {
+    return modelModule(String((model as { kind?: unknown } | undefined)?.kind)).balancedPaths;
+  } catch {
+    return []; // a kind no module has
+  }
 }
 
 export const isSampled = (model: unknown): boolean => balancedSystems(model).length > 0;

@@ -1,6 +1,6 @@
 import { z } from 'zod';
 import { runSpecSchema } from '../../shared/spec';
-import { labelOf, unitOf } from '../spec/labels';
+import { unitOf } from '../spec/labels';
 
 // The launch form reads every field it draws from the run spec's JSON Schema (zod's public
 // conversion, input side), so a law or model module's schema is all a form needs: numbers with
@@ -138,20 +138,30 @@ export function enumOptions(node: JsonNode): Option[] {
   return (node.enum ?? []).map((value) => ({ value, label: node.optionLabels?.[String(value)] ?? String(value), note: node.optionNotes?.[String(value)] }));
 }
 
-/** A field's title: the schema's own, else Infall's words for the key. */
-export const titleOf = (key: string | number, node: JsonNode): string => node.title ?? labelOf(String(key));
+/** A field's title: the schema's own (every module titles its fields), else its key. */
+export const titleOf = (key: string | number, node: JsonNode): string => node.title ?? String(key);
 
 /** A field's unit: the schema's own, else read from the key's suffix (_kpc, _Msun, ...). */
 export const unitOfField = (key: string | number, node: JsonNode): string | undefined => node.unit ?? unitOf(String(key));
 
+/** Whether an object fits an object schema's fields: only fields it has, every required one given. */
+function fitsObject(value: unknown, node: JsonNode): boolean {
+  if (!value || typeof value !== 'object' || !node.properties) return false;
+  const keys = Object.keys(value);
+  return keys.every((k) => k in node.properties!) && (node.required ?? []).every((k) => keys.includes(k));
+}
+
 /**
  * A valid value to start a field from when someone switches it on or picks it: the schema's
- * first example, else its default, else one built from its parts (a number's default or the
- * value nearest zero inside its range, an enum's first option, an object's required fields).
+ * first example, else a registry preset whose fields fit it (a live halo's), else its default,
+ * else one built from its parts (a number's default or the value nearest zero inside its range,
+ * an enum's first option, an object's required fields).
  */
-export function startValue(node: JsonNode, root = specJsonSchema()): unknown {
+export function startValue(node: JsonNode, presets: readonly unknown[] = [], root = specJsonSchema()): unknown {
   const n = deref(node, root);
   if (n.examples?.length) return n.examples[0];
+  const preset = presets.find((p) => fitsObject(p, n));
+  if (preset !== undefined) return preset;
   if (n.default !== undefined) return n.default;
   switch (fieldKind(n)) {
     case 'number': {
@@ -169,12 +179,12 @@ export function startValue(node: JsonNode, root = specJsonSchema()): unknown {
     case 'boolean':
       return false;
     case 'tuple':
-      return n.prefixItems!.map((item) => startValue(item, root));
+      return n.prefixItems!.map((item) => startValue(item, presets, root));
     case 'union':
-      return startValue(unionMembers(n)![0], root);
+      return startValue(unionMembers(n)![0], presets, root);
     case 'object': {
       const out: Record<string, unknown> = {};
-      for (const key of n.required ?? []) out[key] = n.properties![key].const ?? startValue(n.properties![key], root);
+      for (const key of n.required ?? []) out[key] = n.properties![key].const ?? startValue(n.properties![key], presets, root);
       return out;
     }
     default:

@@ -2,7 +2,7 @@ import { lawInfo } from '../../shared/engine';
 import type { LawSpec, RunSpec } from '../../shared/spec';
 import { formatCount, formatInput, lawName, modelName } from '../format';
 import { fieldKind, memberKind, nodeAt, pickMember, specJsonSchema, titleOf, unitOfField, type JsonNode } from '../launch/schemaForm';
-import { INTEGRATOR_LABELS, SOLVER_LABELS } from './labels';
+import { SOLVER_LABELS } from './labels';
 
 // A run spec as rows people read: the run and compare pages list these, and the compare page
 // lines two specs up by `key` to mark what differs.
@@ -64,7 +64,8 @@ function fieldRows(spec: RunSpec, obj: Obj, path: string, group: SpecGroup, labe
       const inner = v as Obj;
       if (isLawUnion(child)) rows.push({ key, group, label, value: lawSummary(spec, inner as LawSpec) });
       else if (fieldKind(child) === 'union') rows.push(...systemRows(spec, inner, key, group, `${label} · `));
-      else rows.push(...fieldRows(spec, inner, key, group, `${label} · `));
+      // A part's fields carry titles of their own ("Bulge mass", "Halo particles").
+      else rows.push(...fieldRows(spec, inner, key, group, labelPrefix));
     }
   }
   // Optional fields left out still say what the run used.
@@ -100,7 +101,8 @@ export function specRows(spec: RunSpec): SpecRow[] {
   rows.push({ key: 'law.kind', group: 'Force law', label: 'Law', value: lawLabel(spec.law) });
   rows.push(...fieldRows(spec, spec.law as unknown as Obj, 'law', 'Force law', ''));
   const g: SpecGroup = 'Integration';
-  rows.push({ key: 'integrator', group: g, label: 'Integrator', value: INTEGRATOR_LABELS[spec.integrator]?.label ?? spec.integrator });
+  const integrator = nodeAt(['integrator'], spec)?.node ?? {};
+  rows.push({ key: 'integrator', group: g, label: titleOf('integrator', integrator), value: integrator.optionLabels?.[spec.integrator] ?? spec.integrator });
   rows.push({ key: 'solver.kind', group: g, label: 'Force solver', value: SOLVER_LABELS[spec.solver.kind]?.label ?? spec.solver.kind });
   rows.push(...fieldRows(spec, spec.solver as unknown as Obj, 'solver', g, ''));
   const rest: Obj = { timestep_Myr: spec.timestep_Myr, duration_Myr: spec.duration_Myr, softening_kpc: spec.softening_kpc, snapshotEvery: spec.snapshotEvery, diagnosticsEvery: spec.diagnosticsEvery, seed: spec.seed };
