@@ -4,6 +4,7 @@ import { FIT_LAWS, type GalaxyFitReport, type SampleFitReport } from '../galaxy/
 import type { Owner } from './contract';
 import type { UploadLimits } from './accounts';
 import { HALO_FITS } from '../galaxy/toRun';
+import { galaxyPairLaw } from '../engine/laws/registry';
 
 // Galaxies: observed rotation curves uploaded as tables, who may see them, and the fits
 // requested on them. The upload is multipart (the file plus these fields as text).
@@ -123,8 +124,8 @@ export const galaxySampleRequestSchema = galaxyFitRequestSchema.extend({
 });
 export type GalaxySampleRequest = z.infer<typeof galaxySampleRequestSchema>;
 
-/** The MOND member of a pair built from a galaxy unless the request names another law: the field form, grid 32 (kept cheap). */
-export const GALAXY_PAIR_LAW = { kind: 'qumond', interpolation: 'simple', a0_m_s2: 1.2e-10, grid: 32 } as const;
+/** The other member of a pair built from a galaxy unless the request names another law (the law modules choose it: the field form of MOND, kept cheap). */
+export const GALAXY_PAIR_LAW = galaxyPairLaw();
 
 /**
  * POST /api/galaxies/:id/runs: a pair of runs from one of the galaxy's Newtonian fits (the newest

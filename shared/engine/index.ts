@@ -10,7 +10,7 @@ export type { EquilibriumRecord, RunHooks, RunProgress, RunResult, RunSummary, S
 export { analyticCurves, CURVE_BINS } from './analytic';
 export type { AnalyticCurves, AnalyticCurveOptions } from './analytic';
 export {
-  defaultPairLaw, fitFamilies, galaxyPairLaw, isReferenceLaw, lawColour, lawConservation, lawInfo, lawLabel, lawModule, lawModules,
+  defaultPairLaw, fitFamilies, fitFamily, galaxyPairLaw, isReferenceLaw, lawColour, lawConservation, lawInfo, lawJsonSchema, lawLabel, lawModule, lawModules,
   LAW_MODULES, lawPreset, lawSchema, lawShortLabel, referenceLaw, usesPotentialVirial,
 } from './laws/registry';
 export type { LawKind, LawSpec, LawSpecInput } from './laws/registry';
@@ -23,7 +23,7 @@ export type { EngineWarning, Timescales } from './timescales';
 export { CancelledDuringSetup, Simulation } from './simulation';
 export type { SimulationState } from './simulation';
 export {
-  balancedSystems, buildInitialConditions, LIVE_HALO_PRESET, massModelFor, modelComponents, modelLabel, modelModule, modelModules,
+  balancedSystems, buildInitialConditions, LIVE_HALO_PRESET, massModelFor, modelComponents, modelJsonSchema, modelLabel, modelModule, modelModules,
   MODEL_MODULES, modelPreset, modelSchema, modelTraits, SYSTEM_MODULES, systemModule,
 } from './models';
 export type { BalancedSystem, Component, InitialConditions, ModelKind, ModelModule, ModelSpec, ModelTraits, SystemModule } from './models';

@@ -4,16 +4,16 @@
 // applied to the galaxy's tabulated baryons (see baryons.ts).
 import { levenbergMarquardt } from 'ml-levenberg-marquardt';
 import { inverse, Matrix } from 'ml-matrix';
-import { emergentLaw } from '../engine/laws/emergent';
-import { haloLaw } from '../engine/laws/halo';
-import { mondLaw } from '../engine/laws/mond';
-import type { MassModel } from '../engine/models/massModel';
-import { G } from '../engine/units';
+import { fitFamilies, fitFamily } from '../engine/laws/registry';
+import type { FitParam, LawFitFamily } from '../engine/laws/types';
 import { baryonicSquared, hasBaryons, tabulatedBaryonModel, type MassToLight } from './baryons';
 import type { RotationCurve } from './table';
 
-export const FIT_LAWS = ['nfw', 'isothermal', 'mond-simple', 'mond-standard', 'mond-rar', 'emergent'] as const;
-export type FitLaw = (typeof FIT_LAWS)[number];
+/** Every law's fit families (law modules declare them), by the id stored with each fit. */
+const FAMILIES = fitFamilies();
+export const FIT_LAWS = FAMILIES.map((f) => f.id) as [string, ...string[]];
+export type FitLaw = string;
+export { CM_NORMALISATION, CM_SLOPE, concentrationFor, HALO_H0_KM_S_MPC, nfwFromV200 } from '../engine/laws/halo';
 
 /** A log-normal prior: log10(value) is Gaussian about log10(centre) with sigma_dex. */
 export interface LogNormalPrior {
@@ -54,18 +54,6 @@ export const DEFAULT_PRIORS = {
   disk: { centre: 0.5, sigma_dex: 0.1 },
   bulge: { centre: 0.7, sigma_dex: 0.1 },
 } as const satisfies Record<string, LogNormalPrior>;
-
-/** Hubble constant that defines the NFW halo's virial radius (r200 where the mean density is 200 rho_crit). Common practice: 70 km/s/Mpc. */
-export const HALO_H0_KM_S_MPC = 70;
-/**
- * Concentration-mass relation for NFW halos at z = 0:
- * log10 c200 = a + b log10(M200 / (1e12 Msun/h)), b = -0.097 and a near 1.025
- * (Dutton & Maccio 2014, Planck cosmology; from memory). In a sample fit a is
- * the one shared halo scaling parameter; b is held.
- */
-export const CM_SLOPE = -0.097;
-export const CM_NORMALISATION = 1.025;
-const LITTLE_H = HALO_H0_KM_S_MPC / 100;
 
 export interface FittedParam {
   name: string;
@@ -169,100 +157,8 @@ export class FitError extends Error {
   }
 }
 
-/** A fitted parameter: natural units outside, value / scale (order one) inside the optimiser. */
-interface ParamSpec {
-  name: string;
-  unit: string;
-  scale: number;
-  min: number;
-  max: number;
-  starts: number[];
-}
-
-interface LawModel {
-  label: string;
-  /** Parameters shared across a sample (a single galaxy fits them too). */
-  shared(o: ResolvedOptions, sample: boolean): ParamSpec[];
-  /** Per-galaxy law parameters besides the mass-to-light ratios. */
-  own(o: ResolvedOptions, sample: boolean): ParamSpec[];
-  /** The law's modelAcceleration with these parameters, prepared once per evaluation. */
-  acceleration(shared: number[], own: number[], o: ResolvedOptions): (model: MassModel, R: number) => number;
-  derived?(shared: number[], own: number[]): Record<string, number>;
-}
-
 type ResolvedOptions = Required<Omit<FitOptions, 'priors' | 'laws' | 'nuisance'>> & {
   nuisance: readonly Nuisance[]; priors: { disk: LogNormalPrior | null; bulge: LogNormalPrior | null } };
-
-/** NFW (r_s, rho0) from V200 and c200, H0 = HALO_H0 (Navarro, Frenk & White 1997 definitions). */
-export function nfwFromV200(V200: number, c: number): { scale_kpc: number; density_Msun_kpc3: number; r200_kpc: number; M200_Msun: number } {
-  const H = HALO_H0_KM_S_MPC / 1000; // km/s/kpc
-  const r200 = V200 / (10 * H);
-  const rhoCrit = (3 * H * H) / (8 * Math.PI * G);
-  const deltaC = ((200 / 3) * c ** 3) / (Math.log1p(c) - c / (1 + c));
-  return { scale_kpc: r200 / c, density_Msun_kpc3: deltaC * rhoCrit, r200_kpc: r200, M200_Msun: (V200 * V200 * r200) / G };
-}
-
-/** c200 on the concentration-mass relation with normalisation a. */
-export function concentrationFor(V200: number, a: number): number {
-  const { M200_Msun } = nfwFromV200(V200, 10);
-  return 10 ** (a + CM_SLOPE * Math.log10((M200_Msun * LITTLE_H) / 1e12));
-}
-
-const nfwAccel = (V200: number, c: number) => {
-  const { scale_kpc, density_Msun_kpc3 } = nfwFromV200(V200, c);
-  const halo = { kind: 'halo', profile: 'nfw', scale_kpc, density_Msun_kpc3 } as const;
-  return (model: MassModel, R: number) => haloLaw.modelAcceleration(halo, model, R);
-};
-
-const V200: ParamSpec = { name: 'V200', unit: 'km/s', scale: 100, min: 10, max: 500, starts: [60, 120, 250] };
-/** Labels come from the law modules, so a fit is named as the law is everywhere else. */
-const mondModel = (interpolation: 'simple' | 'standard' | 'rar'): LawModel => ({
-  label: mondLaw.info({ kind: 'mond', interpolation, a0_m_s2: 1.2e-10 }).label,
-  shared: (o) => (o.a0 === 'free' ? [{ name: 'a0', unit: 'm/s^2', scale: 1e-10, min: 1e-11, max: 1e-9, starts: [0.7e-10, 1.2e-10, 2e-10] }] : []),
-  own: () => [],
-  acceleration(shared, _own, o) {
-    const law = { kind: 'mond', interpolation, a0_m_s2: o.a0 === 'free' ? shared[0] : o.a0_m_s2 } as const;
-    return (model, R) => mondLaw.modelAcceleration(law, model, R);
-  },
-});
-
-const LAW_MODELS: Record<FitLaw, LawModel> = {
-  nfw: {
-    label: haloLaw.info({ kind: 'halo', profile: 'nfw', scale_kpc: 1, density_Msun_kpc3: 1 }).label,
-    shared: (_o, sample) => (sample ? [{ name: 'cmNormalisation', unit: 'dex', scale: 1, min: 0.2, max: 2, starts: [0.8, CM_NORMALISATION, 1.3] }] : []),
-    own: (_o, sample) => (sample ? [V200] : [V200, { name: 'c200', unit: '', scale: 10, min: 1, max: 50, starts: [5, 10, 20] }]),
-    acceleration: (shared, own) => nfwAccel(own[0], shared.length ? concentrationFor(own[0], shared[0]) : own[1]),
-    derived(shared, own) {
-      const c = shared.length ? concentrationFor(own[0], shared[0]) : own[1];
-      const h = nfwFromV200(own[0], c);
-      return { c200: c, r_s_kpc: h.scale_kpc, rho0_Msun_kpc3: h.density_Msun_kpc3, r200_kpc: h.r200_kpc, M200_Msun: h.M200_Msun };
-    },
-  },
-  isothermal: {
-    label: haloLaw.info({ kind: 'halo', profile: 'cored-isothermal', scale_kpc: 1, density_Msun_kpc3: 1 }).label,
-    shared: () => [],
-    own: () => [
-      { name: 'log10_rho0', unit: 'log10 Msun/kpc^3', scale: 1, min: 4, max: 11, starts: [6.5, 7.5, 8.5] },
-      { name: 'r_core', unit: 'kpc', scale: 1, min: 0.05, max: 50, starts: [0.5, 2, 8] },
-    ],
-    acceleration(_shared, own) {
-      const halo = { kind: 'halo', profile: 'cored-isothermal', density_Msun_kpc3: 10 ** own[0], scale_kpc: own[1] } as const;
-      return (model, R) => haloLaw.modelAcceleration(halo, model, R);
-    },
-  },
-  'mond-simple': mondModel('simple'),
-  'mond-standard': mondModel('standard'),
-  'mond-rar': mondModel('rar'),
-  emergent: {
-    label: emergentLaw.info({ kind: 'emergent', H0_km_s_Mpc: 70 }).label,
-    shared: (o) => (o.H0 === 'free' ? [{ name: 'H0', unit: 'km/s/Mpc', scale: 70, min: 20, max: 200, starts: [50, 70, 100] }] : []),
-    own: () => [],
-    acceleration(shared, _own, o) {
-      const law = { kind: 'emergent', H0_km_s_Mpc: o.H0 === 'free' ? shared[0] : o.H0_km_s_Mpc } as const;
-      return (model, R) => emergentLaw.modelAcceleration(law, model, R);
-    },
-  },
-};
 
 /** Mass-to-light ratios: bounds wide enough for any stellar population, the prior does the pulling. */
 const ML_BOUNDS = { min: 0.05, max: 5 };
@@ -291,7 +187,7 @@ function resolve(options: FitOptions): ResolvedOptions {
 interface GalaxySlot {
   name: string;
   curve: RotationCurve;
-  own: ParamSpec[];
+  own: FitParam[];
   ownAt: number;
   diskAt: number | null;
   bulgeAt: number | null;
@@ -300,9 +196,9 @@ interface GalaxySlot {
 }
 
 interface Problem {
-  law: LawModel;
+  law: LawFitFamily;
   o: ResolvedOptions;
-  specs: ParamSpec[];
+  specs: FitParam[];
   sharedCount: number;
   galaxies: GalaxySlot[];
   points: number;
@@ -311,7 +207,7 @@ interface Problem {
 }
 
 function buildProblem(lawKind: FitLaw, galaxies: SampleGalaxy[], o: ResolvedOptions, sample: boolean): Problem {
-  const law = LAW_MODELS[lawKind];
+  const law = fitFamily(lawKind);
   const specs = [...law.shared(o, sample)];
   const sharedCount = specs.length;
   const priorRows: Problem['priorRows'] = [];
@@ -458,7 +354,7 @@ function uncertainties(pb: Problem, theta: number[]): (number | null)[] {
 }
 
 /** Every combination of the parameters' starting values. */
-const startGrid = (specs: ParamSpec[]): number[][] => specs.reduce<number[][]>((acc, s) => acc.flatMap((c) => s.starts.map((v) => [...c, v])), [[]]);
+const startGrid = (specs: FitParam[]): number[][] => specs.reduce<number[][]>((acc, s) => acc.flatMap((c) => s.starts.map((v) => [...c, v])), [[]]);
 
 /** Best of several starts (the chi^2 surface of halo fits has more than one valley). */
 function solve(pb: Problem, starts: number[][], maxIterations: number) {

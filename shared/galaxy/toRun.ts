@@ -4,10 +4,12 @@ import type { LawSpec, RunSpec } from '../spec/runSpec';
 import { RUN_SPEC_VERSION } from '../spec/runSpec';
 import { exponentialDiskSpeed, hernquistSpeed } from './invented';
 import type { FittedCurve, LawFit } from './fit';
+import { fitFamilies, fitFamily } from '../engine/laws/registry';
+import { diskModule } from '../engine/models/disk';
 
-/** The Newtonian fits a run can start from: their halo becomes the `halo` law. */
-export const HALO_FITS = ['nfw', 'isothermal'] as const;
-export type HaloFit = (typeof HALO_FITS)[number];
+/** The fits a run can start from (the Newtonian halo fits): their law modules say which law the run goes under. */
+export const HALO_FITS = fitFamilies().filter((f) => f.runLaw).map((f) => f.id) as [string, ...string[]];
+export type HaloFit = string;
 
 /**
  * Disk thickness: sech^2 scale height z0 = 0.15 R_d. A common choice for thin stellar disks
@@ -76,14 +78,11 @@ export function bulgeFromCurve(curve: FittedCurve): ProfileFit | null {
   return fitProfile(curve.radiusKpc, curve.vBulge.map(signedSquare), (a, R) => hernquistSpeed(1, a, R));
 }
 
-/** The fitted halo as the rigid `halo` law's parameters. */
-export function haloLawFromFit(fit: LawFit): Extract<LawSpec, { kind: 'halo' }> {
-  if (fit.law === 'nfw') return { kind: 'halo', profile: 'nfw', scale_kpc: fit.derived.r_s_kpc, density_Msun_kpc3: fit.derived.rho0_Msun_kpc3 };
-  if (fit.law === 'isothermal') {
-    const value = (name: string) => fit.params.find((p) => p.name === name)!.value;
-    return { kind: 'halo', profile: 'cored-isothermal', scale_kpc: value('r_core'), density_Msun_kpc3: 10 ** value('log10_rho0') };
-  }
-  throw new Error(`a run starts from a Newtonian halo fit (${HALO_FITS.join(' or ')}), not ${fit.law}`);
+/** The law a run built from this fit goes under: the rigid halo law with the fitted halo. */
+export function haloLawFromFit(fit: LawFit): LawSpec {
+  const law = fitFamily(fit.law).runLaw?.(fit);
+  if (!law) throw new Error(`a run starts from a Newtonian halo fit (${HALO_FITS.join(' or ')}), not ${fit.law}`);
+  return law;
 }
 
 export interface GalaxyRunChoices {
@@ -113,7 +112,7 @@ export function galaxyRunSpec(fit: LawFit, c: GalaxyRunChoices): GalaxyRun {
     version: RUN_SPEC_VERSION,
     name: c.name,
     model: {
-      kind: 'disk',
+      kind: diskModule.kind,
       n: c.n,
       mass_Msun: disk.mass_Msun,
       scaleLength_kpc: disk.scale_kpc,

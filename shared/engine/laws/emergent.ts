@@ -6,6 +6,7 @@ import type { Vector3 } from '../diagnostics';
 import { newtonKernel } from '../solvers/types';
 import { C_KM_S, G } from '../units';
 import { defineLaw, type LawInfo } from './types';
+import type { MassModel } from '../models/massModel';
 import type { EngineWarning } from '../timescales';
 
 const schema = z
@@ -29,9 +30,14 @@ export function apparentDarkAcceleration(aM: number, mass: number, slope: number
   return Math.sqrt(G * aM * (mass + r * slope)) / r;
 }
 
+const LABEL = 'Emergent gravity (spherical)';
+
+const emergentAcceleration = (p: EmergentParams, model: MassModel, R: number): number =>
+  model.newtonAccel(R) + apparentDarkAcceleration(emergentScale(p), model.enclosedMass(R), model.enclosedMassSlope(R), R);
+
 const info = (): LawInfo => ({
   kind: 'emergent',
-  label: 'Emergent gravity (spherical)',
+  label: LABEL,
   conservesEnergy: false,
   conservesMomentum: true,
   conservesAngularMomentum: false,
@@ -66,11 +72,22 @@ function darkPull(aM: number, profile: RadialMassProfile, c: Vector3, at: Points
 export const emergentLaw = defineLaw({
   kind: 'emergent',
   schema,
-  label: 'Emergent gravity (spherical)',
+  label: LABEL,
   shortLabel: 'Emergent',
   colour: 'teal',
   preset: { kind: 'emergent', H0_km_s_Mpc: 70 },
   virial: 'clausius',
+  fits: [{
+    id: 'emergent',
+    label: LABEL,
+    extra: 'boost',
+    shared: (o) => (o.H0 === 'free' ? [{ name: 'H0', unit: 'km/s/Mpc', scale: 70, min: 20, max: 200, starts: [50, 70, 100] }] : []),
+    own: () => [],
+    acceleration(shared, _own, o) {
+      const law: EmergentParams = { kind: 'emergent', H0_km_s_Mpc: o.H0 === 'free' ? shared[0] : o.H0_km_s_Mpc };
+      return (model, R) => emergentAcceleration(law, model, R);
+    },
+  }],
   info,
   warnings(_params, { traits }): EngineWarning[] {
     if (traits.geometry === 'spherical') return [];
@@ -117,7 +134,5 @@ export const emergentLaw = defineLaw({
       },
     };
   },
-  modelAcceleration(params, model, R) {
-    return model.newtonAccel(R) + apparentDarkAcceleration(emergentScale(params), model.enclosedMass(R), model.enclosedMassSlope(R), R);
-  },
+  modelAcceleration: (params, model, R) => emergentAcceleration(params, model, R),
 });

@@ -2,7 +2,8 @@ import { z } from 'zod';
 import { newtonKernel } from '../solvers/types';
 import { G } from '../units';
 import { pairPotentialEnergy, scratchFor } from './pairwise';
-import { defineLaw, type LawInfo } from './types';
+import { defineLaw, type FitParam, type LawFitFamily, type LawInfo } from './types';
+import type { MassModel } from '../models/massModel';
 import type { EngineWarning } from '../timescales';
 import type { Sources } from '../state';
 
@@ -42,9 +43,74 @@ export function haloAcceleration(p: HaloParams, r: number): number {
   return r === 0 ? 0 : (G * haloEnclosedMass(p, r)) / (r * r);
 }
 
+/** Hubble constant that defines the NFW halo's virial radius (r200 where the mean density is 200 rho_crit). Common practice: 70 km/s/Mpc. */
+export const HALO_H0_KM_S_MPC = 70;
+/**
+ * Concentration-mass relation for NFW halos at z = 0:
+ * log10 c200 = a + b log10(M200 / (1e12 Msun/h)), b = -0.097 and a near 1.025
+ * (Dutton & Maccio 2014, Planck cosmology; from memory). In a sample fit a is
+ * the one shared halo scaling parameter; b is held.
+ */
+export const CM_SLOPE = -0.097;
+export const CM_NORMALISATION = 1.025;
+const LITTLE_H = HALO_H0_KM_S_MPC / 100;
+
+/** NFW (r_s, rho0) from V200 and c200, H0 = HALO_H0 (Navarro, Frenk & White 1997 definitions). */
+export function nfwFromV200(V200: number, c: number): { scale_kpc: number; density_Msun_kpc3: number; r200_kpc: number; M200_Msun: number } {
+  const H = HALO_H0_KM_S_MPC / 1000; // km/s/kpc
+  const r200 = V200 / (10 * H);
+  const rhoCrit = (3 * H * H) / (8 * Math.PI * G);
+  const deltaC = ((200 / 3) * c ** 3) / (Math.log1p(c) - c / (1 + c));
+  return { scale_kpc: r200 / c, density_Msun_kpc3: deltaC * rhoCrit, r200_kpc: r200, M200_Msun: (V200 * V200 * r200) / G };
+}
+
+/** c200 on the concentration-mass relation with normalisation a. */
+export function concentrationFor(V200: number, a: number): number {
+  const { M200_Msun } = nfwFromV200(V200, 10);
+  return 10 ** (a + CM_SLOPE * Math.log10((M200_Msun * LITTLE_H) / 1e12));
+}
+
+const haloAccel = (p: HaloParams) => (model: MassModel, R: number) => model.newtonAccel(R) + haloAcceleration(p, R);
+const nfwParams = (V200: number, c: number): HaloParams => {
+  const { scale_kpc, density_Msun_kpc3 } = nfwFromV200(V200, c);
+  return { kind: 'halo', profile: 'nfw', scale_kpc, density_Msun_kpc3 };
+};
+const V200: FitParam = { name: 'V200', unit: 'km/s', scale: 100, min: 10, max: 500, starts: [60, 120, 250] };
+const fittedValue = (fit: { params: { name: string; value: number }[] }, name: string): number => fit.params.find((p) => p.name === name)!.value;
+
+/** Newton + an NFW halo (V200 and c200, or c200 from a shared concentration-mass relation in a sample), and + a cored isothermal halo. */
+const FITS: LawFitFamily[] = [
+  {
+    id: 'nfw',
+    label: 'Newtonian + NFW halo',
+    extra: 'halo',
+    shared: (_o, sample) => (sample ? [{ name: 'cmNormalisation', unit: 'dex', scale: 1, min: 0.2, max: 2, starts: [0.8, CM_NORMALISATION, 1.3] }] : []),
+    own: (_o, sample) => (sample ? [V200] : [V200, { name: 'c200', unit: '', scale: 10, min: 1, max: 50, starts: [5, 10, 20] }]),
+    acceleration: (shared, own) => haloAccel(nfwParams(own[0], shared.length ? concentrationFor(own[0], shared[0]) : own[1])),
+    derived(shared, own) {
+      const c = shared.length ? concentrationFor(own[0], shared[0]) : own[1];
+      const h = nfwFromV200(own[0], c);
+      return { c200: c, r_s_kpc: h.scale_kpc, rho0_Msun_kpc3: h.density_Msun_kpc3, r200_kpc: h.r200_kpc, M200_Msun: h.M200_Msun };
+    },
+    runLaw: (fit) => ({ kind: 'halo', profile: 'nfw', scale_kpc: fit.derived.r_s_kpc, density_Msun_kpc3: fit.derived.rho0_Msun_kpc3 }),
+  },
+  {
+    id: 'isothermal',
+    label: 'Newtonian + cored isothermal halo',
+    extra: 'halo',
+    shared: () => [],
+    own: () => [
+      { name: 'log10_rho0', unit: 'log10 Msun/kpc^3', scale: 1, min: 4, max: 11, starts: [6.5, 7.5, 8.5] },
+      { name: 'r_core', unit: 'kpc', scale: 1, min: 0.05, max: 50, starts: [0.5, 2, 8] },
+    ],
+    acceleration: (_shared, own) => haloAccel({ kind: 'halo', profile: 'cored-isothermal', density_Msun_kpc3: 10 ** own[0], scale_kpc: own[1] }),
+    runLaw: (fit) => ({ kind: 'halo', profile: 'cored-isothermal', scale_kpc: fittedValue(fit, 'r_core'), density_Msun_kpc3: 10 ** fittedValue(fit, 'log10_rho0') }),
+  },
+];
+
 const info = (p: HaloParams): LawInfo => ({
   kind: 'halo',
-  label: p.profile === 'nfw' ? 'Newtonian + NFW halo' : 'Newtonian + cored isothermal halo',
+  label: (p.profile === 'nfw' ? FITS[0] : FITS[1]).label,
   conservesEnergy: true,
   conservesMomentum: false,
   conservesAngularMomentum: true,
@@ -65,6 +131,7 @@ export const haloLaw = defineLaw({
   // A typical galaxy halo's magnitude (from memory), not a fit to any galaxy.
   preset: { kind: 'halo', profile: 'nfw', scale_kpc: 15, density_Msun_kpc3: 7e6 },
   virial: 'clausius',
+  fits: FITS,
   info,
   warnings(_params, { traits }): EngineWarning[] {
     if (traits.systems < 2) return [];
@@ -101,5 +168,5 @@ export const haloLaw = defineLaw({
       externalPotentialEnergy: external,
     };
   },
-  modelAcceleration: (params, model, R) => model.newtonAccel(R) + haloAcceleration(params, R),
+  modelAcceleration: (params, model, R) => haloAccel(params)(model, R),
 });

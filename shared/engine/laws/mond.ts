@@ -1,7 +1,7 @@
 import { z } from 'zod';
 import { newtonKernel } from '../solvers/types';
 import { accelFromSI } from '../units';
-import { defineLaw, type LawInfo } from './types';
+import { defineLaw, type LawFitFamily, type LawInfo } from './types';
 import type { EngineWarning } from '../timescales';
 
 const schema = z
@@ -49,6 +49,19 @@ const LABELS: Record<MondParams['interpolation'], string> = {
   rar: 'MOND (RAR nu)',
 };
 
+/** One fit per interpolating function: a0 fixed or shared and free, mass-to-light ratios free. */
+const fitFor = (interpolation: MondParams['interpolation']): LawFitFamily => ({
+  id: `mond-${interpolation}`,
+  label: LABELS[interpolation],
+  extra: 'boost',
+  shared: (o) => (o.a0 === 'free' ? [{ name: 'a0', unit: 'm/s^2', scale: 1e-10, min: 1e-11, max: 1e-9, starts: [0.7e-10, 1.2e-10, 2e-10] }] : []),
+  own: () => [],
+  acceleration(shared, _own, o) {
+    const law: MondParams = { kind: 'mond', interpolation, a0_m_s2: o.a0 === 'free' ? shared[0] : o.a0_m_s2 };
+    return (model, R) => mondAcceleration(law, model.newtonAccel(R));
+  },
+});
+
 const info = (p: MondParams): LawInfo => ({
   kind: 'mond',
   label: LABELS[p.interpolation],
@@ -77,6 +90,7 @@ export const mondLaw = defineLaw({
   preset: { kind: 'mond', interpolation: 'simple', a0_m_s2: 1.2e-10 },
   virial: 'clausius',
   pairsWithReference: true,
+  fits: [fitFor('simple'), fitFor('standard'), fitFor('rar')],
   info,
   warnings(_params, { traits }): EngineWarning[] {
     if (traits.geometry !== 'flattened') return [];

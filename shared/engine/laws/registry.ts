@@ -45,6 +45,9 @@ export const createLaw = (law: LawSpec, ctx: LawContext): ForceLaw => lawModule(
 export const modelAcceleration = (law: LawSpec, model: MassModel, R_kpc: number): number =>
   lawModule(law.kind).modelAcceleration(law, model, R_kpc);
 
+/** The law's parameters as JSON Schema (titles, units, option labels from `.meta`): what forms are generated from. */
+export const lawJsonSchema = (kind: string) => z.toJSONSchema(lawModule(kind).schema, { io: 'input' });
+
 export const lawLabel = (kind: string): string => lawModule(kind).label;
 export const lawShortLabel = (kind: string): string => lawModule(kind).shortLabel;
 export const lawColour = (kind: string): LawColourToken => lawModule(kind).colour;
@@ -83,6 +86,13 @@ export function galaxyPairLaw(): LawSpec {
 
 /** Every way to fit an observed rotation curve, over all laws, in registry order. */
 export const fitFamilies = (): LawFitFamily[] => LAW_MODULES.flatMap((m: LawModule<any>) => m.fits ?? []);
+
+/** The fit family stored under `id`. */
+export function fitFamily(id: string): LawFitFamily {
+  const found = fitFamilies().find((f) => f.id === id);
+  if (!found) throw new Error(`unknown fit "${id}"`);
+  return found;
+}
 
 /** Work per force evaluation beyond the pair sum (a grid), in pair interactions, for the quota's estimate. */
 export const extraInteractions = (law: LawSpec): number => lawModule(law.kind).extraInteractions?.(law) ?? 0;

@@ -36,6 +36,9 @@ export function modelModule(kind: string): ModelModule<any> {
   return found;
 }
 
+/** The model's fields as JSON Schema (titles, units, option labels from `.meta`): what forms are generated from. */
+export const modelJsonSchema = (kind: string) => z.toJSONSchema(modelModule(kind).schema, { io: 'input' });
+
 export const modelLabel = (kind: string): string => modelModule(kind).label;
 export const modelPreset = (kind: string): z.input<typeof modelSchema> => structuredClone(modelModule(kind).preset);
 export const modelComponents = (model: ModelSpec): string[] => modelModule(model.kind).components(model);
