@@ -163,7 +163,7 @@ function ImportForm({ limits }: { limits: UploadLimits }) {
             <>
               <Txt variant="small" testID="galaxy-preview-summary">
                 {reading.curve.radiusKpc.length} points from {formatValue(reading.curve.radiusKpc[0])} to {formatValue(reading.curve.radiusKpc[reading.curve.radiusKpc.length - 1])} kpc; components:{' '}
-                {[reading.curve.vGas && 'gas', reading.curve.vDisk && 'disk', reading.curve.vBulge && 'bulge'].filter(Boolean).join(', ') || 'none'}.
+                {[reading.curve.vGas && 'gas', reading.curve.vDisk && 'stellar disk', reading.curve.vBulge && 'bulge'].filter(Boolean).join(', ') || 'none'}.
               </Txt>
               <LinePlot series={[dataSeries(reading.curve)]} xLabel="radius [kpc]" yLabel="speed [km/s]" yFromZero xFromZero height={220} accessibilityLabel="Preview of the rotation curve" testID="galaxy-preview" />
             </>
