@@ -1,4 +1,4 @@
-import { lawInfo } from '../../shared/engine';
+import { lawInfo, referenceLaw, systemModule } from '../../shared/engine';
 import type { LawSpec, RunSpec } from '../../shared/spec';
 import { formatCount, formatInput, lawName, modelName } from '../format';
 import { fieldKind, memberKind, nodeAt, pickMember, specJsonSchema, titleOf, unitOfField, type JsonNode } from '../launch/schemaForm';
@@ -73,9 +73,20 @@ function fieldRows(spec: RunSpec, obj: Obj, path: string, group: SpecGroup, labe
     if (obj[k] !== undefined || (node?.required ?? []).includes(k) || !path.startsWith('model')) continue;
     const label = `${labelPrefix}${titleOf(k, child)}`;
     if (fieldKind(child) === 'number') rows.push({ key: `${path}.${k}`, group, label, value: 'the model’s default' });
-    else if (isLawUnion(child)) rows.push({ key: `${path}.${k}`, group, label, value: 'the run’s law' });
+    else if (isLawUnion(child)) rows.push({ key: `${path}.${k}`, group, label, value: defaultBalance(spec, String(obj.kind)) });
   }
   return rows;
+}
+
+/** The law a system's velocities were balanced for when the spec named none. */
+function defaultBalance(spec: RunSpec, kind: string): string {
+  try {
+    // Version-1 specs balanced some systems for the reference law.
+    if (spec.version === 1 && systemModule(kind).version1Reference) return `${lawLabel(referenceLaw())} (a version 1 spec)`;
+  } catch {
+    // not a system any module knows: say what version 2 does
+  }
+  return 'the run’s law';
 }
 
 function systemRows(spec: RunSpec, model: Obj, path: string, group: SpecGroup, labelPrefix: string): SpecRow[] {

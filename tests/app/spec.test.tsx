@@ -71,6 +71,8 @@ describe('the spec a run ran', () => {
     expect(text(container, 'model.primary.truncationRadius_kpc')).toBe('Primary · Truncation radiusthe model’s default');
     expect(text(container, 'model.secondary.kind')).toBe('SecondaryExponential disk');
     expect(text(container, 'model.secondary.equilibriumLaw')).toBe('Secondary · Velocities balanced forthe run’s law');
+    // A version-1 sphere that named no law was balanced for the reference law.
+    expect(text(container, 'model.primary.equilibriumLaw')).toBe('Primary · Velocities balanced forNewtonian (a version 1 spec)');
     expect(text(container, 'model.secondaryTilt_deg')).toBe('Secondary tilt30°');
     expect(text(container, 'model.primaryTilt_deg')).toBe('Primary tilt0°');
   });
