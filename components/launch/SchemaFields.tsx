@@ -103,7 +103,7 @@ export function SchemaFields(props: SchemaFieldsProps) {
     }
   }
   flush();
-  return <View style={formStyles.group}>{out}</View>;
+  return out.length ? <View style={formStyles.group}>{out}</View> : null;
 }
 
 const styles = StyleSheet.create({

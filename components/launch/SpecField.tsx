@@ -24,7 +24,8 @@ export function SpecNumber({ draft, path, onChange, issues, issueKey = path.join
   const node = found?.node ?? {};
   const b = numberBounds(node);
   const value = getIn(draft, path);
-  const unit = unitOfField(key, node);
+  // A vector's components carry the vector's unit (read from its key).
+  const unit = typeof key === 'number' ? unitOfField(path[path.length - 2], nodeAt(path.slice(0, -1), draft)?.node ?? {}) : unitOfField(key, node);
   const limit = useContext(QuotaLimitHints)[issueKey];
   return (
     <NumberField

@@ -32,6 +32,7 @@ describe('the field form of MOND in the new-run form', () => {
     await settle();
     const gx = container.querySelector('[data-testid="field-law.externalField_m_s2.0"]') as HTMLInputElement;
     expect(gx.value).toBe('0');
+    expect(gx.getAttribute('aria-label')).toBe('External field x in m/s²');
     expect(first.getByText('External field z')).toBeTruthy();
     type(gx, '5e-8');
     await settle();
