@@ -24,9 +24,9 @@ export { CancelledDuringSetup, Simulation } from './simulation';
 export type { SimulationState } from './simulation';
 export {
   balancedSystems, buildInitialConditions, LIVE_HALO_PRESET, massModelFor, modelComponents, modelJsonSchema, modelLabel, modelModule, modelModules,
-  MODEL_MODULES, modelPreset, modelSchema, modelTraits, SYSTEM_MODULES, systemModule,
+  MODEL_MODULES, modelPreset, modelSchema, modelTraits, PART_COLOUR_TOKENS, partLook, SYSTEM_MODULES, systemModule,
 } from './models';
-export type { BalancedSystem, Component, InitialConditions, ModelKind, ModelModule, ModelSpec, ModelTraits, SystemModule } from './models';
+export type { BalancedSystem, Component, InitialConditions, ModelKind, ModelModule, ModelSpec, ModelTraits, PartColourToken, PartLook, SystemModule } from './models';
 export { applyDirectKernelSetting, directFieldRange, directKernelInUse, directPotentialRange, makeSolver, setDirectKernel } from './solvers';
 export type { DirectKernelChoice, FieldSolver, PairKernel } from './solvers';
 export * as units from './units';

@@ -27,6 +27,7 @@ export const runNameSchema = z
   .meta({ title: 'Name' });
 
 export { solverSchema } from './solver';
+export { modelSchema } from '../engine/models/registry';
 
 export const integratorSchema = z
   .enum(['leapfrog', 'yoshida4', 'rk4'])
@@ -47,7 +48,7 @@ export const runSpecSchema = z
     duration_Myr: z.number().positive().max(1e6).meta({ title: 'Duration' }),
     softening_kpc: z.number().min(0).max(100).describe('Plummer softening length eps').meta({ title: 'Softening ε' }),
     snapshotEvery: z.number().int().min(1).describe('steps between snapshots').meta({ title: 'Snapshot every', unit: 'steps' }),
-    diagnosticsEvery: z.number().int().min(1).optional().describe('steps between diagnostic samples; default gives about 200').meta({ title: 'Diagnostics every', unit: 'steps' }),
+    diagnosticsEvery: z.number().int().min(1).optional().describe('steps between diagnostic samples; default gives about 200').meta({ title: 'Diagnostics every', unit: 'steps', absent: 'about 200 samples' }),
     seed: z.number().int().min(0).max(4_294_967_295).default(1).meta({ title: 'Random seed' }),
   })
   .superRefine((spec, ctx) => {

@@ -1,7 +1,7 @@
 import { z } from 'zod';
 import {
   buildInitialConditions, defaultPairLaw, galaxyPairLaw, LAW_COLOUR_TOKENS, lawModules, lawPreset, lawSchema, modelComponents, modelModules,
-  modelPreset, referenceLaw, usesPotentialVirial,
+  modelPreset, PART_COLOUR_TOKENS, partLook, referenceLaw, usesPotentialVirial,
 } from '../../shared/engine';
 import { parseRunSpec, runSpecSchema, type RunSpec } from '../../shared/spec';
 
@@ -67,13 +67,13 @@ describe('law modules', () => {
   });
 });
 
-describe('model modules', () => {
-  const specFor = (model: unknown): RunSpec => {
-    const parsed = parseRunSpec({ version: 2, model, law: referenceLaw(), timestep_Myr: 0.5, duration_Myr: 1, softening_kpc: 0.1, snapshotEvery: 1 });
-    if (!parsed.ok) throw new Error(JSON.stringify(parsed.issues));
-    return parsed.spec;
-  };
+function specFor(model: unknown): RunSpec {
+  const parsed = parseRunSpec({ version: 2, model, law: referenceLaw(), timestep_Myr: 0.5, duration_Myr: 1, softening_kpc: 0.1, snapshotEvery: 1 });
+  if (!parsed.ok) throw new Error(JSON.stringify(parsed.issues));
+  return parsed.spec;
+}
 
+describe('model modules', () => {
   test.each(modelModules().map((m) => [m.kind]))('%s: the preset is a valid model whose particles are the parts and count the module declares', (kind) => {
     const spec = specFor(modelPreset(kind));
     const m = modelModules().find((x) => x.kind === kind)!;
@@ -82,4 +82,12 @@ describe('model modules', () => {
     expect(ic.particles.n).toBe(m.particleCount(spec.model));
     expect(ic.components.reduce((n, c) => n + c.count, 0)).toBe(ic.particles.n);
   });
+});
+
+test('named parts of the galaxy models have a look of their own, the live halo drawn beneath the disk and bulge', () => {
+  const galaxy = specFor({ ...modelPreset('disk'), bulge: { mass_Msun: 1e10, scale_kpc: 0.5 }, halo: { profile: 'nfw', n: 100, mass_Msun: 1e11, scale_kpc: 10 } });
+  const looks = modelComponents(galaxy.model).map((label) => partLook(label));
+  for (const look of looks) expect(PART_COLOUR_TOKENS).toContain(look?.colour);
+  const [disk, bulge, halo] = looks;
+  expect(halo!.layer).toBeLessThan(Math.min(disk!.layer, bulge!.layer));
 });

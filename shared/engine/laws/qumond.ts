@@ -27,7 +27,7 @@ const schema = z
       .tuple([fieldComponent, fieldComponent, fieldComponent])
       .optional()
       .describe('constant external Newtonian field (x, y, z) in m/s^2, each component within +-1e-8; none means an isolated system')
-      .meta({ title: 'External field', itemTitles: ['x', 'y', 'z'] }),
+      .meta({ title: 'External field', itemTitles: ['x', 'y', 'z'], absent: 'none (isolated)' }),
     grid: z
       .literal(QUMOND_GRID_SIZES)
       .default(64)
@@ -39,7 +39,7 @@ const schema = z
       .max(1e5)
       .optional()
       .describe('side of the cubic grid, centred on the initial centre of mass; default 2.5 times the initial distance of the farthest particle')
-      .meta({ title: 'Grid box side' }),
+      .meta({ title: 'Grid box side', absent: '2.5 × the farthest particle’s distance' }),
   })
   .describe('MOND, quasi-linear field form (QUMOND, Milgrom 2010): Newtonian pair forces plus a phantom field solved on a grid');
 

@@ -34,7 +34,7 @@ const schema = z
       })
       .optional()
       .describe('optional Hernquist bulge; particles are shared out in proportion to mass')
-      .meta({ title: 'Bulge' }),
+      .meta({ title: 'Bulge', absent: 'none' }),
     halo: liveHaloSchema,
     equilibriumLaw,
   })

@@ -7,11 +7,12 @@ import { lawSchema } from '../laws/registry';
 export const count = z.number().int().min(2).max(LIMITS.maxParticles).describe('number of particles').meta({ title: 'Particles N' });
 export const mass = z.number().positive().max(1e15).meta({ title: 'Mass' });
 export const length = z.number().positive().max(1e4);
-export const truncation = length.optional().describe('no particle is placed beyond this radius; defaults per model').meta({ title: 'Truncation radius' });
+// `absent`: what a spec table says for an optional field left out.
+export const truncation = length.optional().describe('no particle is placed beyond this radius; defaults per model').meta({ title: 'Truncation radius', absent: 'the model’s default' });
 export const equilibriumLaw = lawSchema
   .optional()
   .describe("law whose field the velocities are balanced in; defaults to the run's law (set it to compare laws from identical initial conditions)")
-  .meta({ title: 'Velocities balanced for' });
+  .meta({ title: 'Velocities balanced for', absent: 'the run’s law' });
 
 /**
  * A truncation radius below this fraction of the scale radius leaves a sliver of the
@@ -53,7 +54,7 @@ export const liveHaloSchema = z
   })
   .optional()
   .describe('optional live dark halo of particles, isotropic velocities from its distribution function in the whole system\'s field')
-  .meta({ title: 'Live halo' });
+  .meta({ title: 'Live halo', absent: 'none' });
 
 export type HaloSpec = NonNullable<z.infer<typeof liveHaloSchema>>;
 

@@ -87,7 +87,7 @@ export const hernquistModule = defineSystem({
   traits: { geometry: 'spherical', systems: 1 },
   version1Reference: true,
   components: (s) => sphereComponents(LABEL, s),
-  mass: sphereMass,
+  mass: (s) => sphereMass(s),
   massModel: (s) => sphereMassModel(hernquistProfile(s), s.halo),
   sample: (s, law, ctx, out, start) =>
     sampleSphere(s, LABEL, hernquistProfile(s), (rng, o, from, n) => sampleHernquistPositions(s, rng, o, from, n), law, ctx, out, start),

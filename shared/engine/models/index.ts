@@ -14,6 +14,8 @@ export type { ModelKind, ModelSpec } from './registry';
 export { SYSTEM_MODULES, systemModule, systemSchema } from './systems';
 export type { SystemSpec } from './systems';
 export { LIVE_HALO_PRESET, systemParticles } from './fields';
+export { PART_COLOUR_TOKENS, partLook } from './parts';
+export type { PartColourToken, PartLook } from './parts';
 export type { HaloSpec } from './fields';
 
 // Parsed law specs carry their keys in schema order, so equal laws serialise equally.

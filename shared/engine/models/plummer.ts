@@ -88,7 +88,7 @@ export const plummerModule = defineSystem({
   traits: { geometry: 'spherical', systems: 1 },
   version1Reference: true,
   components: (s) => sphereComponents(LABEL, s),
-  mass: sphereMass,
+  mass: (s) => sphereMass(s),
   massModel: (s) => sphereMassModel(plummerProfile(s), s.halo),
   sample: (s, law, ctx, out, start) =>
     sampleSphere(s, LABEL, plummerProfile(s), (rng, o, from, n) => samplePlummerPositions(s, rng, o, from, n), law, ctx, out, start),
