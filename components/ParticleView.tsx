@@ -43,7 +43,7 @@ function ParticleCanvas({ frames, times, playhead, projection, win, size, labels
   const ref = useRef<HTMLCanvasElement>(null);
   const dpr = typeof window !== 'undefined' && window.devicePixelRatio > 0 ? window.devicePixelRatio : 1;
   const px = Math.round(size * dpr);
-  const order = useMemo(() => drawOrder(component, frames[0]?.positions ?? new Float32Array(0), labels.length), [component, frames, labels]);
+  const order = useMemo(() => drawOrder(component, labels), [component, labels]);
 
   useEffect(() => {
     const ctx = ref.current?.getContext('2d');
@@ -107,7 +107,7 @@ export function ParticleView({ frames, parts, playhead, projection, color, label
   const known = parts !== undefined && parts.component.length === n && parts.labels.length > 0;
   const labels = useMemo(() => (known ? parts.labels : []), [known, parts]);
   const component = useMemo(() => (known ? parts.component : new Uint8Array(n)), [known, parts, n]);
-  const paints = useMemo(() => (labels.length ? labels.map((_, k) => componentColor(k, labels.length, color)) : [color]), [labels, color]);
+  const paints = useMemo(() => (labels.length ? labels.map((l, k) => componentColor(l, k, labels.length, color)) : [color]), [labels, color]);
   const counts = useMemo(() => {
     const c = new Array<number>(labels.length).fill(0);
     for (const k of component) if (k < c.length) c[k]++;

@@ -101,35 +101,13 @@ export function pixelColor(hex: string): number {
   return (0xff000000 | ((v & 0xff) << 16) | (v & 0xff00) | ((v >> 16) & 0xff)) >>> 0;
 }
 
-/**
- * Particle indices in drawing order, the most extended part first (a live halo around a disk
- * and its bulge), so the compact parts show on top of it. A part's extent is its particles'
- * mean squared distance from their own centre in `positions` (the first snapshot).
- */
-export function drawOrder(component: Uint8Array, positions: Float32Array, parts: number): Uint32Array {
-  const n = Math.min(component.length, positions.length / 3);
-  const sums = new Float64Array(parts * 4); // per part: count, Σx, Σy, Σz
-  const squares = new Float64Array(parts);
-  for (let i = 0; i < n; i++) {
-    const p = component[i];
-    if (p >= parts) continue;
-    const x = positions[3 * i], y = positions[3 * i + 1], z = positions[3 * i + 2];
-    sums[4 * p] += 1;
-    sums[4 * p + 1] += x;
-    sums[4 * p + 2] += y;
-    sums[4 * p + 3] += z;
-    squares[p] += x * x + y * y + z * z;
-  }
-  // ⟨r²⟩ − |⟨r⟩|²: the spread about the part's own centre, wherever the part sits.
-  const spread = Array.from({ length: parts }, (_, p) => {
-    const c = sums[4 * p];
-    return c ? squares[p] / c - ((sums[4 * p + 1] / c) ** 2 + (sums[4 * p + 2] / c) ** 2 + (sums[4 * p + 3] / c) ** 2) : 0;
-  });
-  const layers = spread.map((_, p) => p).sort((a, b) => spread[b] - spread[a] || a - b);
+/** Particle indices in drawing order: the halo first, so the disk and bulge show on top of it. */
+export function drawOrder(component: Uint8Array, labels: string[]): Uint32Array {
+  const under = labels.indexOf('halo');
   const order = new Uint32Array(component.length);
   let k = 0;
-  for (const p of layers) for (let i = 0; i < component.length; i++) if (component[i] === p) order[k++] = i;
-  for (let i = 0; i < component.length; i++) if (component[i] >= parts) order[k++] = i;
+  for (let i = 0; i < component.length; i++) if (component[i] === under) order[k++] = i;
+  for (let i = 0; i < component.length; i++) if (component[i] !== under) order[k++] = i;
   return order;
 }
 

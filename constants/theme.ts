@@ -62,14 +62,24 @@ export function lawColor(kind: string): string {
   }
 }
 
-// Colours for the parts of a model in the order its module lists them (a disk, its bulge, its
-// live halo), so a part reads the same in every run of that model; the most extended part is
-// drawn first, beneath the rest.
-const PART_COLORS = ['#86B4FF', '#FFC56E', '#8C6FC9', palette.infall, palette.drift, palette.bloom];
+// One colour per part of a model, so a disk reads the same in every run's animation. The halo
+// is the dimmest: it is drawn first and the disk and bulge sit on top of it.
+const COMPONENT_COLORS: Record<string, string> = {
+  disk: '#86B4FF',
+  bulge: '#FFC56E',
+  halo: '#8C6FC9',
+  primary: palette.infall,
+  secondary: palette.drift,
+};
 
-/** The colour of a model's `index`-th part; a run made of one part keeps the run's colour (its law's). */
-export function componentColor(index: number, count: number, runColor: string): string {
-  return count <= 1 ? runColor : PART_COLORS[index % PART_COLORS.length];
+/**
+ * The colour of a model part: a named part keeps its own; a run made of one other part keeps
+ * the run's colour (its law's); several other parts take the series colours in turn.
+ */
+export function componentColor(label: string | undefined, index: number, count: number, runColor: string): string {
+  const named = label ? COMPONENT_COLORS[label] : undefined;
+  if (named) return named;
+  return count <= 1 ? runColor : seriesColors[index % seriesColors.length];
 }
 
 /** Colours for the n-th series of a plot that isn't keyed by law. */

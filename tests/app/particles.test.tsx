@@ -47,16 +47,15 @@ describe('canvas pixels', () => {
     expect(Array.from(new Uint8Array(px.buffer))).toEqual([0x86, 0xb4, 0xff, 0xff]);
   });
 
-  it("writes each particle's square in its component's colour, the most extended part under the rest", () => {
+  it("writes each particle's square in its component's colour, the halo under the rest", () => {
     const pixels = new Uint32Array(20 * 20);
-    const component = Uint8Array.from([0, 1, 1]); // a compact part's particle and a wide part's on the same spot, the wide part's other one apart
-    const positions = Float32Array.from([0, 0, 0, 0, 0, 0, 5, 5, 0]);
-    const order = drawOrder(component, positions, 2);
+    const component = Uint8Array.from([0, 1, 1]); // a disk particle and a halo particle on the same spot, another halo one apart
+    const labels = ['disk', 'halo'];
+    const order = drawOrder(component, labels);
     expect(Array.from(order)).toEqual([1, 2, 0]);
-    // Listed the other way round, the wide part is still drawn first.
-    expect(Array.from(drawOrder(Uint8Array.from([1, 0, 0]), positions, 2))).toEqual([1, 2, 0]);
+    const positions = Float32Array.from([0, 0, 0, 0, 0, 0, 5, 5, 0]);
     drawParticles(pixels, 20, positions, null, 0, 'xy', win, 2, order, component, Uint32Array.from([7, 9]));
-    expect(pixels[10 * 20 + 10]).toBe(7); // the compact part, drawn after the wide one beneath it
+    expect(pixels[10 * 20 + 10]).toBe(7); // the disk, drawn after the halo beneath it
     expect(pixels[11 * 20 + 11]).toBe(7);
     expect(pixels[5 * 20 + 15]).toBe(9);
     expect(pixels.filter((p) => p !== 0)).toHaveLength(8);
@@ -107,7 +106,7 @@ describe('ParticleView with its controls', () => {
     const parts = { labels: ['disk', 'bulge'], component: Uint8Array.from([0, 1]) };
     const { container, view } = render(<ParticleView frames={frames} parts={parts} playhead={ph} projection="xy" color="#fff" label="Test run" />);
     const fills = Array.from(container.querySelectorAll('path')).map((p) => p.getAttribute('fill'));
-    expect(fills).toEqual([componentColor(0, 2, '#fff'), componentColor(1, 2, '#fff')]);
+    expect(fills).toEqual([componentColor('disk', 0, 2, '#fff'), componentColor('bulge', 1, 2, '#fff')]);
     expect(new Set(fills).size).toBe(2);
     expect(view.getByTestId('particle-legend').textContent).toBe('disk · 1bulge · 1');
   });

@@ -48,7 +48,7 @@ test.each<ViewportName>(['wide', 'phone'])(`the snapshot animation redraws ${PAR
   await page.getByTestId('particle-cloud').waitFor({ timeout: 60_000 });
   await page.getByTestId('play-toggle').click();
 
-  const paints = [0, 1, 2].map((k) => componentColor(k, 3, '#ffffff'));
+  const paints = ['disk', 'bulge', 'halo'].map((l, k) => componentColor(l, k, 3, '#ffffff'));
   // A string, so no bundler helper leaks into the page.
   const result = (await page.evaluate(`(async () => {
     const canvas = document.querySelector('canvas[data-testid="particle-cloud"]');
