@@ -1,4 +1,4 @@
-import { lawColour, type LawColourToken } from '../shared/engine';
+import { lawColour, partLook, type LawColourToken, type PartColourToken } from '../shared/engine';
 
 // Infall's own look: "Deep Field" — a near-black blue ground, bone-white text,
 // one warm accent (the glow of gas falling in) and a cool one for the second law.
@@ -62,14 +62,15 @@ export function lawColor(kind: string): string {
   }
 }
 
-// One colour per part of a model, so a disk reads the same in every run's animation. The halo
-// is the dimmest: it is drawn first and the disk and bulge sit on top of it.
-const COMPONENT_COLORS: Record<string, string> = {
-  disk: '#86B4FF',
-  bulge: '#FFC56E',
-  halo: '#8C6FC9',
-  primary: palette.infall,
-  secondary: palette.drift,
+// One colour per part colour token: a model module gives each named part (a disk, its bulge, a
+// live halo) a token and a layer, so a part reads the same in every run's animation.
+const PART_COLOUR_HEX: Record<PartColourToken, string> = {
+  sky: '#86B4FF',
+  gold: '#FFC56E',
+  // The dimmest: it belongs to the part drawn first, beneath the rest.
+  plum: '#8C6FC9',
+  amber: palette.infall,
+  teal: palette.drift,
 };
 
 /**
@@ -77,7 +78,8 @@ const COMPONENT_COLORS: Record<string, string> = {
  * the run's colour (its law's); several other parts take the series colours in turn.
  */
 export function componentColor(label: string | undefined, index: number, count: number, runColor: string): string {
-  const named = label ? COMPONENT_COLORS[label] : undefined;
+  const look = label ? partLook(label) : undefined;
+  const named = look ? PART_COLOUR_HEX[look.colour] : undefined;
   if (named) return named;
   return count <= 1 ? runColor : seriesColors[index % seriesColors.length];
 }
