@@ -34,6 +34,3 @@ export function useSignOut() {
     },
   });
 }
-
-export const isStaff = (u: SessionUser | null | undefined) => u?.role === 'instructor' || u?.role === 'admin';
-export const isAdmin = (u: SessionUser | null | undefined) => u?.role === 'admin';
