@@ -1,6 +1,6 @@
 import { z } from 'zod';
 import { extraInteractions, lawSchema, referenceLaw } from '../engine/laws/registry';
-import { MODEL_MODULES, modelModule, modelSchema } from '../engine/models/registry';
+import { modelModule, modelModules, modelSchema } from '../engine/models/registry';
 import { SYSTEM_MODULES } from '../engine/models/systems';
 import { LIMITS } from './limits';
 import { solverSchema } from './solver';
@@ -81,7 +81,7 @@ export const runSpecSchema = z
       });
     }
     // A model of unknown kind is already reported by the union.
-    if (spec.model) MODEL_MODULES.find((m) => m.kind === spec.model.kind)?.check?.(spec.model as never, ['model'], ctx);
+    if (spec.model) modelModules().find((m) => m.kind === spec.model.kind)?.check?.(spec.model, ['model'], ctx);
   });
 
 export type RunSpec = z.infer<typeof runSpecSchema>;

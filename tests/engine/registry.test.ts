@@ -1,7 +1,7 @@
 import { z } from 'zod';
 import {
   buildInitialConditions, defaultPairLaw, galaxyPairLaw, LAW_COLOUR_TOKENS, lawModules, lawPreset, lawSchema, modelComponents, modelModules,
-  modelPreset, PART_COLOUR_TOKENS, partLook, referenceLaw, usesPotentialVirial,
+  modelPreset, PART_COLOUR_TOKENS, partLook, precheck, referenceLaw, usesPotentialVirial,
 } from '../../shared/engine';
 import { parseRunSpec, runSpecSchema, type RunSpec } from '../../shared/spec';
 
@@ -90,4 +90,25 @@ test('named parts of the galaxy models have a look of their own, the live halo d
   for (const look of looks) expect(PART_COLOUR_TOKENS).toContain(look?.colour);
   const [disk, bulge, halo] = looks;
   expect(halo!.layer).toBeLessThan(Math.min(disk!.layer, bulge!.layer));
+});
+
+describe('law notes read the model\'s traits, not its kind', () => {
+  const codes = (model: unknown, law: unknown) => {
+    const parsed = parseRunSpec({ version: 2, model, law, timestep_Myr: 0.5, duration_Myr: 1, softening_kpc: 0.1, snapshotEvery: 1 });
+    if (!parsed.ok) throw new Error(JSON.stringify(parsed.issues));
+    return precheck(parsed.spec).warnings.map((w) => w.code);
+  };
+  const sphere = { ...modelPreset('plummer'), n: 200 };
+  const encounter = { ...modelPreset('encounter'), primary: { ...sphere }, secondary: { ...sphere } };
+  const disk = { ...modelPreset('disk'), n: 300 };
+
+  test('a static halo warns that it sits at the origin only when two systems move through it', () => {
+    expect(codes(encounter, lawPreset('halo'))).toContain('halo-fixed-at-origin');
+    expect(codes(sphere, lawPreset('halo'))).not.toContain('halo-fixed-at-origin');
+  });
+
+  test('the field form of MOND notes that a flattened model was set up in the algebraic field, a sphere not', () => {
+    expect(codes(disk, { ...lawPreset('qumond'), grid: 32 })).toContain('disk-set-up-algebraically');
+    expect(codes(sphere, { ...lawPreset('qumond'), grid: 32 })).not.toContain('disk-set-up-algebraically');
+  });
 });

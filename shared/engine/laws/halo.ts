@@ -78,11 +78,16 @@ const nfwParams = (V200: number, c: number): HaloParams => {
 const V200: FitParam = { name: 'V200', unit: 'km/s', scale: 100, min: 10, max: 500, starts: [60, 120, 250] };
 const fittedValue = (fit: { params: { name: string; value: number }[] }, name: string): number => fit.params.find((p) => p.name === name)!.value;
 
+const LABELS: Record<HaloParams['profile'], string> = {
+  nfw: 'Newtonian + NFW halo',
+  'cored-isothermal': 'Newtonian + cored isothermal halo',
+};
+
 /** Newton + an NFW halo (V200 and c200, or c200 from a shared concentration-mass relation in a sample), and + a cored isothermal halo. */
 const FITS: LawFitFamily[] = [
   {
     id: 'nfw',
-    label: 'Newtonian + NFW halo',
+    label: LABELS.nfw,
     extra: 'halo',
     shared: (_o, sample) => (sample ? [{ name: 'cmNormalisation', unit: 'dex', scale: 1, min: 0.2, max: 2, starts: [0.8, CM_NORMALISATION, 1.3] }] : []),
     own: (_o, sample) => (sample ? [V200] : [V200, { name: 'c200', unit: '', scale: 10, min: 1, max: 50, starts: [5, 10, 20] }]),
@@ -96,7 +101,7 @@ const FITS: LawFitFamily[] = [
   },
   {
     id: 'isothermal',
-    label: 'Newtonian + cored isothermal halo',
+    label: LABELS['cored-isothermal'],
     extra: 'halo',
     shared: () => [],
     own: () => [
@@ -110,7 +115,7 @@ const FITS: LawFitFamily[] = [
 
 const info = (p: HaloParams): LawInfo => ({
   kind: 'halo',
-  label: (p.profile === 'nfw' ? FITS[0] : FITS[1]).label,
+  label: LABELS[p.profile],
   conservesEnergy: true,
   conservesMomentum: false,
   conservesAngularMomentum: true,

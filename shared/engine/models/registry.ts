@@ -42,4 +42,4 @@ export const modelJsonSchema = (kind: string) => z.toJSONSchema(modelModule(kind
 export const modelLabel = (kind: string): string => modelModule(kind).label;
 export const modelPreset = (kind: string): z.input<typeof modelSchema> => structuredClone(modelModule(kind).preset);
 export const modelComponents = (model: ModelSpec): string[] => modelModule(model.kind).components(model);
-export const modelTraits = (model: Pick<ModelSpec, 'kind'>) => modelModule(model.kind).traits;
+export const modelTraits = (kind: string) => modelModule(kind).traits;
