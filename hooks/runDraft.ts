@@ -1,9 +1,8 @@
 import { useCallback, useDeferredValue, useMemo, useState } from 'react';
 import { analyticCurves, isReferenceLaw, modelModule, precheck, referenceLaw, type AnalyticCurves, type EngineWarning, type Timescales } from '../shared/engine';
 import { defaultRunSpec, estimateInteractions, particleCount, runSpecSchema, stepCount, type LawSpec, type RunSpec, type RunSpecInput } from '../shared/spec';
-import type { SubmitRunInput } from './runs';
-
 import { setIn, type Path } from '../components/launch/draft';
+import type { SubmitRunInput } from './runs';
 
 type Draft = Record<string, unknown>;
 
