@@ -26,7 +26,7 @@ export function getIn(obj: unknown, path: Path): unknown {
  * module lists them: the model itself, or the members of an encounter; none for particles that
  * bring their own velocities or a two-body orbit.
  */
-export function balancedSystems(model: unknown): Path[] {
+export function balancedPaths(model: unknown): Path[] {
   try {
     return modelModule(String((model as { kind?: unknown } | undefined)?.kind)).balancedPaths;
   } catch {
@@ -34,15 +34,15 @@ export function balancedSystems(model: unknown): Path[] {
   }
 }
 
-export const isSampled = (model: unknown): boolean => balancedSystems(model).length > 0;
+export const isSampled = (model: unknown): boolean => balancedPaths(model).length > 0;
 
 /** Each balanced system of the model gets its velocities from `law`; with none, each run balances them for its own law. */
 export function withEquilibriumLaw(model: Record<string, unknown>, law: LawSpec | undefined): Record<string, unknown> {
-  return balancedSystems(model).reduce((m, p) => setIn(m, [...p, 'equilibriumLaw'], law), model);
+  return balancedPaths(model).reduce((m, p) => setIn(m, [...p, 'equilibriumLaw'], law), model);
 }
 
 /** The law the model's velocities are pinned to, if any (all its systems share it). */
 export function pinnedLaw(model: unknown): LawSpec | undefined {
-  const first = balancedSystems(model)[0];
+  const first = balancedPaths(model)[0];
   return first ? (getIn(model, [...first, 'equilibriumLaw']) as LawSpec | undefined) : undefined;
 }

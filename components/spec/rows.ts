@@ -27,7 +27,7 @@ function numberText(key: string, v: number): string {
   return Number.isInteger(v) && Math.abs(v) < 1e6 ? formatCount(v) : formatInput(v);
 }
 
-function lawLabel(law: LawSpec): string {
+function lawFullName(law: LawSpec): string {
   try {
     return lawInfo(law).label;
   } catch {
@@ -82,7 +82,7 @@ function fieldRows(spec: RunSpec, obj: Obj, path: string, group: SpecGroup, labe
 function defaultBalance(spec: RunSpec, kind: string): string {
   try {
     // Version-1 specs balanced some systems for the reference law.
-    if (spec.version === 1 && systemModule(kind).version1Reference) return `${lawLabel(referenceLaw())} (a version 1 spec)`;
+    if (spec.version === 1 && systemModule(kind).version1Reference) return `${lawFullName(referenceLaw())} (a version 1 spec)`;
   } catch {
     // not a system any module knows: say what version 2 does
   }
@@ -103,13 +103,13 @@ export const rowText = (r: SpecRow): string => (r.unit ? `${r.value}${r.unit ===
 function lawSummary(spec: RunSpec, law: LawSpec): string {
   // The law's own fields, read against the law schema (the same members wherever a law sits).
   const params = fieldRows({ ...spec, law }, law as unknown as Obj, 'law', 'Force law', '').map((r) => `${r.label} ${rowText(r)}`);
-  return params.length ? `${lawLabel(law)} (${params.join(', ')})` : lawLabel(law);
+  return params.length ? `${lawFullName(law)} (${params.join(', ')})` : lawFullName(law);
 }
 
 /** Every field of a spec, with Infall's labels and units, grouped as the launch form groups them. */
 export function specRows(spec: RunSpec): SpecRow[] {
   const rows = systemRows(spec, spec.model as unknown as Obj, 'model', 'Initial conditions', '');
-  rows.push({ key: 'law.kind', group: 'Force law', label: 'Law', value: lawLabel(spec.law) });
+  rows.push({ key: 'law.kind', group: 'Force law', label: 'Law', value: lawFullName(spec.law) });
   rows.push(...fieldRows(spec, spec.law as unknown as Obj, 'law', 'Force law', ''));
   const g: SpecGroup = 'Integration';
   const integrator = nodeAt(['integrator'], spec)?.node ?? {};

@@ -1,5 +1,5 @@
 import { within } from '@testing-library/dom';
-import { balancedSystems, withEquilibriumLaw } from '../../components/launch/draft';
+import { balancedPaths, withEquilibriumLaw } from '../../components/launch/draft';
 import { LawEditor } from '../../components/launch/LawEditor';
 import { ModelEditor } from '../../components/launch/ModelEditor';
 import { fieldKind, memberKind, nodeAt, numberBounds, specJsonSchema, startValue, titleOf, type JsonNode } from '../../components/launch/schemaForm';
@@ -87,7 +87,7 @@ describe('the JSON Schema the launch form is drawn from', () => {
   it('finds the systems whose velocities a law balances, and pins or frees them all', () => {
     for (const model of modelMembers) {
       const value = startValue(model) as Record<string, unknown>;
-      const systems = balancedSystems(value);
+      const systems = balancedPaths(value);
       const direct = Boolean(model.properties!.equilibriumLaw);
       if (direct) expect(systems).toEqual([[]]);
       const law = startValue(lawMembers[0]) as LawSpec;
@@ -96,8 +96,8 @@ describe('the JSON Schema the launch form is drawn from', () => {
       const freed = withEquilibriumLaw(pinned, undefined);
       expect(JSON.stringify(freed)).not.toContain('equilibriumLaw');
     }
-    expect(modelMembers.some((m) => balancedSystems(startValue(m)).length > 1)).toBe(true); // an encounter's two systems
-    expect(modelMembers.some((m) => balancedSystems(startValue(m)).length === 0)).toBe(true); // particles that bring their velocities
+    expect(modelMembers.some((m) => balancedPaths(startValue(m)).length > 1)).toBe(true); // an encounter's two systems
+    expect(modelMembers.some((m) => balancedPaths(startValue(m)).length === 0)).toBe(true); // particles that bring their velocities
   });
 });
 
