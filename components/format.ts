@@ -1,3 +1,6 @@
+// Before the registries below build their schemas: expo-router may load a screen (and so this
+// module) ahead of the root layout that sets zod up for the content security policy.
+import '../shared/zodSetup';
 import { lawShortLabel, modelLabel } from '../shared/engine';
 
 // How numbers, counts and ages read across the app. Every helper takes any number, finite

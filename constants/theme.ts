@@ -1,3 +1,6 @@
+// Before the registries below build their schemas: expo-router may load a screen (and so this
+// module) ahead of the root layout that sets zod up for the content security policy.
+import '../shared/zodSetup';
 import { lawColour, partLook, type LawColourToken, type PartColourToken } from '../shared/engine';
 
 // Infall's own look: "Deep Field" — a near-black blue ground, bone-white text,
