@@ -7,7 +7,6 @@ import { modelModule } from '../../shared/engine';
 import { describeRefusal, groupDigits, interactionsText } from '../../shared/api/quotaWords';
 import { formatBound, formatCount, formatInteractions } from '../format';
 import { Panel } from '../Panel';
-import { ProgressBar } from '../RunCard';
 import { describeError, Loading, Notice } from '../States';
 import { Txt } from '../Txt';
 

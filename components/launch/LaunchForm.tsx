@@ -15,7 +15,6 @@ import { describeError, Notice } from '../States';
 import { Txt } from '../Txt';
 import { INTEGRATOR_NOTES, SOLVER_LABELS } from '../spec/labels';
 import { CostPanel, quotaFieldNotes } from './CostPanel';
-import { styles as formStyles } from './formStyles';
 import { LawEditor } from './LawEditor';
 import { ModelEditor } from './ModelEditor';
 import { enumOptions, nodeAt, titleOf } from './schemaForm';
