@@ -30,6 +30,15 @@ export interface LaunchStart {
   origin: string;
 }
 
+/** A two-body orbit has no mass model to preview; a kind no module has is left to the schema's message. */
+function isOrbit(model: unknown): boolean {
+  try {
+    return Boolean(modelModule(String((model as { kind?: unknown } | undefined)?.kind)).orbit);
+  } catch {
+    return false;
+  }
+}
+
 /** The new-run form with its live preview, checks and cost; `start` comes from a clone or a template. */
 export function LaunchForm({ start }: { start?: LaunchStart }) {
   const router = useRouter();
@@ -125,7 +134,7 @@ export function LaunchForm({ start }: { start?: LaunchStart }) {
 
   const sideColumn = (
     <View style={styles.column}>
-      <CurvePreview preview={form.preview} isOrbit={Boolean(modelModule(String((draft.model as { kind: string }).kind)).orbit)} />
+      <CurvePreview preview={form.preview} isOrbit={isOrbit(draft.model)} />
       <ChecksPreview preview={form.preview} timestep={typeof draft.timestep_Myr === 'number' ? draft.timestep_Myr : undefined} onTimestep={(dt) => set(['timestep_Myr'], dt)} />
       <CostPanel cost={form.cost} />
       <View style={styles.submit}>
