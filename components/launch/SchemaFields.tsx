@@ -32,9 +32,6 @@ export interface SchemaFieldsProps {
   partPresets?: readonly unknown[];
 }
 
-// Components of a three-vector, the only tuples the spec holds.
-const AXES = ['x', 'y', 'z'];
-
 /**
  * Every field of one object of the spec, drawn from its JSON Schema alone: numbers side by side,
  * enums as chips, optional parts behind a switch, tuples as a row, unions by `kind`.
@@ -76,7 +73,7 @@ export function SchemaFields(props: SchemaFieldsProps) {
       out.push(<Toggle key={key} label={title} hint={child.description} value={Boolean(v ?? child.default)} onChange={(on) => set(p, on)} />);
     } else if (kind === 'tuple' && v !== undefined) {
       const items = child.prefixItems!;
-      out.push(<FieldRow key={key}>{items.map((item, i) => number([...p, i], item.title ?? `${title} ${items.length === 3 ? AXES[i] : i + 1}`))}</FieldRow>);
+      out.push(<FieldRow key={key}>{items.map((item, i) => number([...p, i], item.title ?? `${title} ${child.itemTitles?.[i] ?? i + 1}`))}</FieldRow>);
     } else if (kind === 'object' && v !== undefined) {
       out.push(
         <View key={key} style={toggle ? styles.part : formStyles.group}>

@@ -31,6 +31,10 @@ export interface JsonNode {
   unit?: string;
   optionLabels?: Record<string, string>;
   optionNotes?: Record<string, string>;
+  /** Names of a tuple's members (a vector's x, y, z). */
+  itemTitles?: string[];
+  /** What a spec table says for an optional field left out. */
+  absent?: string;
 }
 
 export type Path = readonly (string | number)[];

@@ -68,25 +68,25 @@ function fieldRows(spec: RunSpec, obj: Obj, path: string, group: SpecGroup, labe
       else rows.push(...fieldRows(spec, inner, key, group, labelPrefix));
     }
   }
-  // Optional fields left out still say what the run used.
+  // Optional fields left out still say what the run used, in the schema's words.
   for (const [k, child] of Object.entries(props)) {
-    if (obj[k] !== undefined || (node?.required ?? []).includes(k) || !path.startsWith('model')) continue;
+    if (obj[k] !== undefined || (node?.required ?? []).includes(k)) continue;
     const label = `${labelPrefix}${titleOf(k, child)}`;
-    if (fieldKind(child) === 'number') rows.push({ key: `${path}.${k}`, group, label, value: 'the model’s default' });
-    else if (isLawUnion(child)) rows.push({ key: `${path}.${k}`, group, label, value: defaultBalance(spec, String(obj.kind)) });
+    if (isLawUnion(child)) rows.push({ key: `${path}.${k}`, group, label, value: defaultBalance(spec, String(obj.kind), child.absent) });
+    else if (child.absent) rows.push({ key: `${path}.${k}`, group, label, value: child.absent });
   }
   return rows;
 }
 
 /** The law a system's velocities were balanced for when the spec named none. */
-function defaultBalance(spec: RunSpec, kind: string): string {
+function defaultBalance(spec: RunSpec, kind: string, absent = 'the run’s law'): string {
   try {
     // Version-1 specs balanced some systems for the reference law.
     if (spec.version === 1 && systemModule(kind).version1Reference) return `${lawFullName(referenceLaw())} (a version 1 spec)`;
   } catch {
     // not a system any module knows: say what version 2 does
   }
-  return 'the run’s law';
+  return absent;
 }
 
 function systemRows(spec: RunSpec, model: Obj, path: string, group: SpecGroup, labelPrefix: string): SpecRow[] {

@@ -37,6 +37,7 @@ describe('the spec a run ran', () => {
     expect(text(container, 'model.scaleHeight_kpc')).toBe('Scale height z₀0.25 kpc');
     expect(text(container, 'model.toomreQ')).toBe('Toomre Q1.5'); // the schema's default, filled in
     expect(text(container, 'model.truncationRadius_kpc')).toBe('Truncation radiusthe model’s default');
+    expect(text(container, 'model.halo')).toBe('Live halonone'); // an optional part left out, in its schema's words
     expect(text(container, 'model.bulge.mass_Msun')).toBe('Bulge mass8e9 M☉');
     expect(text(container, 'model.equilibriumLaw')).toMatch(/^Velocities balanced for.*\(Halo profile NFW, Scale radius 15 kpc, Density ρ₀ 8e6 M☉\/kpc³\)$/);
     expect(text(container, 'law.interpolation')).toBe('Interpolating functionsimple ν');
