@@ -6,7 +6,7 @@ import { StatusBar } from 'expo-status-bar';
 import { useFonts } from 'expo-font';
 import { QueryClientProvider } from '@tanstack/react-query';
 import { colors } from '../constants/theme';
-import { makeQueryClient } from '../hooks/queryClient';
+import { makeQueryClient } from '../components/lib/queryClient';
 import { Loading } from '../components/States';
 
 export default function RootLayout() {

@@ -2,7 +2,8 @@ import type { ReactNode } from 'react';
 import { Pressable, StyleSheet, View, useWindowDimensions } from 'react-native';
 import { Link, usePathname, type Href } from 'expo-router';
 import { colors, fonts, space } from '../constants/theme';
-import { isAdmin, isStaff, useSignOut, type SessionUser } from '../hooks/session';
+import { useSignOut, type SessionUser } from '../hooks/session';
+import { isAdmin, isStaff } from './lib/roles';
 import { Icon, Mark, type IconName } from './icons';
 import { Txt } from './Txt';
 

@@ -1,6 +1,7 @@
 import { memo, useMemo, useState } from 'react';
 import { Pressable, StyleSheet, View, type LayoutChangeEvent } from 'react-native';
 import Svg, { G, Line, Path, Text as SvgText } from 'react-native-svg';
+import { line } from 'd3-shape';
 import { colors, fonts, space } from '../constants/theme';
 import { formatTick, makeScale, niceDomain, type AxisTick, type Scale } from './plot/scale';
 import { Txt } from './Txt';
@@ -207,17 +208,12 @@ export function LinePlot({ series, xLabel, yLabel, xLog = false, yLog = false, h
     const x = makeScale(xd, [M.left, width - M.right], xLog);
     const y = makeScale(yd, [height - M.bottom, M.top], yLog);
     const paths = shown.map((s) => {
-      let d = '';
       let bars = '';
-      let pen = false;
       const points: [number, number][] = [];
       for (let i = 0; i < s.x.length; i++) {
         const xv = s.x[i];
         const yv = s.y[i];
-        if (!usable(xv, xLog) || !usable(yv, yLog)) {
-          pen = false;
-          continue;
-        }
+        if (!usable(xv, xLog) || !usable(yv, yLog)) continue;
         const px = x(xv);
         const py = y(yv);
         const e = s.yError?.[i];
@@ -227,10 +223,15 @@ export function LinePlot({ series, xLabel, yLabel, xLog = false, yLog = false, h
           const hi = y(yv + e);
           bars += `M${px.toFixed(1)},${lo.toFixed(1)}V${hi.toFixed(1)}M${(px - 3).toFixed(1)},${lo.toFixed(1)}h6M${(px - 3).toFixed(1)},${hi.toFixed(1)}h6`;
         }
-        if (!s.pointsOnly) d += `${pen ? 'L' : 'M'}${px.toFixed(1)},${py.toFixed(1)}`;
         points.push([px, py]);
-        pen = true;
       }
+      // A missing or unplottable value (null, or ≤ 0 on a log axis) breaks the line into pieces.
+      const pen = line<number>()
+        .defined((i) => usable(s.x[i], xLog) && usable(s.y[i], yLog))
+        .x((i) => x(s.x[i]))
+        .y((i) => y(s.y[i] as number))
+        .digits(1);
+      const d = s.pointsOnly ? '' : (pen(Array.from({ length: s.x.length }, (_, i) => i)) ?? '');
       let marks = '';
       if (s.mark && points.length) {
         const every = s.pointsOnly ? 1 : Math.max(1, Math.ceil(points.length / MARKS_PER_SERIES));

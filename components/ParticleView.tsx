@@ -3,7 +3,8 @@ import { Platform, StyleSheet, Text, View, type LayoutChangeEvent } from 'react-
 import Svg, { Line, Path, Rect, Text as SvgText } from 'react-native-svg';
 import type { ParticleParts, SnapshotFrame } from '../shared/api/snapshots';
 import { colors, componentColor, fonts, space, type as typeSize } from '../constants/theme';
-import { locateFrame, usePlayheadValue, type Playhead } from '../hooks/playback';
+import { locateFrame, type Playhead } from './lib/playhead';
+import { usePlayheadValue } from '../hooks/playback';
 import { backdrop, dotSize, drawOrder, drawParticles, frameWindow, particlePath, pixelColor, scaleBarLength, type Framing, type Projection } from './particles';
 
 export type { Projection } from './particles';

@@ -1,7 +1,8 @@
 import { useState } from 'react';
 import { StyleSheet, View, type GestureResponderEvent, type LayoutChangeEvent } from 'react-native';
 import { colors, fonts, radius, space } from '../constants/theme';
-import { locateFrame, PLAYBACK_SPEEDS, usePlayheadValue, type Playhead } from '../hooks/playback';
+import { locateFrame, PLAYBACK_SPEEDS, type Playhead } from './lib/playhead';
+import { usePlayheadValue } from '../hooks/playback';
 import { Button } from './Button';
 import { ChoiceChips, Toggle } from './fields';
 import type { Projection } from './ParticleView';

@@ -2,7 +2,7 @@ import { Pressable, StyleSheet, View } from 'react-native';
 import { Link } from 'expo-router';
 import type { RunSummary } from '../shared/api/contract';
 import { colors, lawColor, radius, space } from '../constants/theme';
-import { formatAge, formatCount, LAW_LABELS, MODEL_LABELS } from './format';
+import { formatAge, formatCount, lawName, modelName } from './format';
 import { LawTag, StatusBadge, statusLabel } from './StatusBadge';
 import { Txt } from './Txt';
 
@@ -17,8 +17,8 @@ export function ProgressBar({ value, color = colors.accent, label }: { value: nu
 
 /** One run in a list: what it is, where it stands, and a way into it. */
 export function RunCard({ run, showOwner }: { run: RunSummary; showOwner?: boolean }) {
-  const model = MODEL_LABELS[run.modelKind] ?? run.modelKind;
-  const law = LAW_LABELS[run.lawKind] ?? run.lawKind;
+  const model = modelName(run.modelKind);
+  const law = lawName(run.lawKind);
   return (
     <Link href={{ pathname: '/runs/[id]', params: { id: run.id } }} asChild>
       <Pressable

@@ -4,10 +4,11 @@ import { RUN_STATUSES, type RunStatus } from '../shared/api/contract';
 import { space, WIDE_BREAKPOINT } from '../constants/theme';
 import { useRuns, type RunFilters } from '../hooks/runs';
 import { useCohorts } from '../hooks/cohorts';
-import { useSession, isStaff } from '../hooks/session';
+import { useSession } from '../hooks/session';
+import { isStaff } from './lib/roles';
 import { Button } from './Button';
 import { ChoiceChips } from './fields';
-import { LAW_LABELS } from './format';
+import { lawModules } from '../shared/engine';
 import { RunCard } from './RunCard';
 import { Screen } from './Screen';
 import { Empty, ErrorState, Loading } from './States';
@@ -48,7 +49,7 @@ export function RunsBoard() {
     >
       <View style={styles.filters} role="group" accessibilityLabel="Filters">
         <ChoiceChips compact label="Status" value={status} onChange={setStatus} choices={[{ value: ANY, label: 'All' }, ...RUN_STATUSES.map((s) => ({ value: s, label: statusLabel(s) }))]} />
-        <ChoiceChips compact label="Law" value={law} onChange={setLaw} choices={[{ value: ANY, label: 'All' }, ...Object.entries(LAW_LABELS).map(([value, label]) => ({ value, label }))]} />
+        <ChoiceChips compact label="Law" value={law} onChange={setLaw} choices={[{ value: ANY, label: 'All' }, ...lawModules().map((m) => ({ value: m.kind, label: m.shortLabel }))]} />
         {cohortChoices.length ? <ChoiceChips compact label="Cohort" value={cohort} onChange={setCohort} choices={[{ value: 0, label: 'All' }, ...cohortChoices]} /> : null}
       </View>
       {runs.isPending ? (

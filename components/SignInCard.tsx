@@ -1,6 +1,6 @@
 import { StyleSheet, View } from 'react-native';
 import { colors, radius, space } from '../constants/theme';
-import { signInUrl } from '../hooks/api';
+import { signInUrl } from './lib/api';
 import { Button } from './Button';
 import { Notice } from './States';
 import { Mark } from './icons';

@@ -1,7 +1,7 @@
 import type { ReactNode } from 'react';
 import { ActivityIndicator, StyleSheet, View } from 'react-native';
 import { colors, radius, space } from '../constants/theme';
-import { ApiError } from '../hooks/api';
+import { ApiError } from './lib/api';
 import { Button } from './Button';
 import { Txt } from './Txt';
 

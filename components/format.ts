@@ -1,3 +1,8 @@
+// Before the registries below build their schemas: expo-router may load a screen (and so this
+// module) ahead of the root layout that sets zod up for the content security policy.
+import '../shared/zodSetup';
+import { lawShortLabel, modelLabel } from '../shared/engine';
+
 // How numbers, counts and ages read across the app. Every helper takes any number, finite
 // or not, and any string for dates, without throwing: a stored run with extreme or missing
 // values must still draw (a blank page is worse than a dash).
@@ -99,22 +104,20 @@ export function formatDuration(ms: number): string {
   return m < 90 ? `${m} min` : `${h < 1e5 ? h.toFixed(1) : formatValue(h)} h`;
 }
 
-/** Model kinds as people say them. */
-export const MODEL_LABELS: Record<string, string> = {
-  kepler: 'Kepler pair',
-  plummer: 'Plummer sphere',
-  hernquist: 'Hernquist sphere',
-  disk: 'Exponential disk',
-  encounter: 'Encounter',
-  table: 'Uploaded particles',
-};
+/** A law's short name for lists, tags and chips; a kind no module has (a stored run from a retired law) reads as itself. */
+export function lawName(kind: string): string {
+  try {
+    return lawShortLabel(kind);
+  } catch {
+    return kind;
+  }
+}
 
-/** Short law names for lists and tags; the engine's lawInfo gives the full label. */
-export const LAW_LABELS: Record<string, string> = {
-  newton: 'Newton',
-  halo: 'Newton + halo',
-  mond: 'MOND (algebraic)',
-  qumond: 'MOND (field, QUMOND)',
-  emergent: 'Emergent',
-  yukawa: 'Yukawa',
-};
+/** A model's name as people say it; an unknown kind reads as itself. */
+export function modelName(kind: string): string {
+  try {
+    return modelLabel(kind);
+  } catch {
+    return kind;
+  }
+}

@@ -1,4 +1,8 @@
 import type { SnapshotFrame } from '../shared/api/snapshots';
+import { partLook } from '../shared/engine';
+
+/** The layer of parts with no look of their own: drawn last, on top. */
+const TOP_LAYER = Number.MAX_SAFE_INTEGER;
 
 // The pure geometry of the particle animation: framing, scale bar, and the path text.
 
@@ -101,13 +105,17 @@ export function pixelColor(hex: string): number {
   return (0xff000000 | ((v & 0xff) << 16) | (v & 0xff00) | ((v >> 16) & 0xff)) >>> 0;
 }
 
-/** Particle indices in drawing order: the halo first, so the disk and bulge show on top of it. */
+/**
+ * Particle indices in drawing order, by the layer the model registry gives each part (a live
+ * halo first, so the disk and bulge show on top of it); parts with no look of their own, and
+ * particles of no listed part, are drawn last.
+ */
 export function drawOrder(component: Uint8Array, labels: string[]): Uint32Array {
-  const under = labels.indexOf('halo');
+  const layerOf = (p: number) => (p < labels.length ? (partLook(labels[p])?.layer ?? TOP_LAYER) : TOP_LAYER);
+  const layers = [...new Set(labels.map((_, p) => layerOf(p)).concat(TOP_LAYER))].sort((a, b) => a - b);
   const order = new Uint32Array(component.length);
   let k = 0;
-  for (let i = 0; i < component.length; i++) if (component[i] === under) order[k++] = i;
-  for (let i = 0; i < component.length; i++) if (component[i] !== under) order[k++] = i;
+  for (const layer of layers) for (let i = 0; i < component.length; i++) if (layerOf(component[i]) === layer) order[k++] = i;
   return order;
 }
 

@@ -1,3 +1,8 @@
+// Before the registries below build their schemas: expo-router may load a screen (and so this
+// module) ahead of the root layout that sets zod up for the content security policy.
+import '../shared/zodSetup';
+import { lawColour, partLook, type LawColourToken, type PartColourToken } from '../shared/engine';
+
 // Infall's own look: "Deep Field" — a near-black blue ground, bone-white text,
 // one warm accent (the glow of gas falling in) and a cool one for the second law.
 // Every colour used on screen comes from here, so the look changes in one place.
@@ -39,29 +44,38 @@ export const colors = {
   overlay: palette.veil,
 } as const;
 
-// One colour per force law, so a law reads the same on every plot and badge.
-const LAW_COLORS: Record<string, string> = {
-  newton: '#9FB7FF',
-  halo: '#C59BFF',
-  mond: palette.infall,
-  // A deeper shade of MOND's colour: the same theory in its field form.
-  qumond: '#E07B3A',
-  emergent: palette.drift,
-  yukawa: '#F28DC0',
+// One colour per law colour token: each law module names its token, so a law reads the same on
+// every plot and badge, and a new law picks a token instead of editing this file.
+const LAW_COLOUR_HEX: Record<LawColourToken, string> = {
+  periwinkle: '#9FB7FF',
+  lavender: '#C59BFF',
+  amber: palette.infall,
+  // A deeper shade of amber: the same theory in another form.
+  ember: '#E07B3A',
+  teal: palette.drift,
+  rose: '#F28DC0',
 };
 
+/** The colour of a law kind; a kind no module has (a stored run from a retired law) is grey. */
 export function lawColor(kind: string): string {
-  return LAW_COLORS[kind] ?? palette.dust;
+  try {
+    return LAW_COLOUR_HEX[lawColour(kind)];
+  } catch {
+    return palette.dust;
+  }
 }
 
-// One colour per part of a model, so a disk reads the same in every run's animation. The halo
-// is the dimmest: it is drawn first and the disk and bulge sit on top of it.
-const COMPONENT_COLORS: Record<string, string> = {
-  disk: '#86B4FF',
-  bulge: '#FFC56E',
-  halo: '#8C6FC9',
-  primary: palette.infall,
-  secondary: palette.drift,
+// One colour per part colour token: a model module gives each named part (a disk, its bulge, a
+// live halo) a token and a layer, so a part reads the same in every run's animation.
+const PART_COLOUR_HEX: Record<PartColourToken, string> = {
+  sky: '#86B4FF',
+  gold: '#FFC56E',
+  // The dimmest: it belongs to the part drawn first, beneath the rest.
+  plum: '#8C6FC9',
+  amber: palette.infall,
+  teal: palette.drift,
+  // Cold gas: green, apart from the stars' blue and gold.
+  jade: '#5FC79A',
 };
 
 /**
@@ -69,7 +83,8 @@ const COMPONENT_COLORS: Record<string, string> = {
  * the run's colour (its law's); several other parts take the series colours in turn.
  */
 export function componentColor(label: string | undefined, index: number, count: number, runColor: string): string {
-  const named = label ? COMPONENT_COLORS[label] : undefined;
+  const look = label ? partLook(label) : undefined;
+  const named = look ? PART_COLOUR_HEX[look.colour] : undefined;
   if (named) return named;
   return count <= 1 ? runColor : seriesColors[index % seriesColors.length];
 }

@@ -1,6 +1,6 @@
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import type { AccountSettings, AccountUsage, CreateTokenBody, CreatedToken, TokenSummary } from '../shared/api/accounts';
-import { api } from './api';
+import { api } from '../components/lib/api';
 
 export type Usage = AccountUsage;
 

@@ -1,6 +1,6 @@
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import type { AccountUsage, AdminUser, AllocationBody, Role } from '../shared/api/accounts';
-import { api, queryString } from './api';
+import { api, queryString } from '../components/lib/api';
 
 export function useAdminUsers(q: string, role?: Role) {
   return useQuery({

@@ -1,7 +1,7 @@
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import type { CohortMemberUsage, CohortSummary, QuotaLimits, TemplateDetail, TemplateSummary } from '../shared/api/accounts';
 import type { RunDetail, RunSummary } from '../shared/api/contract';
-import { api, queryString } from './api';
+import { api, queryString } from '../components/lib/api';
 
 const keys = {
   list: ['cohorts'] as const,

@@ -2,7 +2,7 @@ import { useMutation, useQueries, useQuery, useQueryClient } from '@tanstack/rea
 import type { RunSummary } from '../shared/api/contract';
 import type { GalaxyDetail, GalaxyFitRecord, GalaxyFitRequest, GalaxyList, GalaxyRunRequest, GalaxySampleRecord, GalaxySampleRequest, GalaxySampleSummary, GalaxyMapping, GalaxySummary, GalaxyVisibility, UpdateGalaxyBody } from '../shared/api/galaxies';
 import type { ParticleTableUpload } from '../shared/api/particleTable';
-import { api } from './api';
+import { api } from '../components/lib/api';
 
 const keys = {
   list: ['galaxies'] as const,

@@ -1,82 +1,10 @@
 import { useCallback, useDeferredValue, useMemo, useState } from 'react';
-import { analyticCurves, precheck, type AnalyticCurves, type EngineWarning, type Timescales } from '../shared/engine';
+import { analyticCurves, isReferenceLaw, modelModule, precheck, referenceLaw, type AnalyticCurves, type EngineWarning, type Timescales } from '../shared/engine';
 import { defaultRunSpec, estimateInteractions, particleCount, runSpecSchema, stepCount, type LawSpec, type RunSpec, type RunSpecInput } from '../shared/spec';
+import { setIn, type Path } from '../components/launch/draft';
 import type { SubmitRunInput } from './runs';
 
-export type Path = readonly (string | number)[];
 type Draft = Record<string, unknown>;
-
-// Starting values when someone switches model or law. Invented example systems,
-// sized so each runs in seconds under the default timestep; the halo and Yukawa
-// numbers are typical textbook magnitudes (from memory), not fits to any galaxy.
-export const MODEL_PRESETS: Record<string, Record<string, unknown>> = {
-  kepler: { kind: 'kepler', mass1_Msun: 1e10, mass2_Msun: 2e9, semiMajorAxis_kpc: 5, eccentricity: 0.3 },
-  plummer: { kind: 'plummer', n: 500, mass_Msun: 1e10, scale_kpc: 1 },
-  hernquist: { kind: 'hernquist', n: 1000, mass_Msun: 5e10, scale_kpc: 2 },
-  disk: { kind: 'disk', n: 2000, mass_Msun: 5e10, scaleLength_kpc: 3, scaleHeight_kpc: 0.3, toomreQ: 1.5 },
-  encounter: {
-    kind: 'encounter',
-    primary: { kind: 'plummer', n: 600, mass_Msun: 2e10, scale_kpc: 1.5 },
-    secondary: { kind: 'plummer', n: 300, mass_Msun: 1e10, scale_kpc: 1 },
-    pericentre_kpc: 8,
-    initialSeparation_kpc: 40,
-    primaryTilt_deg: 0,
-    secondaryTilt_deg: 30,
-  },
-  table: {
-    kind: 'table',
-    recentre: true,
-    particles: [
-      { x_kpc: -1, y_kpc: 0, z_kpc: 0, vx_km_s: 0, vy_km_s: -50, vz_km_s: 0, mass_Msun: 1e9 },
-      { x_kpc: 1, y_kpc: 0, z_kpc: 0, vx_km_s: 0, vy_km_s: 50, vz_km_s: 0, mass_Msun: 1e9 },
-    ],
-  },
-};
-
-export const SYSTEM_KINDS = ['plummer', 'hernquist', 'disk'] as const;
-
-/** A live halo for the preset systems: about ten times their mass, as galaxies hold (common practice). */
-export const HALO_PRESET = { profile: 'nfw', n: 4000, mass_Msun: 5e11, scale_kpc: 15 };
-
-export const LAW_PRESETS: Record<string, LawSpec> = {
-  newton: { kind: 'newton' },
-  halo: { kind: 'halo', profile: 'nfw', scale_kpc: 15, density_Msun_kpc3: 7e6 },
-  mond: { kind: 'mond', interpolation: 'simple', a0_m_s2: 1.2e-10 },
-  qumond: { kind: 'qumond', interpolation: 'simple', a0_m_s2: 1.2e-10, grid: 64 },
-  emergent: { kind: 'emergent', H0_km_s_Mpc: 70 },
-  yukawa: { kind: 'yukawa', alpha: 0.5, lambda_kpc: 10 },
-};
-
-export function setIn<T>(obj: T, path: Path, value: unknown): T {
-  if (path.length === 0) return value as T;
-  const [head, ...rest] = path;
-  const base = (obj ?? {}) as Record<string | number, unknown>;
-  const copy = (Array.isArray(base) ? [...base] : { ...base }) as Record<string | number, unknown>;
-  if (value === undefined && rest.length === 0) delete copy[head];
-  else copy[head] = setIn(base[head], rest, value);
-  return copy as T;
-}
-
-export function getIn(obj: unknown, path: Path): unknown {
-  return path.reduce<unknown>((o, k) => (o as Record<string | number, unknown> | undefined)?.[k], obj);
-}
-
-/**
- * Every sampled system of a model (itself, or the members of an encounter) gets its velocities
- * balanced for `law`; with none, each run balances them for its own law.
- */
-export function withEquilibriumLaw(model: Record<string, unknown>, law: LawSpec | undefined): Record<string, unknown> {
-  const set = (m: Record<string, unknown>) => (law ? { ...m, equilibriumLaw: law } : setIn(m, ['equilibriumLaw'], undefined));
-  if (model.kind === 'encounter') return { ...model, primary: set(model.primary as Record<string, unknown>), secondary: set(model.secondary as Record<string, unknown>) };
-  return SAMPLED_KINDS.has(String(model.kind)) ? set(model) : model;
-}
-
-/** Models whose velocities are set by a law's field (uploaded tables bring their own; a Kepler pair is an orbit). */
-const SAMPLED_KINDS = new Set(['plummer', 'hernquist', 'disk', 'encounter']);
-
-export function isSampled(model: Record<string, unknown>): boolean {
-  return SAMPLED_KINDS.has(String(model.kind));
-}
 
 export interface Preview {
   curves: AnalyticCurves | null;
@@ -140,10 +68,11 @@ export function useRunDraft(initial?: RunSpecInput, initialPairLaw?: LawSpec | n
     if (!deferredSpec) return null;
     const laws: LawSpec[] = [deferredSpec.law];
     if (deferredPair) laws.push(deferredPair.law);
-    if (!laws.some((l) => l.kind === 'newton')) laws.push({ kind: 'newton' });
+    if (!laws.some((l) => isReferenceLaw(l.kind))) laws.push(referenceLaw());
     const result: Preview = { curves: null, curvesError: null, checks: [], checksError: null };
     try {
-      result.curves = deferredSpec.model.kind === 'kepler' ? null : analyticCurves(deferredSpec, { laws });
+      // A two-body orbit has no extended mass model to draw a curve of.
+      result.curves = modelModule(deferredSpec.model.kind).orbit ? null : analyticCurves(deferredSpec, { laws });
     } catch (e) {
       result.curvesError = (e as Error).message;
     }

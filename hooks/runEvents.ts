@@ -1,7 +1,7 @@
 import { useEffect, useRef, useState } from 'react';
 import { useQueryClient } from '@tanstack/react-query';
 import type { RunDetail, RunProgress, RunSummary } from '../shared/api/contract';
-import { API_BASE } from './api';
+import { API_BASE } from '../components/lib/api';
 import { runKeys } from './runs';
 
 export type StreamState = 'idle' | 'connecting' | 'open' | 'ended' | 'reconnecting';

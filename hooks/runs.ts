@@ -1,8 +1,8 @@
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import type { RunDetail, RunStatus, RunSummary } from '../shared/api/contract';
-import { FINAL_STATUSES } from '../shared/api/contract';
 import { decodeSnapshots, SNAPSHOT_WIRE_FORMAT, type SnapshotSet } from '../shared/api/snapshots';
-import { api, queryString } from './api';
+import { api, queryString } from '../components/lib/api';
+import { isFinal } from '../components/lib/runStatus';
 
 export interface RunFilters {
   status?: RunStatus;
@@ -17,8 +17,6 @@ export const runKeys = {
   detail: (id: string) => ['runs', 'detail', id] as const,
   snapshots: (id: string) => ['runs', 'snapshots', id] as const,
 };
-
-export const isFinal = (status: RunStatus) => FINAL_STATUSES.includes(status);
 
 export function useRuns(filters: RunFilters = {}) {
   return useQuery({

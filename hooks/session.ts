@@ -1,6 +1,6 @@
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import type { AccountUser, SessionResponse } from '../shared/api/accounts';
-import { api, ApiError, setCsrfToken } from './api';
+import { api, ApiError, setCsrfToken } from '../components/lib/api';
 
 export type SessionUser = AccountUser;
 
@@ -34,6 +34,3 @@ export function useSignOut() {
     },
   });
 }
-
-export const isStaff = (u: SessionUser | null | undefined) => u?.role === 'instructor' || u?.role === 'admin';
-export const isAdmin = (u: SessionUser | null | undefined) => u?.role === 'admin';

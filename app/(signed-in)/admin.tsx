@@ -1,7 +1,8 @@
 import { AdminView } from '../../components/admin/AdminView';
 import { Screen } from '../../components/Screen';
 import { Empty } from '../../components/States';
-import { isAdmin, useSession } from '../../hooks/session';
+import { useSession } from '../../hooks/session';
+import { isAdmin } from '../../components/lib/roles';
 
 export default function AdminScreen() {
   const session = useSession();

@@ -1,13 +1,13 @@
 import { useState } from 'react';
 import { StyleSheet, View } from 'react-native';
 import { colors, fonts, radius, space } from '../../constants/theme';
-import { API_BASE } from '../../hooks/api';
+import { API_BASE } from '../lib/api';
 import { useAccountSettings, useCreateToken, useRevokeToken, useTokens, useUpdateAccount, useUsage } from '../../hooks/account';
 import { useCohorts, useJoinCohort, useTemplates } from '../../hooks/cohorts';
 import { useSession } from '../../hooks/session';
 import { Button } from '../Button';
 import { ChoiceChips, TextField, Toggle } from '../fields';
-import { formatAge, formatCount, formatExpiry, formatInteractions, LAW_LABELS, MODEL_LABELS } from '../format';
+import { formatAge, formatCount, formatExpiry, formatInteractions, lawName, modelName } from '../format';
 import { Panel } from '../Panel';
 import { ProgressBar } from '../RunCard';
 import { Screen } from '../Screen';
@@ -169,8 +169,8 @@ function CohortsPanel({ student }: { student: boolean }) {
               <View style={{ flex: 1, gap: 2 }}>
                 <Txt variant="body">{t.name}</Txt>
                 <Txt variant="caption">
-                  {MODEL_LABELS[t.modelKind] ?? t.modelKind} · {LAW_LABELS[t.lawKind] ?? t.lawKind}
-                  {t.pairLawKind ? ` vs ${LAW_LABELS[t.pairLawKind] ?? t.pairLawKind}` : ''} · {t.cohortName}
+                  {modelName(t.modelKind)} · {lawName(t.lawKind)}
+                  {t.pairLawKind ? ` vs ${lawName(t.pairLawKind)}` : ''} · {t.cohortName}
                 </Txt>
                 {t.description ? <Txt variant="caption">{t.description}</Txt> : null}
               </View>

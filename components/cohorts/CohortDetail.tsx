@@ -6,7 +6,7 @@ import { useRuns } from '../../hooks/runs';
 import { useSession } from '../../hooks/session';
 import { Button } from '../Button';
 import { ChoiceChips, TextField } from '../fields';
-import { formatAge, formatInteractions, LAW_LABELS, MODEL_LABELS } from '../format';
+import { formatAge, formatInteractions, lawName, modelName } from '../format';
 import { Panel } from '../Panel';
 import { ProgressBar, RunCard } from '../RunCard';
 import { Screen } from '../Screen';
@@ -72,8 +72,8 @@ function Templates({ id }: { id: number }) {
             <View style={{ flex: 1 }}>
               <Txt variant="body">{t.name}</Txt>
               <Txt variant="caption">
-                {MODEL_LABELS[t.modelKind] ?? t.modelKind} · {LAW_LABELS[t.lawKind] ?? t.lawKind}
-                {t.pairLawKind ? ` vs ${LAW_LABELS[t.pairLawKind] ?? t.pairLawKind}` : ''}
+                {modelName(t.modelKind)} · {lawName(t.lawKind)}
+                {t.pairLawKind ? ` vs ${lawName(t.pairLawKind)}` : ''}
               </Txt>
             </View>
             <Button small tone="secondary" label="Try it" href={{ pathname: '/runs/new', params: { template: String(t.id) } }} />

@@ -5,7 +5,7 @@ import { colors, space } from '../../constants/theme';
 import { useRuns } from '../../hooks/runs';
 import { Button } from '../Button';
 import { ChoiceChips } from '../fields';
-import { formatAge, LAW_LABELS, MODEL_LABELS } from '../format';
+import { formatAge, lawName, modelName } from '../format';
 import { Panel } from '../Panel';
 import { Screen } from '../Screen';
 import { Empty, ErrorState, Loading } from '../States';
@@ -48,7 +48,7 @@ export function ComparePicker() {
             {pairs.map((p) => (
               <View key={p.id} style={styles.pair} role="listitem">
                 <View style={styles.pairText}>
-                  <Txt variant="heading">{MODEL_LABELS[p.runs[0].modelKind] ?? p.runs[0].modelKind}: {p.runs.map((r) => LAW_LABELS[r.lawKind] ?? r.lawKind).join(' vs ')}</Txt>
+                  <Txt variant="heading">{modelName(p.runs[0].modelKind)}: {p.runs.map((r) => lawName(r.lawKind)).join(' vs ')}</Txt>
                   <View style={styles.badges}>
                     {p.runs.map((r) => (
                       <StatusBadge key={r.id} status={r.status} percent={r.progress * 100} />

@@ -4,13 +4,15 @@ import type { RunDetail } from '../../shared/api/contract';
 import { colors, lawColor, space, WIDE_BREAKPOINT } from '../../constants/theme';
 import { usePlayhead, useFrameTime } from '../../hooks/playback';
 import { useRunEvents } from '../../hooks/runEvents';
-import { readOutput, specOf, type RunOutputView } from '../../hooks/runOutput';
+import { readOutput, specOf, type RunOutputView } from '../lib/runOutput';
 import { lawInfo } from '../../shared/engine';
-import { isFinal, useRun, useRuns, useSnapshots } from '../../hooks/runs';
+import { useRun, useRuns, useSnapshots } from '../../hooks/runs';
+import { isFinal } from '../lib/runStatus';
 import { Button } from '../Button';
-import { LAW_LABELS } from '../format';
+import { lawName } from '../format';
+import { lawModules } from '../../shared/engine';
 
-const LAW_ORDER = Object.keys(LAW_LABELS);
+const LAW_ORDER = lawModules().map((m) => m.kind);
 import { Panel } from '../Panel';
 import { ParticleView, type Projection } from '../ParticleView';
 import { PlaybackControls } from '../PlaybackControls';
@@ -108,8 +110,8 @@ function ComparePair({ a, b }: { a: RunDetail; b: RunDetail }) {
   const tints = [sideColor(a, b), sideColor(b, a)];
   // Short law names, unless both runs use the same kind (then the full labels tell them apart).
   const same = a.lawKind === b.lawKind;
-  const labelA = same && outA ? outA.law.label : (LAW_LABELS[a.lawKind] ?? a.lawKind);
-  const labelB = same && outB ? outB.law.label : (LAW_LABELS[b.lawKind] ?? b.lawKind);
+  const labelA = same && outA ? outA.law.label : lawName(a.lawKind);
+  const labelB = same && outB ? outB.law.label : lawName(b.lawKind);
   const done = outA && outB;
   const specA = specOf(a);
   const specB = specOf(b);

@@ -1,4 +1,4 @@
-import { usesPotentialVirial, type RunOutputView } from '../../hooks/runOutput';
+import { readsPotentialVirial, type RunOutputView } from '../lib/runOutput';
 import type { RunSpec } from '../../shared/spec';
 import { formatValue } from '../format';
 import { rowText, SPEC_GROUPS, specRows, type SpecGroup, type SpecRow } from '../spec/rows';
@@ -51,7 +51,7 @@ export function describeDifferences(a: Side, b: Side): string[] {
   const qa = a.out.diagnostics[a.out.diagnostics.length - 1];
   const qb = b.out.diagnostics[b.out.diagnostics.length - 1];
   if (qa && qb) {
-    const vr = (s: Side, q: typeof qa) => (usesPotentialVirial(s.out.law) ? q.virialRatio : q.clausiusVirialRatio);
+    const vr = (s: Side, q: typeof qa) => (readsPotentialVirial(s.out.law) ? q.virialRatio : q.clausiusVirialRatio);
     lines.push(`Final virial ratio: ${formatValue(vr(a, qa))} under ${a.label}, ${formatValue(vr(b, qb))} under ${b.label} (1 is equilibrium).`);
   }
   return lines;

@@ -1,4 +1,4 @@
-import type { RunOutputView } from '../../hooks/runOutput';
+import type { RunOutputView } from '../lib/runOutput';
 import type { EquilibriumRecord } from '../../shared/engine';
 import { describeDifferences } from './differences';
 

@@ -4,7 +4,7 @@ import { useRouter } from 'expo-router';
 import { colors, fonts, space } from '../../constants/theme';
 import { useCohorts } from '../../hooks/cohorts';
 import { useGalaxies, useUploadGalaxy } from '../../hooks/galaxies';
-import { pickTableFile, type PickedFile } from '../../hooks/pickFile';
+import { pickTableFile, type PickedFile } from '../lib/pickFile';
 import { COLUMN_KEYS, parseRotationCurve, readTableCells, TableError, type ColumnKey, type RotationCurve, type TableCells } from '../../shared/galaxy/table';
 import { galaxyMappingSchema, type GalaxyMapping, type GalaxyVisibility } from '../../shared/api/galaxies';
 import type { UploadLimits } from '../../shared/api/accounts';
@@ -163,7 +163,7 @@ function ImportForm({ limits }: { limits: UploadLimits }) {
             <>
               <Txt variant="small" testID="galaxy-preview-summary">
                 {reading.curve.radiusKpc.length} points from {formatValue(reading.curve.radiusKpc[0])} to {formatValue(reading.curve.radiusKpc[reading.curve.radiusKpc.length - 1])} kpc; components:{' '}
-                {[reading.curve.vGas && 'gas', reading.curve.vDisk && 'disk', reading.curve.vBulge && 'bulge'].filter(Boolean).join(', ') || 'none'}.
+                {[reading.curve.vGas && 'gas', reading.curve.vDisk && 'stellar disk', reading.curve.vBulge && 'bulge'].filter(Boolean).join(', ') || 'none'}.
               </Txt>
               <LinePlot series={[dataSeries(reading.curve)]} xLabel="radius [kpc]" yLabel="speed [km/s]" yFromZero xFromZero height={220} accessibilityLabel="Preview of the rotation curve" testID="galaxy-preview" />
             </>

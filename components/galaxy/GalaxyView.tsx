@@ -5,7 +5,7 @@ import { colors, space } from '../../constants/theme';
 import { useCohorts } from '../../hooks/cohorts';
 import { useDeleteGalaxy, useFitGalaxy, useGalaxy, useRunsFromGalaxy, useUpdateGalaxy } from '../../hooks/galaxies';
 import { HALO_FITS } from '../../shared/galaxy/toRun';
-import { API_BASE } from '../../hooks/api';
+import { API_BASE } from '../lib/api';
 import { FIT_LAWS, type FitLaw, type LawFit } from '../../shared/galaxy/fit';
 import { VISIBILITY_WORDS, type GalaxyDetail, type GalaxyFitRecord, type GalaxyVisibility } from '../../shared/api/galaxies';
 import { Button } from '../Button';
@@ -17,16 +17,7 @@ import { Fact } from '../run/RunFacts';
 import { Screen } from '../Screen';
 import { describeError, ErrorState, Loading, Notice } from '../States';
 import { Txt } from '../Txt';
-import { componentSeries, dataSeries, FIT_LOOKS, FIT_VALIDITY, otherFitSeries, rarSeries, residualSeries } from './series';
-
-export const LAW_WORDS: Record<FitLaw, string> = {
-  nfw: 'NFW halo',
-  isothermal: 'cored halo',
-  'mond-simple': 'MOND simple',
-  'mond-standard': 'MOND standard',
-  'mond-rar': 'MOND RAR',
-  emergent: 'emergent',
-};
+import { componentSeries, dataSeries, fitLook, otherFitSeries, rarSeries, residualSeries } from './series';
 
 function FitForm({ galaxy }: { galaxy: GalaxyDetail }) {
   const fit = useFitGalaxy(galaxy.id);
@@ -39,7 +30,7 @@ function FitForm({ galaxy }: { galaxy: GalaxyDetail }) {
       <View style={styles.lawToggles}>
         {FIT_LAWS.map((law) => (
           <View key={law} style={styles.lawToggle}>
-            <Toggle label={LAW_WORDS[law]} value={laws.includes(law)} onChange={() => flip(law)} />
+            <Toggle label={fitLook(law).label} value={laws.includes(law)} onChange={() => flip(law)} />
           </View>
         ))}
       </View>
@@ -70,7 +61,7 @@ function FitTable({ record }: { record: GalaxyFitRecord }) {
       {laws.map((l) => (
         <View key={l.law} style={styles.fitRow} accessibilityLabel={`${l.label} fit`}>
           <View style={styles.fitHead}>
-            <View style={[styles.swatch, { backgroundColor: FIT_LOOKS[l.law].color }]} />
+            <View style={[styles.swatch, { backgroundColor: fitLook(l.law).color }]} />
             <Txt variant="heading">{l.label}</Txt>
           </View>
           <Txt variant="mono" accessibilityLabel={`chi squared ${formatValue(l.chi2)}, reduced ${formatValue(l.reducedChi2)} over ${l.dof} degrees of freedom, AIC ${formatValue(l.aic)}, BIC ${formatValue(l.bic)}`}>
@@ -81,12 +72,12 @@ function FitTable({ record }: { record: GalaxyFitRecord }) {
               {paramText(p)}
             </Txt>
           ))}
-          <Txt variant="caption">{FIT_VALIDITY[l.law]}</Txt>
+          <Txt variant="caption">{fitLook(l.law).note}</Txt>
         </View>
       ))}
       {refused.map((r) => (
         <Txt key={r.law} variant="small" color={colors.warning}>
-          {LAW_WORDS[r.law]}: not fitted. {r.reason}
+          {fitLook(r.law).label}: not fitted. {r.reason}
         </Txt>
       ))}
     </View>
@@ -105,7 +96,7 @@ function RunFromFit({ galaxy, record }: { galaxy: GalaxyDetail; record: GalaxyFi
       note="Two runs from the same particles: an exponential disk (gas folded in) and Hernquist bulge fitted to this fit's scaled baryons, under Newton with the fitted halo as a rigid field, and under field-form MOND. 1,000 particles, 250 Myr; charged to your quota."
     >
       <Button
-        label={`Start a pair from the ${LAW_WORDS[halo.law]} fit`}
+        label={`Start a pair from the ${fitLook(halo.law).label} fit`}
         busy={start.isPending}
         onPress={() => start.mutate({ fitId: record.id, halo: halo.law as (typeof HALO_FITS)[number] }, { onSuccess: ({ runs }) => router.push({ pathname: '/compare', params: { pair: runs[0].pairId! } }) })}
         testID="galaxy-run-pair"
@@ -184,12 +175,12 @@ export function GalaxyView({ id }: { id: number }) {
         {g.curve.distanceMpc ? <Fact label="distance" value={`${formatValue(g.curve.distanceMpc.value)}${g.curve.distanceMpc.error ? ` ± ${formatValue(g.curve.distanceMpc.error, 2)}` : ''}`} unit="Mpc" /> : null}
         {g.curve.inclinationDeg ? <Fact label="inclination" value={`${formatValue(g.curve.inclinationDeg.value)}${g.curve.inclinationDeg.error ? ` ± ${formatValue(g.curve.inclinationDeg.error, 2)}` : ''}`} unit="°" /> : null}
         <Fact label="outermost radius" value={formatValue(g.curve.radiusKpc[g.curve.radiusKpc.length - 1])} unit="kpc" />
-        <Fact label="components" value={[g.curve.vGas && 'gas', g.curve.vDisk && 'disk', g.curve.vBulge && 'bulge'].filter(Boolean).join(', ') || 'none'} />
+        <Fact label="components" value={[g.curve.vGas && 'gas', g.curve.vDisk && 'stellar disk', g.curve.vBulge && 'bulge'].filter(Boolean).join(', ') || 'none'} />
       </View>
 
       <Panel title="Rotation curve" note={chosen ? `Observed speeds with 1σ error bars; ${chosen.label} and its parts. Other fits are in the legend.` : 'Observed speeds with 1σ error bars. Fit the curve to see each law’s model.'}>
         {latest ? (
-          <ChoiceChips value={chosen?.law ?? latest.results.verdict.preferred} onChange={setPicked} compact choices={latest.results.laws.map((l) => ({ value: l.law, label: LAW_WORDS[l.law] }))} />
+          <ChoiceChips value={chosen?.law ?? latest.results.verdict.preferred} onChange={setPicked} compact choices={latest.results.laws.map((l) => ({ value: l.law, label: fitLook(l.law).label }))} />
         ) : null}
         <LinePlot series={curveSeries} xLabel="radius [kpc]" yLabel="speed [km/s]" yFromZero xFromZero height={260} accessibilityLabel={`Rotation curve of ${g.name}${chosen ? ` with the ${chosen.label} fit` : ''}`} testID="galaxy-curve" />
       </Panel>

@@ -5,6 +5,7 @@ import { colors, space } from '../../constants/theme';
 import { useFitSample, useSampleFit, useSampleFits } from '../../hooks/galaxies';
 import { SAMPLE_MAX_GALAXIES, type GalaxySampleRecord } from '../../shared/api/galaxies';
 import { FIT_LAWS, type FitLaw, type SampleLawFit } from '../../shared/galaxy/fit';
+import { fitFamilies } from '../../shared/engine';
 import { Button } from '../Button';
 import { ChoiceChips, Toggle } from '../fields';
 import { formatAge, formatValue } from '../format';
@@ -12,14 +13,20 @@ import { Panel } from '../Panel';
 import { Screen } from '../Screen';
 import { describeError, ErrorState, Loading, Notice } from '../States';
 import { Txt } from '../Txt';
-import { FIT_LOOKS, FIT_VALIDITY } from './series';
-import { LAW_WORDS, paramText } from './GalaxyView';
+import { fitLook } from './series';
+import { paramText } from './GalaxyView';
+
+// Ticked at first: the fit families with a parameter the whole sample shares (a0, H0 and the halo
+// scaling relation fitted).
+const SHARING_FITS = fitFamilies()
+  .filter((f) => f.shared({ a0: 'free', a0_m_s2: 1.2e-10, H0: 'free', H0_km_s_Mpc: 70 }, true).length > 0)
+  .map((f) => f.id);
 
 /** Fits the ticked galaxies together and opens the sample's page. */
 export function SampleFitForm({ ids }: { ids: number[] }) {
   const fit = useFitSample();
   const router = useRouter();
-  const [laws, setLaws] = useState<FitLaw[]>(['nfw', 'mond-simple', 'mond-standard', 'mond-rar']);
+  const [laws, setLaws] = useState<FitLaw[]>(SHARING_FITS);
   const [a0, setA0] = useState<'fixed' | 'free'>('free');
   const [H0, setH0] = useState<'fixed' | 'free'>('free');
   const flip = (law: FitLaw) => setLaws((l) => (l.includes(law) ? l.filter((x) => x !== law) : FIT_LAWS.filter((x) => x === law || l.includes(x))));
@@ -30,7 +37,7 @@ export function SampleFitForm({ ids }: { ids: number[] }) {
       <View style={styles.toggles}>
         {FIT_LAWS.map((law) => (
           <View key={law} style={styles.toggle}>
-            <Toggle label={LAW_WORDS[law]} value={laws.includes(law)} onChange={() => flip(law)} />
+            <Toggle label={fitLook(law).label} value={laws.includes(law)} onChange={() => flip(law)} />
           </View>
         ))}
       </View>
@@ -60,7 +67,7 @@ export function SampleFitList() {
       {samples.data.samples.slice(0, 10).map((s) => (
         <Link key={s.id} href={{ pathname: '/galaxies/samples/[id]', params: { id: String(s.id) } }}>
           <Txt variant="small" color={colors.accent}>
-            {s.galaxies.map((g) => g.name.split(' (')[0]).join(', ')} · {s.laws.map((l) => LAW_WORDS[l]).join(', ')} · {formatAge(s.createdAt)}
+            {s.galaxies.map((g) => g.name.split(' (')[0]).join(', ')} · {s.laws.map((l) => fitLook(l).label).join(', ')} · {formatAge(s.createdAt)}
           </Txt>
         </Link>
       ))}
@@ -72,7 +79,7 @@ function LawVerdict({ l, deltaBic, preferred }: { l: SampleLawFit; deltaBic: num
   return (
     <View style={styles.lawRow} accessibilityLabel={`${l.label} sample fit`} testID={`sample-law-${l.law}`}>
       <View style={styles.head}>
-        <View style={[styles.swatch, { backgroundColor: FIT_LOOKS[l.law].color }]} />
+        <View style={[styles.swatch, { backgroundColor: fitLook(l.law).color }]} />
         <Txt variant="heading">{l.label}</Txt>
         {preferred ? (
           <Txt variant="caption" color={colors.accent}>
@@ -97,7 +104,7 @@ function LawVerdict({ l, deltaBic, preferred }: { l: SampleLawFit; deltaBic: num
           {g.name}: χ² {formatValue(g.chi2)} over {g.points} points; {g.params.map(paramText).join('; ')}
         </Txt>
       ))}
-      <Txt variant="caption">{FIT_VALIDITY[l.law]}</Txt>
+      <Txt variant="caption">{fitLook(l.law).note}</Txt>
     </View>
   );
 }
@@ -117,7 +124,7 @@ export function SampleResults({ record }: { record: GalaxySampleRecord }) {
       ))}
       {refused.map((r) => (
         <Txt key={r.law} variant="small" color={colors.warning}>
-          {LAW_WORDS[r.law]}: not fitted. {r.reason}
+          {fitLook(r.law).label}: not fitted. {r.reason}
         </Txt>
       ))}
     </View>

@@ -1,30 +1,48 @@
 // Plot series for a galaxy: the data with error bars, each law's fitted curve and its parts,
 // residuals, and the radial acceleration relation. Pure, so it is tested without a screen.
 import { colors, lawColor, palette } from '../../constants/theme';
+import { lawInfo, lawModules } from '../../shared/engine';
 import type { PlotMark, PlotSeries } from '../LinePlot';
 import { fittedMassToLight, type FitLaw, type LawFit } from '../../shared/galaxy/fit';
 import type { RotationCurve } from '../../shared/galaxy/table';
 import { accelerationPoints, rarAcceleration, rarScatter, RAR_G_DAGGER_M_S2, type AccelerationPoint } from '../../shared/galaxy/rar';
 
-/** One look per fitted law: colour from the law family, mark to tell members apart. */
-export const FIT_LOOKS: Record<FitLaw, { color: string; mark: PlotMark; dashed?: boolean }> = {
-  nfw: { color: lawColor('halo'), mark: 'square' },
-  isothermal: { color: lawColor('newton'), mark: 'diamond' },
-  'mond-simple': { color: lawColor('mond'), mark: 'triangle' },
-  'mond-standard': { color: lawColor('qumond'), mark: 'triangle', dashed: true },
-  'mond-rar': { color: palette.corona, mark: 'circle', dashed: true },
-  emergent: { color: lawColor('emergent'), mark: 'circle' },
-};
+export interface FitLook {
+  /** The family's name, from its law module. */
+  label: string;
+  color: string;
+  mark: PlotMark;
+  dashed?: boolean;
+  /** What the fitted model assumes, so a good or bad fit is read within its domain. */
+  note: string;
+  /** What the fitted speed adds to the baryons'. */
+  extra: string;
+}
 
-/** What each fitted model assumes, so a good or bad fit is read within its domain. */
-export const FIT_VALIDITY: Record<FitLaw, string> = {
-  nfw: 'Newtonian gravity with a rigid spherical NFW halo added to the baryons. A halo with two free parameters bends to most curves, so a good fit says little about the law itself.',
-  isothermal: 'Newtonian gravity with a rigid, cored pseudo-isothermal halo. As flexible as the NFW fit; a core is preferred by many dwarf galaxies.',
-  'mond-simple': 'Algebraic MOND on g_N = v_bar²/R in the disk plane: exact only for symmetric mass distributions, an approximation for a disk; no external field effect.',
-  'mond-standard': 'As the simple form, with the standard interpolating function, which makes the transition to the deep-MOND regime sharper.',
-  'mond-rar': 'As the simple form, with the interpolating function of the radial acceleration relation (g† = 1.20e-10 m/s²).',
-  emergent: 'Spherical emergent gravity: valid for quasi-static, roughly spherical, isolated systems. The baryons are treated as spherical, which a thin disk is not, so this fit is an illustration.',
-};
+const MARKS: PlotMark[] = ['square', 'diamond', 'triangle', 'circle'];
+
+/** Each fit family's look, read from the law module that declares it: the law's colour, a mark (and dashes after the first) per family of that law. */
+const LOOKS = new Map<string, FitLook>(
+  lawModules().flatMap((m) =>
+    (m.fits ?? []).map((f, k): [string, FitLook] => [
+      f.id,
+      {
+        label: f.label,
+        color: lawColor(m.kind),
+        mark: MARKS[k % MARKS.length],
+        dashed: k > 0,
+        extra: f.extra === 'boost' ? 'the law’s boost' : 'dark halo',
+        note:
+          f.extra === 'boost'
+            ? `${lawInfo(m.schema.parse(m.preset)).validity} Fitted here to the baryons' curve in the disk plane.`
+            : 'Newtonian gravity with a rigid halo added to the baryons. A halo with free parameters bends to most curves, so a good fit says little about the law itself.',
+      },
+    ]),
+  ),
+);
+
+/** The look of a fit family by its stored id; a family no law declares any more reads as its id, in grey. */
+export const fitLook = (id: string): FitLook => LOOKS.get(id) ?? { label: id, color: palette.dust, mark: 'circle', note: '', extra: 'beyond the baryons' };
 
 export function dataSeries(curve: RotationCurve): PlotSeries {
   return { id: 'data', label: 'observed', color: colors.text, x: curve.radiusKpc, y: curve.vObs, yError: curve.vErr, pointsOnly: true, mark: 'circle', group: 'data' };
@@ -33,7 +51,7 @@ export function dataSeries(curve: RotationCurve): PlotSeries {
 /** The chosen fit's total curve and its parts (baryons scaled by the fitted mass-to-light ratios, and the law's extra). */
 export function componentSeries(fit: LawFit): PlotSeries[] {
   const c = fit.curve;
-  const look = FIT_LOOKS[fit.law];
+  const look = fitLook(fit.law);
   const parts: PlotSeries[] = [
     { id: 'fit-total', label: fit.label, color: look.color, x: c.radiusKpc, y: c.v, group: 'chosen fit' },
     { id: 'fit-baryons', label: 'all baryons', color: colors.textMuted, x: c.radiusKpc, y: c.vBaryons, dashed: true, group: 'chosen fit' },
@@ -41,7 +59,7 @@ export function componentSeries(fit: LawFit): PlotSeries[] {
   if (c.vGas) parts.push({ id: 'fit-gas', label: 'gas', color: '#9FB7FF', x: c.radiusKpc, y: c.vGas, dashed: true, mark: 'circle', group: 'chosen fit' });
   if (c.vDisk) parts.push({ id: 'fit-disk', label: 'stellar disk', color: palette.bloom, x: c.radiusKpc, y: c.vDisk, dashed: true, mark: 'square', group: 'chosen fit' });
   if (c.vBulge) parts.push({ id: 'fit-bulge', label: 'bulge', color: '#F28DC0', x: c.radiusKpc, y: c.vBulge, dashed: true, mark: 'diamond', group: 'chosen fit' });
-  parts.push({ id: 'fit-extra', label: fit.law === 'nfw' || fit.law === 'isothermal' ? 'halo' : 'the law’s boost', color: look.color, x: c.radiusKpc, y: c.vExtra, dashed: true, mark: look.mark, group: 'chosen fit' });
+  parts.push({ id: 'fit-extra', label: look.extra, color: look.color, x: c.radiusKpc, y: c.vExtra, dashed: true, mark: look.mark, group: 'chosen fit' });
   return parts;
 }
 
@@ -49,11 +67,11 @@ export function componentSeries(fit: LawFit): PlotSeries[] {
 export function otherFitSeries(fits: LawFit[], chosen: FitLaw | null): PlotSeries[] {
   return fits
     .filter((f) => f.law !== chosen)
-    .map((f) => ({ id: `fit-${f.law}`, label: f.label, color: FIT_LOOKS[f.law].color, x: f.curve.radiusKpc, y: f.curve.v, mark: FIT_LOOKS[f.law].mark, dashed: FIT_LOOKS[f.law].dashed, group: 'other fits', hidden: true }));
+    .map((f) => ({ id: `fit-${f.law}`, label: f.label, color: fitLook(f.law).color, x: f.curve.radiusKpc, y: f.curve.v, mark: fitLook(f.law).mark, dashed: fitLook(f.law).dashed, group: 'other fits', hidden: true }));
 }
 
 export function residualSeries(fits: LawFit[]): PlotSeries[] {
-  return fits.map((f) => ({ id: `res-${f.law}`, label: f.label, color: FIT_LOOKS[f.law].color, x: f.curve.radiusKpc, y: f.curve.residuals, mark: FIT_LOOKS[f.law].mark, pointsOnly: true }));
+  return fits.map((f) => ({ id: `res-${f.law}`, label: f.label, color: fitLook(f.law).color, x: f.curve.radiusKpc, y: f.curve.residuals, mark: fitLook(f.law).mark, pointsOnly: true }));
 }
 
 export interface RarGalaxy {

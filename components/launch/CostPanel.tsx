@@ -3,10 +3,10 @@ import { colors, space } from '../../constants/theme';
 import { useUsage, type Usage } from '../../hooks/account';
 import type { QuotaRefusal } from '../../shared/api/accounts';
 import { particleCount, stepCount, type RunSpec } from '../../shared/spec';
+import { modelModule } from '../../shared/engine';
 import { describeRefusal, groupDigits, interactionsText } from '../../shared/api/quotaWords';
 import { formatBound, formatCount, formatInteractions } from '../format';
 import { Panel } from '../Panel';
-import { ProgressBar } from '../RunCard';
 import { describeError, Loading, Notice } from '../States';
 import { Txt } from '../Txt';
 
@@ -33,13 +33,14 @@ export function refusals(cost: Cost, usage: Usage): string[] {
   return quotaRefusals(cost, usage).map((r) => describeRefusal(r, cost.runs));
 }
 
-/** The fields that set the particle count: N of the model (and of its live halo), or of both systems of an encounter. */
+/** The fields that set the particle count, as the model module names them (its N, its live halo's, both systems' of an encounter). */
 function particleFields(draft: Record<string, unknown>): string[] {
-  const kind = (draft.model as { kind?: string } | undefined)?.kind;
-  if (kind === 'encounter') return ['model.primary.n', 'model.secondary.n'];
-  if (kind === 'table') return ['model.particles'];
-  if (kind === 'kepler') return [];
-  return (draft.model as { halo?: unknown }).halo ? ['model.n', 'model.halo.n'] : ['model.n'];
+  const model = draft.model as { kind?: string } | undefined;
+  try {
+    return modelModule(String(model?.kind)).particleFields(model).map((p) => `model.${p}`);
+  } catch {
+    return []; // half-typed: the fields say what is wrong
+  }
 }
 
 const finitePositive = (v: unknown): v is number => typeof v === 'number' && Number.isFinite(v) && v > 0;

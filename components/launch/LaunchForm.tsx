@@ -2,22 +2,22 @@ import { StyleSheet, View, useWindowDimensions } from 'react-native';
 import { useRouter } from 'expo-router';
 import { NAME_MAX_LENGTH, type LawSpec, type RunSpecInput } from '../../shared/spec';
 import { colors, space, WIDE_BREAKPOINT } from '../../constants/theme';
-import { ApiError } from '../../hooks/api';
-import { LAW_PRESETS, useRunDraft } from '../../hooks/runDraft';
+import { ApiError } from '../lib/api';
+import { useRunDraft } from '../../hooks/runDraft';
+import { defaultPairLaw, modelModule } from '../../shared/engine';
 import { useSubmitRun } from '../../hooks/runs';
 import { useUsage } from '../../hooks/account';
-import { enumOptions } from '../../hooks/specSchema';
 import { Button } from '../Button';
 import { ChoiceChips, FieldRow, TextField, Toggle } from '../fields';
 import { Panel } from '../Panel';
 import { Screen } from '../Screen';
 import { describeError, Notice } from '../States';
 import { Txt } from '../Txt';
-import { INTEGRATOR_LABELS, labelOf, SOLVER_LABELS } from '../spec/labels';
+import { INTEGRATOR_NOTES, SOLVER_LABELS } from '../spec/labels';
 import { CostPanel, quotaFieldNotes } from './CostPanel';
-import { styles as formStyles } from './formStyles';
 import { LawEditor } from './LawEditor';
 import { ModelEditor } from './ModelEditor';
+import { enumOptions, nodeAt, titleOf } from './schemaForm';
 import { ChecksPreview, CurvePreview } from './PreviewPanels';
 import { QuotaLimitHints, SpecNumber } from './SpecField';
 
@@ -28,6 +28,15 @@ export interface LaunchStart {
   name?: string;
   /** Where the starting point came from, shown under the title. */
   origin: string;
+}
+
+/** A two-body orbit has no mass model to preview; a kind no module has is left to the schema's message. */
+function isOrbit(model: unknown): boolean {
+  try {
+    return Boolean(modelModule(String((model as { kind?: unknown } | undefined)?.kind)).orbit);
+  } catch {
+    return false;
+  }
 }
 
 /** The new-run form with its live preview, checks and cost; `start` comes from a clone or a template. */
@@ -61,7 +70,17 @@ export function LaunchForm({ start }: { start?: LaunchStart }) {
 
   const submitError = submit.error ? describeError(submit.error) : null;
   // Named, because on a phone the marked field may be a long way above the button.
-  const problemNames = [...new Set(Object.keys(form.issues).map((k) => (k === 'pairLaw' ? 'Second law' : labelOf(k.split('.').pop()!))))];
+  const problemNames = [
+    ...new Set(
+      Object.keys(form.issues).map((k) => {
+        if (k === 'pairLaw') return 'Second law';
+        // The pair's second law is checked as the law of a spec: its fields sit at law.*.
+        const path = k.split('.');
+        const where = path[0] === 'pairLaw' ? nodeAt(['law', ...path.slice(1)], { law: form.pairLaw }) : nodeAt(path, draft);
+        return titleOf(path[path.length - 1], where?.node ?? {});
+      }),
+    ),
+  ];
   const problems = problemNames.length;
 
   const formColumn = (
@@ -77,7 +96,7 @@ export function LaunchForm({ start }: { start?: LaunchStart }) {
         <Toggle
           label="Run as a pair under a second law"
           value={Boolean(form.pairLaw)}
-          onChange={(on) => form.setPairLaw(on ? LAW_PRESETS[law.kind === 'mond' || law.kind === 'qumond' ? 'newton' : 'qumond'] : null)}
+          onChange={(on) => form.setPairLaw(on ? defaultPairLaw(law.kind) : null)}
           hint="Same initial particles, same seed, two laws: the compare page shows them side by side."
         />
         {form.pairLaw ? (
@@ -92,7 +111,7 @@ export function LaunchForm({ start }: { start?: LaunchStart }) {
           label="Integrator"
           value={String(draft.integrator ?? 'leapfrog')}
           onChange={(v) => set(['integrator'], v)}
-          choices={enumOptions(['integrator'], draft).map((k) => ({ value: k, label: INTEGRATOR_LABELS[k]?.label ?? k, note: INTEGRATOR_LABELS[k]?.note }))}
+          choices={enumOptions(nodeAt(['integrator'], draft)?.node ?? {}).map(({ value, label }) => ({ value: String(value), label, note: INTEGRATOR_NOTES[value] }))}
         />
         <ChoiceChips
           label="Force solver"
@@ -115,7 +134,7 @@ export function LaunchForm({ start }: { start?: LaunchStart }) {
 
   const sideColumn = (
     <View style={styles.column}>
-      <CurvePreview preview={form.preview} isKepler={(draft.model as { kind: string }).kind === 'kepler'} />
+      <CurvePreview preview={form.preview} isOrbit={isOrbit(draft.model)} />
       <ChecksPreview preview={form.preview} timestep={typeof draft.timestep_Myr === 'number' ? draft.timestep_Myr : undefined} onTimestep={(dt) => set(['timestep_Myr'], dt)} />
       <CostPanel cost={form.cost} />
       <View style={styles.submit}>

@@ -2,7 +2,8 @@ import { View } from 'react-native';
 import { colors, lawColor, space } from '../../constants/theme';
 import type { Preview } from '../../hooks/runDraft';
 import { Button } from '../Button';
-import { formatValue, LAW_LABELS } from '../format';
+import { formatValue, lawName } from '../format';
+import { isReferenceLaw } from '../../shared/engine';
 import { LinePlot, type PlotSeries } from '../LinePlot';
 import { Panel } from '../Panel';
 import { Notice } from '../States';
@@ -10,13 +11,14 @@ import { Txt } from '../Txt';
 import { EngineWarnings, TimescaleFacts } from '../run/RunFacts';
 
 /** The analytic rotation curve of the chosen model under the chosen law(s) and Newton. */
-export function CurvePreview({ preview, isKepler }: { preview: Preview | null; isKepler: boolean }) {
+export function CurvePreview({ preview, isOrbit }: { preview: Preview | null; isOrbit: boolean }) {
   const series: PlotSeries[] =
-    preview?.curves?.curves.map((c) => ({ id: c.law, label: c.label, color: c.law === 'newton' ? colors.textMuted : lawColor(c.law), x: preview.curves!.radii_kpc, y: c.v_km_s, dashed: c.law === 'newton' })) ?? [];
+    // The reference law's curve is drawn quietly, dashed, beside the chosen laws'.
+    preview?.curves?.curves.map((c) => ({ id: c.law, label: c.label, color: isReferenceLaw(c.law) ? colors.textMuted : lawColor(c.law), x: preview.curves!.radii_kpc, y: c.v_km_s, dashed: isReferenceLaw(c.law) })) ?? [];
   return (
     <Panel title="Rotation curve preview" note="Circular speed √(R g) of the initial mass model, analytic, before any particles move.">
-      {isKepler ? (
-        <Txt variant="small">A Kepler pair has no extended mass model, so there is no rotation curve to preview.</Txt>
+      {isOrbit ? (
+        <Txt variant="small">A two-body orbit has no extended mass model, so there is no rotation curve to preview.</Txt>
       ) : preview?.curvesError ? (
         <Notice tone="info">{`No preview for this model: ${preview.curvesError}`}</Notice>
       ) : (
@@ -49,7 +51,7 @@ export function ChecksPreview({ preview, timestep, onTimestep }: { preview: Prev
           ) : null}
           {preview.checks.map((c) => (
             <View key={c.law} style={{ gap: space.sm }}>
-              {preview.checks.length > 1 ? <Txt variant="label">Under {LAW_LABELS[c.law] ?? c.law}</Txt> : null}
+              {preview.checks.length > 1 ? <Txt variant="label">Under {lawName(c.law)}</Txt> : null}
               <EngineWarnings warnings={c.warnings} />
             </View>
           ))}

@@ -1,8 +1,7 @@
 import { createContext, useContext } from 'react';
-import { fieldBounds } from '../../hooks/specSchema';
-import { getIn, type Path } from '../../hooks/runDraft';
 import { NumberField } from '../fields';
-import { labelOf, unitOf } from '../spec/labels';
+import { getIn } from './draft';
+import { nodeAt, numberBounds, titleOf, unitOfField, type Path } from './schemaForm';
 
 export interface SpecNumberProps {
   /** The object the path starts from (the draft spec, or `{ law }` for a pair's second law). */
@@ -20,14 +19,17 @@ export const QuotaLimitHints = createContext<Record<string, string>>({});
 
 /** A number of the run spec with its unit, range and description taken from the shared schema. */
 export function SpecNumber({ draft, path, onChange, issues, issueKey = path.join('.'), label }: SpecNumberProps) {
-  const key = String(path[path.length - 1]);
-  const b = fieldBounds(path, draft);
+  const key = path[path.length - 1];
+  const found = nodeAt(path, draft);
+  const node = found?.node ?? {};
+  const b = numberBounds(node);
   const value = getIn(draft, path);
-  const unit = unitOf(key);
+  // A vector's components carry the vector's unit (read from its key).
+  const unit = typeof key === 'number' ? unitOfField(path[path.length - 2], nodeAt(path.slice(0, -1), draft)?.node ?? {}) : unitOfField(key, node);
   const limit = useContext(QuotaLimitHints)[issueKey];
   return (
     <NumberField
-      label={label ?? labelOf(key)}
+      label={label ?? titleOf(key, node)}
       value={typeof value === 'number' ? value : undefined}
       onChange={(v) => onChange(path, v)}
       unit={unit}
@@ -35,8 +37,8 @@ export function SpecNumber({ draft, path, onChange, issues, issueKey = path.join
       max={b.max}
       exclusiveMin={b.exclusiveMin}
       integer={b.integer}
-      optional={b.optional}
-      hint={b.description}
+      optional={Boolean(found?.optional)}
+      hint={node.description}
       limit={limit}
       error={issues[issueKey]}
       testID={`field-${issueKey}`}

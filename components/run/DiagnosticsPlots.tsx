@@ -1,7 +1,7 @@
 import { useMemo, useState } from 'react';
 import { StyleSheet, View, useWindowDimensions } from 'react-native';
 import { seriesColors, space, WIDE_BREAKPOINT } from '../../constants/theme';
-import { diagnosticColumns, magnitude, usesPotentialVirial, type RunOutputView } from '../../hooks/runOutput';
+import { diagnosticColumns, magnitude, readsPotentialVirial, type RunOutputView } from '../lib/runOutput';
 import { ChoiceChips } from '../fields';
 import { LinePlot, type PlotMark, type PlotSeries } from '../LinePlot';
 import { Panel } from '../Panel';
@@ -58,7 +58,7 @@ export function DiagnosticsPlots({ runs, markerTime, columns }: { runs: PlottedR
     );
 
     const virial: PlotSeries[] = data.map(({ run, c }) => {
-      const own = usesPotentialVirial(run.out.law);
+      const own = readsPotentialVirial(run.out.law);
       return {
         id: `${run.id}-v`,
         label: `${single ? '' : `${run.label} · `}${own ? '2K / |W|' : '2K / |Σ m r·a| (Clausius)'}`,

@@ -3,7 +3,7 @@ import { View } from 'react-native';
 import type { RunDetail } from '../../shared/api/contract';
 import { colors } from '../../constants/theme';
 import { useExtendRun } from '../../hooks/runs';
-import { specOf } from '../../hooks/runOutput';
+import { specOf } from '../lib/runOutput';
 import { Button } from '../Button';
 import { NumberField } from '../fields';
 import { Panel } from '../Panel';

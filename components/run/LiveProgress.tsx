@@ -2,7 +2,7 @@ import { StyleSheet, View } from 'react-native';
 import type { RunDetail } from '../../shared/api/contract';
 import { colors, fonts, lawColor, space } from '../../constants/theme';
 import type { RunStream } from '../../hooks/runEvents';
-import { magnitude } from '../../hooks/runOutput';
+import { magnitude } from '../lib/runOutput';
 import { formatCount, formatValue } from '../format';
 import { LinePlot } from '../LinePlot';
 import { Panel } from '../Panel';

@@ -1,6 +1,7 @@
 import { useMemo, useRef } from 'react';
-import { curvesAtFrame, type CurveSource } from '../../hooks/frameCurve';
-import { useFrameTime, usePlayheadValue, type Playhead } from '../../hooks/playback';
+import { curvesAtFrame, type CurveSource } from '../lib/frameCurve';
+import { useFrameTime, usePlayheadValue } from '../../hooks/playback';
+import type { Playhead } from '../lib/playhead';
 import type { PlottedRun } from './DiagnosticsPlots';
 import { RotationCurvePlot } from './RotationCurvePlot';
 

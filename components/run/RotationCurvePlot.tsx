@@ -7,11 +7,29 @@ import { Panel } from '../Panel';
 import { Txt } from '../Txt';
 import type { PlottedRun } from './DiagnosticsPlots';
 import { useGalaxy } from '../../hooks/galaxies';
+import { isReferenceLaw, lawModule } from '../../shared/engine';
 
 type When = 'now' | 'initial' | 'final';
 
 const GROUPS = { observed: 'observed galaxy (±1σ)', forces: 'from the law’s field (forces)', measured: 'measured from particles', analytic: 'analytic, initial mass model' };
 const MAX_SHOWN = 4;
+
+/** The law module's words when its analytic curve only approximates its field ("algebraic form"); none for a kind no module has. */
+function approximation(kind: string): string | undefined {
+  try {
+    return lawModule(kind).approximateCurve;
+  } catch {
+    return undefined;
+  }
+}
+
+const isReference = (kind: string) => {
+  try {
+    return isReferenceLaw(kind);
+  } catch {
+    return false;
+  }
+};
 
 /** The curve at the snapshot on screen, per run id: circular speed from the law's field. */
 export type FrameCurves = Record<string, { time_Myr: number; radii_kpc: number[]; circular_km_s: number[] } | null>;
@@ -59,15 +77,16 @@ export function RotationCurvePlot({ runs, atFrame }: { runs: PlottedRun[]; atFra
     for (const c of a.curves) {
       const curve = { x: a.radii_kpc, y: c.v_km_s, dashed: true, group: GROUPS.analytic };
       if (c.law === r.out.law.kind) {
-        // The field form has no closed-form curve: its preview is the algebraic form, so the gap to the
-        // curve from forces is the field form's own effect (largest for disks), shown rather than hidden.
-        const label = c.law === 'qumond' ? `algebraic form (preview of ${c.label})` : c.label;
+        // A law with no closed-form curve previews an approximation of its field, so the gap to the
+        // curve from forces is the law's own effect (largest for disks), shown rather than hidden.
+        const approx = approximation(c.law);
+        const label = approx ? `${approx} (preview of ${c.label})` : c.label;
         analytic.push({ ...curve, id: `${r.id}-a-${c.law}`, label, color: r.color, mark: 'triangle' });
         const fromForces = when === 'now' ? null : r.out.rotationCurves[when];
-        if (c.law === 'qumond' && fromForces && fromForces.radii_kpc.length === a.radii_kpc.length && fromForces.radii_kpc.every((R, k) => Math.abs(R - a.radii_kpc[k]) <= 1e-9 * R)) {
-          analytic.push({ id: `${r.id}-qumond-gap`, label: `${tag}field form − algebraic form`, color: colors.textMuted, x: a.radii_kpc, y: a.radii_kpc.map((_, k) => fromForces.circular_km_s[k] - c.v_km_s[k]), group: GROUPS.analytic, mark: 'diamond' });
+        if (approx && fromForces && fromForces.radii_kpc.length === a.radii_kpc.length && fromForces.radii_kpc.every((R, k) => Math.abs(R - a.radii_kpc[k]) <= 1e-9 * R)) {
+          analytic.push({ id: `${r.id}-approximation-gap`, label: `${tag}field form − ${approx}`, color: colors.textMuted, x: a.radii_kpc, y: a.radii_kpc.map((_, k) => fromForces.circular_km_s[k] - c.v_km_s[k]), group: GROUPS.analytic, mark: 'diamond' });
         }
-      } else if (c.law === 'newton' && !reference && !runs.some((o) => o.out.law.kind === 'newton')) reference = { ...curve, id: 'analytic-newton', label: `${c.label} (reference)`, color: colors.textFaint, mark: 'diamond' };
+      } else if (isReference(c.law) && !reference && !runs.some((o) => isReference(o.out.law.kind))) reference = { ...curve, id: 'analytic-reference', label: `${c.label} (reference)`, color: colors.textFaint, mark: 'diamond' };
     }
   }
   // At most four curves show at first: the observed galaxy and the laws' own before the particles' and the reference.

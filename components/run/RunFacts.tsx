@@ -1,6 +1,6 @@
 import { StyleSheet, View } from 'react-native';
 import type { EngineWarning, Timescales } from '../../shared/engine';
-import type { RunOutputView } from '../../hooks/runOutput';
+import type { RunOutputView } from '../lib/runOutput';
 import { colors, space } from '../../constants/theme';
 import { formatCount, formatValue } from '../format';
 import { Panel } from '../Panel';

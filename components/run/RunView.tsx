@@ -4,15 +4,18 @@ import { useRouter } from 'expo-router';
 import type { RunDetail } from '../../shared/api/contract';
 import { lawInfo } from '../../shared/engine';
 import { colors, lawColor, space, WIDE_BREAKPOINT } from '../../constants/theme';
-import { downloadFile, exportName, curvesCsv, diagnosticsCsv, runJson } from '../../hooks/exports';
-import { useFrameTime, type Playhead } from '../../hooks/playback';
+import { downloadFile, exportName, curvesCsv, diagnosticsCsv, runJson } from '../lib/exports';
+import { useFrameTime } from '../../hooks/playback';
+import type { Playhead } from '../lib/playhead';
 import { useRunEvents } from '../../hooks/runEvents';
-import { readOutput, specOf } from '../../hooks/runOutput';
+import { readOutput, specOf } from '../lib/runOutput';
 import { useRunPlayback } from '../../hooks/runPlayback';
-import { isFinal, useCancelRun, useRun } from '../../hooks/runs';
-import { isAdmin, useSession } from '../../hooks/session';
+import { useCancelRun, useRun } from '../../hooks/runs';
+import { useSession } from '../../hooks/session';
+import { isAdmin } from '../lib/roles';
+import { isFinal } from '../lib/runStatus';
 import { Button } from '../Button';
-import { formatAge, formatCount, LAW_LABELS, MODEL_LABELS } from '../format';
+import { formatAge, formatCount, lawName, modelName } from '../format';
 import { Panel } from '../Panel';
 import { Screen } from '../Screen';
 import { describeError, ErrorState, Loading, Notice } from '../States';
@@ -103,7 +106,7 @@ export function RunView({ id }: { id: string }) {
   return (
     <Screen
       title={r.name}
-      subtitle={`${MODEL_LABELS[r.modelKind] ?? r.modelKind} · N = ${formatCount(r.particles)} · ${formatCount(r.steps)} steps · ${r.owner.name} · ${formatAge(r.createdAt)}`}
+      subtitle={`${modelName(r.modelKind)} · N = ${formatCount(r.particles)} · ${formatCount(r.steps)} steps · ${r.owner.name} · ${formatAge(r.createdAt)}`}
       actions={
         <>
           {live && mine ? <CancelButton run={r} /> : null}
@@ -116,7 +119,7 @@ export function RunView({ id }: { id: string }) {
     >
       <View style={styles.tags}>
         <StatusBadge status={r.status} percent={(stream.progress?.percent ?? r.progress * 100)} />
-        <LawTag kind={r.lawKind} label={info?.label ?? LAW_LABELS[r.lawKind]} />
+        <LawTag kind={r.lawKind} label={info?.label ?? lawName(r.lawKind)} />
       </View>
       <ModelCaution />
       {r.status === 'failed' ? <Notice tone="danger">{`This run failed: ${r.error ?? 'no reason was recorded'}`}</Notice> : null}

@@ -2,7 +2,7 @@ import { View } from 'react-native';
 import { useMutation } from '@tanstack/react-query';
 import type { RunDetail } from '../../shared/api/contract';
 import { colors } from '../../constants/theme';
-import { downloadSnapshotFile } from '../../hooks/exports';
+import { downloadSnapshotFile } from '../lib/exports';
 import { Button } from '../Button';
 import { describeError } from '../States';
 import { Txt } from '../Txt';

@@ -1,6 +1,6 @@
 // Initial conditions from a galaxy's Newtonian fit: its fitted baryons as an exponential disk
 // (with a Hernquist bulge and an exponential gas disk when the table has them) and its fitted
-// halo as the rigid `halo` law.
+// halo as the rigid halo law the fit names.
 import type { LawSpec, RunSpec } from '../spec/runSpec';
 import { RUN_SPEC_VERSION } from '../spec/runSpec';
 import { exponentialDiskSpeed, hernquistSpeed } from './invented';

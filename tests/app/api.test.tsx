@@ -1,4 +1,4 @@
-import { api, ApiError, setCsrfToken } from '../../hooks/api';
+import { api, ApiError, setCsrfToken } from '../../components/lib/api';
 import { describeDifferences } from '../../components/compare/differences';
 import { groupPairs } from '../../components/compare/ComparePicker';
 import { refusals } from '../../components/launch/CostPanel';

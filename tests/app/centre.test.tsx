@@ -1,7 +1,7 @@
 import { CentreDriftPlot, centreDriftColumns } from '../../components/run/CentreDriftPlot';
 import type { PlottedRun } from '../../components/run/DiagnosticsPlots';
-import { diagnosticsCsv } from '../../hooks/exports';
-import type { RunOutputView } from '../../hooks/runOutput';
+import { diagnosticsCsv } from '../../components/lib/exports';
+import type { RunOutputView } from '../../components/lib/runOutput';
 import type { DiagnosticSample } from '../../shared/engine';
 import { render } from './support/render';
 

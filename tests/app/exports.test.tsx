@@ -1,7 +1,7 @@
 // The run page's exports: the HDF5 button fetches the server's file and saves it under the
 // run's name, or shows the server's reason; the JSON export describes what it holds.
 import { SnapshotFileButton } from '../../components/run/SnapshotFileButton';
-import { runJson } from '../../hooks/exports';
+import { runJson } from '../../components/lib/exports';
 import type { RunDetail } from '../../shared/api/contract';
 import { mockApi } from './support/api';
 import { press, render, settle } from './support/render';

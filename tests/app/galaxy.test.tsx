@@ -122,7 +122,7 @@ test('the galaxy page plots the data, the fits with their parts, residuals and t
   expect(view.getByTestId('rar-scatter').textContent).toMatch(/^Scatter about the relation: [\d.]+ dex rms, mean offset -?[\d.]+ dex, over 12 points\.$/);
   const preferred = results.laws.find((l) => l.law === results.verdict.preferred)!;
   expect(view.getByTestId('fit-table').textContent).toContain(`Preferred by BIC (lower is better): ${preferred.label}`);
-  expect(view.getAllByText(/Spherical emergent gravity|Algebraic MOND on g_N/).length).toBeGreaterThan(0);
+  expect(view.getAllByText(/Fitted here to the baryons' curve in the disk plane\.$/).length).toBeGreaterThan(0);
   // Sharing and deleting are for the owner only.
   expect(view.queryByText('Sharing')).toBeNull();
   press(view.getByTestId('fit-run'));

@@ -1,5 +1,5 @@
 import { LaunchForm } from '../../components/launch/LaunchForm';
-import { setCsrfToken } from '../../hooks/api';
+import { setCsrfToken } from '../../components/lib/api';
 import { NAME_MAX_LENGTH } from '../../shared/spec';
 import { mockApi } from './support/api';
 import { navigation, resetNavigation } from './support/expoRouter';

@@ -3,7 +3,7 @@ import { fireEvent, getDefaultNormalizer } from '@testing-library/dom';
 import { LaunchForm } from '../../components/launch/LaunchForm';
 import { QuotaEditor } from '../../components/cohorts/QuotaEditor';
 import { parseNumberText } from '../../components/numberText';
-import { setCsrfToken } from '../../hooks/api';
+import { setCsrfToken } from '../../components/lib/api';
 import { COHORT_CEILING, LIMIT_CEILINGS, ROLE_LIMITS } from '../../shared/api/accounts';
 import { mockApi } from './support/api';
 import { resetNavigation } from './support/expoRouter';

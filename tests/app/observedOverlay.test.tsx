@@ -3,7 +3,7 @@
 // a galaxy the viewer may not see (404) leaves the panel as it was.
 import { RotationCurvePlot } from '../../components/run/RotationCurvePlot';
 import type { PlottedRun } from '../../components/run/DiagnosticsPlots';
-import type { RunOutputView } from '../../hooks/runOutput';
+import type { RunOutputView } from '../../components/lib/runOutput';
 import { mockApi } from './support/api';
 import { press, render, settle } from './support/render';
 

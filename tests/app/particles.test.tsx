@@ -2,7 +2,7 @@ import { act } from 'react';
 import { ParticleView } from '../../components/ParticleView';
 import { PlaybackControls } from '../../components/PlaybackControls';
 import { backdrop, drawOrder, drawParticles, frameWindow, particlePath, pixelColor, scaleBarLength } from '../../components/particles';
-import { Playhead } from '../../hooks/playback';
+import { Playhead } from '../../components/lib/playhead';
 import type { SnapshotFrame } from '../../shared/api/snapshots';
 import { componentColor } from '../../constants/theme';
 import { press, render } from './support/render';

@@ -2,7 +2,7 @@ import { LinePlot } from '../../components/LinePlot';
 import { formatTick, makeScale, niceDomain } from '../../components/plot/scale';
 import { RotationCurvePlot } from '../../components/run/RotationCurvePlot';
 import type { PlottedRun } from '../../components/run/DiagnosticsPlots';
-import type { RunOutputView } from '../../hooks/runOutput';
+import type { RunOutputView } from '../../components/lib/runOutput';
 import { press, render } from './support/render';
 
 describe('plot scales', () => {

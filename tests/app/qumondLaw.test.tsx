@@ -1,6 +1,6 @@
 import { within } from '@testing-library/dom';
 import { LaunchForm } from '../../components/launch/LaunchForm';
-import { setCsrfToken } from '../../hooks/api';
+import { setCsrfToken } from '../../components/lib/api';
 import { mockApi } from './support/api';
 import { resetNavigation } from './support/expoRouter';
 import { press, render, settle, type } from './support/render';
@@ -26,10 +26,14 @@ describe('the field form of MOND in the new-run form', () => {
     expect(first.getByLabelText('64³').getAttribute('aria-checked')).toBe('true');
     expect(first.getByText(/QUMOND \(simple nu\): energy conserved, momentum conserved/)).toBeTruthy();
     expect(first.getByText(/Valid: The field equations of MOND in their quasi-linear form/)).toBeTruthy();
-    press(first.getByLabelText('constant vector'));
+    // The optional vector is switched on from the law's schema, starting at zero in each component.
+    expect(container.querySelector('[data-testid="field-law.externalField_m_s2.0"]')).toBeNull();
+    press(first.getByRole('switch', { name: 'External field' }));
     await settle();
     const gx = container.querySelector('[data-testid="field-law.externalField_m_s2.0"]') as HTMLInputElement;
-    expect(Number(gx.value)).toBeCloseTo(1.2e-10);
+    expect(gx.value).toBe('0');
+    expect(gx.getAttribute('aria-label')).toBe('External field x in m/s²');
+    expect(first.getByText('External field z')).toBeTruthy();
     type(gx, '5e-8');
     await settle();
     // The schema's own limit, read from the tuple member, shows at the field and blocks launching.

@@ -30,7 +30,7 @@ test('ticked galaxies are fitted as one sample and its page opened', async () =>
   const { view } = render(<GalaxiesView />);
   await settle();
   // Earlier sample fits are listed with their galaxies and laws.
-  expect(view.getByText(/^Invented A, Invented B · NFW halo, MOND simple · /)).toBeTruthy();
+  expect(view.getByText(/^Invented A, Invented B · Newtonian \+ NFW halo, MOND \(simple nu\) · /)).toBeTruthy();
   press(view.getByRole('checkbox', { name: 'Add Invented A to the acceleration relation' }));
   await settle();
   expect(view.getByText('Tick at least two galaxies.')).toBeTruthy();
@@ -39,7 +39,7 @@ test('ticked galaxies are fitted as one sample and its page opened', async () =>
   press(view.getByTestId('sample-fit'));
   await settle();
   const post = calls.find((c) => c.method === 'POST' && c.path === '/api/galaxy-samples')!;
-  expect(post.body).toEqual({ galaxyIds: [5, 7], laws: ['nfw', 'mond-simple', 'mond-standard', 'mond-rar'], a0: 'free', H0: 'free' });
+  expect(post.body).toEqual({ galaxyIds: [5, 7], laws: ['nfw', 'mond-simple', 'mond-standard', 'mond-rar', 'emergent'], a0: 'free', H0: 'free' });
   expect(navigation.pushed).toEqual([{ pathname: '/galaxies/samples/[id]', params: { id: '31' } }]);
 });
 

@@ -1,7 +1,7 @@
 import { SetupVsLaw } from '../../components/compare/SetupVsLaw';
 import type { SetupSide } from '../../components/compare/setupVsLaw';
-import type { RunOutputView } from '../../hooks/runOutput';
-import { diagnosticsCsv } from '../../hooks/exports';
+import type { RunOutputView } from '../../components/lib/runOutput';
+import { diagnosticsCsv } from '../../components/lib/exports';
 import { render } from './support/render';
 
 const lawInfo = (kind: string, label: string, hasPotential: boolean) => ({ kind, label, conservesEnergy: hasPotential, conservesMomentum: hasPotential, conservesAngularMomentum: hasPotential, hasPotential, validity: 'v', notes: 'n' });

@@ -37,8 +37,9 @@ describe('the spec a run ran', () => {
     expect(text(container, 'model.scaleHeight_kpc')).toBe('Scale height z₀0.25 kpc');
     expect(text(container, 'model.toomreQ')).toBe('Toomre Q1.5'); // the schema's default, filled in
     expect(text(container, 'model.truncationRadius_kpc')).toBe('Truncation radiusthe model’s default');
-    expect(text(container, 'model.bulge.mass_Msun')).toBe('Bulge · Mass8e9 M☉');
-    expect(text(container, 'model.equilibriumLaw')).toMatch(/^Velocities balanced for.*\(Halo profile NFW, Scale radius a 15 kpc, Density ρ₀ 8e6 M☉\/kpc³\)$/);
+    expect(text(container, 'model.halo')).toBe('Live halonone'); // an optional part left out, in its schema's words
+    expect(text(container, 'model.bulge.mass_Msun')).toBe('Bulge mass8e9 M☉');
+    expect(text(container, 'model.equilibriumLaw')).toMatch(/^Velocities balanced for.*\(Halo profile NFW, Scale radius 15 kpc, Density ρ₀ 8e6 M☉\/kpc³\)$/);
     expect(text(container, 'law.interpolation')).toBe('Interpolating functionsimple ν');
     expect(text(container, 'law.a0_m_s2')).toBe('a₀1.2e-10 m/s²');
     expect(text(container, 'integrator')).toBe('IntegratorLeapfrog (KDK)');
@@ -71,6 +72,8 @@ describe('the spec a run ran', () => {
     expect(text(container, 'model.primary.truncationRadius_kpc')).toBe('Primary · Truncation radiusthe model’s default');
     expect(text(container, 'model.secondary.kind')).toBe('SecondaryExponential disk');
     expect(text(container, 'model.secondary.equilibriumLaw')).toBe('Secondary · Velocities balanced forthe run’s law');
+    // A version-1 sphere that named no law was balanced for the reference law.
+    expect(text(container, 'model.primary.equilibriumLaw')).toBe('Primary · Velocities balanced forNewtonian (a version 1 spec)');
     expect(text(container, 'model.secondaryTilt_deg')).toBe('Secondary tilt30°');
     expect(text(container, 'model.primaryTilt_deg')).toBe('Primary tilt0°');
   });

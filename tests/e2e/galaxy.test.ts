@@ -51,7 +51,7 @@ describe('importing a rotation curve on a phone', () => {
     await map('Speed error (1σ)', 'sig');
     await map('Stellar disk speed at M/L = 1 (optional)', 'star');
     await page.getByTestId('galaxy-preview-summary').waitFor();
-    expect(await page.getByTestId('galaxy-preview-summary').textContent()).toMatch(/^14 points from 0\.7 to 9\.8 kpc; components: disk\./);
+    expect(await page.getByTestId('galaxy-preview-summary').textContent()).toMatch(/^14 points from 0\.7 to 9\.8 kpc; components: stellar disk\./);
 
     const name = page.getByTestId('galaxy-name');
     await name.click();

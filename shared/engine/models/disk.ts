@@ -29,6 +29,7 @@ const schema = z
     scaleHeight_kpc: length.describe('sech^2 scale height z0: rho ~ sech^2(z / z0)').meta({ title: 'Scale height z₀' }),
     toomreQ: z.number().min(0.5).max(10).default(1.5).describe('Toomre (1964) stability parameter setting the radial dispersion').meta({ title: 'Toomre Q' }),
     truncationRadius_kpc: truncation,
+    // examples[0] of an optional part: what the launch form fills in when it is switched on (invented values).
     bulge: z
       .strictObject({
         mass_Msun: mass.meta({ title: 'Bulge mass' }),
@@ -36,7 +37,7 @@ const schema = z
       })
       .optional()
       .describe('optional Hernquist bulge; particles are shared out in proportion to mass')
-      .meta({ title: 'Bulge', absent: 'none' }),
+      .meta({ title: 'Bulge', absent: 'none', examples: [{ mass_Msun: 1e10, scale_kpc: 0.5 }] }),
     gas: z
       .strictObject({
         mass_Msun: mass.meta({ title: 'Gas mass' }),
@@ -45,7 +46,7 @@ const schema = z
       })
       .optional()
       .describe('optional exponential gas disk in the plane of the stars, cut at truncationRadius_kpc when given, else at 10 of its scale lengths; particles are shared out in proportion to mass; collisionless like the stars (no pressure, no cooling)')
-      .meta({ title: 'Gas disk', absent: 'none' }),
+      .meta({ title: 'Gas disk', absent: 'none', examples: [{ mass_Msun: 5e9, scaleLength_kpc: 6, scaleHeight_kpc: 0.15 }] }),
     halo: liveHaloSchema,
     equilibriumLaw,
   })

@@ -1,8 +1,8 @@
-import type { RunDetail } from '../shared/api/contract';
-import { SNAPSHOT_FILE } from '../shared/api/snapshots';
-import { RESULT_UNITS } from '../shared/engine';
+import type { RunDetail } from '../../shared/api/contract';
+import { SNAPSHOT_FILE } from '../../shared/api/snapshots';
+import { RESULT_UNITS } from '../../shared/engine';
 import { api } from './api';
-import type { EquilibriumRecord } from '../shared/engine';
+import type { EquilibriumRecord } from '../../shared/engine';
 import { diagnosticColumns, readOutput, type RunOutputView } from './runOutput';
 
 // Exports of a finished run: the diagnostics series and rotation curves as CSV

@@ -1,4 +1,4 @@
-import type { ApiErrorBody, ErrorCode } from '../shared/api/contract';
+import type { ApiErrorBody, ErrorCode } from '../../shared/api/contract';
 
 // The API lives on the same origin as the web build; a dev server on another
 // port can point elsewhere with EXPO_PUBLIC_API_URL.

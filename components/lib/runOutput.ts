@@ -1,6 +1,6 @@
-import type { RunDetail, RunOutputBody } from '../shared/api/contract';
-import type { DiagnosticSample } from '../shared/engine';
-import type { RunSpec } from '../shared/spec';
+import type { RunDetail, RunOutputBody } from '../../shared/api/contract';
+import { usesPotentialVirial, type DiagnosticSample } from '../../shared/engine';
+import type { RunSpec } from '../../shared/spec';
 
 /** A run's stored output: the engine's own types, as the API ships them (shared/api/contract.ts). */
 export type RunOutputView = RunOutputBody;
@@ -9,7 +9,7 @@ export function readOutput(run: RunDetail | undefined): RunOutputView | null {
   return run?.output ?? null;
 }
 
-export const specOf = (run: RunDetail | undefined): RunSpec | null => (run?.spec as RunSpec | undefined) ?? null;
+export const specOf = (run: RunDetail | undefined): RunSpec | null => run?.spec ?? null;
 
 /** Diagnostics as columns for plotting and export. */
 export function diagnosticColumns(rows: DiagnosticSample[]) {
@@ -38,9 +38,15 @@ export function diagnosticColumns(rows: DiagnosticSample[]) {
 export const magnitude = (xs: (number | null)[]) => xs.map((x) => (x === null ? null : Math.abs(x)));
 
 /**
- * 2K/|W| is 1 in equilibrium only for a pure 1/r pair potential (softened Newton);
- * a static halo or a Yukawa term breaks that, so their runs, like the laws with no
- * potential, are judged by the Clausius ratio 2K/|Σ m r·a|.
+ * Whether a run's equilibrium is read from 2K/|W| (its law module says so: 1 in equilibrium
+ * only for a pure softened 1/r pair potential) or from the Clausius ratio 2K/|Σ m r·a|, which
+ * is also what a run of a law no module has any more is read by.
  */
-export const usesPotentialVirial = (law: { kind: string }): boolean => law.kind === 'newton';
+export function readsPotentialVirial(law: { kind: string }): boolean {
+  try {
+    return usesPotentialVirial(law.kind);
+  } catch {
+    return false;
+  }
+}
 

@@ -1,18 +1,22 @@
-import { massModelFor, makeSolver, measureRotationCurve } from '../shared/engine';
-import { createLaw } from '../shared/engine/laws/registry';
-import { allocateParticles } from '../shared/engine/state';
-import type { SnapshotFrame } from '../shared/api/snapshots';
-import type { RunSpec } from '../shared/spec';
+import { lawModule, massModelFor, makeSolver, measureRotationCurve, modelModule } from '../../shared/engine';
+import { createLaw } from '../../shared/engine/laws/registry';
+import { allocateParticles } from '../../shared/engine/state';
+import type { SnapshotFrame } from '../../shared/api/snapshots';
+import type { RunSpec } from '../../shared/spec';
 
-// Models whose particles all weigh the same (a disk shares particles between disk and bulge
-// in proportion to mass), so a snapshot's positions alone give back its mass distribution.
-const EQUAL_MASS_MODELS = new Set(['plummer', 'hernquist', 'disk']);
-
-// The field form of MOND solves on a grid for a second or more per field: too slow to repeat in
-// the browser at every frame, so its runs show the curves the engine measured at start and end.
-// A live halo's particles weigh what its own mass and count make them, so a model with one is not equal-mass.
-export const canMeasureFrames = (spec: RunSpec | null) =>
-  Boolean(spec && EQUAL_MASS_MODELS.has(spec.model.kind) && !('halo' in spec.model && spec.model.halo) && spec.law.kind !== 'qumond');
+/**
+ * A snapshot's positions alone give back its mass distribution only when every particle weighs
+ * the same (the model module says); a law whose field takes a second or more (a grid) is not
+ * recomputed at every frame, so its runs show the curves the engine measured at start and end.
+ */
+export function canMeasureFrames(spec: RunSpec | null): boolean {
+  if (!spec) return false;
+  try {
+    return modelModule(spec.model.kind).equalMass(spec.model) && !lawModule(spec.law.kind).slowField;
+  } catch {
+    return false; // a kind no module has any more
+  }
+}
 
 /**
  * Circular speed √(R g) at the given radii from the law's own field of one stored snapshot:

@@ -1,5 +1,5 @@
 import * as DocumentPicker from 'expo-document-picker';
-import { groupDigits } from '../shared/api/quotaWords';
+import { groupDigits } from '../../shared/api/quotaWords';
 
 /** A table file picked on the device: its name, the Blob to upload, and its bytes to preview. */
 export interface PickedFile {
