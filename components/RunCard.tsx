@@ -1,8 +1,9 @@
+import { lawName, modelName } from '../shared/engine';
 import { Pressable, StyleSheet, View } from 'react-native';
 import { Link } from 'expo-router';
 import type { RunSummary } from '../shared/api/contract';
 import { colors, lawColor, radius, space } from '../constants/theme';
-import { formatAge, formatCount, lawName, modelName } from './format';
+import { formatAge, formatCount } from './format';
 import { LawTag, StatusBadge, statusLabel } from './StatusBadge';
 import { Txt } from './Txt';
 

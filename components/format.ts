@@ -1,7 +1,3 @@
-// Before the registries below build their schemas: expo-router may load a screen (and so this
-// module) ahead of the root layout that sets zod up for the content security policy.
-import '../shared/zodSetup';
-import { lawShortLabel, modelLabel } from '../shared/engine';
 
 // How numbers, counts and ages read across the app. Every helper takes any number, finite
 // or not, and any string for dates, without throwing: a stored run with extreme or missing
@@ -104,20 +100,3 @@ export function formatDuration(ms: number): string {
   return m < 90 ? `${m} min` : `${h < 1e5 ? h.toFixed(1) : formatValue(h)} h`;
 }
 
-/** A law's short name for lists, tags and chips; a kind no module has (a stored run from a retired law) reads as itself. */
-export function lawName(kind: string): string {
-  try {
-    return lawShortLabel(kind);
-  } catch {
-    return kind;
-  }
-}
-
-/** A model's name as people say it; an unknown kind reads as itself. */
-export function modelName(kind: string): string {
-  try {
-    return modelLabel(kind);
-  } catch {
-    return kind;
-  }
-}

@@ -1,3 +1,4 @@
+import { lawName, modelName } from '../../shared/engine';
 import { useState } from 'react';
 import { StyleSheet, View } from 'react-native';
 import { colors, fonts, radius, space } from '../../constants/theme';
@@ -7,7 +8,7 @@ import { useCohorts, useJoinCohort, useTemplates } from '../../hooks/cohorts';
 import { useSession } from '../../hooks/session';
 import { Button } from '../Button';
 import { ChoiceChips, TextField, Toggle } from '../fields';
-import { formatAge, formatCount, formatExpiry, formatInteractions, lawName, modelName } from '../format';
+import { formatAge, formatCount, formatExpiry, formatInteractions } from '../format';
 import { Panel } from '../Panel';
 import { ProgressBar } from '../RunCard';
 import { Screen } from '../Screen';

@@ -1,3 +1,4 @@
+import { lawName, modelName } from '../../shared/engine';
 import { useState } from 'react';
 import { StyleSheet, TextInput, View, useWindowDimensions } from 'react-native';
 import { colors, fonts, radius, space, WIDE_BREAKPOINT } from '../../constants/theme';
@@ -6,7 +7,7 @@ import { useRuns } from '../../hooks/runs';
 import { useSession } from '../../hooks/session';
 import { Button } from '../Button';
 import { ChoiceChips, TextField } from '../fields';
-import { formatAge, formatInteractions, lawName, modelName } from '../format';
+import { formatAge, formatInteractions } from '../format';
 import { Panel } from '../Panel';
 import { ProgressBar, RunCard } from '../RunCard';
 import { Screen } from '../Screen';

@@ -1,3 +1,4 @@
+import { lawName, modelName } from '../../shared/engine';
 import { useState } from 'react';
 import { StyleSheet, View } from 'react-native';
 import type { RunSummary } from '../../shared/api/contract';
@@ -5,7 +6,7 @@ import { colors, space } from '../../constants/theme';
 import { useRuns } from '../../hooks/runs';
 import { Button } from '../Button';
 import { ChoiceChips } from '../fields';
-import { formatAge, lawName, modelName } from '../format';
+import { formatAge } from '../format';
 import { Panel } from '../Panel';
 import { Screen } from '../Screen';
 import { Empty, ErrorState, Loading } from '../States';

@@ -5,11 +5,10 @@ import { colors, lawColor, space, WIDE_BREAKPOINT } from '../../constants/theme'
 import { usePlayhead, useFrameTime } from '../../hooks/playback';
 import { useRunEvents } from '../../hooks/runEvents';
 import { readOutput, specOf, type RunOutputView } from '../lib/runOutput';
-import { lawInfo } from '../../shared/engine';
+import { lawInfo, lawName } from '../../shared/engine';
 import { useRun, useRuns, useSnapshots } from '../../hooks/runs';
 import { isFinal } from '../lib/runStatus';
 import { Button } from '../Button';
-import { lawName } from '../format';
 import { lawModules } from '../../shared/engine';
 
 const LAW_ORDER = lawModules().map((m) => m.kind);

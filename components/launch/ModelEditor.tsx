@@ -1,10 +1,9 @@
 import { useState } from 'react';
 import { StyleSheet, View } from 'react-native';
 import type { LawSpec } from '../../shared/spec';
-import { LIVE_HALO_PRESET, modelModule, modelModules } from '../../shared/engine';
+import { lawName, LIVE_HALO_PRESET, modelModule, modelModules, modelName } from '../../shared/engine';
 import { colors, space } from '../../constants/theme';
 import { ChoiceChips } from '../fields';
-import { lawName, modelName } from '../format';
 import { Txt } from '../Txt';
 import { Button } from '../Button';
 import { describeError } from '../States';

@@ -1,6 +1,6 @@
-import { lawInfo, referenceLaw, systemModule } from '../../shared/engine';
+import { lawInfo, lawName, modelName, referenceLaw, systemModule } from '../../shared/engine';
 import type { LawSpec, RunSpec } from '../../shared/spec';
-import { formatCount, formatInput, lawName, modelName } from '../format';
+import { formatCount, formatInput } from '../format';
 import { fieldKind, memberKind, nodeAt, pickMember, specJsonSchema, titleOf, unitOfField, type JsonNode } from '../launch/schemaForm';
 import { SOLVER_LABELS } from './labels';
 

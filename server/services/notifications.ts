@@ -2,6 +2,7 @@ import type { EntityManager } from '@mikro-orm/core';
 import { config } from '../config';
 import { Run, type Cohort, type User } from '../db/entities';
 import { compose, sendMail } from './mail';
+import { lawName, modelName } from '../../shared/engine';
 
 const fmt = (n: number) => n.toExponential(2).replace('e+', 'e');
 
@@ -39,8 +40,8 @@ function runMail(run: Run, owner: User) {
   return compose(finished ? `Run finished: ${run.name}` : `Run failed: ${run.name}`, [
     `Hello ${owner.name},`,
     finished
-      ? `Your run "${run.name}" (${run.modelKind} under ${run.lawKind}, ${run.particles} particles, ${run.steps} steps) has finished.`
-      : `Your run "${run.name}" (${run.modelKind} under ${run.lawKind}) failed: ${run.error ?? 'no reason was recorded'}.`,
+      ? `Your run "${run.name}" (${modelName(run.modelKind)} under ${lawName(run.lawKind)}, ${run.particles} particles, ${run.steps} steps) has finished.`
+      : `Your run "${run.name}" (${modelName(run.modelKind)} under ${lawName(run.lawKind)}) failed: ${run.error ?? 'no reason was recorded'}.`,
     { text: finished ? 'See its diagnostics' : 'See the run', href: `${config.publicUrl}/runs/${run.id}` },
     OPTED_IN,
   ]);
@@ -51,14 +52,15 @@ async function pairMail(em: EntityManager, run: Run, owner: User) {
   const runs = await em.find(Run, { pairId: run.pairId }, { orderBy: { createdAt: 'asc', id: 'asc' }, refresh: true });
   if (runs.some((r) => !ENDED.has(r.status)) || runs.every((r) => r.status === 'cancelled')) return null;
   const first = runs[0];
-  const suffix = ` · ${first.lawKind}`;
-  const name = first.name.endsWith(suffix) ? first.name.slice(0, -suffix.length) : first.name;
+  // A pair's runs are named "<name> · <law>"; runs stored before names used the law's label carry its kind.
+  const suffix = [` · ${lawName(first.lawKind)}`, ` · ${first.lawKind}`].find((s) => first.name.endsWith(s));
+  const name = suffix ? first.name.slice(0, -suffix.length) : first.name;
   const allFinished = runs.every((r) => r.status === 'finished');
   const outcome = (r: Run) =>
-    r.status === 'finished' ? `${r.lawKind}: finished` : r.status === 'failed' ? `${r.lawKind}: failed: ${r.error ?? 'no reason was recorded'}` : `${r.lawKind}: cancelled`;
+    r.status === 'finished' ? `${lawName(r.lawKind)}: finished` : r.status === 'failed' ? `${lawName(r.lawKind)}: failed: ${r.error ?? 'no reason was recorded'}` : `${lawName(r.lawKind)}: cancelled`;
   return compose(allFinished ? `Pair finished: ${name}` : `Pair ended: ${name}`, [
     `Hello ${owner.name},`,
-    `Both runs of your pair "${name}" (${first.modelKind}, ${first.particles} particles, ${first.steps} steps, under ${runs.map((r) => r.lawKind).join(' and ')}) have ended.`,
+    `Both runs of your pair "${name}" (${modelName(first.modelKind)}, ${first.particles} particles, ${first.steps} steps, under ${runs.map((r) => lawName(r.lawKind)).join(' and ')}) have ended.`,
     runs.map(outcome).join('; ') + '.',
     { text: 'Compare the two runs', href: `${config.publicUrl}/compare?pair=${encodeURIComponent(run.pairId!)}` },
     OPTED_IN,

@@ -4,6 +4,7 @@ import type { Queue } from 'bullmq';
 import { ApiError, withTimeout } from '../errors';
 import { config } from '../config';
 import { Run, RunOutput, RunSnapshot, type Galaxy, type User } from '../db/entities';
+import { lawName, modelName } from '../../shared/engine';
 import { parseRunSpec, particleCount, stepCount, estimateInteractions, type RunSpec } from '../../shared/spec';
 import { submitRunBodySchema, type ListRunsQuery } from '../../shared/api/requests';
 import type { RunDetail, RunProgress, RunSummary } from '../../shared/api/contract';
@@ -54,7 +55,7 @@ export function specsFromBody(body: unknown): { name: string; specs: RunSpec[] }
     }
     specs.push(twin.spec);
   }
-  const name = given ?? `${spec.spec.model.kind} under ${specs.map((s) => s.law.kind).join(' vs ')}`;
+  const name = given ?? `${modelName(spec.spec.model.kind)} under ${specs.map((s) => lawName(s.law.kind)).join(' vs ')}`;
   return { name, specs };
 }
 
@@ -96,7 +97,7 @@ export async function submitRuns(em: EntityManager, queue: Queue<RunJobData>, us
       tx.create(Run, {
         id: randomUUID(),
         owner: user.id,
-        name: specs.length > 1 ? `${name} · ${spec.law.kind}` : name,
+        name: specs.length > 1 ? `${name} · ${lawName(spec.law.kind)}` : name,
         spec,
         modelKind: spec.model.kind,
         lawKind: spec.law.kind,

@@ -11,7 +11,7 @@ export { analyticCurves, CURVE_BINS } from './analytic';
 export type { AnalyticCurves, AnalyticCurveOptions } from './analytic';
 export {
   defaultPairLaw, fitFamilies, fitFamily, galaxyPairLaw, isReferenceLaw, lawColour, lawConservation, lawInfo, lawJsonSchema, lawLabel, lawModule, lawModules,
-  LAW_MODULES, lawPreset, lawSchema, lawShortLabel, referenceLaw, usesPotentialVirial,
+  LAW_MODULES, lawName, lawPreset, lawSchema, lawShortLabel, referenceLaw, usesPotentialVirial,
 } from './laws/registry';
 export type { LawKind, LawSpec, LawSpecInput } from './laws/registry';
 export { LAW_COLOUR_TOKENS } from './laws/types';
@@ -23,7 +23,7 @@ export type { EngineWarning, Timescales } from './timescales';
 export { CancelledDuringSetup, Simulation } from './simulation';
 export type { SimulationState } from './simulation';
 export {
-  balancedSystems, buildInitialConditions, LIVE_HALO_PRESET, massModelFor, modelComponents, modelJsonSchema, modelLabel, modelModule, modelModules,
+  balancedSystems, buildInitialConditions, LIVE_HALO_PRESET, massModelFor, modelComponents, modelJsonSchema, modelLabel, modelModule, modelModules, modelName,
   MODEL_MODULES, modelPreset, modelSchema, modelTraits, PART_COLOUR_TOKENS, partLook, SYSTEM_MODULES, systemModule,
 } from './models';
 export type { BalancedSystem, Component, InitialConditions, ModelKind, ModelModule, ModelSpec, ModelTraits, PartColourToken, PartLook, SystemModule } from './models';

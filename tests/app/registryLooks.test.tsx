@@ -1,7 +1,6 @@
 import { fitLook } from '../../components/galaxy/series';
-import { lawName, modelName } from '../../components/format';
 import { componentColor, lawColor, palette } from '../../constants/theme';
-import { fitFamilies, lawModules, LIVE_HALO_PRESET, modelModules, partLook } from '../../shared/engine';
+import { partLook, fitFamilies, lawModules, lawName, LIVE_HALO_PRESET, modelModules, modelName } from '../../shared/engine';
 
 // Names and colours come from the registries: every registered law and model has its own, and a
 // kind no module has (a stored run of a retired law) still reads and draws.

@@ -91,7 +91,7 @@ describe.each(CASES)('at $viewport width', ({ viewport, student }) => {
   });
 
   it('opens a run of the pair with its diagnostics, snapshots and exports', async () => {
-    await page.getByRole('link', { name: /Open E2E Plummer pair \(invented\) · emergent/ }).click();
+    await page.getByRole('link', { name: /Open E2E Plummer pair \(invented\) · Emergent/ }).click();
     await page.waitForURL((u) => u.pathname.startsWith('/runs/'));
     await page.getByText('Outcome').waitFor();
     await page.getByText('Domain of validity').waitFor();

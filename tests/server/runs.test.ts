@@ -126,7 +126,7 @@ describe('naming runs', () => {
 
   test('a name beside the spec is kept in the stored spec too; a pair adds each law to it', async () => {
     const res = await submit({ name: '  Wren pair (invented)  ', spec: small(), pairLaw: { kind: 'mond' } }, 201);
-    expect(res.body.runs.map((r: { name: string }) => r.name)).toEqual(['Wren pair (invented) · newton', 'Wren pair (invented) · mond']);
+    expect(res.body.runs.map((r: { name: string }) => r.name)).toEqual(['Wren pair (invented) · Newton', 'Wren pair (invented) · MOND (algebraic)']);
     const detail = await request(s.app).get(`/api/runs/${res.body.runs[1].id}`).set(auth).expect(200);
     expect(detail.body.spec.name).toBe('Wren pair (invented)');
   });

@@ -37,6 +37,10 @@ export const lawJsonSchema = (kind: string) => z.toJSONSchema(lawModule(kind).sc
 
 export const lawLabel = (kind: string): string => lawModule(kind).label;
 export const lawShortLabel = (kind: string): string => lawModule(kind).shortLabel;
+/** The short name for lists, tags, run names and mail; a kind no module has (a stored run from a retired law) reads as itself. */
+export function lawName(kind: string): string {
+  return LAW_MODULES.find((m) => m.kind === kind)?.shortLabel ?? kind;
+}
 export const lawColour = (kind: string): LawColourToken => lawModule(kind).colour;
 /** The law's starting parameters for the launch form (a fresh copy). */
 export const lawPreset = (kind: string): LawSpecInput => structuredClone(lawModule(kind).preset);

@@ -9,7 +9,7 @@ import type { BalancedSystem, InitialConditions } from './types';
 
 export type { BalancedSystem, Component, InitialConditions, ModelModule, ModelTraits, SystemModule } from './types';
 export type { MassModel } from './massModel';
-export { MODEL_MODULES, modelComponents, modelJsonSchema, modelLabel, modelModule, modelModules, modelPreset, modelSchema, modelTraits } from './registry';
+export { MODEL_MODULES, modelComponents, modelJsonSchema, modelLabel, modelModule, modelModules, modelName, modelPreset, modelSchema, modelTraits } from './registry';
 export type { ModelKind, ModelSpec } from './registry';
 export { SYSTEM_MODULES, systemModule, systemSchema } from './systems';
 export type { SystemSpec } from './systems';

@@ -27,6 +27,10 @@ export function modelModule(kind: string): ModelModule<any> {
 export const modelJsonSchema = (kind: string) => z.toJSONSchema(modelModule(kind).schema, { io: 'input' });
 
 export const modelLabel = (kind: string): string => modelModule(kind).label;
+/** A model's name as people say it; a kind no module has reads as itself. */
+export function modelName(kind: string): string {
+  return MODEL_MODULES.find((m) => m.kind === kind)?.label ?? kind;
+}
 export const modelPreset = (kind: string): z.input<typeof modelSchema> => structuredClone(modelModule(kind).preset);
 export const modelComponents = (model: ModelSpec): string[] => modelModule(model.kind).components(model);
 export const modelTraits = (kind: string) => modelModule(kind).traits;

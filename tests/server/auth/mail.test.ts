@@ -4,6 +4,7 @@ import { signIn } from '../../support/auth';
 import { Run, User } from '../../../server/db/entities';
 import { notifyRunEnded } from '../../../server/services/notifications';
 import { defaultRunSpec } from '../../../shared/spec';
+import { lawName } from '../../../shared/engine';
 import { config } from '../../../server/config';
 
 let s: AuthStack;
@@ -18,7 +19,7 @@ type Status = 'finished' | 'failed' | 'running' | 'cancelled' | 'queued';
 async function runOf(user: User, status: Status, error: string | null = null, pair?: { id: string; lawKind: string }): Promise<Run> {
   const em = s.em();
   const spec = defaultRunSpec();
-  const name = pair ? `Invented pair test · ${pair.lawKind}` : 'Invented disk test';
+  const name = pair ? `Invented pair test · ${lawName(pair.lawKind)}` : 'Invented disk test';
   const run = em.create(Run, { id: crypto.randomUUID(), owner: user.id, name, spec, modelKind: 'plummer', lawKind: pair?.lawKind ?? 'newton', particles: 500, steps: 200, costInteractions: 5e7, status, error, pairId: pair?.id ?? null });
   await em.flush();
   return run;
@@ -89,7 +90,7 @@ describe('mail through the local sink', () => {
 
     const mail = await s.fakes.sink.waitFor((m) => m.to.includes(user.email!));
     expect(mail.subject).toBe('Pair ended: Invented pair test');
-    expect(mail.text).toContain('newton: finished; mond: failed: energy ran away.');
+    expect(mail.text).toContain('Newton: finished; MOND (algebraic): failed: energy ran away.');
     expect(mail.text).toContain(`${config.publicUrl}/compare?pair=${pairId}`);
     expect(mail.html).toContain(`href="${config.publicUrl}/compare?pair=${pairId}"`);
     expect(mail.text).not.toContain('/runs/');
@@ -124,7 +125,7 @@ describe('mail through the local sink', () => {
     const cancelled = await runOf(user, 'cancelled', null, { id: mixed, lawKind: 'yukawa' });
     expect(await notifyRunEnded(s.em(), cancelled.id)).toBe('sent');
     const mail = await s.fakes.sink.waitFor((m) => m.to.includes(user.email!));
-    expect(mail.text).toContain('newton: finished; yukawa: cancelled.');
+    expect(mail.text).toContain('Newton: finished; Yukawa: cancelled.');
     expect(mail.text).toContain(`/compare?pair=${mixed}`);
   });
 
@@ -136,7 +137,7 @@ describe('mail through the local sink', () => {
     const queued = await runOf(user, 'queued', null, { id: pairId, lawKind: 'mond' });
     await request(s.app).post(`/api/runs/${queued.id}/cancel`).set(auth).expect(202);
     const mail = await s.fakes.sink.waitFor((m) => m.to.includes(user.email!));
-    expect(mail.text).toContain('newton: finished; mond: cancelled.');
+    expect(mail.text).toContain('Newton: finished; MOND (algebraic): cancelled.');
     expect(mail.text).toContain(`/compare?pair=${pairId}`);
   });
 
