@@ -1,6 +1,5 @@
 // A field-form run's grid passes split across pool threads over shared memory
 // (worker/sharedGrid.ts): the same numbers, bit for bit, as one thread.
-import path from 'node:path';
 import { Piscina } from 'piscina';
 import { createLaw } from '../../shared/engine/laws/registry';
 import { directSolver } from '../../shared/engine/solvers/direct';
@@ -10,16 +9,9 @@ import { RunPool } from '../../worker/pool';
 import { activeHelpers, createSharedField, SplitSolver, stopSharedField } from '../../worker/sharedField';
 import { sharedGridFor } from '../../worker/sharedGrid';
 import { plummerParticles, plummerRun } from '../bench/specs';
+import { taskFile, until } from './threads';
 
 jest.setTimeout(180_000);
-
-const taskFile = path.resolve(__dirname, '../../worker/task.ts');
-
-async function until(cond: () => boolean, what: string): Promise<void> {
-  for (const started = Date.now(); !cond(); await new Promise((r) => setTimeout(r, 20))) {
-    if (Date.now() - started > 60_000) throw new Error(`timed out waiting for ${what}`);
-  }
-}
 
 test('the phantom grid split with a helper thread equals one thread bit for bit: forces on sources and probes, and energy', async () => {
   const n = 501;

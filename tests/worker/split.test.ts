@@ -1,26 +1,35 @@
 // One run's direct sum or tree walk split across pool threads over shared
 // memory (worker/sharedField.ts): the same numbers, bit for bit, as one thread.
-import path from 'node:path';
 import { Piscina } from 'piscina';
 import { directSolver } from '../../shared/engine/solvers/direct';
 import { directKernelInUse, setDirectKernel } from '../../shared/engine/solvers/directWasm';
 import { buildOctree, treeSolver } from '../../shared/engine/solvers/tree';
 import { newtonKernel } from '../../shared/engine/laws/newton';
-import type { PairKernel } from '../../shared/engine/solvers/types';
-import { allocateAccelerations, type Points } from '../../shared/engine/state';
+import type { FieldSolver, PairKernel } from '../../shared/engine/solvers/types';
+import { allocateAccelerations, type Points, type Sources } from '../../shared/engine/state';
 import type { RunResult } from '../../shared/engine';
 import { RunPool, SPLIT_MIN_PARTICLES } from '../../worker/pool';
 import { activeHelpers, createSharedField, SplitSolver, stopSharedField } from '../../worker/sharedField';
 import { plummerParticles, plummerRun } from '../bench/specs';
+import { taskFile, until } from './threads';
 import { everyKernel } from '../engine/helpers';
 
 jest.setTimeout(120_000);
 
-const taskFile = path.resolve(__dirname, '../../worker/task.ts');
-
-async function until(cond: () => boolean, what: string): Promise<void> {
-  for (const started = Date.now(); !cond(); await new Promise((r) => setTimeout(r, 20))) {
-    if (Date.now() - started > 60_000) throw new Error(`timed out waiting for ${what}`);
+/** Field and potential of the split solver and the reference, on the particles and on probes, equal bit for bit. */
+function expectSameFields(split: FieldSolver, reference: FieldSolver, kernels: PairKernel[], p: Sources, probes: Points): void {
+  for (const kernel of kernels) {
+    for (const targets of [p, probes]) {
+      const count = targets.x.length;
+      const a = allocateAccelerations(count), b = allocateAccelerations(count);
+      split.field(p, targets, kernel, a);
+      reference.field(p, targets, kernel, b);
+      expect(a).toEqual(b);
+      const pa = new Float64Array(count), pb = new Float64Array(count);
+      split.potential(p, targets, kernel, pa);
+      reference.potential(p, targets, kernel, pb);
+      expect(pa).toEqual(pb);
+    }
   }
 }
 
@@ -35,19 +44,7 @@ test('a force sum split with a helper thread equals the single-thread direct sum
   try {
     await until(() => activeHelpers(shared) === 1, 'the helper thread');
     const split = new SplitSolver(shared);
-    for (const kernel of kernels) {
-      for (const targets of [p, probes]) {
-        const count = targets.x.length;
-        const a = allocateAccelerations(count), b = allocateAccelerations(count);
-        split.field(p, targets, kernel, a);
-        directSolver.field(p, targets, kernel, b);
-        expect(a).toEqual(b);
-        const pa = new Float64Array(count), pb = new Float64Array(count);
-        split.potential(p, targets, kernel, pa);
-        directSolver.potential(p, targets, kernel, pb);
-        expect(pa).toEqual(pb);
-      }
-    }
+    expectSameFields(split, directSolver, kernels, p, probes);
   } finally {
     stopSharedField(shared);
   }
@@ -145,19 +142,7 @@ test('a tree walk split with a helper thread equals the single-thread walk bit f
     await until(() => activeHelpers(shared) === 1, 'the helper thread');
     const split = new SplitSolver(shared);
     expect(split.kind).toBe('tree');
-    for (const kernel of kernels) {
-      for (const targets of [p, probes]) {
-        const count = targets.x.length;
-        const a = allocateAccelerations(count), b = allocateAccelerations(count);
-        split.field(p, targets, kernel, a);
-        alone.field(p, targets, kernel, b);
-        expect(a).toEqual(b);
-        const pa = new Float64Array(count), pb = new Float64Array(count);
-        split.potential(p, targets, kernel, pa);
-        alone.potential(p, targets, kernel, pb);
-        expect(pa).toEqual(pb);
-      }
-    }
+    expectSameFields(split, alone, kernels, p, probes);
     // Clumps of 20 coincident particles, more than a leaf holds (16), make chains of cells down to the tree's
     // depth limit: more cells than the shared room, so the run's thread walks alone, to the same numbers.
     const clump = (a: Float64Array) => a.map((_, i) => a[i - (i % 20)]);
