@@ -6,10 +6,7 @@ cd "$(dirname "$0")/.."
 source server/scripts/services.sh
 
 ensure_system_packages
-if ! command -v chromium >/dev/null 2>&1; then
-  echo "[infall] installing Chromium from Debian for the browser tests"
-  DEBIAN_FRONTEND=noninteractive apt-get install -y -qq chromium >/dev/null
-fi
+ensure_browser
 ensure_node_modules
 build_wasm_kernel
 

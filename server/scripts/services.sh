@@ -26,6 +26,13 @@ ensure_system_packages() {
   for s in postgresql redis-server; do service "$s" stop >/dev/null 2>&1 || true; done
 }
 
+# Debian's Chromium, for the browser tests and the bench's frame-rate section.
+ensure_browser() {
+  command -v chromium >/dev/null 2>&1 && return 0
+  echo "[infall] installing Chromium from Debian for the browser runs"
+  DEBIAN_FRONTEND=noninteractive apt-get install -y -qq chromium >/dev/null
+}
+
 # The server runs as the unprivileged postgres user, which must be able to reach the folder.
 allow_traverse() {
   local dir="$1"

@@ -16,6 +16,7 @@ if [ -n "$no_stack" ]; then build_wasm_kernel >&2; exec npx tsx tests/bench/run.
 
 {
   ensure_system_packages
+  ensure_browser
   ensure_node_modules
   build_wasm_kernel
 } >&2
