@@ -21,6 +21,7 @@ const LAWS = [
   { kind: 'newton' },
   { kind: 'halo', profile: 'nfw', scale_kpc: 10, density_Msun_kpc3: 3e7 },
   { kind: 'mond' },
+  { kind: 'qumond' }, // on its default grid (64 nodes over 2.5 times the farthest particle's distance)
   { kind: 'emergent' },
   { kind: 'yukawa', alpha: 1, lambda_kpc: A },
 ] as const;
