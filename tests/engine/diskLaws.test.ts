@@ -23,14 +23,15 @@ const diskSpec = (law: Record<string, unknown>, extra: Record<string, unknown> =
     seed: 1,
   });
 
-/** Ratios of the force-measured curve to the analytic one at t = 0 and after one outer period, and the simulation at its end. */
-function overOnePeriod(probe: RunSpec) {
+/** Ratios of the force-measured curve to the analytic one at t = 0 and, unless `startOnly`, after one outer period; and the simulation at its end. */
+function overOnePeriod(probe: RunSpec, startOnly = false) {
   const model = buildInitialConditions(probe).massModel;
   const radii = RADII.map((x) => x * RD);
   const analytic = radii.map((R) => Math.sqrt(R * modelAcceleration(probe.law, model, R)));
   const period = (2 * Math.PI * radii[radii.length - 1]) / analytic[analytic.length - 1] / myrToInternal(1);
   const sim = new Simulation({ ...probe, duration_Myr: period, snapshotEvery: 1000 });
   const start = forceCurve(sim, radii).map((v, k) => v / analytic[k]);
+  if (startOnly) return { start, end: [], sim };
   while (!sim.done) sim.advance();
   const end = forceCurve(sim, radii).map((v, k) => v / analytic[k]);
   return { start, end, sim };
@@ -65,4 +66,12 @@ test('algebraic MOND: the disk starts balanced, and what moves it is the form it
   for (const q of start) expect(Math.abs(q - 1)).toBeLessThan(0.05);
   const c = centreOfMass(sim.particles);
   expect(Math.hypot(c.x, c.y, c.z)).toBeGreaterThan(0.5);
+}, 300_000);
+
+test('Yukawa: the disk starts balanced (its curve within 5% of the analytic one from 0.5 to 5 R_d); within the period it bars, not covered here (README)', () => {
+  // Measured at t = 0: worst 1.4% (3 R_d). Over one outer period it leaves the band (12.5% at
+  // 4 R_d): alpha = 0.3 strengthens the pull at separations below lambda by 1.3, so Q = 2 (with
+  // Newton's G) is the margin of a Newtonian disk of Q = 1.54, which bars the same way (measured).
+  const { start } = overOnePeriod(diskSpec({ kind: 'yukawa', alpha: 0.3, lambda_kpc: RD }), true);
+  for (const q of start) expect(Math.abs(q - 1)).toBeLessThan(0.05);
 }, 300_000);
