@@ -63,7 +63,7 @@ const RUN_JSON_CONTENTS = {
   'output.warnings': 'checks made before the run: code, severity, message, source',
   'output.diagnostics': 'samples over the run: step, time_Myr, kinetic/potential/total energy, momentum, angular momentum, their relative drifts (no unit), virial ratios (no unit), lagrangianRadii_kpc, toomreQ for disks',
   'output.rotationCurves': 'initial and final curves measured from the particles and the field (radii_kpc, speeds in km/s, particle counts), and the analytic curves of the initial mass model per law',
-  'output.summary': 'steps computed, final time in Myr, final and largest drifts, and whether the law conserves each quantity',
+  'output.summary': 'steps computed, final time in Myr, final and largest drifts, whether the law conserves each quantity, and summary.equilibrium: the law each system\'s velocities were balanced for (balancedFor), whether every one is the run\'s own law (ownLaw) and the Clausius ratio at t = 0 (initialClausiusRatio)',
   'output.snapshotParticles': 'particles kept in each stored frame',
   'output.frames': "the stored frames (frame, step, time_Myr); their positions and velocities are in the run's snapshot file (HDF5), not here",
 };

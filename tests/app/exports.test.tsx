@@ -65,3 +65,10 @@ test('the JSON export says what each of its parts holds, with units', () => {
   const held = [...Object.keys(doc).filter((k) => !['format', 'format_version', 'contents', 'units', 'output'].includes(k)), ...Object.keys(doc.output).map((k) => `output.${k}`)];
   expect(held.filter((k) => !described.includes(k))).toEqual([]);
 });
+
+test('the JSON export carries what the velocities were balanced for and the initial Clausius ratio, and says where', () => {
+  const equilibrium = { balancedFor: [{ system: 'plummer', law: 'newton', label: 'Newtonian', ownLaw: false }], ownLaw: false, initialClausiusRatio: 0.77 };
+  const doc = JSON.parse(runJson({ ...run, output: { ...run.output, summary: { equilibrium } } } as unknown as RunDetail));
+  expect(doc.output.summary.equilibrium).toEqual(equilibrium);
+  expect(doc.contents['output.summary']).toMatch(/balancedFor.*ownLaw.*initialClausiusRatio/);
+});

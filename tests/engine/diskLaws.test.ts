@@ -23,14 +23,15 @@ const diskSpec = (law: Record<string, unknown>, extra: Record<string, unknown> =
     seed: 1,
   });
 
-/** Ratios of the force-measured curve to the analytic one at t = 0 and after one outer period, and the simulation at its end. */
-function overOnePeriod(probe: RunSpec) {
+/** Ratios of the force-measured curve to the analytic one at t = 0 and, unless `startOnly`, after one outer period; and the simulation at its end. */
+function overOnePeriod(probe: RunSpec, startOnly = false) {
   const model = buildInitialConditions(probe).massModel;
   const radii = RADII.map((x) => x * RD);
   const analytic = radii.map((R) => Math.sqrt(R * modelAcceleration(probe.law, model, R)));
   const period = (2 * Math.PI * radii[radii.length - 1]) / analytic[analytic.length - 1] / myrToInternal(1);
   const sim = new Simulation({ ...probe, duration_Myr: period, snapshotEvery: 1000 });
   const start = forceCurve(sim, radii).map((v, k) => v / analytic[k]);
+  if (startOnly) return { start, end: [], sim };
   while (!sim.done) sim.advance();
   const end = forceCurve(sim, radii).map((v, k) => v / analytic[k]);
   return { start, end, sim };
@@ -42,14 +43,18 @@ test('a disk with bulge and a gas disk of its own (a fifth of the baryons, twice
   for (const q of [...start, ...end]) expect(Math.abs(q - 1)).toBeLessThan(0.05);
 }, 300_000);
 
-test('emergent gravity: balanced for the particles\' own spherically averaged profile, the disk keeps its curve within 5% from 1 to 5 R_d over one outer period', () => {
-  // Measured worst 2.3% (R_d) from 1 to 5 R_d. Inside R_d it does not hold: 5.2% at 0.75 R_d,
-  // 11% at 0.5 R_d, where the Hernquist bulge's core expands under this law (a lone Hernquist
-  // sphere does too: README "Not covered"). Balanced for the analytic profile instead, the
-  // same disk fell 26% at 0.5 R_d and 4.3% at R_d.
-  const { start, end } = overOnePeriod(diskSpec({ kind: 'emergent' }));
-  for (const q of start) expect(Math.abs(q - 1)).toBeLessThan(0.05);
-  end.forEach((q, k) => RADII[k] >= 1 && expect(Math.abs(q - 1)).toBeLessThan(0.05));
+test('emergent gravity: balanced for the particles\' own spherically averaged profile, with a step that resolves the core\'s orbits, the disk keeps its curve within 5% from 0.5 to 5 R_d over one outer period', () => {
+  // The apparent dark mass pulls towards a cusp's centre with a strength that does not fall to
+  // zero there (d(M r)/dr grows as r^2 for rho ~ 1/r, so g_D = sqrt(G a_M d(M r)/dr) / r stays
+  // finite; Verlinde 2016 as in the law), unlike the softened Newtonian pull: in this model's
+  // field a bulge orbit at 0.1 kpc takes 10 Myr against 24 Myr under Newton (computed from the
+  // model). At the 4 Myr step of the other disks each step across the centre is a kick of about
+  // 150 km/s, which heated the bulge (its 10% radius about the density centre 0.27 -> 0.55 kpc,
+  // 0.31 under Newton) and dropped the curve 11% at 0.5 R_d; a lone 1,250-particle bulge does
+  // the same at 4 Myr and holds at 1 Myr (measured). 1 Myr gives the core's orbits the steps per
+  // period the Newtonian core gets at 4 Myr. Measured worst 1.9% (2 R_d, after the period).
+  const { start, end } = overOnePeriod({ ...diskSpec({ kind: 'emergent' }), timestep_Myr: 1 });
+  for (const q of [...start, ...end]) expect(Math.abs(q - 1)).toBeLessThan(0.05);
 }, 300_000);
 
 test('algebraic MOND: the disk starts balanced, and what moves it is the form itself, which pushes the disk as a whole (no momentum conservation; the field form qumond is the one for disks)', () => {
@@ -61,4 +66,12 @@ test('algebraic MOND: the disk starts balanced, and what moves it is the form it
   for (const q of start) expect(Math.abs(q - 1)).toBeLessThan(0.05);
   const c = centreOfMass(sim.particles);
   expect(Math.hypot(c.x, c.y, c.z)).toBeGreaterThan(0.5);
+}, 300_000);
+
+test('Yukawa: the disk starts balanced (its curve within 5% of the analytic one from 0.5 to 5 R_d); within the period it bars, not covered here (README)', () => {
+  // Measured at t = 0: worst 1.4% (3 R_d). Over one outer period it leaves the band (12.5% at
+  // 4 R_d): alpha = 0.3 strengthens the pull at separations below lambda by 1.3, so Q = 2 (with
+  // Newton's G) is the margin of a Newtonian disk of Q = 1.54, which bars the same way (measured).
+  const { start } = overOnePeriod(diskSpec({ kind: 'yukawa', alpha: 0.3, lambda_kpc: RD }), true);
+  for (const q of start) expect(Math.abs(q - 1)).toBeLessThan(0.05);
 }, 300_000);

@@ -107,8 +107,11 @@ describe('law notes read the model\'s traits, not its kind', () => {
     expect(codes(sphere, lawPreset('halo'))).not.toContain('halo-fixed-at-origin');
   });
 
-  test('the field form of MOND notes that a flattened model was set up in the algebraic field, a sphere not', () => {
-    expect(codes(disk, { ...lawPreset('qumond'), grid: 32 })).toContain('disk-set-up-algebraically');
-    expect(codes(sphere, { ...lawPreset('qumond'), grid: 32 })).not.toContain('disk-set-up-algebraically');
+  test('the field form of MOND warns that an encounter\'s systems are balanced on grids of their own unless box_kpc is set; a disk and a sphere are balanced on the run\'s grid', () => {
+    const qumond = { ...lawPreset('qumond'), grid: 32 };
+    expect(codes(encounter, qumond)).toContain('systems-balanced-on-own-grid');
+    expect(codes(encounter, { ...qumond, box_kpc: 200 })).not.toContain('systems-balanced-on-own-grid');
+    expect(codes(disk, qumond)).not.toContain('systems-balanced-on-own-grid');
+    expect(codes(sphere, qumond)).not.toContain('systems-balanced-on-own-grid');
   });
 });

@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { createLaw, lawModule, modelAcceleration, type LawSpec } from '../laws/registry';
+import { createLaw, modelAcceleration, type LawSpec } from '../laws/registry';
 import type { LawContext } from '../laws/types';
 import type { RngState } from '../rng';
 import { normal, uniform, uniformOpen } from '../rng';
@@ -13,6 +13,7 @@ import { densityCentre } from '../centre';
 import { radialProfile, type RadialMassProfile } from '../radialProfile';
 import { checkSystem, count, equilibriumLaw, length, liveHaloSchema, mass, MIN_TRUNCATION_FRACTION, truncation } from './fields';
 import { combinedModel, type MassModel } from './massModel';
+import { lawPullRatio, ringDirections } from './lawPull';
 import { defineSystem } from './system';
 import type { Component } from './types';
 
@@ -357,41 +358,15 @@ function verticalDispersion(d: ExponentialLayer, law: LawSpec, ctx: LawContext, 
 }
 
 /**
- * Field-form MOND's pull in the plane of a disk is not the algebraic ν g_N its
- * model curve uses (they agree only in spherical symmetry, and where the grid
- * resolves the disk): its velocities would be balanced for the wrong field.
- * Returns the ratio of the law's own midplane pull on probe rings among the
- * sampled particles to the model curve, smoothed over neighbouring rings
- * (particle graininess, about 1% per ring), held at the end rings' values beyond them.
- * Other laws' model curves are their field in the plane: ratio 1.
+ * The law's own midplane pull on probe rings among the sampled particles, as a
+ * ratio to the model curve (1 unless the curve approximates the law's field:
+ * field-form MOND's pull in a disk's plane is not the algebraic ν g_N).
  */
 function fieldCorrection(d: DiskSpec, law: LawSpec, ctx: LawContext, sources: Sources, model: MassModel): (R: number) => number {
-  if (!lawModule(law.kind).approximateCurve) return () => 1;
   const Rd = d.scaleLength_kpc;
   const outer = Math.min(PROBE_OUTER * Rd, diskTruncation(d));
-  const rings = PROBE_RADII, J = 4 * PROBE_AZIMUTHS;
-  const lnR = Float64Array.from({ length: rings }, (_, k) => log(PROBE_INNER * Rd) + ((log(outer) - log(PROBE_INNER * Rd)) * k) / (rings - 1));
-  const probes = { x: new Float64Array(rings * J), y: new Float64Array(rings * J), z: new Float64Array(rings * J) };
-  for (let r = 0; r < rings; r++)
-    for (let j = 0; j < J; j++) {
-      probes.x[r * J + j] = exp(lnR[r]) * cos((2 * PI * (j + 0.5)) / J);
-      probes.y[r * J + j] = exp(lnR[r]) * Math.sin((2 * PI * (j + 0.5)) / J);
-    }
-  const acc = allocateAccelerations(rings * J);
-  createLaw(law, ctx).accelerations(sources, probes, acc);
-  const raw = Float64Array.from({ length: rings }, (_, r) => {
-    const R = exp(lnR[r]);
-    let inward = 0;
-    for (let k = r * J; k < (r + 1) * J; k++) inward -= (acc.ax[k] * probes.x[k] + acc.ay[k] * probes.y[k]) / R;
-    return inward / J / modelAcceleration(law, model, R);
-  });
-  const ratio = raw.map((_, r) => {
-    const a = Math.max(0, r - 1), b = Math.min(rings - 1, r + 1);
-    let sum = 0;
-    for (let k = a; k <= b; k++) sum += raw[k];
-    return sum / (b - a + 1);
-  });
-  return (R) => interpolate(lnR, ratio, log(Math.max(R, 1e-300)));
+  const lnR = Float64Array.from({ length: PROBE_RADII }, (_, k) => log(PROBE_INNER * Rd) + ((log(outer) - log(PROBE_INNER * Rd)) * k) / (PROBE_RADII - 1));
+  return lawPullRatio(law, ctx, sources, model, lnR, ringDirections(4 * PROBE_AZIMUTHS));
 }
 
 /**

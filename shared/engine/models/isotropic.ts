@@ -123,14 +123,15 @@ export function softenedSphericalModel(p: SphericalProfile, softening_kpc: numbe
  * rho is taken piecewise linear in Psi between nodes, so the Abel integral is
  * exact per interval; f is then differenced and clipped at zero (a model no
  * isotropic f can hold would show as clipped values; the Clausius ratio of
- * the sampled particles is the check).
+ * the sampled particles is the check). `correction` scales the law's model
+ * curve where that only approximates the law's own field (lawPull.ts).
  */
-export function isotropicSpeedSampler(profile: SphericalProfile, field: MassModel, law: LawSpec): (r: number, u: number) => number {
+export function isotropicSpeedSampler(profile: SphericalProfile, field: MassModel, law: LawSpec, correction: (r: number) => number = () => 1): (r: number, u: number) => number {
   const rOut = profile.outerRadius_kpc;
   const K = 2 * NODES;
   const lnR = lnGrid(1e-4 * profile.scale_kpc, rOut, K);
   const r = lnR.map(exp);
-  const g = r.map((x) => modelAcceleration(law, field, x));
+  const g = r.map((x) => modelAcceleration(law, field, x) * correction(x));
   // Psi and rho from the outside in: index j = K-1-k, so both grow with j.
   const psi = new Float64Array(K), rho = new Float64Array(K);
   for (let k = K - 2; k >= 0; k--) psi[K - 1 - k] = psi[K - 2 - k] + 0.5 * (g[k] * r[k] + g[k + 1] * r[k + 1]) * (lnR[k + 1] - lnR[k]);
