@@ -438,8 +438,8 @@ export class PhantomGrid {
   }
 
   /**
-   * The phantom field of the bracket's remainder w less that remainder, -grad(Phi_P) - w, on the nodes of
-   * lines [from, to): the part of the field form the algebraic phantom field (nu - 1) g_N lacks.
+   * c = -grad(Phi_P) - (w - w_s) on the nodes of lines [from, to) (the gN array holds w - w_s by now):
+   * what the field form adds to the algebraic phantom field.
    */
   private correctionLines(from: number, to: number): void {
     const { gP, gN: w } = this;
@@ -595,12 +595,12 @@ export const qumondLaw = defineLaw({
         const s = atSources(sources.m.length);
         g.solve(sources, s.inside);
         // The sources' own g_N: the targets' when they are the sources, else one more pair sum.
-        let n: { x: Float64Array; y: Float64Array; z: Float64Array } = { x: out.ax, y: out.ay, z: out.az };
+        let gNs: { x: Float64Array; y: Float64Array; z: Float64Array } = { x: out.ax, y: out.ay, z: out.az };
         if ((targets as Points) !== sources) {
-          n = pairAtSources(sources.m.length);
-          solver.field(sources, sources, kernel, { ax: n.x, ay: n.y, az: n.z });
+          gNs = pairAtSources(sources.m.length);
+          solver.field(sources, sources, kernel, { ax: gNs.x, ay: gNs.y, az: gNs.z });
         }
-        phantomAt(g, sources, n.x, n.y, n.z, s);
+        phantomAt(g, sources, gNs.x, gNs.y, gNs.z, s);
         // The discrete phantom field leaves a small net force on the particles in the grid (mostly
         // the algebraic part's: below the grid's scale its pulls are not equal and opposite);
         // continuum QUMOND exerts none on an isolated system (Milgrom 2010), so it is
