@@ -63,9 +63,9 @@ const info = (p: QumondParams): LawInfo => ({
   conservesAngularMomentum: false,
   hasPotential: true,
   validity:
-    'The field equations of MOND in their quasi-linear form, for any geometry inside the grid box. The phantom part is smoothed on the grid spacing (box / (grid - 1)); particles outside the ball inscribed in the grid get the algebraic form instead. A constant external field stands for a distant host; tides are not included.',
+    'The field equations of MOND in their quasi-linear form, for any geometry inside the grid box. The field form\'s departure from the algebraic form (which it equals in spherical symmetry) is smoothed on the grid spacing (box / (grid - 1)); particles outside the ball inscribed in the grid get the algebraic form instead. A constant external field stands for a distant host; tides are not included.',
   notes:
-    'Newtonian part from the pairwise sum (exact momentum balance with the direct solver), phantom part from two isolated FFT Poisson solves on the grid. The grid part\'s small net force is removed each evaluation, so total momentum is conserved. Energy (QUMOND has a potential) is the pair energy plus the grid\'s phantom energy; its drift includes grid error. Angular momentum is not exactly conserved on a cubic grid. Accuracy, measured on a resolved sphere: within 1% of the algebraic form (which it equals in spherical symmetry) from 3 grid cells from the centre, within 3% at 2 cells; around a mass smaller than a cell, within 1% from 8 cells only.',
+    'Newtonian part from the pairwise sum (exact momentum balance with the direct solver). Phantom part: the algebraic one, (nu - 1) g_N from each particle\'s own pairwise g_N, plus the correction that makes it curl-free, from two isolated FFT Poisson solves on the grid (which projects only the non-spherical rest). The net force left (the algebraic part\'s, whose pulls between particles closer than a cell are not equal and opposite, and the grid\'s) is removed each evaluation, so total momentum is conserved; a bound group smaller than a cell can still push itself, as under the algebraic form. Energy (QUMOND has a potential) is the pair energy plus the grid\'s phantom energy; its drift includes grid error. Angular momentum is not exactly conserved on a cubic grid. Accuracy, measured: a resolved sphere within 0.15% of the algebraic form from 1 grid cell from the centre; around a mass smaller than a cell, within 3% from 2 cells and 1% from 5.',
 });
 
 // --- Phantom energy density ------------------------------------------------
@@ -154,7 +154,7 @@ export function qumondGridNotes(params: QumondParams, initial: Sources, halfMass
     notes.push({
       code: 'grid-coarse',
       severity: 'warning',
-      message: `the grid spacing ${h.toPrecision(3)} kpc is more than half the half-mass radius (${halfMassRadius_kpc.toPrecision(3)} kpc): the phantom field is smoothed over the system's own structure (within 3 cells of a mass it is good to a few percent only); use a smaller box_kpc or a larger grid`,
+      message: `the grid spacing ${h.toPrecision(3)} kpc is more than half the half-mass radius (${halfMassRadius_kpc.toPrecision(3)} kpc): the field form's departure from the algebraic one (in flattened or lopsided systems) is smoothed over the system's own structure; use a smaller box_kpc or a larger grid`,
       source: 'this engine (tests/engine/qumond.test.ts)',
     });
   }
@@ -182,14 +182,13 @@ export function qumondGridNotes(params: QumondParams, initial: Sources, halfMass
 }
 
 /**
- * The second solve divides out the square root of the cloud-in-cell window (power 1/2; the first
- * solve divides out the whole window, undoing the deposit). With the tricubic interpolation that
- * follows, our own choice, measured (tests/engine/qumond.test.ts, diskFieldForm.test.ts): for a
- * resolved sphere it keeps the field within 1% of the algebraic form from 3 cells (power 0: 1.8%
- * at 3 cells; power 1: within 1% there and 1.6% at 2 cells), and a thin disk balanced in the law's
- * field keeps its radii within 5% over a period (power 1: 5.3%, the grid's field then rings across the disk).
+ * The radial table of the bracket's spherical part (see `PhantomGrid.sphericalPart`): a head
+ * (centre x, y, z, and 1 when the part is in use), then the pull at every quarter node spacing from
+ * the centre out to the grid's full diagonal, so every node finds its radius in it.
  */
-const PHANTOM_WINDOW_POWER = 0.5;
+const SPHERE_HEAD = 4;
+const STEPS_PER_CELL = 4;
+const radialSteps = (n: number): number => Math.ceil(STEPS_PER_CELL * Math.sqrt(3) * (n - 1)) + 2;
 
 /** What any thread needs to build its view of a run's phantom grid: plain data. */
 export interface PhantomSetup {
@@ -200,12 +199,12 @@ export interface PhantomSetup {
 
 /**
  * Lengths of a phantom grid's working arrays: node masses, potential, g_N (x, y, z), g_P (x, y, z),
- * the Poisson work array, the plain kernel's transform and, with softening, the softened one.
+ * the spherical part's radial table, the Poisson work array, the plain kernel's transform and, with softening, the softened one.
  * In bytes, with softening: 30 MB at 64 nodes a side, 240 MB at 128, 1.9 GB at 256 (measured).
  */
 export function phantomGridLengths({ params, softening_kpc }: PhantomSetup): number[] {
   const n = params.grid, nodes = n * n * n;
-  return [...Array(8).fill(nodes), poissonWorkLength(n), kernelLength(n), ...(softening_kpc > 0 ? [kernelLength(n)] : [])];
+  return [...Array(8).fill(nodes), SPHERE_HEAD + radialSteps(n), poissonWorkLength(n), kernelLength(n), ...(softening_kpc > 0 ? [kernelLength(n)] : [])];
 }
 
 /** Bytes of a grid's working arrays, with softening. */
@@ -221,20 +220,32 @@ const PASS = { softSolve: 0, gradientN: 5, bracket: 6, divergence: 7, plainSolve
 
 /**
  * How the field is split: the Newtonian field g_N comes from the run's pair
- * solver (direct or tree), exact down to the softening length. The grid
- * supplies only the phantom field g_P = g - g_N, which obeys
- *   div g_P = div[(nu(|g_N + g_e| / a0) - 1)(g_N + g_e) - (nu(|g_e| / a0) - 1) g_e]
+ * solver (direct or tree), exact down to the softening length. The phantom
+ * field g_P = g - g_N obeys
+ *   div g_P = div w,  w = (nu(|g_N + g_e| / a0) - 1)(g_N + g_e) - (nu(|g_e| / a0) - 1) g_e
  * (QUMOND, Milgrom 2010, with the external field g_e's own uniform MOND field
  * taken out: the system falls freely with it, so particles feel only the
- * difference). The bracket vanishes far from the system, so the isolated,
- * zero-padded solve suits it. Steps per evaluation: cloud-in-cell deposit,
- * Poisson solve for the grid's Phi_N, g_N by differences, the bracket and its
- * divergence, a second Poisson solve for Phi_P, g_P by differences, and
- * tricubic interpolation to the targets. In the core of a sphere g_P bends on
- * the scale of a cell (it goes as sqrt(r) in deep MOND), and cloud-in-cell
- * interpolation flattened it (5.4% at 2 cells from the centre, 1% reached
- * only from 6); tricubic weights keep it within 3% at 2 cells and 1% from 3
- * (measured, tests/engine/qumond.test.ts). The net force left is removed below.
+ * difference), so g_P is the curl-free part of w: w itself, the algebraic
+ * form's phantom field, plus a correction c = g_P - w that takes away w's curl.
+ * Each target gets w from its own pair-sum g_N, exact to the softening length
+ * as in the algebraic form, and c from the grid, where c is smooth: it
+ * vanishes in spherical symmetry and differs from zero where the system is
+ * flattened or lopsided. The grid makes c from w less its spherical part w_s
+ * (see `sphericalPart`; c is the same for both, w_s having no curl): cloud-in-
+ * cell deposit, an isolated Poisson solve for the grid's Phi_N, g_N by
+ * differences, the bracket w - w_s and its divergence, a second isolated
+ * solve for Phi_P, c = -grad(Phi_P) - (w - w_s) by differences, and tricubic
+ * interpolation of c to the targets. The bracket vanishes far from the
+ * system, so the zero-padded solve suits it.
+ *
+ * Why: g_P itself bends on the scale of a cell in the core of a sphere (it
+ * goes as sqrt(r) in deep MOND), and a grid carrying all of it flattens it
+ * there (differences, interpolation and the deposit's smoothing of g_N: 3%
+ * short at 2 cells from the centre, 12% at 1, measured). Split this way a
+ * resolved sphere keeps within 0.15% of the algebraic form from 1 cell (they
+ * coincide in spherical symmetry), and the in-plane pull of the test disk at
+ * 64^3 is within 3% of its value at 128^3 (measured, tests/engine/qumond.test.ts,
+ * diskFieldForm.test.ts). The net force left is removed below.
  */
 export class PhantomGrid {
   readonly geo: GridGeometry;
@@ -246,8 +257,12 @@ export class PhantomGrid {
   private readonly phi: Float64Array;
   /** The grid's g_N, overwritten by the bracket w once that is formed. */
   private readonly gN: GridVectors;
-  /** Phantom field at the nodes after `solve`. */
+  /** After `solve`, what the grid adds at the nodes to the algebraic phantom field (w) to make the field form's. */
   readonly gP: GridVectors;
+  /** The spherical part's centre, flag and radial table of pulls (see SPHERE_HEAD). */
+  private readonly sphere: Float64Array;
+  /** The run thread's shells of nodes (count, sum of radii, sum of inward g_N / r), for the radial table. */
+  private shells?: { count: Float64Array; r: Float64Array; pullPerR: Float64Array };
   private readonly a0: number;
   private readonly ge: [number, number, number];
   private readonly nuE: number;
@@ -275,8 +290,8 @@ export class PhantomGrid {
     const h = box.side_kpc / (n - 1);
     this.p = p;
     this.geo = { n, h, x0: box.cx - box.side_kpc / 2, y0: box.cy - box.side_kpc / 2, z0: box.cz - box.side_kpc / 2 };
-    const [mass, phi, gNx, gNy, gNz, gPx, gPy, gPz, work, plain, softened] = arrays;
-    this.mass = mass; this.phi = phi;
+    const [mass, phi, gNx, gNy, gNz, gPx, gPy, gPz, sphere, work, plain, softened] = arrays;
+    this.mass = mass; this.phi = phi; this.sphere = sphere;
     this.gN = { x: gNx, y: gNy, z: gNz };
     this.gP = { x: gPx, y: gPy, z: gPz };
     this.poisson = new IsolatedPoisson(n, work);
@@ -317,9 +332,10 @@ export class PhantomGrid {
     else if (pass === PASS.bracket) this.bracketLines(from, to);
     else if (pass === PASS.divergence) this.phantomMassLines(from, to);
     else if (pass < PASS.gradientP) this.poisson.pass(pass - PASS.plainSolve, mass, geo.h, phi, this.plain, from, to);
-    else if (pass === PASS.gradientP) negativeGradientLines(geo, phi, this.gP, from, to);
+    else if (pass === PASS.gradientP) this.correctionLines(from, to);
     else if (pass === PASS.energy) this.energyLines(from, to);
-    else if (pass < PASS.softKernel) this.poisson.kernelPass(pass - PASS.plainKernel, 0, PHANTOM_WINDOW_POWER, this.plain, from, to);
+    // The phantom masses are node values, not deposited: the plain kernel divides out no window.
+    else if (pass < PASS.softKernel) this.poisson.kernelPass(pass - PASS.plainKernel, 0, 0, this.plain, from, to);
     else if (pass < PASS.end) this.poisson.kernelPass(pass - PASS.softKernel, this.softening, 1, this.softened, from, to);
     else throw new Error(`no grid pass ${pass}`);
   }
@@ -330,26 +346,106 @@ export class PhantomGrid {
     for (let pass = PASS.softSolve; pass <= PASS.gradientN; pass++) this.run(pass);
   }
 
-  /** Phantom field at the nodes from the sources. */
+  /** The grid's correction to the algebraic phantom field at the nodes, from the sources (see `gP`). */
   solve(src: Sources, inside: Uint8Array): void {
     this.newtonian(src, inside);
+    this.sphericalPart(src, inside);
     for (let pass = PASS.bracket; pass <= PASS.gradientP; pass++) this.run(pass);
   }
 
-  /** The bracket w of the phantom source, formed in place of g_N, node by node. */
+  /**
+   * The bracket's spherical part about the sources' centre of mass: w_s = (nu(g_s / a0) - 1) g_s, where
+   * g_s(r) is the grid's own g_N averaged over spheres about that centre (node by node into quarter-cell
+   * shells, g_N / r between shells' mean radii, so a uniform core's g_N, proportional to r, is exact).
+   * A radial field has no curl, so its phantom field is itself, exactly: the grid then projects only
+   * what is not spherical, and its error near a steep centre (the phantom field goes as sqrt(r) in a
+   * deep-MOND core, which differences and interpolation flatten) leaves the spherical part untouched.
+   * Taken from the grid's g_N rather than from the particles, it has the same cusp as the grid's
+   * bracket, so none is left in the remainder. Tabulated here in this thread for every thread's bracket
+   * pass. With an external field the bracket is radial about no point, and the grid carries it all.
+   */
+  private sphericalPart(src: Sources, inside: Uint8Array): void {
+    const t = this.sphere, steps = t.length - SPHERE_HEAD;
+    t.fill(0);
+    if (this.ge[0] !== 0 || this.ge[1] !== 0 || this.ge[2] !== 0) return;
+    let M = 0, cx = 0, cy = 0, cz = 0;
+    for (let i = 0; i < src.m.length; i++) {
+      if (!inside[i]) continue;
+      const m = src.m[i];
+      M += m; cx += m * src.x[i]; cy += m * src.y[i]; cz += m * src.z[i];
+    }
+    if (!(M > 0)) return;
+    cx /= M; cy /= M; cz /= M;
+    const { n, h, x0, y0, z0 } = this.geo, { gN } = this, perKpc = STEPS_PER_CELL / h;
+    this.shells ??= { count: new Float64Array(steps), r: new Float64Array(steps), pullPerR: new Float64Array(steps) };
+    const { count, r: sumR, pullPerR } = this.shells;
+    count.fill(0); sumR.fill(0); pullPerR.fill(0);
+    for (let i = 0, q = 0; i < n; i++) {
+      for (let j = 0; j < n; j++) {
+        for (let k = 0; k < n; k++, q++) {
+          const dx = x0 + i * h - cx, dy = y0 + j * h - cy, dz = z0 + k * h - cz;
+          const r2 = dx * dx + dy * dy + dz * dz;
+          if (r2 === 0) continue;
+          const r = sqrt(r2), b = Math.min(Math.floor(r * perKpc), steps - 1);
+          count[b]++; sumR[b] += r;
+          pullPerR[b] -= (gN.x[q] * dx + gN.y[q] * dy + gN.z[q] * dz) / r2;
+        }
+      }
+    }
+    // Each step's pull, linear in r between the mean radii of the shells around it (flat in g_N / r inside the first).
+    let below = -1;
+    for (let b = 0, k = 0; b <= steps; b++) {
+      if (b < steps && count[b] === 0) continue;
+      const rb = b < steps ? sumR[b] / count[b] : Infinity, fb = b < steps ? pullPerR[b] / count[b] : 0;
+      const ra = below < 0 ? 0 : sumR[below] / count[below], fa = below < 0 ? fb : pullPerR[below] / count[below];
+      for (; k < steps && (k / perKpc <= rb || b === steps); k++) {
+        const r = k / perKpc;
+        t[SPHERE_HEAD + k] = r * (b === steps ? fa : fa + ((fb - fa) * (r - ra)) / (rb - ra || 1));
+      }
+      below = b;
+    }
+    t[0] = cx; t[1] = cy; t[2] = cz; t[3] = 1;
+  }
+
+  /** The bracket w of the phantom source less its spherical part, formed in place of g_N, node by node. */
   private bracketLines(from: number, to: number): void {
-    const { gN, a0, ge, nuE, p } = this;
+    const { gN, a0, ge, nuE, p, sphere } = this;
     const w = gN;
     const [ex, ey, ez] = ge;
-    const n = this.geo.n;
-    for (let q = from * n; q < to * n; q++) {
-      const gx = gN.x[q] + ex, gy = gN.y[q] + ey, gz = gN.z[q] + ez;
-      const g = sqrt(gx * gx + gy * gy + gz * gz);
-      // (nu - 1) g -> sqrt(a0 g) -> 0 as g -> 0, so a null field contributes nothing.
-      const f = g > 0 ? mondNu(p.interpolation, g / a0) - 1 : 0;
-      w.x[q] = f * gx - (nuE - 1) * ex;
-      w.y[q] = f * gy - (nuE - 1) * ey;
-      w.z[q] = f * gz - (nuE - 1) * ez;
+    const { n, h, x0, y0, z0 } = this.geo;
+    const spherical = sphere[3] === 1, cx = sphere[0], cy = sphere[1], cz = sphere[2];
+    const steps = sphere.length - SPHERE_HEAD, perKpc = STEPS_PER_CELL / h;
+    for (let line = from; line < to; line++) {
+      const i = Math.floor(line / n), j = line - i * n;
+      for (let k = 0, q = line * n; k < n; k++, q++) {
+        const gx = gN.x[q] + ex, gy = gN.y[q] + ey, gz = gN.z[q] + ez;
+        const g = sqrt(gx * gx + gy * gy + gz * gz);
+        // (nu - 1) g -> sqrt(a0 g) -> 0 as g -> 0, so a null field contributes nothing.
+        const f = g > 0 ? mondNu(p.interpolation, g / a0) - 1 : 0;
+        w.x[q] = f * gx - (nuE - 1) * ex;
+        w.y[q] = f * gy - (nuE - 1) * ey;
+        w.z[q] = f * gz - (nuE - 1) * ez;
+        if (!spherical) continue;
+        const dx = x0 + i * h - cx, dy = y0 + j * h - cy, dz = z0 + k * h - cz;
+        const r = sqrt(dx * dx + dy * dy + dz * dz), u = r * perKpc, b = Math.floor(u);
+        if (!(r > 0) || b + 1 >= steps) continue;
+        const gs = sphere[SPHERE_HEAD + b] + (u - b) * (sphere[SPHERE_HEAD + b + 1] - sphere[SPHERE_HEAD + b]);
+        // w_s points inward: -(nu - 1) g_s (x - c) / r, taken away from w.
+        const fs = gs > 0 ? ((mondNu(p.interpolation, gs / a0) - 1) * gs) / r : 0;
+        w.x[q] += fs * dx; w.y[q] += fs * dy; w.z[q] += fs * dz;
+      }
+    }
+  }
+
+  /**
+   * c = -grad(Phi_P) - (w - w_s) on the nodes of lines [from, to) (the gN array holds w - w_s by now):
+   * what the field form adds to the algebraic phantom field.
+   */
+  private correctionLines(from: number, to: number): void {
+    const { gP, gN: w } = this;
+    negativeGradientLines(this.geo, this.phi, gP, from, to);
+    for (let q = from * this.geo.n; q < to * this.geo.n; q++) {
+      gP.x[q] -= w.x[q]; gP.y[q] -= w.y[q]; gP.z[q] -= w.z[q];
     }
   }
 
@@ -478,7 +574,22 @@ export const qumondLaw = defineLaw({
     };
     const atSources = scratchVectors();
     const atTargets = scratchVectors();
-    const fallback = [0, 0, 0];
+    const pairAtSources = scratchVectors();
+    const local = [0, 0, 0];
+    /**
+     * Phantom acceleration at points whose pair-sum g_N is (nx, ny, nz): the algebraic phantom field
+     * there, exact to the softening length, plus the grid's correction where the point lies in its ball
+     * (flagged in `inside`); outside the ball the algebraic field alone.
+     */
+    const phantomAt = (g: PhantomGrid, pts: Points, nx: Float64Array, ny: Float64Array, nz: Float64Array, at: ReturnType<ReturnType<typeof scratchVectors>>) => {
+      interpolateVectorsCubic(g.geo, g.gP, pts, at.x, at.y, at.z, at.inside);
+      for (let i = 0; i < pts.x.length; i++) {
+        if (at.inside[i] && !g.inBall(pts.x[i], pts.y[i], pts.z[i])) at.inside[i] = 0;
+        g.algebraicPhantom(nx[i], ny[i], nz[i], local);
+        if (at.inside[i]) { at.x[i] += local[0]; at.y[i] += local[1]; at.z[i] += local[2]; }
+        else { at.x[i] = local[0]; at.y[i] = local[1]; at.z[i] = local[2]; }
+      }
+    };
     return {
       info: info(params),
       accelerations(sources: Sources, targets: Points, out) {
@@ -486,9 +597,15 @@ export const qumondLaw = defineLaw({
         const g = gridFor(sources);
         const s = atSources(sources.m.length);
         g.solve(sources, s.inside);
-        interpolateVectorsCubic(g.geo, g.gP, sources, s.x, s.y, s.z, s.inside);
-        for (let i = 0; i < sources.m.length; i++) if (s.inside[i] && !g.inBall(sources.x[i], sources.y[i], sources.z[i])) s.inside[i] = 0;
-        // The discrete phantom field leaves a small net force on the particles in the grid;
+        // The sources' own g_N: the targets' when they are the sources, else one more pair sum.
+        let gNs: { x: Float64Array; y: Float64Array; z: Float64Array } = { x: out.ax, y: out.ay, z: out.az };
+        if ((targets as Points) !== sources) {
+          gNs = pairAtSources(sources.m.length);
+          solver.field(sources, sources, kernel, { ax: gNs.x, ay: gNs.y, az: gNs.z });
+        }
+        phantomAt(g, sources, gNs.x, gNs.y, gNs.z, s);
+        // The discrete phantom field leaves a small net force on the particles in the grid (mostly
+        // the algebraic part's: below the grid's scale its pulls are not equal and opposite);
         // continuum QUMOND exerts none on an isolated system (Milgrom 2010), so it is
         // discretisation error and is removed as a uniform acceleration, which leaves
         // relative motions unchanged.
@@ -500,17 +617,10 @@ export const qumondLaw = defineLaw({
         }
         if (M > 0) { fx /= M; fy /= M; fz /= M; }
         const t = (targets as Points) === sources ? s : atTargets(targets.x.length);
-        if (t !== s) {
-          interpolateVectorsCubic(g.geo, g.gP, targets, t.x, t.y, t.z, t.inside);
-          for (let i = 0; i < targets.x.length; i++) if (t.inside[i] && !g.inBall(targets.x[i], targets.y[i], targets.z[i])) t.inside[i] = 0;
-        }
+        if (t !== s) phantomAt(g, targets, out.ax, out.ay, out.az, t);
         for (let i = 0; i < targets.x.length; i++) {
-          if (t.inside[i]) {
-            out.ax[i] += t.x[i] - fx; out.ay[i] += t.y[i] - fy; out.az[i] += t.z[i] - fz;
-          } else {
-            g.algebraicPhantom(out.ax[i], out.ay[i], out.az[i], fallback);
-            out.ax[i] += fallback[0]; out.ay[i] += fallback[1]; out.az[i] += fallback[2];
-          }
+          if (t.inside[i]) { out.ax[i] += t.x[i] - fx; out.ay[i] += t.y[i] - fy; out.az[i] += t.z[i] - fz; }
+          else { out.ax[i] += t.x[i]; out.ay[i] += t.y[i]; out.az[i] += t.z[i]; }
         }
       },
       potentialEnergy(sources) {
