@@ -224,6 +224,11 @@ export function activeHelpers(f: SharedField): number {
   return Atomics.load(new Int32Array(f.control), ACTIVE);
 }
 
+/** Chunks finished so far in the latest round, by any thread. */
+export function chunksDone(f: SharedField): number {
+  return Atomics.load(new Int32Array(f.control), DONE);
+}
+
 /** Ends the run's rounds: helpers return. Safe to call more than once, from any thread. */
 export function stopSharedField(f: SharedField): void {
   const c = new Int32Array(f.control);
@@ -255,6 +260,8 @@ export class SplitSolver implements FieldSolver {
   private readonly alone: FieldSolver;
   /** Rounds opened so far; only this thread opens them. */
   private rounds = 0;
+  /** The caller's work waiting for the next round to open (see overlap). */
+  private aside: (() => void) | null = null;
   readonly gridThreads?: SplitGrid;
 
   constructor(private readonly shared: SharedField) {
@@ -283,6 +290,20 @@ export class SplitSolver implements FieldSolver {
     if (!this.splits(sources, targets)) return this.alone.potential(sources, targets, kernel, out);
     this.compute(sources, targets, kernel, POTENTIAL);
     out.set(this.v.out.ax.subarray(0, targets.x.length));
+  }
+
+  /** Runs `aside` in the first round `sums` opens, after waking the helpers; without a round, after `sums`. */
+  overlap(sums: () => void, aside: () => void): void {
+    this.aside = aside;
+    try {
+      sums();
+    } catch (err) {
+      this.aside = null;
+      throw err;
+    }
+    const left = this.aside;
+    this.aside = null;
+    left?.();
   }
 
   private splits(sources: Sources, targets: Points): boolean {
@@ -335,7 +356,14 @@ export class SplitSolver implements FieldSolver {
     // Opening the claims last publishes everything above to any thread whose claim counts.
     Atomics.store(c, CLAIM, tag);
     wakeHelpers(c);
-    work(this.v);
-    for (let d = Atomics.load(c, DONE); d < chunks; d = Atomics.load(c, DONE)) Atomics.wait(c, DONE, d);
+    const aside = this.aside;
+    this.aside = null;
+    try {
+      // The helpers claim chunks meanwhile; whatever they leave, this thread takes after.
+      aside?.();
+    } finally {
+      work(this.v);
+      for (let d = Atomics.load(c, DONE); d < chunks; d = Atomics.load(c, DONE)) Atomics.wait(c, DONE, d);
+    }
   }
 }

@@ -9,7 +9,7 @@ import type { FieldSolver, PairKernel } from '../../shared/engine/solvers/types'
 import { allocateAccelerations, type Points, type Sources } from '../../shared/engine/state';
 import type { RunResult } from '../../shared/engine';
 import { RunPool, SPLIT_MIN_PARTICLES } from '../../worker/pool';
-import { activeHelpers, createSharedField, SplitSolver, stopSharedField } from '../../worker/sharedField';
+import { activeHelpers, chunksDone, createSharedField, SplitSolver, stopSharedField } from '../../worker/sharedField';
 import { plummerParticles, plummerRun } from '../bench/specs';
 import { taskFile, until } from './threads';
 import { everyKernel } from '../engine/helpers';
@@ -152,6 +152,49 @@ test('a tree walk split with a helper thread equals the single-thread walk bit f
     split.field(clumped, clumped, kernels[0], a);
     alone.field(clumped, clumped, kernels[0], b);
     expect(a).toEqual(b);
+  } finally {
+    stopSharedField(shared);
+  }
+  expect(await helper).toBeGreaterThan(0);
+  await pool.destroy();
+});
+
+test('work handed to overlap runs on the run\'s thread while the helper takes the round, once, and the sums stay those of one thread', async () => {
+  const n = 3001;
+  const p = plummerParticles(n);
+  const kernel = newtonKernel(0.05);
+  const theta = 0.6;
+  const alone = treeSolver(theta);
+  const want = new Float64Array(n);
+  alone.potential(p, p, kernel, want);
+  const pool = new Piscina({ filename: taskFile, maxThreads: 1, execArgv: ['--import', 'tsx'] });
+  const shared = createSharedField(n, 1, theta);
+  const helper = pool.run({ sharedField: shared }, { name: 'fieldHelper' }) as Promise<number>;
+  try {
+    await until(() => activeHelpers(shared) === 1, 'the helper thread');
+    const split = new SplitSolver(shared);
+    const got = new Float64Array(n);
+    let asides = 0, doneWhenAsideEnded = -1;
+    split.overlap(() => split.potential(p, p, kernel, got), () => {
+      asides++;
+      // The round is open and this thread claims nothing until the aside ends: only the helper can finish a chunk now.
+      const nap = new Int32Array(new SharedArrayBuffer(4));
+      for (const started = Date.now(); chunksDone(shared) === 0 && Date.now() - started < 60_000;) Atomics.wait(nap, 0, 0, 5);
+      doneWhenAsideEnded = chunksDone(shared);
+    });
+    expect(asides).toBe(1);
+    expect(doneWhenAsideEnded).toBeGreaterThan(0);
+    expect(got).toEqual(want);
+    // Without a round to ride on (no solver call, or a tree too deep for the shared room), the aside runs after the sums, once.
+    const order: string[] = [];
+    split.overlap(() => order.push('sums'), () => order.push('aside'));
+    const clump = (a: Float64Array) => a.map((_, i) => a[i - (i % 20)]);
+    const clumped = { x: clump(p.x), y: clump(p.y), z: clump(p.z), m: p.m };
+    split.overlap(() => {
+      split.potential(clumped, clumped, kernel, got);
+      order.push('deep sums');
+    }, () => order.push('aside after deep'));
+    expect(order).toEqual(['sums', 'aside', 'deep sums', 'aside after deep']);
   } finally {
     stopSharedField(shared);
   }
