@@ -3,13 +3,13 @@
 import { Piscina } from 'piscina';
 import { directSolver } from '../../shared/engine/solvers/direct';
 import { directKernelInUse, setDirectKernel } from '../../shared/engine/solvers/directWasm';
-import { buildOctree, treeSolver } from '../../shared/engine/solvers/tree';
+import { buildOctant, buildOctree, OCTANT, planOctree, treeSolver, type Octree } from '../../shared/engine/solvers/tree';
 import { newtonKernel } from '../../shared/engine/laws/newton';
 import type { FieldSolver, PairKernel } from '../../shared/engine/solvers/types';
 import { allocateAccelerations, type Points, type Sources } from '../../shared/engine/state';
 import type { RunResult } from '../../shared/engine';
 import { RunPool, SPLIT_MIN_PARTICLES } from '../../worker/pool';
-import { activeHelpers, chunksDone, createSharedField, SplitSolver, stopSharedField } from '../../worker/sharedField';
+import { activeHelpers, chunksDone, createSharedField, latestTree, SplitSolver, stopSharedField } from '../../worker/sharedField';
 import { plummerParticles, plummerRun } from '../bench/specs';
 import { taskFile, until } from './threads';
 import { everyKernel } from '../engine/helpers';
@@ -32,6 +32,16 @@ function expectSameFields(split: FieldSolver, reference: FieldSolver, kernels: P
     }
   }
 }
+
+/** Per octant of the root, the cells its subtree takes beyond the room of its part in shared memory (its particles, plus one). */
+function overgrowth(q: Sources): number[] {
+  const n = q.m.length, order = new Uint32Array(n), plan = planOctree(q, order);
+  const sorted = { x: new Float64Array(n), y: new Float64Array(n), z: new Float64Array(n), m: new Float64Array(n) };
+  return Array.from({ length: plan.count }, (_, j) => buildOctant(q, order, plan.octants, j, sorted).nodes - (plan.octants[OCTANT * j + 1] - plan.octants[OCTANT * j] + 1));
+}
+
+/** A tree's arrays, without the stamp that tells one build from another. */
+const treeArrays = ({ nodes, cells, links, order, sorted, groups }: Octree) => ({ nodes, cells, links, order, sorted, groups });
 
 test('a force sum split with a helper thread equals the single-thread direct sum bit for bit, for every kernel and target kind', async () => {
   const n = 1001; // odd, so chunks and pairs of targets do not line up
@@ -143,6 +153,24 @@ test('a tree walk split with a helper thread equals the single-thread walk bit f
     const split = new SplitSolver(shared);
     expect(split.kind).toBe('tree');
     expectSameFields(split, alone, kernels, p, probes);
+    // The tree the threads built together (every octant fits its part) is one thread's, cell for cell.
+    expect(Math.max(...overgrowth(p))).toBeLessThanOrEqual(0);
+    expect(treeArrays(latestTree(shared))).toEqual(treeArrays(buildOctree(p)));
+    // Clumps of 20 coincident particles in one octant of the root make more cells there than that octant's part holds,
+    // though the whole tree fits the shared room: the run's thread builds it alone, to the same tree and numbers.
+    const low = Array.from({ length: n }, (_, i) => i).filter((i) => p.x[i] < 0 && p.y[i] < 0 && p.z[i] < 0).slice(0, 600);
+    const lumpy = { x: p.x.slice(), y: p.y.slice(), z: p.z.slice(), m: p.m };
+    low.forEach((i, k) => {
+      const first = low[k - (k % 20)];
+      lumpy.x[i] = lumpy.x[first]; lumpy.y[i] = lumpy.y[first]; lumpy.z[i] = lumpy.z[first];
+    });
+    expect(Math.max(...overgrowth(lumpy))).toBeGreaterThan(0);
+    expect(buildOctree(lumpy).nodes).toBeLessThanOrEqual(n + 64);
+    const la = allocateAccelerations(n), lb = allocateAccelerations(n);
+    split.field(lumpy, lumpy, kernels[0], la);
+    alone.field(lumpy, lumpy, kernels[0], lb);
+    expect(la).toEqual(lb);
+    expect(treeArrays(latestTree(shared))).toEqual(treeArrays(buildOctree(lumpy)));
     // Clumps of 20 coincident particles, more than a leaf holds (16), make chains of cells down to the tree's
     // depth limit: more cells than the shared room, so the run's thread walks alone, to the same numbers.
     const clump = (a: Float64Array) => a.map((_, i) => a[i - (i % 20)]);
