@@ -130,6 +130,19 @@ function sizeFromBox(cells: Float64Array, boxes: Float64Array, node: number): vo
   cells[c + HALF] = h; cells[c + SIZE2] = 4 * h * h;
 }
 
+/** Writes a cell's mass, centre of mass, second moments and box, and its size from the box. */
+function writeCell(
+  cells: Float64Array, boxes: Float64Array, node: number, M: number, cx: number, cy: number, cz: number,
+  xx: number, yy: number, zz: number, xy: number, xz: number, yz: number, x0: number, y0: number, z0: number, x1: number, y1: number, z1: number,
+): void {
+  const c = node * CELL, b = 6 * node;
+  boxes[b] = x0; boxes[b + 1] = y0; boxes[b + 2] = z0; boxes[b + 3] = x1; boxes[b + 4] = y1; boxes[b + 5] = z1;
+  cells[c + MASS] = M;
+  cells[c + COM_X] = cx; cells[c + COM_Y] = cy; cells[c + COM_Z] = cz;
+  cells[c + IXX] = xx; cells[c + IYY] = yy; cells[c + IZZ] = zz; cells[c + IXY] = xy; cells[c + IXZ] = xz; cells[c + IYZ] = yz;
+  sizeFromBox(cells, boxes, node);
+}
+
 /** A leaf's mass, centre of mass, box and second moments, from its particles. */
 function summariseLeaf(bd: CellBuild, node: number, start: number, end: number): void {
   const { order, cells, boxes } = bd;
@@ -148,12 +161,7 @@ function summariseLeaf(bd: CellBuild, node: number, start: number, end: number):
     const dx = x[i] - cx0, dy = y[i] - cy0, dz = z[i] - cz0;
     xx += mi * dx * dx; yy += mi * dy * dy; zz += mi * dz * dz; xy += mi * dx * dy; xz += mi * dx * dz; yz += mi * dy * dz;
   }
-  const c = node * CELL, b = 6 * node;
-  boxes[b] = x0; boxes[b + 1] = y0; boxes[b + 2] = z0; boxes[b + 3] = x1; boxes[b + 4] = y1; boxes[b + 5] = z1;
-  cells[c + MASS] = M;
-  cells[c + COM_X] = cx0; cells[c + COM_Y] = cy0; cells[c + COM_Z] = cz0;
-  cells[c + IXX] = xx; cells[c + IYY] = yy; cells[c + IZZ] = zz; cells[c + IXY] = xy; cells[c + IXZ] = xz; cells[c + IYZ] = yz;
-  sizeFromBox(cells, boxes, node);
+  writeCell(cells, boxes, node, M, cx0, cy0, cz0, xx, yy, zz, xy, xz, yz, x0, y0, z0, x1, y1, z1);
 }
 
 /**
@@ -178,12 +186,7 @@ function summariseParent(cells: Float64Array, boxes: Float64Array, node: number,
     xx += cells[cq + IXX] + Mq * dx * dx; yy += cells[cq + IYY] + Mq * dy * dy; zz += cells[cq + IZZ] + Mq * dz * dz;
     xy += cells[cq + IXY] + Mq * dx * dy; xz += cells[cq + IXZ] + Mq * dx * dz; yz += cells[cq + IYZ] + Mq * dy * dz;
   }
-  const c = node * CELL, b = 6 * node;
-  boxes[b] = x0; boxes[b + 1] = y0; boxes[b + 2] = z0; boxes[b + 3] = x1; boxes[b + 4] = y1; boxes[b + 5] = z1;
-  cells[c + MASS] = M;
-  cells[c + COM_X] = cx0; cells[c + COM_Y] = cy0; cells[c + COM_Z] = cz0;
-  cells[c + IXX] = xx; cells[c + IYY] = yy; cells[c + IZZ] = zz; cells[c + IXY] = xy; cells[c + IXZ] = xz; cells[c + IYZ] = yz;
-  sizeFromBox(cells, boxes, node);
+  writeCell(cells, boxes, node, M, cx0, cy0, cz0, xx, yy, zz, xy, xz, yz, x0, y0, z0, x1, y1, z1);
 }
 
 /**
