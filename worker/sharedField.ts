@@ -174,25 +174,28 @@ function partViews(p: { doubles: SharedArrayBuffer; ints: SharedArrayBuffer }, n
   };
 }
 
-/** The round's tree as laid out in shared memory: `nodes` cells and `groups` groups of the room's (all of it with both 0). */
-function sharedTree(t: NonNullable<Views['tree']>, n: number, nodes: number, groups: number, stamp: number): Octree {
+/** The whole room for a tree in shared memory: cells and links of `capacity` cells, then the sources in tree order, the order and groups for n. */
+function treeRoom(t: NonNullable<Views['tree']>, n: number): Omit<Octree, 'nodes' | 'stamp'> {
   const { d, i, capacity } = t;
   const s = CELL_DOUBLES * capacity, l = CELL_INTS * capacity;
-  const whole = nodes === 0 && groups === 0;
   return {
-    nodes,
-    cells: d.subarray(0, CELL_DOUBLES * (whole ? capacity : nodes)),
-    links: i.subarray(0, CELL_INTS * (whole ? capacity : nodes)),
+    cells: d.subarray(0, s),
+    links: i.subarray(0, l),
     sorted: { x: d.subarray(s, s + n), y: d.subarray(s + n, s + 2 * n), z: d.subarray(s + 2 * n, s + 3 * n), m: d.subarray(s + 3 * n, s + 4 * n) },
     order: new Uint32Array(i.buffer, 4 * l, n),
-    groups: i.subarray(l + n, l + n + 2 * (whole ? n : groups)),
-    stamp,
+    groups: i.subarray(l + n, l + 3 * n),
   };
+}
+
+/** The round's tree in its room: its first `nodes` cells and `groups` groups. */
+function sharedTree(t: NonNullable<Views['tree']>, n: number, nodes: number, groups: number, stamp: number): Octree {
+  const room = treeRoom(t, n);
+  return { ...room, nodes, cells: room.cells.subarray(0, CELL_DOUBLES * nodes), links: room.links.subarray(0, CELL_INTS * nodes), groups: room.groups.subarray(0, 2 * groups), stamp };
 }
 
 /** Builds octant j of the round's plan (see SplitSolver.sharedBuild) into its part. */
 function buildPart(v: Views, j: number): void {
-  const t = v.tree!, p = t.parts, room = sharedTree(t, v.sources.m.length, 0, 0, 0);
+  const t = v.tree!, p = t.parts, room = treeRoom(t, v.sources.m.length);
   const o = buildOctant(v.sources, room.order, p.plan, j, room.sorted);
   const start = p.plan[OCTANT * j], at = start + j;
   if (o.nodes > p.plan[OCTANT * j + 1] - start + 1) {
@@ -430,7 +433,7 @@ export class SplitSolver implements FieldSolver {
   private sharedBuild(): Octree | null {
     const { c, tree: t, sources } = this.v;
     const p = t!.parts, n = this.shared.n;
-    const room = sharedTree(t!, n, 0, 0, 0);
+    const room = treeRoom(t!, n);
     const plan = planOctree(sources, room.order);
     if (plan.count === 0) return null;
     p.plan.set(plan.octants);
