@@ -2,6 +2,7 @@ import { densityCentre, type DensityCentre } from './centre';
 import type { ForceLaw } from './laws/types';
 import { usesPotentialVirial } from './laws/registry';
 import { centreOfMass, type ParticleState } from './state';
+import { overlapped, type FieldSolver } from './solvers/types';
 
 // Module-local aliases: inside a vm context (Jest, sandboxes) every global
 // lookup of Math is slow enough to dominate a hot loop.
@@ -130,7 +131,9 @@ function clausiusVirial(p: ParticleState, c: Vector3): number {
 /**
  * Measures one sample. `p` must hold accelerations at its current positions
  * (the integrators keep that true). Without a
- * reference this is the first sample and becomes the reference.
+ * reference this is the first sample and becomes the reference. `solver`, the
+ * law's own: one split across threads measures the rest of the sample (the
+ * density centre above all) while its helpers start on the potential.
  */
 export function sampleDiagnostics(
   p: ParticleState,
@@ -139,11 +142,23 @@ export function sampleDiagnostics(
   time_Myr: number,
   reference: DriftReference | null,
   toomre: ((p: ParticleState, centre: DensityCentre) => ToomreProfile) | null,
+  solver?: FieldSolver,
 ): { sample: DiagnosticSample; reference: DriftReference } {
-  const mo = moments(p);
-  const W = law.potentialEnergy ? law.potentialEnergy(p) : null;
+  let W = null as number | null, external = 0;
+  let mo!: Moments, cm!: ReturnType<typeof centreOfMass>, dc!: DensityCentre, radii!: number[], vir!: number;
+  overlapped(solver, () => {
+    W = law.potentialEnergy ? law.potentialEnergy(p) : null;
+    external = W !== null && law.externalPotentialEnergy ? law.externalPotentialEnergy(p) : 0;
+  }, () => {
+    mo = moments(p);
+    cm = centreOfMass(p);
+    dc = densityCentre(p, p);
+    radii = lagrangianRadii(p, [0.1, 0.5, 0.9], dc);
+    vir = clausiusVirial(p, cm);
+  });
+  const [r10, r50, r90] = radii;
   const E = W === null ? null : mo.kinetic + W;
-  const wSelf = W === null ? null : W - (law.externalPotentialEnergy ? law.externalPotentialEnergy(p) : 0);
+  const wSelf = W === null ? null : W - external;
   const ref: DriftReference = reference ?? {
     energy: E,
     energyScale: wSelf === null ? null : mo.kinetic + Math.abs(wSelf),
@@ -152,10 +167,6 @@ export function sampleDiagnostics(
     angularMomentum: mo.angularMomentum,
     angularMomentumScale: mo.angularMomentumScale,
   };
-  const cm = centreOfMass(p);
-  const dc = densityCentre(p, p);
-  const [r10, r50, r90] = lagrangianRadii(p, [0.1, 0.5, 0.9], dc);
-  const vir = clausiusVirial(p, cm);
   let M = 0;
   for (let i = 0; i < p.n; i++) M += p.m[i];
   const internalKinetic = mo.kinetic - 0.5 * M * (cm.vx * cm.vx + cm.vy * cm.vy + cm.vz * cm.vz);

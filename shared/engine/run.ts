@@ -192,7 +192,7 @@ export function runSimulation(spec: RunSpec, hooks: RunHooks = {}): RunResult {
       : null;
 
   const diagnose = () => {
-    const out = sampleDiagnostics(sim.particles, sim.law, sim.state.step, sim.time_Myr, reference, toomre);
+    const out = sampleDiagnostics(sim.particles, sim.law, sim.state.step, sim.time_Myr, reference, toomre, sim.solver);
     reference = out.reference;
     diagnostics.push(out.sample);
     latestDrift = out.sample.energyDrift;

@@ -30,6 +30,8 @@ export class CancelledDuringSetup extends Error {
 export class Simulation {
   readonly spec: RunSpec;
   readonly law: ForceLaw;
+  /** The solver the law sums with (the spec's, or the one given in its place). */
+  readonly solver: FieldSolver;
   readonly initial: InitialConditions;
   readonly totalSteps: number;
   readonly state: SimulationState;
@@ -48,6 +50,7 @@ export class Simulation {
     const icRng = seedRng(spec.seed);
     this.initial = buildInitialConditions(spec, icRng);
     if (shouldCancel?.()) throw new CancelledDuringSetup();
+    this.solver = solver;
     this.law = createLaw(spec.law, { solver, softening_kpc: spec.softening_kpc, initial: this.initial.particles });
     this.totalSteps = stepCount(spec);
     this.dt = myrToInternal(spec.timestep_Myr);

@@ -123,7 +123,7 @@ export function toTable(r: BenchReport): string {
     rows.push(['threads: tree speed-up', `${fmt(t.treeSpeedup)}x`, '>= 1.7x', mark(t.treeSpeedup >= 1.7)]);
     rows.push([`threads: ${t.gridN}-particle field-form MOND run, grid ${t.grid}^3, ${t.gridSteps} steps, 1 -> ${t.threads} threads`, `${fmt(t.gridSingleSeconds)} s -> ${fmt(t.gridSplitSeconds)} s`, t.gridIdentical ? 'bit-identical' : 'RESULTS DIFFER', mark(t.gridIdentical)]);
     rows.push(['threads: field-form grid speed-up', `${fmt(t.gridSpeedup)}x`, '>= 1.6x', mark(t.gridSpeedup >= 1.6)]);
-    rows.push([`threads: tree build (serial) share of one evaluation at N=${t.treeN}`, fmt(t.treeBuildShare), `bounds the evaluation's speed-up at ${fmt(t.treeSpeedupBound)}x`, '']);
+    rows.push([`threads: tree build's serial part (root's octant sort) share of one evaluation at N=${t.treeN}`, fmt(t.treeBuildShare), `bounds the evaluation's speed-up at ${fmt(t.treeSpeedupBound)}x`, '']);
     rows.push([`threads: plain loop on ${t.threads} threads, same moment`, `${fmt(t.machineSpeedup)}x`, 'the most this machine gave', '']);
     const cpu = (v: number | null) => (v === null ? 'n/a' : `${fmt(v)}x`);
     rows.push(['threads: CPU-time speed-ups, direct / tree / field-form grid', `${cpu(t.cpuSpeedup)} / ${cpu(t.treeCpuSpeedup)} / ${cpu(t.gridCpuSpeedup)}`, 'one thread\'s CPU time over the busiest split thread\'s', '']);

@@ -8,7 +8,7 @@ import { Worker } from 'node:worker_threads';
 import { RunPool, SPLIT_MIN_PARTICLES } from '../../worker/pool';
 import type { RunResult } from '../../shared/engine';
 import type { RunSpec } from '../../shared/spec';
-import { buildOctree, treeFieldRange, treeWorkUnits } from '../../shared/engine/solvers/tree';
+import { buildOctree, planOctree, treeFieldRange, treeWorkUnits } from '../../shared/engine/solvers/tree';
 import { newtonKernel } from '../../shared/engine/laws/newton';
 import { allocateAccelerations } from '../../shared/engine/state';
 import { plummerParticles, plummerRun } from './specs';
@@ -59,9 +59,10 @@ export interface ThreadFigures {
   gridCpuSpeedup: number | null;
   /**
    * The part of one tree force evaluation of treeN particles that only the run's
-   * thread does (the octree build), as a share of the evaluation's CPU time on one
-   * thread (best of 5); with the walk split perfectly it bounds the speed-up of
-   * the evaluation on `threads` threads at 1 / (share + (1 - share) / threads).
+   * thread does (sorting the particles by the root's octants, planOctree: the
+   * octants' subtrees and the walk are split), as a share of the evaluation's CPU
+   * time on one thread (best of 5); with the rest split perfectly it bounds the
+   * speed-up of the evaluation on `threads` threads at 1 / (share + (1 - share) / threads).
    */
   treeBuildShare: number;
   treeSpeedupBound: number;
@@ -172,10 +173,12 @@ function bestCpuMs(repeats: number, f: () => void): number {
 
 function treeBuildShare(n: number): number {
   const p = plummerParticles(n), kernel = newtonKernel(0.05), out = allocateAccelerations(n);
+  const order = new Uint32Array(n);
+  const plan = bestCpuMs(5, () => planOctree(p, order));
   const build = bestCpuMs(5, () => buildOctree(p));
   const tree = buildOctree(p);
   const walk = bestCpuMs(5, () => treeFieldRange(tree, p, p, kernel, 0.5, 0, treeWorkUnits(tree, p, p), out));
-  return build / (build + walk);
+  return plan / (build + walk);
 }
 
 export async function benchThreads({ n = 6_000, steps = 40, treeN = 20_000, treeSteps = 40, gridN = 2_000, grid = 64 as ThreadFigures['grid'], gridSteps = 6, threads = 2, spinIterations = 2e8, repeats = 3 } = {}): Promise<ThreadFigures> {

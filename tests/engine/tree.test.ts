@@ -1,6 +1,6 @@
 import { buildInitialConditions, runSimulation } from '../../shared/engine';
 import { directFieldRange, directPotentialRange } from '../../shared/engine/solvers/direct';
-import { buildOctree, treeFieldRange, treeSolver, treeWorkUnits } from '../../shared/engine/solvers/tree';
+import { buildOctant, buildOctree, joinOctree, planOctree, treeFieldRange, treeSolver, treeWorkUnits, type OctantCells, type Octree } from '../../shared/engine/solvers/tree';
 import { newtonKernel } from '../../shared/engine/laws/newton';
 import { setDirectKernel } from '../../shared/engine/solvers/directWasm';
 import { allocateAccelerations, allocateParticles } from '../../shared/engine/state';
@@ -119,6 +119,42 @@ describe('Barnes & Hut (1986) tree', () => {
     directPotentialRange(p, p, kernel, 0, N, a);
     treeSolver(0.5).potential(p, p, kernel, b);
     expect(quantile(Array.from(a, (v, i) => Math.abs(b[i] / v - 1)), 0.5)).toBeLessThan(1e-3);
+  });
+
+  test('the root\'s octants built apart, in any order, and put together make the tree of one build, cell for cell', () => {
+    /** As threads would: the plan, then the octants last to first, each copied out of the builder's reused arrays. */
+    const joined = (q: typeof p): { tree: Omit<Octree, 'stamp'>; rootGroups: number } => {
+      const n = q.m.length;
+      const order = new Uint32Array(n);
+      const plan = planOctree(q, order);
+      const sorted = { x: new Float64Array(n), y: new Float64Array(n), z: new Float64Array(n), m: new Float64Array(n) };
+      const parts: OctantCells[] = [];
+      for (let j = plan.count - 1; j >= 0; j--) {
+        const o = buildOctant(q, order, plan.octants, j, sorted);
+        parts[j] = { nodes: o.nodes, cells: o.cells.slice(0, 16 * o.nodes), links: o.links.slice(0, 4 * o.nodes), box: o.box.slice(), groups: Array.from(o.groups) };
+      }
+      const into = { cells: new Float64Array(16 * 2 * n), links: new Int32Array(4 * 2 * n), groups: new Int32Array(2 * n) };
+      const { nodes, groups } = joinOctree(plan, (j) => parts[j], into);
+      const tree = { nodes, cells: into.cells.subarray(0, 16 * nodes), links: into.links.subarray(0, 4 * nodes), order, sorted, groups: into.groups.subarray(0, 2 * groups) };
+      return { tree, rootGroups: plan.groups.filter((v, k) => k % 2 === 0 && v >= 0).length };
+    };
+    const whole = (q: typeof p) => {
+      const { nodes, cells, links, order, sorted, groups } = buildOctree(q);
+      return { nodes, cells, links, order, sorted, groups };
+    };
+    // Lopsided: most particles low in y, so the root's upper octants are small and grouped at the root itself.
+    const lopsided = allocateParticles(1500);
+    for (let i = 0; i < 1500; i++) {
+      lopsided.m[i] = 1 + (i % 3);
+      lopsided.x[i] = (i * 0.618034) % 1; lopsided.y[i] = ((i * 0.414214) % 1) ** 6; lopsided.z[i] = (i * 0.732051) % 1;
+    }
+    const flat = { ...p, z: new Float64Array(N) };
+    for (const q of [p, flat, lopsided]) {
+      const { tree, rootGroups } = joined(q);
+      expect(tree.nodes).toBeGreaterThan(100);
+      expect(tree).toEqual(whole(q));
+      if (q === lopsided) expect(rootGroups).toBeGreaterThan(0);
+    }
   });
 
   test('coincident particles end in one bounded-depth leaf instead of splitting forever', () => {

@@ -3,13 +3,13 @@
 import { Piscina } from 'piscina';
 import { directSolver } from '../../shared/engine/solvers/direct';
 import { directKernelInUse, setDirectKernel } from '../../shared/engine/solvers/directWasm';
-import { buildOctree, treeSolver } from '../../shared/engine/solvers/tree';
+import { buildOctant, buildOctree, OCTANT, planOctree, treeSolver, type Octree } from '../../shared/engine/solvers/tree';
 import { newtonKernel } from '../../shared/engine/laws/newton';
 import type { FieldSolver, PairKernel } from '../../shared/engine/solvers/types';
 import { allocateAccelerations, type Points, type Sources } from '../../shared/engine/state';
 import type { RunResult } from '../../shared/engine';
 import { RunPool, SPLIT_MIN_PARTICLES } from '../../worker/pool';
-import { activeHelpers, createSharedField, SplitSolver, stopSharedField } from '../../worker/sharedField';
+import { activeHelpers, chunksDone, createSharedField, latestTree, SplitSolver, stopSharedField, type SharedField } from '../../worker/sharedField';
 import { plummerParticles, plummerRun } from '../bench/specs';
 import { taskFile, until } from './threads';
 import { everyKernel } from '../engine/helpers';
@@ -32,6 +32,16 @@ function expectSameFields(split: FieldSolver, reference: FieldSolver, kernels: P
     }
   }
 }
+
+/** Per octant of the root, the cells its subtree takes beyond the room of its part in shared memory (its particles, plus one). */
+function overgrowth(q: Sources): number[] {
+  const n = q.m.length, order = new Uint32Array(n), plan = planOctree(q, order);
+  const sorted = { x: new Float64Array(n), y: new Float64Array(n), z: new Float64Array(n), m: new Float64Array(n) };
+  return Array.from({ length: plan.count }, (_, j) => buildOctant(q, order, plan.octants, j, sorted).nodes - (plan.octants[OCTANT * j + 1] - plan.octants[OCTANT * j] + 1));
+}
+
+/** A tree's arrays, without the stamp that tells one build from another. */
+const treeArrays = ({ nodes, cells, links, order, sorted, groups }: Octree) => ({ nodes, cells, links, order, sorted, groups });
 
 test('a force sum split with a helper thread equals the single-thread direct sum bit for bit, for every kernel and target kind', async () => {
   const n = 1001; // odd, so chunks and pairs of targets do not line up
@@ -128,6 +138,31 @@ test('a helper leaves when the run ends right after a round, and a small round f
   }
 });
 
+/** A tree SplitSolver for n particles with one helper thread serving it; checks the helper took part and left. */
+async function withTreeHelper(n: number, theta: number, use: (split: SplitSolver, shared: SharedField) => void): Promise<void> {
+  const pool = new Piscina({ filename: taskFile, maxThreads: 1, execArgv: ['--import', 'tsx'] });
+  const shared = createSharedField(n, 1, theta);
+  const helper = pool.run({ sharedField: shared }, { name: 'fieldHelper' }) as Promise<number>;
+  try {
+    await until(() => activeHelpers(shared) === 1, 'the helper thread');
+    use(new SplitSolver(shared), shared);
+  } finally {
+    stopSharedField(shared);
+  }
+  expect(await helper).toBeGreaterThan(0);
+  await pool.destroy();
+}
+
+/** Every run of 20 particles moved onto its first: clumps of more than a leaf holds (16), which make chains of cells down to the depth limit. */
+function clumped(p: Sources, which: number[] = Array.from({ length: p.m.length }, (_, i) => i)): Sources {
+  const q = { x: p.x.slice(), y: p.y.slice(), z: p.z.slice(), m: p.m };
+  which.forEach((i, k) => {
+    const first = which[k - (k % 20)];
+    q.x[i] = q.x[first]; q.y[i] = q.y[first]; q.z[i] = q.z[first];
+  });
+  return q;
+}
+
 test('a tree walk split with a helper thread equals the single-thread walk bit for bit, for every kernel and target kind', async () => {
   const n = 3001;
   const p = plummerParticles(n);
@@ -135,28 +170,62 @@ test('a tree walk split with a helper thread equals the single-thread walk bit f
   const kernels: PairKernel[] = everyKernel(0.05);
   const theta = 0.6;
   const alone = treeSolver(theta);
-  const pool = new Piscina({ filename: taskFile, maxThreads: 1, execArgv: ['--import', 'tsx'] });
-  const shared = createSharedField(n, 1, theta);
-  const helper = pool.run({ sharedField: shared }, { name: 'fieldHelper' }) as Promise<number>;
-  try {
-    await until(() => activeHelpers(shared) === 1, 'the helper thread');
-    const split = new SplitSolver(shared);
+  await withTreeHelper(n, theta, (split, shared) => {
     expect(split.kind).toBe('tree');
     expectSameFields(split, alone, kernels, p, probes);
-    // Clumps of 20 coincident particles, more than a leaf holds (16), make chains of cells down to the tree's
-    // depth limit: more cells than the shared room, so the run's thread walks alone, to the same numbers.
-    const clump = (a: Float64Array) => a.map((_, i) => a[i - (i % 20)]);
-    const clumped = { x: clump(p.x), y: clump(p.y), z: clump(p.z), m: p.m };
-    expect(buildOctree(clumped).nodes).toBeGreaterThan(n + 64);
+    // The tree the threads built together (every octant fits its part) is one thread's, cell for cell.
+    expect(Math.max(...overgrowth(p))).toBeLessThanOrEqual(0);
+    expect(treeArrays(latestTree(shared))).toEqual(treeArrays(buildOctree(p)));
+    // Clumps in one octant of the root make more cells there than that octant's part holds, though the
+    // whole tree fits the shared room: the run's thread builds it alone, to the same tree and numbers.
+    const lumpy = clumped(p, Array.from({ length: n }, (_, i) => i).filter((i) => p.x[i] < 0 && p.y[i] < 0 && p.z[i] < 0).slice(0, 600));
+    expect(Math.max(...overgrowth(lumpy))).toBeGreaterThan(0);
+    expect(buildOctree(lumpy).nodes).toBeLessThanOrEqual(n + 64);
+    const la = allocateAccelerations(n), lb = allocateAccelerations(n);
+    split.field(lumpy, lumpy, kernels[0], la);
+    alone.field(lumpy, lumpy, kernels[0], lb);
+    expect(la).toEqual(lb);
+    expect(treeArrays(latestTree(shared))).toEqual(treeArrays(buildOctree(lumpy)));
+    // Clumps everywhere make more cells than the shared room: the run's thread walks alone, to the same numbers.
+    const deep = clumped(p);
+    expect(buildOctree(deep).nodes).toBeGreaterThan(n + 64);
     const a = allocateAccelerations(n), b = allocateAccelerations(n);
-    split.field(clumped, clumped, kernels[0], a);
-    alone.field(clumped, clumped, kernels[0], b);
+    split.field(deep, deep, kernels[0], a);
+    alone.field(deep, deep, kernels[0], b);
     expect(a).toEqual(b);
-  } finally {
-    stopSharedField(shared);
-  }
-  expect(await helper).toBeGreaterThan(0);
-  await pool.destroy();
+  });
+});
+
+test('work handed to overlap runs on the run\'s thread while the helper takes the round, once, and the sums stay those of one thread', async () => {
+  const n = 3001;
+  const p = plummerParticles(n);
+  const kernel = newtonKernel(0.05);
+  const theta = 0.6;
+  const want = new Float64Array(n);
+  treeSolver(theta).potential(p, p, kernel, want);
+  await withTreeHelper(n, theta, (split, shared) => {
+    const got = new Float64Array(n);
+    let asides = 0, doneWhenAsideEnded = -1;
+    split.overlap(() => split.potential(p, p, kernel, got), () => {
+      asides++;
+      // The round is open and this thread claims nothing until the aside ends: only the helper can finish a chunk now.
+      const nap = new Int32Array(new SharedArrayBuffer(4));
+      for (const started = Date.now(); chunksDone(shared) === 0 && Date.now() - started < 60_000;) Atomics.wait(nap, 0, 0, 5);
+      doneWhenAsideEnded = chunksDone(shared);
+    });
+    expect(asides).toBe(1);
+    expect(doneWhenAsideEnded).toBeGreaterThan(0);
+    expect(got).toEqual(want);
+    // Without a round to ride on (no solver call, or a tree too deep for the shared room), the aside runs after the sums, once.
+    const order: string[] = [];
+    split.overlap(() => order.push('sums'), () => order.push('aside'));
+    const deep = clumped(p);
+    split.overlap(() => {
+      split.potential(deep, deep, kernel, got);
+      order.push('deep sums');
+    }, () => order.push('aside after deep'));
+    expect(order).toEqual(['sums', 'aside', 'deep sums', 'aside after deep']);
+  });
 });
 
 const sameRun = (a: RunResult, b: RunResult) => {

@@ -135,4 +135,18 @@ export interface FieldSolver {
   potential(sources: Sources, targets: Points, kernel: PairKernel, out: Float64Array): void;
   /** Threads that also share a law's grid work (the worker's split solver lends its helpers). */
   readonly gridThreads?: GridThreads;
+  /**
+   * Calls `sums` (which asks this solver for fields or potentials) and `aside`, the caller's own
+   * work, which reads none of their results and calls no solver. A solver split across threads runs
+   * `aside` on this thread once its helpers have started on the first round `sums` opens, so the two
+   * overlap; without this method the caller runs one after the other (see `overlapped`).
+   */
+  overlap?(sums: () => void, aside: () => void): void;
+}
+
+/** `sums` and then `aside`, overlapped where the solver can (FieldSolver.overlap); the numbers are the same either way. */
+export function overlapped(solver: FieldSolver | undefined, sums: () => void, aside: () => void): void {
+  if (solver?.overlap) return solver.overlap(sums, aside);
+  sums();
+  aside();
 }
