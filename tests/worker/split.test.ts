@@ -228,6 +228,14 @@ test('work handed to overlap runs on the run\'s thread while the helper takes th
   });
 });
 
+// A pool with all its threads started: a short run ends before a thread started on demand is up
+// (seconds under load), and then has no helper to split with.
+async function warmPool(threads: number): Promise<RunPool> {
+  const pool = new RunPool(threads);
+  await Promise.all(Array.from({ length: threads }, () => pool.start(plummerRun(50, 1), () => undefined).result));
+  return pool;
+}
+
 const sameRun = (a: RunResult, b: RunResult) => {
   expect(a.snapshots.map((s) => s.positions)).toEqual(b.snapshots.map((s) => s.positions));
   expect(a.diagnostics).toEqual(b.diagnostics);
@@ -236,7 +244,7 @@ const sameRun = (a: RunResult, b: RunResult) => {
 
 test('a large direct-sum run through the pool is split across its free thread and ends bit-identical to a one-thread run', async () => {
   const spec = plummerRun(SPLIT_MIN_PARTICLES + 1, 6, { snapshotEvery: 2, diagnosticsEvery: 2 });
-  const one = new RunPool(1), two = new RunPool(2);
+  const one = new RunPool(1), two = await warmPool(2);
   try {
     const alone = one.start(spec, () => undefined);
     const split = two.start(spec, () => undefined);
@@ -250,7 +258,7 @@ test('a large direct-sum run through the pool is split across its free thread an
 
 test.each([{ kind: 'newton' }, { kind: 'yukawa', alpha: 0.5, lambda_kpc: 2 }] as const)('a large tree run through the pool under %o is split across its free thread and ends bit-identical to a one-thread run', async (law) => {
   const spec = plummerRun(SPLIT_MIN_PARTICLES + 1, 6, { snapshotEvery: 2, diagnosticsEvery: 2, solver: { kind: 'tree', theta: 0.5 }, law });
-  const one = new RunPool(1), two = new RunPool(2);
+  const one = new RunPool(1), two = await warmPool(2);
   try {
     const alone = one.start(spec, () => undefined);
     const split = two.start(spec, () => undefined);
