@@ -171,6 +171,24 @@ describe('access follows the current role', () => {
     await new Promise((r) => setTimeout(r, 300));
     expect((await s.fakes.sink.messages()).length - before).toBe(3);
   });
+
+  test('invitations sent side by side cannot each see the room only one has: the limit holds under a race', async () => {
+    const { user, auth } = await userWithToken(s, 'instructor', 'guard-racer');
+    const em = s.em();
+    const cohort = await createCohort(em, await em.findOneOrFail(User, { id: user.id }), 'Guard race (invented)');
+    // Six requests of two mails each against the limit of five, half at each server.
+    const emails = (k: number) => [`race-${user.id}-${k}-a@infall.example`, `race-${user.id}-${k}-b@infall.example`];
+    const answers = await Promise.all(
+      Array.from({ length: 6 }, (_, k) => request(k % 2 ? otherServer() : server).post(`/api/cohorts/${cohort.id}/invitations`).set(auth).send({ emails: emails(k) })),
+    );
+    const accepted = answers.filter((a) => a.status === 202).length;
+    expect(answers.filter((a) => a.status !== 202).map((a) => a.status)).toEqual(Array(6 - accepted).fill(429));
+    // Each take is one step in Redis: the first two fit (four mails), every later one would pass five.
+    expect(accepted).toBe(2);
+    await new Promise((r) => setTimeout(r, 300));
+    const sent = (await s.fakes.sink.messages()).filter((m) => m.to.some((t) => t.startsWith(`race-${user.id}-`)));
+    expect(sent.length).toBe(2 * accepted);
+  });
 });
 
 describe('headers and logs', () => {
