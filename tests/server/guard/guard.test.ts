@@ -7,7 +7,8 @@ import { PassThrough } from 'node:stream';
 import request from 'supertest';
 import { config } from '../../../server/config';
 import { createApp } from '../../../server/app';
-import { openRunQueue } from '../../../server/queue';
+import { openRunQueue, redisConnection } from '../../../server/queue';
+import { Worker } from 'bullmq';
 import { createLogger } from '../../../server/http/headers';
 import { BODY_LIMITS } from '../../../server/http/body';
 import { Cohort, CohortMember, Run, User } from '../../../server/db/entities';
@@ -309,6 +310,34 @@ describe('health tells the truth', () => {
     // The beat sent when the thread was ended clears the quiet run at once.
     const after = await request(server).get('/api/health').set(auth).expect(200);
     expect(after.body.workers).toMatchObject({ quietRuns: 0, beats: [{ terminatedThreads: terminatedBefore + 1 }] });
+  });
+
+  test('a job that failed lately: 503 naming the jobs with the count; a run the queue holds no job for: counted as stuck', async () => {
+    const auth = await admin();
+    const researcher = await userWithToken(s, 'researcher', 'guard-stuck');
+    // Queued since long ago with no job behind it (the oldest stale row, so within the fifty read).
+    const em = s.em();
+    const stranded = em.create(Run, { id: crypto.randomUUID(), owner: researcher.user.id, name: 'stranded', spec: spec(), modelKind: 'plummer', lawKind: 'newton', particles: 500, steps: 250, costInteractions: 1e6, createdAt: new Date('2001-01-01T00:00:00Z') });
+    await em.flush();
+    // A job a worker gave up on: BullMQ's attempts used, failed in Redis.
+    const failing = new Worker(config.queueName, async () => {
+      throw new Error('a fault of the infrastructure');
+    }, { connection: redisConnection });
+    const failed = new Promise<void>((r) => failing.once('failed', () => r()));
+    await s.queue.add('run', { runId: crypto.randomUUID() }, { attempts: 1 });
+    await failed;
+    await failing.close();
+    try {
+      const full = await request(server).get('/api/health').set(auth).expect(503);
+      expect(full.body).toMatchObject({ status: 'unavailable', down: ['jobs'], jobs: { failedLast15Minutes: 1 } });
+      expect(full.body.jobs.failed).toBe(1);
+      expect(full.body.runs.stuck).toBeGreaterThanOrEqual(1);
+      expect((await request(server).get('/api/health').expect(503)).body).toEqual({ status: 'unavailable' });
+    } finally {
+      await s.queue.clean(0, 100, 'failed');
+      await s.em().nativeDelete(Run, { id: stranded.id });
+    }
+    expect((await request(server).get('/api/health').set(auth).expect(200)).body.jobs).toEqual({ failed: 0, failedLast15Minutes: 0 });
   });
 });
 
