@@ -131,6 +131,40 @@ describe('malformed ids', () => {
   });
 });
 
+describe('malformed ids on every route that takes one', () => {
+  // Every `/:id` route of the routers server/app.ts mounts, asked by an admin (who may see anything).
+  const routes: [string, string][] = [
+    ['get', '/api/runs/ID'], ['get', '/api/runs/ID/snapshots'], ['get', '/api/runs/ID/snapshots.h5'], ['get', '/api/runs/ID/events'],
+    ['post', '/api/runs/ID/cancel'], ['post', '/api/runs/ID/extend'],
+    ['get', '/api/cohorts/ID'], ['put', '/api/cohorts/ID/quota'], ['post', '/api/cohorts/ID/code'], ['get', '/api/cohorts/ID/members'],
+    ['post', '/api/cohorts/ID/invitations'], ['get', '/api/cohorts/ID/templates'], ['post', '/api/cohorts/ID/templates'],
+    ['get', '/api/templates/ID'], ['delete', '/api/templates/ID'],
+    ['get', '/api/galaxies/ID'], ['get', '/api/galaxies/ID/file'], ['post', '/api/galaxies/ID/fits'], ['post', '/api/galaxies/ID/runs'], ['patch', '/api/galaxies/ID'], ['delete', '/api/galaxies/ID'],
+    ['get', '/api/galaxy-samples/ID'],
+    ['get', '/api/admin/users/ID'], ['patch', '/api/admin/users/ID'], ['put', '/api/admin/users/ID/allocation'],
+  ];
+  const ids = ['zzzzzzzz-zzzz-zzzz-zzzz-zzzzzzzzzzzz', '00000000-0000-0000-0000-00000000000g', '1e3', '-1', '99999999999', '0x10', '%00', 'x'.repeat(300)];
+
+  test('get 404 NOT_FOUND, never a 500', async () => {
+    const { auth } = await userWithToken(s, 'admin', 'guard-id-sweep');
+    const answers: string[] = [];
+    for (const [method, route] of routes) {
+      for (const id of ids) {
+        const res = await (request(server) as unknown as Record<string, (p: string) => request.Test>)[method](route.replace('ID', encodeURIComponent(id))).set(auth).send({});
+        answers.push(`${method} ${route} ${id.slice(0, 40)}: ${res.status} ${res.body?.error?.code ?? ''}`);
+      }
+    }
+    // Tokens are revoked from a signed-in session only (a token cannot revoke tokens).
+    const agent = request.agent(server);
+    const { csrfToken } = await signIn(agent, 'guard-id-sweep-session');
+    for (const id of ids) {
+      const res = await agent.delete(`/api/tokens/${encodeURIComponent(id)}`).set('X-CSRF-Token', csrfToken);
+      answers.push(`delete /api/tokens/ID ${id.slice(0, 40)}: ${res.status} ${res.body?.error?.code ?? ''}`);
+    }
+    expect(answers.filter((a) => !a.endsWith(': 404 NOT_FOUND'))).toEqual([]);
+  });
+});
+
 describe('access follows the current role', () => {
   test('a demoted instructor can no longer manage their cohort', async () => {
     const { user, auth } = await userWithToken(s, 'instructor', 'guard-demoted');
