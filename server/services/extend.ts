@@ -3,7 +3,7 @@ import type { Queue } from 'bullmq';
 import { ApiError } from '../errors';
 import { Run, RunCheckpoint, type User } from '../db/entities';
 import { extendRunBodySchema } from '../../shared/api/requests';
-import { estimateInteractions, parseRunSpec, stepCount } from '../../shared/spec';
+import { estimateInteractions, parseRunSpec, stepCount, issuePath } from '../../shared/spec';
 import type { RunJobData } from '../queue';
 import { canManageRun } from './access';
 import { admitRuns } from './admission';
@@ -20,7 +20,7 @@ export async function extendRun(em: EntityManager, queue: Queue<RunJobData>, use
   const parsed = extendRunBodySchema.safeParse(body);
   if (!parsed.success) {
     const issue = parsed.error.issues[0];
-    const field = issue.path.join('.') || 'body';
+    const field = issuePath(issue) || 'body';
     throw new ApiError('BAD_REQUEST', `${field}: ${issue.message}`, { field });
   }
   if (run.status !== 'finished') throw new ApiError('CONFLICT', `Run is ${run.status}; only a finished run can be extended`);

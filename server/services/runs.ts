@@ -5,7 +5,7 @@ import { ApiError, withTimeout } from '../errors';
 import { config } from '../config';
 import { Run, RunOutput, RunSnapshot, type Galaxy, type User } from '../db/entities';
 import { lawName, modelName } from '../../shared/engine';
-import { parseRunSpec, particleCount, stepCount, estimateInteractions, type RunSpec } from '../../shared/spec';
+import { parseRunSpec, particleCount, stepCount, estimateInteractions, type RunSpec, issuePath } from '../../shared/spec';
 import { submitRunBodySchema, type ListRunsQuery } from '../../shared/api/requests';
 import type { RunDetail, RunProgress, RunSummary } from '../../shared/api/contract';
 import { encodeSnapshots, type ParticleParts } from '../../shared/api/snapshots';
@@ -40,7 +40,7 @@ export function specsFromBody(body: unknown): { name: string; specs: RunSpec[] }
   const parsed = submitRunBodySchema.safeParse(body);
   if (!parsed.success) {
     const issue = parsed.error.issues[0];
-    const field = issue.path.join('.') || 'body';
+    const field = issuePath(issue) || 'body';
     throw new ApiError('BAD_REQUEST', `${field}: ${issue.message}`, { field });
   }
   const spec = parseRunSpec(parsed.data.spec);

@@ -109,7 +109,12 @@ describe('one request cannot freeze anything', () => {
   test('unknown spec fields get 400 naming them, and degenerate parameters name the field', async () => {
     const { auth } = await userWithToken(s, 'researcher', 'guard-spec');
     const unknown = await request(server).post('/api/runs').set(auth).send({ spec: { ...spec(), colour: 'red' } }).expect(400);
-    expect(unknown.body.error).toMatchObject({ code: 'INVALID_SPEC', message: expect.stringMatching(/colour/) });
+    expect(unknown.body.error).toMatchObject({ code: 'INVALID_SPEC', field: 'spec.colour', message: expect.stringMatching(/colour/) });
+    const nested = await request(server).post('/api/runs').set(auth).send({ spec: { ...spec(), model: { ...spec().model, spin: 2 } } }).expect(400);
+    expect(nested.body.error).toMatchObject({ code: 'INVALID_SPEC', field: 'spec.model.spin' });
+    // Beside the spec too: the body's own unknown field is named.
+    const beside = await request(server).post('/api/runs').set(auth).send({ spec: spec(), priority: 'high' }).expect(400);
+    expect(beside.body.error).toMatchObject({ code: 'BAD_REQUEST', field: 'priority' });
     const trunc = await request(server)
       .post('/api/runs')
       .set(auth)
