@@ -4,7 +4,8 @@ import type { Queue } from 'bullmq';
 import type { Redis } from 'ioredis';
 import type { Request, RequestHandler } from 'express';
 import { config } from '../config';
-import { ApiError, withTimeout } from '../errors';
+import { ApiError } from '../errors';
+import { queueCall } from '../queue';
 
 // Limits per client address on the two doors a stranger can knock on: starting a
 // sign-in, and presenting an API token. The sign-in limit lives in the server's memory;
@@ -38,16 +39,7 @@ function redisCounter(queue: Queue, name: string, windowMs: number) {
       throw e;
     });
   const bounded = <T>(work: (s: RedisStore, client: Redis) => Promise<T>) =>
-    withTimeout(
-      // BullMQ's connection is an ioredis client underneath its narrower interface.
-      queue.getBackend().client.then((c) => {
-        const client = c as unknown as Redis;
-        if (client.status !== 'ready') throw new Error('Redis is not connected');
-        return store(client).then((s) => work(s, client));
-      }),
-      'The queue',
-      config.serviceTimeoutMs,
-    ).catch((e: unknown) => {
+    queueCall(queue, (client) => store(client).then((s) => work(s, client))).catch((e: unknown) => {
       throw e instanceof ApiError ? e : new ApiError('UNAVAILABLE', 'The queue is not answering; try again shortly');
     });
   return {
