@@ -18,7 +18,7 @@ export interface ProcessorDeps {
   onEnded?: (runId: string) => Promise<void>;
   /** Checkpoint cadence (see config.resilience); off when absent. */
   checkpointEvery?: { steps: number; ms: number };
-  /** How long a result write is retried while PostgreSQL is away (default 120 s). */
+  /** How long a run's end (results or failure) is retried while PostgreSQL is away (default 120 s). */
   storeRetryMs?: number;
 }
 
