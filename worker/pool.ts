@@ -1,5 +1,4 @@
 import fs from 'node:fs';
-import os from 'node:os';
 import path from 'node:path';
 import { MessageChannel } from 'node:worker_threads';
 import { buildSync } from 'esbuild';
@@ -53,18 +52,26 @@ export const splits = (spec: RunSpec): boolean => particleCount(spec) >= SPLIT_M
 
 let threadScript: string | undefined;
 /**
- * task.ts and everything it imports as one JavaScript file, built once per process, which the
- * threads load as plain JavaScript. A thread that loaded tsx instead would start an esbuild
- * service process of its own, which nobody reaps once piscina ends the thread (idle timeout,
- * watchdog): a zombie process per thread ended.
+ * task.ts and everything it imports as one JavaScript file, which the threads load as plain
+ * JavaScript. A thread that loaded tsx instead would start an esbuild service process of its own,
+ * which nobody reaps once piscina ends the thread (idle timeout, watchdog): a zombie process per
+ * thread ended. Built once per process and named by its content, so processes of the same sources
+ * share one file and a killed process leaves nothing new behind.
  */
 function bundledTask(): string {
   if (threadScript) return threadScript;
-  const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'infall-threads-'));
-  const outfile = path.join(dir, 'task.js');
-  buildSync({ entryPoints: [path.join(__dirname, 'task.ts')], outfile, bundle: true, platform: 'node', format: 'cjs', target: 'node20', logLevel: 'error' });
-  process.once('exit', () => fs.rmSync(dir, { recursive: true, force: true }));
-  return (threadScript = outfile);
+  const [out] = buildSync({ entryPoints: [path.join(__dirname, 'task.ts')], bundle: true, platform: 'node', format: 'cjs', target: 'node20', write: false, logLevel: 'error' }).outputFiles;
+  // Beside the installed packages, where only their owner writes (a shared /tmp would let others put code there).
+  const dir = path.join(__dirname, '..', 'node_modules', '.cache', 'infall-threads');
+  const file = path.join(dir, `task-${out.hash}.js`);
+  if (!fs.existsSync(file)) {
+    fs.mkdirSync(dir, { recursive: true });
+    // Whole or absent: another process may be writing the same bytes.
+    const part = `${file}.${process.pid}`;
+    fs.writeFileSync(part, out.contents);
+    fs.renameSync(part, file);
+  }
+  return (threadScript = file);
 }
 
 /**
