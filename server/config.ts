@@ -86,7 +86,7 @@ function resilienceConfig() {
     maxStalls: count('INFALL_WORKER_MAX_STALLS', 2),
     // The reconciler's period; it also runs when a worker starts.
     reconcileSeconds: count('INFALL_RECONCILE_SECONDS', 60),
-    // How long a worker keeps retrying a result write while PostgreSQL is away.
+    // How long a worker keeps retrying a run's end (its results, or its failure) while PostgreSQL is away.
     storeRetrySeconds: count('INFALL_STORE_RETRY_SECONDS', 120),
   };
 }

@@ -1,12 +1,32 @@
 import { Queue, QueueEvents, QueueEventsProducer, type ConnectionOptions } from 'bullmq';
 import { EventEmitter } from 'node:events';
+import type { Redis } from 'ioredis';
 import { config } from './config';
+import { ApiError, withTimeout } from './errors';
 import type { RunProgress } from '../shared/api/contract';
 
 // BullMQ keeps handed-in ioredis clients open, so it gets options, not clients.
 export const redisConnection: ConnectionOptions = { host: config.redis.host, port: config.redis.port, password: config.redis.password, maxRetriesPerRequest: null };
 
 export const RUN_ATTEMPTS = 3;
+
+/**
+ * A queue call a request waits on. While the connection to Redis is down it is refused at once
+ * (ioredis would hold the command until Redis is back); otherwise it gets the service timeout.
+ * Either way the request answers 503 naming the queue.
+ */
+export function queueCall<T>(queue: Queue, work: (client: Redis) => Promise<T>): Promise<T> {
+  return withTimeout(
+    // BullMQ's connection is an ioredis client underneath its narrower interface.
+    queue.getBackend().client.then((c) => {
+      const client = c as unknown as Redis;
+      if (client.status !== 'ready') throw new ApiError('UNAVAILABLE', 'The queue is not answering; try again shortly');
+      return work(client);
+    }),
+    'The queue',
+    config.serviceTimeoutMs,
+  );
+}
 
 export interface RunJobData {
   runId: string;

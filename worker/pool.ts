@@ -1,5 +1,7 @@
+import fs from 'node:fs';
 import path from 'node:path';
 import { MessageChannel } from 'node:worker_threads';
+import { buildSync } from 'esbuild';
 import { Piscina } from 'piscina';
 import type { RunCheckpoint, RunResult } from '../shared/engine';
 import { estimateInteractions, particleCount, type RunSpec } from '../shared/spec';
@@ -48,6 +50,30 @@ export const SPLIT_MIN_PARTICLES = 1500;
  */
 export const splits = (spec: RunSpec): boolean => particleCount(spec) >= SPLIT_MIN_PARTICLES || Boolean(lawModule(spec.law.kind).grid);
 
+let threadScript: string | undefined;
+/**
+ * task.ts and everything it imports as one JavaScript file, which the threads load as plain
+ * JavaScript. A thread that loaded tsx instead would start an esbuild service process of its own,
+ * which nobody reaps once piscina ends the thread (idle timeout, watchdog): a zombie process per
+ * thread ended. Built once per process and named by its content, so processes of the same sources
+ * share one file and a killed process leaves nothing new behind.
+ */
+function bundledTask(): string {
+  if (threadScript) return threadScript;
+  const [out] = buildSync({ entryPoints: [path.join(__dirname, 'task.ts')], bundle: true, platform: 'node', format: 'cjs', target: 'node20', write: false, logLevel: 'error' }).outputFiles;
+  // Beside the installed packages, where only their owner writes (a shared /tmp would let others put code there).
+  const dir = path.join(__dirname, '..', 'node_modules', '.cache', 'infall-threads');
+  const file = path.join(dir, `task-${out.hash}.js`);
+  if (!fs.existsSync(file)) {
+    fs.mkdirSync(dir, { recursive: true });
+    // Whole or absent: another process may be writing the same bytes.
+    const part = `${file}.${process.pid}`;
+    fs.writeFileSync(part, out.contents);
+    fs.renameSync(part, file);
+  }
+  return (threadScript = file);
+}
+
 /**
  * A pool of threads, each integrating one run at a time. A large direct-sum
  * or tree run that starts while threads are free also gets those threads as helpers
@@ -65,13 +91,12 @@ export class RunPool {
 
   constructor(private readonly threads: number) {
     this.pool = new Piscina({
-      filename: path.join(__dirname, 'task.ts'),
+      filename: bundledTask(),
       minThreads: 1,
       maxThreads: threads,
       // Threads beyond the first stay a while, so the next split run finds its helpers warm.
       idleTimeout: 60_000,
-      // The .ts task file needs the tsx loader in threads started outside tsx (e.g. Jest).
-      execArgv: process.execArgv.some((a) => a.includes('tsx')) ? process.execArgv : ['--import', 'tsx'],
+      execArgv: [],
     });
   }
 

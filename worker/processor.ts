@@ -18,7 +18,7 @@ export interface ProcessorDeps {
   onEnded?: (runId: string) => Promise<void>;
   /** Checkpoint cadence (see config.resilience); off when absent. */
   checkpointEvery?: { steps: number; ms: number };
-  /** How long a result write is retried while PostgreSQL is away (default 120 s). */
+  /** How long a run's end (results or failure) is retried while PostgreSQL is away (default 120 s). */
   storeRetryMs?: number;
 }
 
@@ -100,13 +100,14 @@ export function runProcessor({ orm, pool, onEnded, checkpointEvery, storeRetryMs
       void isCancelRequested(orm.em.fork(), runId).then((yes) => yes && handle.cancel(), () => undefined);
     }, CANCEL_POLL_MS);
 
+    // Whether the run's end is already in the database (a write whose answer was lost may have landed).
+    const ended = async () => {
+      const row = await orm.em.fork().findOne(Run, { id: runId }, { fields: ['status'], disableIdentityMap: true });
+      return row !== null && row.status !== 'running';
+    };
     try {
       const result = await handle.result;
       await writing;
-      const ended = async () => {
-        const row = await orm.em.fork().findOne(Run, { id: runId }, { fields: ['status'], disableIdentityMap: true });
-        return row !== null && row.status !== 'running';
-      };
       // PostgreSQL may be away for a while: the finished result waits for it rather than being lost.
       await retrying(`storing run ${runId}`, storeRetryMs, async () => {
         if (newest) await saveCheckpoint(orm.em.fork(), runId, newest); // the state an extension starts from
@@ -126,7 +127,8 @@ export function runProcessor({ orm, pool, onEnded, checkpointEvery, storeRetryMs
         return { status: 'cancelled' };
       }
       const reason = err instanceof Error ? err.message : String(err);
-      await markFailed(orm.em.fork(), runId, `The engine stopped with an error: ${reason}`);
+      // Waits for PostgreSQL like a result does: a failed job would be computed again only to fail again.
+      await retrying(`marking run ${runId} failed`, storeRetryMs, () => markFailed(orm.em.fork(), runId, `The engine stopped with an error: ${reason}`), ended);
       return { status: 'failed' };
     } finally {
       clearInterval(poll);

@@ -4,12 +4,21 @@ import type { Queue } from 'bullmq';
 import type { Redis } from 'ioredis';
 import type { Request, RequestHandler } from 'express';
 import { config } from '../config';
-import { ApiError, withTimeout } from '../errors';
+import { ApiError } from '../errors';
+import { queueCall } from '../queue';
 
 // Limits per client address on the two doors a stranger can knock on: starting a
 // sign-in, and presenting an API token. The sign-in limit lives in the server's memory;
 // refused tokens and mail are counted in Redis, so every server process shares one count.
 export const LIMIT_WINDOW_MS = 10 * 60_000;
+
+/** KEYS[1] the count; ARGV n, limit, window (ms). The window starts with the first hit, as RedisStore's. */
+const TAKE_SCRIPT = `
+local used = tonumber(redis.call('GET', KEYS[1]) or '0')
+if used + tonumber(ARGV[1]) > tonumber(ARGV[2]) then return {0, used} end
+redis.call('INCRBY', KEYS[1], ARGV[1])
+if redis.call('PTTL', KEYS[1]) < 0 then redis.call('PEXPIRE', KEYS[1], ARGV[3]) end
+return {1, used}`;
 
 /**
  * A count in Redis over the queue's own connection, each key forgotten a window after its
@@ -18,32 +27,34 @@ export const LIMIT_WINDOW_MS = 10 * 60_000;
  * fails at once (503 naming the queue) rather than waiting out the service timeout.
  */
 function redisCounter(queue: Queue, name: string, windowMs: number) {
+  const prefix = `infall:${config.queueName}:limit:${name}:`;
   let ready: Promise<RedisStore> | null = null;
   const store = (client: Redis) =>
     (ready ??= (async () => {
-      const s = new RedisStore({ prefix: `infall:${config.queueName}:limit:${name}:`, sendCommand: (command, ...args) => client.call(command, ...args) as Promise<never> });
+      const s = new RedisStore({ prefix, sendCommand: (command, ...args) => client.call(command, ...args) as Promise<never> });
       await s.init({ windowMs } as Options);
       return s;
     })()).catch((e: unknown) => {
       ready = null;
       throw e;
     });
-  const bounded = <T>(work: (s: RedisStore) => Promise<T>) =>
-    withTimeout(
-      // BullMQ's connection is an ioredis client underneath its narrower interface.
-      queue.getBackend().client.then((c) => {
-        const client = c as unknown as Redis;
-        if (client.status !== 'ready') throw new Error('Redis is not connected');
-        return store(client).then(work);
-      }),
-      'The queue',
-      config.serviceTimeoutMs,
-    ).catch((e: unknown) => {
+  const bounded = <T>(work: (s: RedisStore, client: Redis) => Promise<T>) =>
+    queueCall(queue, (client) => store(client).then((s) => work(s, client))).catch((e: unknown) => {
       throw e instanceof ApiError ? e : new ApiError('UNAVAILABLE', 'The queue is not answering; try again shortly');
     });
   return {
     hits: (key: string) => bounded((s) => s.get(key)).then((info) => info?.totalHits ?? 0),
     add: (key: string) => bounded((s) => s.increment(key)).then(() => undefined),
+    /**
+     * Adds `n` hits in one step if the count stays within `limit`, else none; resolves with the
+     * count found and whether they were added. One script, so side-by-side takers (at any
+     * server) cannot each see room that only one of them has.
+     */
+    take: (key: string, n: number, limit: number) =>
+      bounded(async (_s, client) => {
+        const [added, used] = (await client.eval(TAKE_SCRIPT, 1, `${prefix}${key}`, n, limit, windowMs)) as [number, number];
+        return { added: added === 1, used };
+      }),
   };
 }
 
@@ -87,12 +98,10 @@ export function mailLimiter(queue: Queue, limit = config.auth.mailLimit): { take
   return {
     // With Redis away the count is unknown and nothing is sent: 503 naming the queue.
     take: async (userId, mails) => {
-      const key = `user:${userId}`;
-      const used = await count.hits(key);
-      if (used + mails > limit) {
+      const { added, used } = await count.take(`user:${userId}`, mails, limit);
+      if (!added) {
         throw new ApiError('RATE_LIMITED', `At most ${limit} e-mails an hour per person; ${Math.max(0, limit - used)} left this hour, this request would send ${mails}`);
       }
-      for (let i = 0; i < mails; i++) await count.add(key);
     },
   };
 }

@@ -1,12 +1,13 @@
 import type { z } from 'zod';
 import { ApiError } from '../errors';
+import { issuePath } from '../../shared/spec';
 
 /** Parses a body or query with its shared schema; the first problem becomes a 400 naming the field. */
 export function parseInput<S extends z.ZodType>(schema: S, data: unknown): z.infer<S> {
   const parsed = schema.safeParse(data ?? {});
   if (parsed.success) return parsed.data;
   const issue = parsed.error.issues[0];
-  const field = issue.path.join('.') || 'body';
+  const field = issuePath(issue) || 'body';
   throw new ApiError('BAD_REQUEST', `${field}: ${issue.message}`, { field });
 }
 

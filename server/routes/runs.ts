@@ -4,6 +4,7 @@ import type { EntityManager } from '@mikro-orm/postgresql';
 import { requireUser } from '../auth/guards';
 import { ApiError } from '../errors';
 import { listRunsQuerySchema } from '../../shared/api/requests';
+import { issuePath } from '../../shared/spec';
 import { FINAL_STATUSES, type RunEventName } from '../../shared/api/contract';
 import { Run } from '../db/entities';
 import { SNAPSHOT_WIRE_FORMAT } from '../../shared/api/snapshots';
@@ -26,7 +27,7 @@ export function runsRouter({ queue, signals, orm }: Deps): Router {
     const q = listRunsQuerySchema.safeParse(req.query);
     if (!q.success) {
       const issue = q.error.issues[0];
-      throw new ApiError('BAD_REQUEST', `${issue.path.join('.')}: ${issue.message}`, { field: issue.path.join('.') });
+      throw new ApiError('BAD_REQUEST', `${issuePath(issue)}: ${issue.message}`, { field: issuePath(issue) });
     }
     res.json({ runs: await listRuns(em(), req.user!, q.data) });
   });

@@ -3,8 +3,8 @@ import type { Queue } from 'bullmq';
 import { ApiError } from '../errors';
 import { Run, RunCheckpoint, type User } from '../db/entities';
 import { extendRunBodySchema } from '../../shared/api/requests';
-import { estimateInteractions, parseRunSpec, stepCount } from '../../shared/spec';
-import type { RunJobData } from '../queue';
+import { estimateInteractions, parseRunSpec, stepCount, issuePath } from '../../shared/spec';
+import { queueCall, type RunJobData } from '../queue';
 import { canManageRun } from './access';
 import { admitRuns } from './admission';
 
@@ -20,7 +20,7 @@ export async function extendRun(em: EntityManager, queue: Queue<RunJobData>, use
   const parsed = extendRunBodySchema.safeParse(body);
   if (!parsed.success) {
     const issue = parsed.error.issues[0];
-    const field = issue.path.join('.') || 'body';
+    const field = issuePath(issue) || 'body';
     throw new ApiError('BAD_REQUEST', `${field}: ${issue.message}`, { field });
   }
   if (run.status !== 'finished') throw new ApiError('CONFLICT', `Run is ${run.status}; only a finished run can be extended`);
@@ -39,6 +39,8 @@ export async function extendRun(em: EntityManager, queue: Queue<RunJobData>, use
   if (steps <= run.steps) throw new ApiError('BAD_REQUEST', `more_Myr: ${parsed.data.more_Myr} Myr adds no whole step of ${spec.timestep_Myr} Myr`, { field: 'more_Myr' });
   const extra = estimateInteractions(spec) - estimateInteractions(run.spec);
 
+  // The queue must answer before anything is stored, as for a submission.
+  await queueCall(queue, (c) => c.get('infall:ping'));
   await em.transactional(async (tx) => {
     // Locked and checked again, so two extensions at once cannot both pass.
     const row = await tx.findOneOrFail(Run, { id: run.id }, { lockMode: LockMode.PESSIMISTIC_WRITE });
@@ -54,7 +56,9 @@ export async function extendRun(em: EntityManager, queue: Queue<RunJobData>, use
     row.cancelRequested = false;
   });
   // The finished job keeps the run's id in the queue; it makes way for the new one.
-  await (await queue.getJob(run.id))?.remove();
-  await queue.add('run', { runId: run.id }, { jobId: run.id });
+  await queueCall(queue, async () => {
+    await (await queue.getJob(run.id))?.remove();
+    await queue.add('run', { runId: run.id }, { jobId: run.id });
+  });
   return em.findOneOrFail(Run, { id: run.id }, { populate: ['owner'], refresh: true });
 }

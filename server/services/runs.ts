@@ -1,15 +1,14 @@
 import { randomUUID } from 'node:crypto';
 import type { EntityManager } from '@mikro-orm/postgresql';
 import type { Queue } from 'bullmq';
-import { ApiError, withTimeout } from '../errors';
-import { config } from '../config';
+import { ApiError } from '../errors';
 import { Run, RunOutput, RunSnapshot, type Galaxy, type User } from '../db/entities';
 import { lawName, modelName } from '../../shared/engine';
-import { parseRunSpec, particleCount, stepCount, estimateInteractions, type RunSpec } from '../../shared/spec';
+import { parseRunSpec, particleCount, stepCount, estimateInteractions, type RunSpec, issuePath } from '../../shared/spec';
 import { submitRunBodySchema, type ListRunsQuery } from '../../shared/api/requests';
 import type { RunDetail, RunProgress, RunSummary } from '../../shared/api/contract';
 import { encodeSnapshots, type ParticleParts } from '../../shared/api/snapshots';
-import type { RunJobData } from '../queue';
+import { queueCall, type RunJobData } from '../queue';
 import { visibleRunsFilter, canSeeRun, canManageRun } from './access';
 import { admitRuns } from './admission';
 import { refundUncomputed } from './quotas';
@@ -40,7 +39,7 @@ export function specsFromBody(body: unknown): { name: string; specs: RunSpec[] }
   const parsed = submitRunBodySchema.safeParse(body);
   if (!parsed.success) {
     const issue = parsed.error.issues[0];
-    const field = issue.path.join('.') || 'body';
+    const field = issuePath(issue) || 'body';
     throw new ApiError('BAD_REQUEST', `${field}: ${issue.message}`, { field });
   }
   const spec = parseRunSpec(parsed.data.spec);
@@ -88,7 +87,7 @@ export function toSummary(run: Run): RunSummary {
 export async function submitRuns(em: EntityManager, queue: Queue<RunJobData>, user: User, body: unknown, origin: { galaxy?: number } = {}): Promise<RunSummary[]> {
   const { name, specs } = specsFromBody(body);
   // The queue must answer before anything is stored: with Redis away the request gets 503 and nothing is charged.
-  await withTimeout(queue.getBackend().client.then((c) => c.get('infall:ping')), 'The queue', config.serviceTimeoutMs);
+  await queueCall(queue, (c) => c.get('infall:ping'));
   const pairId = specs.length > 1 ? randomUUID() : null;
   const runs = await em.transactional(async (tx) => {
     const costs = specs.map((s) => estimateInteractions(s));
@@ -110,7 +109,7 @@ export async function submitRuns(em: EntityManager, queue: Queue<RunJobData>, us
     );
   });
   // Job ids are run ids, so a later add of the same run (after a timeout here) is a no-op.
-  await withTimeout(queue.addBulk(runs.map((r) => ({ name: 'run', data: { runId: r.id }, opts: { jobId: r.id } }))), 'The queue', config.serviceTimeoutMs);
+  await queueCall(queue, () => queue.addBulk(runs.map((r) => ({ name: 'run', data: { runId: r.id }, opts: { jobId: r.id } }))));
   await em.populate(runs, ['owner']);
   return runs.map(toSummary);
 }
@@ -160,7 +159,7 @@ export async function runDetail(em: EntityManager, run: Run): Promise<RunDetail>
 
 /** The progress samples a running run has reported so far (kept on its job until it ends). */
 export async function progressSoFar(queue: Queue<RunJobData>, runId: string): Promise<RunProgress[]> {
-  const { logs } = await queue.getJobLogs(runId, 0, -1, true);
+  const { logs } = await queueCall(queue, () => queue.getJobLogs(runId, 0, -1, true));
   return logs.map((row) => JSON.parse(row) as RunProgress);
 }
 
@@ -203,11 +202,7 @@ export async function cancelRun(em: EntityManager, queue: Queue<RunJobData>, use
   if (run.status === 'queued') {
     // remove() fails when a worker has just locked the job; then the worker sees the flag.
     // With the queue away the flag is kept too: whichever worker later takes the job ends it.
-    const removed = await withTimeout(
-      queue.getJob(run.id).then((job) => (job ? job.remove().then(() => true, () => false) : true)),
-      'The queue',
-      config.serviceTimeoutMs,
-    ).catch(() => false);
+    const removed = await queueCall(queue, () => queue.getJob(run.id).then((job) => (job ? job.remove().then(() => true, () => false) : true))).catch(() => false);
     if (removed) {
       refundUncomputed(em, run, 0);
       run.status = 'cancelled';

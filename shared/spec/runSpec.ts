@@ -99,12 +99,18 @@ export type { LawSpec, LawKind, LawSpecInput } from '../engine/laws/registry';
 
 export type SpecIssue = { path: string; message: string };
 
+/** Where an input's problem is, dotted; one unknown key is named in the path too, so the field points at it. */
+export function issuePath(issue: z.core.$ZodIssue): string {
+  const keys = issue.code === 'unrecognized_keys' && issue.keys.length === 1 ? issue.keys : [];
+  return [...issue.path, ...keys].map(String).join('.');
+}
+
 export function parseRunSpec(input: unknown): { ok: true; spec: RunSpec } | { ok: false; issues: SpecIssue[] } {
   const result = runSpecSchema.safeParse(input);
   if (result.success) return { ok: true, spec: result.data };
   return {
     ok: false,
-    issues: result.error.issues.map((i) => ({ path: i.path.map(String).join('.') || '(spec)', message: i.message })),
+    issues: result.error.issues.map((i) => ({ path: issuePath(i) || '(spec)', message: i.message })),
   };
 }
 

@@ -305,3 +305,27 @@ test('a run taken by a worker while PostgreSQL is down fails its job; once the d
   await expectSameAsUninterrupted(id, runSimulation(spec));
   expect((await ledger()) - before).toBe(run.costInteractions);
 });
+
+test('a run that fails while PostgreSQL is away is marked failed once it is back: computed once, its reason kept, the uncomputed part refunded', async () => {
+  // 30,000 particles by direct sum: the set-up's force and energy sums take seconds, then the first
+  // step, far too long, blows the run up (drift checked every step). The database goes in between.
+  const spec: RunSpec = { ...base, seed: 18, model: { ...base.model, n: 30_000 } as RunSpec['model'], softening_kpc: 0.01, timestep_Myr: 500, duration_Myr: 5000, snapshotEvery: 10, diagnosticsEvery: 1 };
+  const w = startProcess('worker/index.ts', WORKER_ENV);
+  await w.waitFor(/taking runs/);
+  const before = await ledger();
+  const id = await submit(spec, 'fails during an outage');
+  await poll('running', () => runRow(id), (r) => r.status === 'running', 60_000);
+  postgres.stop();
+  try {
+    // The failure met the outage: the worker retries the write (or, failing the job, says so).
+    await w.waitFor(new RegExp(`marking run ${id} failed failed|job ${id} failed`), 120_000);
+  } finally {
+    postgres.start();
+  }
+  const run = await finalRun(id);
+  expect(run.status).toBe('failed');
+  expect(run.error).toMatch(/^The engine stopped with an error: the run blew up: .* by step 1 /);
+  // The job was started once: the failure waited for the database instead of failing the job.
+  expect((await stack.queue.getJob(id))!.attemptsStarted).toBe(1);
+  expect((await ledger()) - before).toBe(run.costInteractions - Math.floor(run.costInteractions * (1 - run.progress)));
+});

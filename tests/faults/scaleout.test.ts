@@ -1,6 +1,6 @@
 // Two server processes and two worker processes on one PostgreSQL and one Redis: they share the
-// queue and the event fan-out, no run is computed twice and every watcher hears every end,
-// whichever server it is connected to.
+// queue and the event fan-out, no run is computed twice and every watcher hears every progress
+// event and every end, whichever server it is connected to.
 import http from 'node:http';
 import net from 'node:net';
 import { openTestStack, uniqueLogin, type TestStack } from '../support/stack';
@@ -41,19 +41,23 @@ function request(port: number, method: string, path: string, body?: unknown): Pr
   });
 }
 
-/** Resolves with the status of the stream's `end` event (null if it closed without one). */
-function watchEnd(port: number, runId: string): Promise<string | null> {
+/** Resolves with the status of the stream's `end` event (null if it closed without one) and the progress it carried (step, percent). */
+function watchStream(port: number, runId: string): Promise<{ end: string | null; progress: [number, number][] }> {
   return new Promise((resolve, reject) => {
     http
       .get({ host: '127.0.0.1', port, path: `/api/runs/${runId}/events`, headers: { Authorization: `Bearer ${secret}` } }, (res) => {
         let text = '';
         res.setEncoding('utf8');
         res.on('data', (c) => (text += c));
-        res.on('end', () => resolve(/event: end\ndata: \{"status":"(\w+)"/.exec(text)?.[1] ?? null));
+        res.on('end', () => {
+          const progress = [...text.matchAll(/^id: (\d+)\nevent: progress\ndata: (.*)$/gm)].map((m): [number, number] => [Number(m[1]), JSON.parse(m[2]).percent]);
+          resolve({ end: /event: end\ndata: \{"status":"(\w+)"/.exec(text)?.[1] ?? null, progress });
+        });
       })
       .on('error', reject);
   });
 }
+const watchEnd = (port: number, runId: string) => watchStream(port, runId).then((w) => w.end);
 
 beforeAll(async () => {
   stack = await openTestStack();
@@ -76,7 +80,7 @@ afterAll(async () => {
   await stack.close();
 });
 
-test('runs submitted to one server are shared by two workers, computed once each, and every watcher on either server hears each end', async () => {
+test('runs submitted to one server are shared by two workers, computed once each, and every watcher on either server hears each progress event and each end', async () => {
   const [a, b] = servers;
   const base = defaultRunSpec();
   const spec = (seed: number): RunSpec => ({ ...base, seed, model: { ...base.model, n: 300 } as RunSpec['model'], duration_Myr: 40 });
@@ -96,12 +100,20 @@ test('runs submitted to one server are shared by two workers, computed once each
     expect(res.status).toBe(201);
     ids.push(res.json.runs[0].id);
   }
-  // Every run watched on both servers before any worker starts, so no end can come before its watcher.
-  const ends = ids.flatMap((id) => [watchEnd(a.port, id), watchEnd(b.port, id)]);
+  // Every run watched on both servers before any worker starts, so no event can come before its watcher.
+  const streams = ids.map((id) => Promise.all([watchStream(a.port, id), watchStream(b.port, id)]));
   await new Promise((r) => setTimeout(r, 500));
   const workers = [0, 1].map(() => startProcess('worker/index.ts', { INFALL_WORKER_THREADS: '1' }));
 
-  expect(await Promise.all(ends)).toEqual(ids.flatMap(() => ['finished', 'finished']));
+  const heard = await Promise.all(streams);
+  expect(heard.flatMap((pair) => pair.map((w) => w.end))).toEqual(ids.flatMap(() => ['finished', 'finished']));
+  // No event lost: both servers carried each run's progress, the same steps in the same order, up to 100 %.
+  for (const [onA, onB] of heard) {
+    expect(onA.progress.length).toBeGreaterThan(1);
+    expect(onB.progress).toEqual(onA.progress);
+    expect(onA.progress.every(([step], k) => k === 0 || step > onA.progress[k - 1][0])).toBe(true);
+    expect(onA.progress[onA.progress.length - 1][1]).toBe(100);
+  }
   const rows = await stack.orm.em.fork().find(Run, { id: { $in: ids } });
   expect(rows.every((r) => r.status === 'finished')).toBe(true);
   // Each job was started once: no run was computed by both workers.

@@ -46,6 +46,10 @@ test('a small load run: cookie and token reads, event-stream watchers and parall
     expect(list.errors).toBe(0);
     expect(list.non2xx).toBe(0);
     expect(list.requestsPerSecond).toBeGreaterThan(0);
+    // Percentiles of the answers' own times, in order (no figure stands in for another).
+    expect(Number.isFinite(list.p50)).toBe(true);
+    expect(list.p50).toBeLessThanOrEqual(list.p95);
+    expect(list.p95).toBeLessThanOrEqual(list.p99);
   }
   expect(report.watchers).toMatchObject({ opened: 12, errors: 0, sawEnd: 12 });
   expect(report.submissions).toMatchObject({ accepted: 12, refused: 0, errors: 0, notFinal: 0 });

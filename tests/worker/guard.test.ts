@@ -1,5 +1,6 @@
 // A hung run thread is terminated and the pool goes on; a job BullMQ gives up on fails
 // its run for good with the reason. Real piscina threads, real BullMQ on Redis, real PostgreSQL.
+import { execFileSync } from 'node:child_process';
 import { Worker } from 'bullmq';
 import { openTestStack, uniqueLogin, type TestStack } from '../support/stack';
 import { config } from '../../server/config';
@@ -27,7 +28,7 @@ function plummer(n: number, steps: number): RunSpec {
   return r.spec;
 }
 
-test('a thread that sends no progress within its limit is terminated; the run fails with the reason and the pool takes the next run', async () => {
+test('a thread that sends no progress within its limit is terminated; the run fails with the reason, the pool takes the next run, and no ended thread leaves a zombie process', async () => {
   const pool = new RunPool(1);
   try {
     // 30,000 particles: the first progress report waits for the initial energy, about 4.5e8
@@ -41,6 +42,11 @@ test('a thread that sends no progress within its limit is terminated; the run fa
   } finally {
     await pool.close();
   }
+  // Neither the terminated thread nor the ones the close ended left a process behind: a thread
+  // that loaded tsx left its esbuild service as a zombie each time (seen before threads ran the bundle).
+  await new Promise((r) => setTimeout(r, 500));
+  const children = execFileSync('ps', ['-o', 'stat=,args=', '--ppid', String(process.pid)], { encoding: 'utf8' }).trim().split('\n');
+  expect(children.filter((line) => line.startsWith('Z'))).toEqual([]);
 });
 
 test('a run cancelled while its huge model is still being set up stops by itself, before the first force sum, without the watchdog', async () => {

@@ -121,6 +121,32 @@ test('a cancel request stops a running run and marks it cancelled', async () => 
   expect(net).toBeLessThan(run.costInteractions);
 });
 
+test('a run that blows up is stored failed with the engine\'s named cause (not finished), no results, and the steps it did not compute refunded', async () => {
+  // A Kepler pair at eccentricity 0.99 and a step of a fifth of its period: leapfrog throws the
+  // bodies apart at pericentre within a few steps (common practice: ~100 steps per period at least).
+  const spec: RunSpec = {
+    ...defaultRunSpec(),
+    model: { kind: 'kepler', mass1_Msun: 1e10, mass2_Msun: 1e10, semiMajorAxis_kpc: 1, eccentricity: 0.99 },
+    softening_kpc: 0,
+    timestep_Myr: 1,
+    duration_Myr: 200,
+    snapshotEvery: 10,
+    diagnosticsEvery: 1,
+  } as RunSpec;
+  const charged = await ledgerTotal();
+  const [summary] = await submitRuns(stack.orm.em.fork(), stack.queue, user, { name: 'blows up', spec });
+  await waitForEnd(summary.id);
+  const check = stack.orm.em.fork();
+  const run = await check.findOneOrFail(Run, { id: summary.id });
+  expect(run.status).toBe('failed');
+  // The cause named is the step (the spec earned the coarse-step warning). Under Jest the thread's
+  // error comes from another realm and reads with its class name in front.
+  expect(run.error).toMatch(/^The engine stopped with an error: (Error: )?the run blew up: the energy changed by .* by step \d+ .*; timestep_Myr is too long/);
+  expect(await check.count(RunOutput, { run: summary.id })).toBe(0);
+  expect((await ledgerTotal()) - charged).toBe(run.costInteractions - Math.floor(run.costInteractions * (1 - run.progress)));
+  expect(run.progress).toBeLessThan(1);
+});
+
 test('a worker that stops hands its running run back to the queue at once, and the next worker runs it from the start to the end', async () => {
   await worker.close(); // this test brings its own two workers, one after the other
   const base = defaultRunSpec();
