@@ -1,6 +1,7 @@
 import { Children, Fragment, isValidElement, useEffect, useState, type ReactElement, type ReactNode } from 'react';
 import { Pressable, StyleSheet, TextInput, View } from 'react-native';
 import { colors, fonts, radius, space, type as sizes } from '../constants/theme';
+import { NAME_MAX_LENGTH, nameProblem } from '../shared/spec';
 import { formatBound, formatInput } from './format';
 import { numberOfText, parseNumberText } from './numberText';
 import { Txt } from './Txt';
@@ -110,6 +111,16 @@ export function TextField({ label, value, onChange, placeholder, hint, error, te
       </View>
     </FieldFrame>
   );
+}
+
+/**
+ * A name a person gives (a run, template, cohort, galaxy or API token): the shared length limit in
+ * the hint, a name over it marked here as it is typed, and `error` (the server's refusal of this
+ * field, see `fieldError`) shown here too rather than away from the field.
+ */
+export function NameField({ label, value, onChange, placeholder, hint, error, testID }: { label: string; value: string; onChange: (v: string) => void; placeholder?: string; hint?: string; error?: string; testID?: string }) {
+  const limit = `Up to ${NAME_MAX_LENGTH} characters.`;
+  return <TextField label={label} value={value} onChange={onChange} placeholder={placeholder} hint={hint ? `${limit} ${hint}` : limit} error={nameProblem(value) ?? error} testID={testID} />;
 }
 
 export interface Choice<T extends string | number> {

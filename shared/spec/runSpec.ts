@@ -16,15 +16,20 @@ export const RUN_SPEC_VERSION = 2 as const;
 
 export { LIMITS } from './limits';
 
-/** The one length limit for run and template names; the API, the form, the CLI and templates all use it. */
+/**
+ * The one length limit for every name a person gives (runs, templates, cohorts, galaxies, API
+ * tokens): the API, the forms and the CLI all check names with `nameSchema`.
+ */
 export const NAME_MAX_LENGTH = 120;
-export const runNameSchema = z
-  .string()
-  .trim()
-  .min(1, 'name must not be empty')
-  .max(NAME_MAX_LENGTH, `name is at most ${NAME_MAX_LENGTH} characters`)
-  .describe('free label for the run')
-  .meta({ title: 'Name' });
+export const nameSchema = z.string().trim().min(1, 'name must not be empty').max(NAME_MAX_LENGTH, `name is at most ${NAME_MAX_LENGTH} characters`);
+export const runNameSchema = nameSchema.describe('free label for the run').meta({ title: 'Name' });
+
+/** What is wrong with a typed name, in the schema's words, or undefined; empty is the caller's business. */
+export function nameProblem(text: string): string | undefined {
+  if (!text.trim()) return undefined;
+  const r = nameSchema.safeParse(text);
+  return r.success ? undefined : r.error.issues[0].message;
+}
 
 export { solverSchema } from './solver';
 export { modelSchema } from '../engine/models/registry';
