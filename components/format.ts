@@ -25,11 +25,12 @@ function trimmedExponent(v: number, digits = 7): string {
   return `${Number(m)}e${Number(e)}`;
 }
 
-/** A range limit: 100 000, 1e15, 1.2e-10, 0.5. */
+/** A range limit: 100 000, 1e15, 1.2e-10, 0.5, and a whole limit no shorter form holds exactly: 4 294 967 295. */
 export function formatBound(v: number): string {
   if (!Number.isFinite(v)) return notFinite(v);
   const a = Math.abs(v);
-  if (Number.isInteger(v) && a < 1e9) return formatCount(v);
+  // A limit shown rounded would refuse, in words, a value the schema takes (the seed's 4294967295 as 4.294967e9).
+  if (Number.isInteger(v) && (a < 1e9 || (Number.isSafeInteger(v) && Number(trimmedExponent(v)) !== v))) return formatCount(v);
   if (a >= 1e5 || (a > 0 && a < 1e-3)) return trimmedExponent(v);
   return String(v);
 }
