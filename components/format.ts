@@ -1,3 +1,4 @@
+import { groupDigits } from '../shared/spec/limits';
 
 // How numbers, counts and ages read across the app. Every helper takes any number, finite
 // or not, and any string for dates, without throwing: a stored run with extreme or missing
@@ -46,7 +47,7 @@ export function formatInput(v: number | undefined): string {
 export function formatCount(n: number): string {
   if (!Number.isFinite(n)) return notFinite(n);
   if (Math.abs(n) >= 1e21) return trimmedExponent(n);
-  return Math.round(n).toString().replace(/\B(?=(\d{3})+(?!\d))/g, '\u2009');
+  return groupDigits(n);
 }
 
 /** Pair interactions in words people can compare: 3.2 M, 1.5 G. */
