@@ -1,6 +1,6 @@
-import type { Browser, Locator, Page } from 'playwright-core';
+import type { Browser, Locator } from 'playwright-core';
 import { NAME_MAX_LENGTH } from '../../shared/spec';
-import { fullShot, launch, newContext, signIn, type ViewportName } from './support/browser';
+import { fullShot, launch, newContext, signIn, typeInto, type ViewportName } from './support/browser';
 
 // Words at the field, at phone and desk widths: a cross-field refusal typed key by key reads as a
 // sentence with units under the field it marks, names of every kind share one limit and are refused
@@ -15,13 +15,6 @@ beforeAll(async () => {
 afterAll(async () => {
   await browser?.close();
 });
-
-async function typeInto(page: Page, field: Locator, text: string): Promise<void> {
-  await field.click();
-  await page.keyboard.press('ControlOrMeta+A');
-  await page.keyboard.press('Backspace');
-  await field.pressSequentially(text, { delay: 20 });
-}
 
 /** The alert shown in a field's own frame (label, input row, message). */
 const alertOf = (field: Locator) => field.locator('xpath=../..').getByRole('alert');
