@@ -35,6 +35,12 @@ export function describeError(error: unknown): string {
   return 'Something went wrong.';
 }
 
+/** The words of an API refusal of `field` (without the "field: " the API puts first), to show at that field; undefined for any other error. */
+export function fieldError(error: unknown, field: string): string | undefined {
+  if (!(error instanceof ApiError) || error.field !== field) return undefined;
+  return error.message.startsWith(`${field}: `) ? error.message.slice(field.length + 2) : error.message;
+}
+
 /** An error with its message and, when it can help, a retry. */
 export function ErrorState({ error, title = 'That did not work', onRetry }: { error: unknown; title?: string; onRetry?: () => void }) {
   const message = describeError(error);

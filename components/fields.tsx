@@ -1,6 +1,7 @@
 import { Children, Fragment, isValidElement, useEffect, useState, type ReactElement, type ReactNode } from 'react';
 import { Pressable, StyleSheet, TextInput, View } from 'react-native';
 import { colors, fonts, radius, space, type as sizes } from '../constants/theme';
+import { NAME_MAX_LENGTH, nameProblem } from '../shared/spec';
 import { formatBound, formatInput } from './format';
 import { numberOfText, parseNumberText } from './numberText';
 import { Txt } from './Txt';
@@ -112,6 +113,16 @@ export function TextField({ label, value, onChange, placeholder, hint, error, te
   );
 }
 
+/**
+ * A name a person gives (a run, template, cohort, galaxy or API token): the shared length limit in
+ * the hint, a name over it marked here as it is typed, and `error` (the server's refusal of this
+ * field, see `fieldError`) shown here too rather than away from the field.
+ */
+export function NameField({ label, value, onChange, placeholder, hint, error, testID }: { label: string; value: string; onChange: (v: string) => void; placeholder?: string; hint?: string; error?: string; testID?: string }) {
+  const limit = `Up to ${NAME_MAX_LENGTH} characters.`;
+  return <TextField label={label} value={value} onChange={onChange} placeholder={placeholder} hint={hint ? `${limit} ${hint}` : limit} error={nameProblem(value) ?? error} testID={testID} />;
+}
+
 export interface Choice<T extends string | number> {
   value: T;
   label: string;
@@ -193,11 +204,12 @@ const styles = StyleSheet.create({
   input: { flex: 1, minWidth: 0, color: colors.text, fontFamily: fonts.mono, fontSize: sizes.body, paddingHorizontal: space.md, paddingVertical: space.sm, outlineStyle: 'none' } as object,
   unit: { fontFamily: fonts.mono, fontSize: sizes.small, paddingRight: space.md },
   chips: { flexDirection: 'row', flexWrap: 'wrap', gap: space.sm },
-  chip: { borderWidth: 1, borderColor: colors.borderStrong, borderRadius: radius.pill, paddingHorizontal: space.md, minHeight: 36, justifyContent: 'center', backgroundColor: colors.surfaceRaised },
+  // A long label (a run's name) wraps inside its chip instead of running past the panel.
+  chip: { borderWidth: 1, borderColor: colors.borderStrong, borderRadius: radius.pill, paddingHorizontal: space.md, minHeight: 36, justifyContent: 'center', backgroundColor: colors.surfaceRaised, maxWidth: '100%' },
   chipCompact: { minHeight: 30, paddingHorizontal: space.sm },
   chipOn: { backgroundColor: colors.accent, borderColor: colors.accent },
   chipPressed: { opacity: 0.8 },
-  chipText: { fontFamily: fonts.bodySemi, fontSize: sizes.small },
+  chipText: { fontFamily: fonts.bodySemi, fontSize: sizes.small, flexShrink: 1 },
   toggleRow: { flexDirection: 'row', alignItems: 'center', gap: space.md, minHeight: 44 },
   track: { width: 42, height: 24, borderRadius: 12, backgroundColor: colors.surfaceRaised, borderWidth: 1, borderColor: colors.borderStrong, padding: 2 },
   trackOn: { backgroundColor: colors.accent, borderColor: colors.accent },

@@ -1,3 +1,4 @@
+import { groupDigits } from '../shared/spec/limits';
 
 // How numbers, counts and ages read across the app. Every helper takes any number, finite
 // or not, and any string for dates, without throwing: a stored run with extreme or missing
@@ -25,11 +26,12 @@ function trimmedExponent(v: number, digits = 7): string {
   return `${Number(m)}e${Number(e)}`;
 }
 
-/** A range limit: 100 000, 1e15, 1.2e-10, 0.5. */
+/** A range limit: 100 000, 1e15, 1.2e-10, 0.5, and a whole limit no shorter form holds exactly: 4 294 967 295. */
 export function formatBound(v: number): string {
   if (!Number.isFinite(v)) return notFinite(v);
   const a = Math.abs(v);
-  if (Number.isInteger(v) && a < 1e9) return formatCount(v);
+  // A limit shown rounded would refuse, in words, a value the schema takes (the seed's 4294967295 as 4.294967e9).
+  if (Number.isInteger(v) && (a < 1e9 || (Number.isSafeInteger(v) && Number(trimmedExponent(v)) !== v))) return formatCount(v);
   if (a >= 1e5 || (a > 0 && a < 1e-3)) return trimmedExponent(v);
   return String(v);
 }
@@ -45,7 +47,7 @@ export function formatInput(v: number | undefined): string {
 export function formatCount(n: number): string {
   if (!Number.isFinite(n)) return notFinite(n);
   if (Math.abs(n) >= 1e21) return trimmedExponent(n);
-  return Math.round(n).toString().replace(/\B(?=(\d{3})+(?!\d))/g, '\u2009');
+  return groupDigits(n);
 }
 
 /** Pair interactions in words people can compare: 3.2 M, 1.5 G. */

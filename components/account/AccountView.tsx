@@ -7,12 +7,13 @@ import { useAccountSettings, useCreateToken, useRevokeToken, useTokens, useUpdat
 import { useCohorts, useJoinCohort, useTemplates } from '../../hooks/cohorts';
 import { useSession } from '../../hooks/session';
 import { Button } from '../Button';
-import { ChoiceChips, TextField, Toggle } from '../fields';
+import { ChoiceChips, NameField, TextField, Toggle } from '../fields';
 import { formatAge, formatCount, formatExpiry, formatInteractions } from '../format';
 import { Panel } from '../Panel';
 import { ProgressBar } from '../RunCard';
 import { Screen } from '../Screen';
-import { describeError, Empty, ErrorState, Loading, Notice } from '../States';
+import { describeError, Empty, ErrorState, fieldError, Loading, Notice } from '../States';
+import { nameProblem } from '../../shared/spec';
 import { Txt } from '../Txt';
 import { Fact } from '../run/RunFacts';
 import { DEFAULT_TOKEN_LIFETIME_DAYS, TOKEN_LIFETIME_CHOICES_DAYS } from '../../shared/api/accounts';
@@ -81,12 +82,12 @@ function TokensPanel() {
     <Panel title="Personal API tokens" note="For scripts: send “Authorization: Bearer <token>”. A token acts as you, within your quota.">
       <View style={styles.inline}>
         <View style={{ flex: 1, minWidth: 200 }}>
-          <TextField label="New token name" value={name} onChange={setName} placeholder="e.g. laptop notebook" testID="token-name" />
+          <NameField label="New token name" value={name} onChange={setName} placeholder="e.g. laptop notebook" error={fieldError(create.error, 'name')} testID="token-name" />
         </View>
-        <Button label="Create token" disabled={!name.trim()} busy={create.isPending} onPress={() => create.mutate({ name: name.trim(), expiresInDays: lifetime }, { onSuccess: () => setName('') })} />
+        <Button label="Create token" disabled={!name.trim() || Boolean(nameProblem(name))} busy={create.isPending} onPress={() => create.mutate({ name: name.trim(), expiresInDays: lifetime }, { onSuccess: () => setName('') })} />
       </View>
       <ChoiceChips label="Valid for" value={lifetime} onChange={setLifetime} compact choices={TOKEN_LIFETIME_CHOICES_DAYS.map((d) => ({ value: d, label: d === 365 ? '1 year' : `${d} days`, note: 'After this the token stops working; make a new one then.' }))} />
-      {create.isError ? <Notice tone="danger">{describeError(create.error)}</Notice> : null}
+      {create.isError && !fieldError(create.error, 'name') ? <Notice tone="danger">{describeError(create.error)}</Notice> : null}
       {create.data ? (
         <Notice tone="ok">
           <Txt variant="small" color={colors.text}>

@@ -6,12 +6,13 @@ import { useCohort, useCohortMembers, useCohortTemplates, useInvite, useNewEnrol
 import { useRuns } from '../../hooks/runs';
 import { useSession } from '../../hooks/session';
 import { Button } from '../Button';
-import { ChoiceChips, TextField } from '../fields';
+import { ChoiceChips, NameField, TextField } from '../fields';
 import { formatAge, formatInteractions } from '../format';
 import { Panel } from '../Panel';
 import { ProgressBar, RunCard } from '../RunCard';
 import { Screen } from '../Screen';
-import { describeError, Empty, ErrorState, Loading, Notice } from '../States';
+import { describeError, Empty, ErrorState, fieldError, Loading, Notice } from '../States';
+import { nameProblem } from '../../shared/spec';
 import { Txt } from '../Txt';
 import { QuotaEditor } from './QuotaEditor';
 
@@ -85,14 +86,14 @@ function Templates({ id }: { id: number }) {
       {mine.data && mine.data.length ? (
         <>
           <ChoiceChips compact value={runId} onChange={setRunId} choices={mine.data.slice(0, 12).map((r) => ({ value: r.id, label: r.name }))} />
-          <TextField label="Template name" value={name} onChange={setName} placeholder={source?.name ?? 'e.g. Disk under halo vs MOND'} />
+          <NameField label="Template name" value={name} onChange={setName} placeholder={source?.name ?? 'e.g. Disk under halo vs MOND'} hint="Left empty, the run's name." error={fieldError(publish.error, 'name')} testID="template-name" />
           <TextField label="What students should look at" value={description} onChange={setDescription} placeholder="optional" />
-          {publish.isError ? <Notice tone="danger">{describeError(publish.error)}</Notice> : null}
+          {publish.isError && !fieldError(publish.error, 'name') ? <Notice tone="danger">{describeError(publish.error)}</Notice> : null}
           {publish.isSuccess ? <Notice tone="ok">Published.</Notice> : null}
           <Button
             small
             label="Publish template"
-            disabled={!runId || !(name.trim() || source?.name)}
+            disabled={!runId || !(name.trim() || source?.name) || Boolean(nameProblem(name))}
             busy={publish.isPending}
             onPress={() => publish.mutate({ runId, name: name.trim() || source!.name, description: description.trim() })}
             style={{ alignSelf: 'flex-start' }}

@@ -5,13 +5,14 @@ import { useCohorts, useCreateCohort } from '../../hooks/cohorts';
 import { useSession } from '../../hooks/session';
 import { isStaff } from '../lib/roles';
 import { Button } from '../Button';
-import { TextField } from '../fields';
+import { NameField } from '../fields';
 import { formatCount, formatInteractions } from '../format';
 import { Panel } from '../Panel';
 import { Screen } from '../Screen';
-import { describeError, Empty, ErrorState, Loading, Notice } from '../States';
+import { describeError, Empty, ErrorState, fieldError, Loading, Notice } from '../States';
 import { Txt } from '../Txt';
 import { bytesText } from '../../shared/api/quotaWords';
+import { nameProblem } from '../../shared/spec';
 
 /** The cohorts an instructor runs (all of them, for an admin), and a new one. */
 export function CohortsView() {
@@ -25,11 +26,11 @@ export function CohortsView() {
         <Panel title="New cohort" note="It starts with the default student quota; change it on the cohort's page.">
           <View style={styles.inline}>
             <View style={{ flex: 1, minWidth: 220 }}>
-              <TextField label="Name" value={name} onChange={setName} placeholder="e.g. Galactic dynamics, spring (invented)" testID="cohort-name" />
+              <NameField label="Name" value={name} onChange={setName} placeholder="e.g. Galactic dynamics, spring (invented)" error={fieldError(create.error, 'name')} testID="cohort-name" />
             </View>
-            <Button label="Create" disabled={!name.trim()} busy={create.isPending} onPress={() => create.mutate({ name: name.trim() }, { onSuccess: () => setName('') })} />
+            <Button label="Create" disabled={!name.trim() || Boolean(nameProblem(name))} busy={create.isPending} onPress={() => create.mutate({ name: name.trim() }, { onSuccess: () => setName('') })} />
           </View>
-          {create.isError ? <Notice tone="danger">{describeError(create.error)}</Notice> : null}
+          {create.isError && !fieldError(create.error, 'name') ? <Notice tone="danger">{describeError(create.error)}</Notice> : null}
         </Panel>
       ) : null}
       {cohorts.isPending ? (

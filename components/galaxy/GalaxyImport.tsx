@@ -9,12 +9,13 @@ import { COLUMN_KEYS, parseRotationCurve, readTableCells, TableError, type Colum
 import { galaxyMappingSchema, type GalaxyMapping, type GalaxyVisibility } from '../../shared/api/galaxies';
 import type { UploadLimits } from '../../shared/api/accounts';
 import { Button } from '../Button';
-import { ChoiceChips, FieldRow, NumberField, TextField } from '../fields';
+import { ChoiceChips, FieldRow, NameField, NumberField } from '../fields';
 import { formatCount, formatValue } from '../format';
 import { LinePlot } from '../LinePlot';
 import { Panel } from '../Panel';
 import { Screen } from '../Screen';
-import { describeError, ErrorState, Loading, Notice } from '../States';
+import { describeError, ErrorState, fieldError, Loading, Notice } from '../States';
+import { nameProblem } from '../../shared/spec';
 import { Txt } from '../Txt';
 import { dataSeries } from './series';
 
@@ -173,7 +174,7 @@ function ImportForm({ limits }: { limits: UploadLimits }) {
 
       {file ? (
         <Panel title="4 · Name and sharing">
-          <TextField label="Name" value={name} onChange={setName} placeholder="e.g. an invented dwarf" error={name.trim().length > 80 ? 'at most 80 characters' : undefined} testID="galaxy-name" />
+          <NameField label="Name" value={name} onChange={setName} placeholder="e.g. an invented dwarf" error={fieldError(upload.error, 'name')} testID="galaxy-name" />
           <ChoiceChips
             label="Who sees it"
             value={visibility}
@@ -188,8 +189,8 @@ function ImportForm({ limits }: { limits: UploadLimits }) {
           {visibility === 'cohort' && cohorts.data?.length ? (
             <ChoiceChips label="Cohort" value={chosenCohort ?? 0} onChange={setCohortId} compact choices={cohorts.data.map((c) => ({ value: c.id, label: c.name }))} />
           ) : null}
-          <Button label="Upload" disabled={!reading?.curve || !name.trim() || name.trim().length > 80} busy={upload.isPending} onPress={send} testID="galaxy-upload" />
-          {upload.isError ? <Notice tone="danger">{describeError(upload.error)}</Notice> : null}
+          <Button label="Upload" disabled={!reading?.curve || !name.trim() || Boolean(nameProblem(name))} busy={upload.isPending} onPress={send} testID="galaxy-upload" />
+          {upload.isError && !fieldError(upload.error, 'name') ? <Notice tone="danger">{describeError(upload.error)}</Notice> : null}
         </Panel>
       ) : null}
     </>

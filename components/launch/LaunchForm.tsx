@@ -1,6 +1,6 @@
 import { StyleSheet, View, useWindowDimensions } from 'react-native';
 import { useRouter } from 'expo-router';
-import { NAME_MAX_LENGTH, type LawSpec, type RunSpecInput } from '../../shared/spec';
+import type { LawSpec, RunSpecInput } from '../../shared/spec';
 import { colors, space, WIDE_BREAKPOINT } from '../../constants/theme';
 import { ApiError } from '../lib/api';
 import { useRunDraft } from '../../hooks/runDraft';
@@ -8,7 +8,7 @@ import { defaultPairLaw, modelModule } from '../../shared/engine';
 import { useSubmitRun } from '../../hooks/runs';
 import { useUsage } from '../../hooks/account';
 import { Button } from '../Button';
-import { ChoiceChips, FieldRow, TextField, Toggle } from '../fields';
+import { ChoiceChips, FieldRow, NameField, Toggle } from '../fields';
 import { Panel } from '../Panel';
 import { Screen } from '../Screen';
 import { describeError, Notice } from '../States';
@@ -86,7 +86,7 @@ export function LaunchForm({ start }: { start?: LaunchStart }) {
   const formColumn = (
     <View style={styles.column}>
       <Panel title="Name">
-        <TextField label="Run name (optional)" value={form.name} onChange={form.setName} placeholder="e.g. disk, halo vs MOND" hint={`Up to ${NAME_MAX_LENGTH} characters. Left empty, the name says the model and law.`} error={issues.name} testID="field-name" />
+        <NameField label="Run name (optional)" value={form.name} onChange={form.setName} placeholder="e.g. disk, halo vs MOND" hint="Left empty, the name says the model and law." error={issues.name} testID="field-name" />
       </Panel>
       <Panel title="Initial conditions">
         <ModelEditor draft={draft} set={set} issues={issues} pairLaw={form.pairLaw} />

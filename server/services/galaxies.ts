@@ -266,7 +266,7 @@ export async function runsFromGalaxy(em: EntityManager, queue: Queue<RunJobData>
   const fit = record.results.laws.filter((l) => (wanted as readonly string[]).includes(l.law)).reduce((a, b) => (b.bic < a.bic ? b : a));
   let built;
   try {
-    built = galaxyRunSpec(fit, { ...choices, name: `${g.name} from its ${fit.law} fit` });
+    built = galaxyRunSpec(fit, { ...choices, name: `${g.name} from its fit under ${fit.label}` });
   } catch (err) {
     throw new ApiError('BAD_REQUEST', `This fit cannot start a run: ${err instanceof Error ? err.message : String(err)}`);
   }

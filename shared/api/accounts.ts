@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { runNameSchema } from '../spec/runSpec';
+import { nameSchema, runNameSchema } from '../spec/runSpec';
 import { LIMITS } from '../spec/runSpec';
 import { bytesText, groupDigits, interactionsText } from './quotaWords';
 
@@ -207,8 +207,6 @@ export const quotaLimitsSchema = z
   .strict();
 export type CohortQuotaBody = z.infer<typeof quotaLimitsSchema>;
 
-const name = (max: number) => z.string().trim().min(1, 'name must not be empty').max(max, `name is at most ${max} characters`);
-
 export const updateAccountBodySchema = z.object({ notifyOnFinish: z.boolean() }).strict();
 export type UpdateAccountBody = z.infer<typeof updateAccountBodySchema>;
 
@@ -219,13 +217,13 @@ export const MAX_TOKEN_LIFETIME_DAYS = 365;
 
 export const createTokenBodySchema = z
   .object({
-    name: name(60),
+    name: nameSchema,
     expiresInDays: z.number().int().min(1).max(MAX_TOKEN_LIFETIME_DAYS).default(DEFAULT_TOKEN_LIFETIME_DAYS),
   })
   .strict();
 export type CreateTokenBody = z.infer<typeof createTokenBodySchema>;
 
-export const createCohortBodySchema = z.object({ name: name(100), quota: quotaLimitsSchema.optional() }).strict();
+export const createCohortBodySchema = z.object({ name: nameSchema, quota: quotaLimitsSchema.optional() }).strict();
 export type CreateCohortBody = z.infer<typeof createCohortBodySchema>;
 
 // Codes are shown as XXXX-XXXX; people may type them in lower case or with spaces.

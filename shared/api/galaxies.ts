@@ -5,6 +5,7 @@ import type { Owner } from './contract';
 import type { UploadLimits } from './accounts';
 import { HALO_FITS } from '../galaxy/toRun';
 import { galaxyPairLaw } from '../engine/laws/registry';
+import { nameSchema } from '../spec/runSpec';
 
 // Galaxies: observed rotation curves uploaded as tables, who may see them, and the fits
 // requested on them. The upload is multipart (the file plus these fields as text).
@@ -49,7 +50,6 @@ export const galaxyMappingSchema = z
   .strict();
 export type GalaxyMapping = z.infer<typeof galaxyMappingSchema>;
 
-const galaxyName = z.string().trim().min(1, 'name must not be empty').max(80, 'name is at most 80 characters');
 
 /** JSON text in a multipart field, then its schema. */
 const jsonField = <S extends z.ZodType>(schema: S) =>
@@ -75,7 +75,7 @@ const visibilityFields = {
 /** The text fields of POST /api/galaxies (multipart, beside the file field `file`). */
 export const uploadGalaxyFieldsSchema = z
   .object({
-    name: galaxyName,
+    name: nameSchema,
     mapping: jsonField(galaxyMappingSchema).optional(),
     ...visibilityFields,
   })
@@ -84,7 +84,7 @@ export type UploadGalaxyFields = z.input<typeof uploadGalaxyFieldsSchema>;
 
 export const updateGalaxyBodySchema = z
   .object({
-    name: galaxyName.optional(),
+    name: nameSchema.optional(),
     // No default here: a rename leaves the sharing as it is.
     visibility: visibility.optional(),
     cohortId: z.number().int().positive().nullable().optional(),

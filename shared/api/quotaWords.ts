@@ -1,12 +1,10 @@
 import type { QuotaRefusal } from './accounts';
+import { groupDigits } from '../spec/limits';
+
+export { groupDigits };
 
 // Quota refusals as sentences, the same on the server (the QUOTA_EXCEEDED message) and in the
 // new-run form (before submitting): units, digits in groups, what to change.
-
-/** Whole counts in groups of three split by thin spaces: 5 000, 1 200 000. */
-export function groupDigits(n: number): string {
-  return Math.round(n).toString().replace(/\B(?=(\d{3})+(?!\d))/g, '\u2009');
-}
 
 /** Pair interactions: grouped digits up to a million, then three significant digits and a power of ten (1.42e11). */
 export function interactionsText(n: number): string {

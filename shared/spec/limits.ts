@@ -1,3 +1,8 @@
+/** Whole counts in groups of three split by thin spaces (5 000, 1 200 000): how limits and counts are worded to people. */
+export function groupDigits(n: number): string {
+  return Math.round(n).toString().replace(/\B(?=(\d{3})+(?!\d))/g, '\u2009');
+}
+
 /** Hard limits: the engine refuses anything beyond them. */
 export const LIMITS = {
   maxParticles: 100_000,

@@ -2,7 +2,7 @@ import { z } from 'zod';
 import { extraInteractions, lawSchema, referenceLaw } from '../engine/laws/registry';
 import { modelModule, modelModules, modelSchema } from '../engine/models/registry';
 import { SYSTEM_MODULES } from '../engine/models/systems';
-import { LIMITS } from './limits';
+import { groupDigits, LIMITS } from './limits';
 import { solverSchema } from './solver';
 
 /**
@@ -16,15 +16,20 @@ export const RUN_SPEC_VERSION = 2 as const;
 
 export { LIMITS } from './limits';
 
-/** The one length limit for run and template names; the API, the form, the CLI and templates all use it. */
+/**
+ * The one length limit for every name a person gives (runs, templates, cohorts, galaxies, API
+ * tokens): the API, the forms and the CLI all check names with `nameSchema`.
+ */
 export const NAME_MAX_LENGTH = 120;
-export const runNameSchema = z
-  .string()
-  .trim()
-  .min(1, 'name must not be empty')
-  .max(NAME_MAX_LENGTH, `name is at most ${NAME_MAX_LENGTH} characters`)
-  .describe('free label for the run')
-  .meta({ title: 'Name' });
+export const nameSchema = z.string().trim().min(1, 'name must not be empty').max(NAME_MAX_LENGTH, `name is at most ${NAME_MAX_LENGTH} characters`);
+export const runNameSchema = nameSchema.describe('free label for the run').meta({ title: 'Name' });
+
+/** What is wrong with a typed name, in the schema's words, or undefined; empty is the caller's business. */
+export function nameProblem(text: string): string | undefined {
+  if (!text.trim()) return undefined;
+  const r = nameSchema.safeParse(text);
+  return r.success ? undefined : r.error.issues[0].message;
+}
 
 export { solverSchema } from './solver';
 export { modelSchema } from '../engine/models/registry';
@@ -38,7 +43,7 @@ export { MIN_TRUNCATION_FRACTION } from '../engine/models/fields';
 
 export const runSpecSchema = z
   .strictObject({
-    version: z.union([z.literal(1), z.literal(RUN_SPEC_VERSION)]).describe('2 is current; 1 is read with its own default for equilibriumLaw'),
+    version: z.union([z.literal(1), z.literal(RUN_SPEC_VERSION)], `version must be ${RUN_SPEC_VERSION}, the current spec format (1 is still read)`).describe('2 is current; 1 is read with its own default for equilibriumLaw'),
     name: runNameSchema.optional(),
     model: modelSchema.meta({ title: 'Model' }),
     law: lawSchema.meta({ title: 'Force law' }),
@@ -56,28 +61,28 @@ export const runSpecSchema = z
     if (Number.isNaN(steps)) return; // the fields themselves are already reported
     if (!Number.isFinite(steps)) {
       // A subnormal timestep passes positive() but divides the duration into infinitely many steps.
-      ctx.addIssue({ code: 'custom', path: ['timestep_Myr'], message: `timestep_Myr ${spec.timestep_Myr} gives more than ${LIMITS.maxSteps} steps over duration_Myr` });
+      ctx.addIssue({ code: 'custom', path: ['timestep_Myr'], message: `Timestep Δt ${spec.timestep_Myr} Myr is too short: the duration would take more than ${groupDigits(LIMITS.maxSteps)} steps` });
       return;
     }
     if (steps > LIMITS.maxSteps) {
       ctx.addIssue({
         code: 'custom',
         path: ['duration_Myr'],
-        message: `duration_Myr / timestep_Myr gives ${steps} steps; at most ${LIMITS.maxSteps} are allowed`,
+        message: `Duration ${spec.duration_Myr} Myr at a timestep of ${spec.timestep_Myr} Myr takes ${groupDigits(steps)} steps; at most ${groupDigits(LIMITS.maxSteps)} are allowed: shorten the duration or lengthen the timestep`,
       });
     }
     if (Number.isInteger(spec.snapshotEvery) && Math.floor(steps / spec.snapshotEvery) + 1 > LIMITS.maxSnapshots) {
       ctx.addIssue({
         code: 'custom',
         path: ['snapshotEvery'],
-        message: `snapshotEvery ${spec.snapshotEvery} gives more than ${LIMITS.maxSnapshots} snapshots over ${steps} steps; use at least ${Math.ceil(steps / (LIMITS.maxSnapshots - 1))}`,
+        message: `A snapshot every ${groupDigits(spec.snapshotEvery)} steps gives more than ${groupDigits(LIMITS.maxSnapshots)} snapshots over ${groupDigits(steps)} steps: take one every ${groupDigits(Math.ceil(steps / (LIMITS.maxSnapshots - 1)))} steps or more`,
       });
     }
     if (spec.diagnosticsEvery !== undefined && Math.floor(steps / spec.diagnosticsEvery) + 1 > LIMITS.maxDiagnostics) {
       ctx.addIssue({
         code: 'custom',
         path: ['diagnosticsEvery'],
-        message: `diagnosticsEvery ${spec.diagnosticsEvery} gives more than ${LIMITS.maxDiagnostics} samples; use at least ${Math.ceil(steps / (LIMITS.maxDiagnostics - 1))}`,
+        message: `Diagnostics every ${groupDigits(spec.diagnosticsEvery)} steps gives more than ${groupDigits(LIMITS.maxDiagnostics)} samples over ${groupDigits(steps)} steps: take one every ${groupDigits(Math.ceil(steps / (LIMITS.maxDiagnostics - 1)))} steps or more`,
       });
     }
     // A model of unknown kind is already reported by the union.

@@ -64,6 +64,8 @@ describe('numbers as typed and as limits', () => {
     expect(formatInput(0.05)).toBe('0.05');
     expect(formatBound(100000)).toBe('100\u2009000');
     expect(formatBound(1e15)).toBe('1e15');
+    // The seed's upper limit, exactly: a rounded 4.294967e9 would read as refusing 4294967295.
+    expect(formatBound(4_294_967_295)).toBe('4\u2009294\u2009967\u2009295');
   });
 });
 

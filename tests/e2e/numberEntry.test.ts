@@ -1,5 +1,5 @@
-import type { Browser, Locator, Page } from 'playwright-core';
-import { baseUrl, fullShot, launch, newContext, signIn } from './support/browser';
+import type { Browser, Page } from 'playwright-core';
+import { baseUrl, fullShot, launch, newContext, signIn, typeInto } from './support/browser';
 
 // Numbers typed into the new-run form key by key on a phone, as a researcher would: scientific
 // notation, a leading point, a decimal comma that must be refused in words. The spec the browser
@@ -21,14 +21,6 @@ afterAll(async () => {
   await browser?.close();
 });
 
-/** Empties a field and types into it one key at a time. */
-async function typeInto(field: Locator, text: string): Promise<void> {
-  await field.click();
-  await page.keyboard.press('ControlOrMeta+A');
-  await page.keyboard.press('Backspace');
-  await field.pressSequentially(text, { delay: 30 });
-}
-
 describe('numbers typed key by key on a phone', () => {
   it('keeps 4e10, 1.2e-10 and .5 as typed, refuses 0,25 in words, and submits the typed values', async () => {
     await signIn(page, 'Teodora Vance', '/runs/new');
@@ -37,7 +29,7 @@ describe('numbers typed key by key on a phone', () => {
     // A phone gets a keyboard with letters, so "e" can be typed.
     expect(await mass.getAttribute('inputmode')).toBeNull();
 
-    await typeInto(mass, '4e');
+    await typeInto(page, mass, '4e');
     expect(await mass.inputValue()).toBe('4e');
     await page.getByText(/^Mass is not a number yet/).waitFor();
     expect(await mass.getAttribute('aria-invalid')).toBe('true');
@@ -45,22 +37,22 @@ describe('numbers typed key by key on a phone', () => {
     await mass.pressSequentially('10', { delay: 30 });
     expect(await mass.inputValue()).toBe('4e10');
 
-    await typeInto(page.getByTestId('field-model.scale_kpc'), '.5');
+    await typeInto(page, page.getByTestId('field-model.scale_kpc'), '.5');
 
     await page.getByTestId('law-first').getByRole('radio', { name: 'MOND (algebraic)' }).click();
     const a0 = page.getByTestId('field-law.a0_m_s2');
-    await typeInto(a0, '1.2e-10');
+    await typeInto(page, a0, '1.2e-10');
     expect(await a0.inputValue()).toBe('1.2e-10');
     await page.getByText('a₀', { exact: true }).waitFor();
 
     const softening = page.getByTestId('field-softening_kpc');
-    await typeInto(softening, '0,25');
+    await typeInto(page, softening, '0,25');
     expect(await softening.inputValue()).toBe('0,25');
     await page.getByText(/^Softening ε is not a number: use a point for decimals/).waitFor();
     expect(await page.getByTestId('launch').getAttribute('aria-disabled')).toBe('true');
     await fullShot(page, 'phone-number-entry-comma');
 
-    await typeInto(softening, '0.25');
+    await typeInto(page, softening, '0.25');
     await page.waitForFunction(() => document.querySelector('[data-testid="launch"]')?.getAttribute('aria-disabled') !== 'true');
     await fullShot(page, 'phone-number-entry');
 

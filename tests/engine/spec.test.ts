@@ -42,7 +42,27 @@ describe('run spec schema', () => {
     expect(unknown.ok).toBe(false);
     if (!unknown.ok) expect(unknown.issues[0].path).toBe('law.kind');
     const { version: _v, ...unversioned } = base();
-    expect(parseRunSpec(unversioned).ok).toBe(false);
+    const missing = parseRunSpec(unversioned);
+    expect(missing.ok).toBe(false);
+    if (!missing.ok) expect(missing.issues[0]).toEqual({ path: 'version', message: `version must be ${RUN_SPEC_VERSION}, the current spec format (1 is still read)` });
+  });
+
+  // These show under their field in the launch form and in API refusals: in words, with units and
+  // grouped digits, never a field's key (the API's `field` names the key).
+  test.each([
+    ['duration', { timestep_Myr: 0.001, duration_Myr: 1000 }, 'duration_Myr', 'Duration 1000 Myr at a timestep of 0.001 Myr takes 1\u2009000\u2009000 steps; at most 200\u2009000 are allowed: shorten the duration or lengthen the timestep'],
+    ['snapshots', { timestep_Myr: 0.1, duration_Myr: 1000, snapshotEvery: 1 }, 'snapshotEvery', 'A snapshot every 1 steps gives more than 1\u2009000 snapshots over 10\u2009000 steps: take one every 11 steps or more'],
+    ['diagnostics', { timestep_Myr: 0.1, duration_Myr: 1000, diagnosticsEvery: 2 }, 'diagnosticsEvery', 'Diagnostics every 2 steps gives more than 2\u2009000 samples over 10\u2009000 steps: take one every 6 steps or more'],
+    ['truncation', { model: { kind: 'plummer', n: 100, mass_Msun: 1e10, scale_kpc: 1, truncationRadius_kpc: 1.2e-10 } }, 'model.truncationRadius_kpc', 'Truncation radius 1.2e-10 kpc is below 1% of the scale radius (1 kpc): the model would hold almost none of its mass'],
+    ['halo truncation', { model: { kind: 'plummer', n: 100, mass_Msun: 1e10, scale_kpc: 1, halo: { profile: 'nfw', n: 100, mass_Msun: 1e11, scale_kpc: 15, truncationRadius_kpc: 0.1 } } }, 'model.halo.truncationRadius_kpc', "Truncation radius 0.1 kpc is below 1% of the halo's scale radius (15 kpc): the model would hold almost none of its mass"],
+    ['halo particles', { model: { kind: 'plummer', n: 60_000, mass_Msun: 1e10, scale_kpc: 1, halo: { profile: 'nfw', n: 50_000, mass_Msun: 1e11, scale_kpc: 15 } } }, 'model.halo.n', 'Particles N and halo particles together must be at most 100\u2009000'],
+    ['separation', { model: { kind: 'encounter', primary: { kind: 'plummer', n: 10, mass_Msun: 1e10, scale_kpc: 1 }, secondary: { kind: 'plummer', n: 10, mass_Msun: 1e10, scale_kpc: 1 }, pericentre_kpc: 5, initialSeparation_kpc: 0.5 } }, 'model.initialSeparation_kpc', 'Initial separation 0.5 kpc must be at least the pericentre (5 kpc)'],
+    ['encounter particles', { model: { kind: 'encounter', primary: { kind: 'plummer', n: 60_000, mass_Msun: 1e10, scale_kpc: 1 }, secondary: { kind: 'plummer', n: 50_000, mass_Msun: 1e10, scale_kpc: 1 }, pericentre_kpc: 5, initialSeparation_kpc: 20 } }, 'model.secondary.n', 'The two systems hold 110\u2009000 particles with their haloes; at most 100\u2009000 are allowed'],
+    ['disk parts', { model: { kind: 'disk', n: 2, mass_Msun: 1e10, scaleLength_kpc: 3, scaleHeight_kpc: 0.3, bulge: { mass_Msun: 1e9, scale_kpc: 0.5 }, gas: { mass_Msun: 1e9, scaleLength_kpc: 5, scaleHeight_kpc: 0.1 } } }, 'model.n', 'Particles N must be at least 3: one for each part (disk, bulge, gas)'],
+  ])('a cross-field refusal (%s) says it in words at its field', (_what, change, path, message) => {
+    const r = parseRunSpec({ ...base(), ...change });
+    expect(r.ok).toBe(false);
+    if (!r.ok) expect(r.issues).toContainEqual({ path, message });
   });
 
   test('too many snapshots are refused at snapshotEvery', () => {

@@ -68,11 +68,14 @@ test('a pair is built from the newest Newtonian fit as stated, charged, and reme
   const stored = (await s.em().findOneOrFail(GalaxyFit, { galaxy: privateId })).results;
   const halos = stored.laws.filter((l) => l.law === 'nfw' || l.law === 'isothermal');
   const best = halos.reduce((a, b) => (b.bic < a.bic ? b : a));
-  const expected = parseRunSpec(galaxyRunSpec(best, { name: `Invented run galaxy from its ${best.law} fit`, n: 400, duration_Myr: 20, timestep_Myr: 0.5, softening_kpc: 0.1, snapshotEvery: 10, seed: 1 }).spec);
+  const expected = parseRunSpec(galaxyRunSpec(best, { name: `Invented run galaxy from its fit under ${best.label}`, n: 400, duration_Myr: 20, timestep_Myr: 0.5, softening_kpc: 0.1, snapshotEvery: 10, seed: 1 }).spec);
   if (!expected.ok) throw new Error('the built spec does not parse');
   const rows = await s.em().find(Run, { pairId: runs[0].pairId }, { orderBy: { lawKind: 'asc' } });
   expect(rows.map((r) => (r.galaxy as Galaxy).id)).toEqual([privateId, privateId]);
   const [halo, mond] = rows;
+  // The name says the fit in words (its law's label), not the fit's id.
+  expect(halo.name.startsWith(`Invented run galaxy from its fit under ${best.label} · `)).toBe(true);
+  expect(halo.name).not.toContain(`${best.law} fit`);
   expect(halo.spec.model).toEqual(expected.spec.model);
   expect(halo.spec.law).toEqual(haloLawFromFit(best));
   expect(halo.spec.model).toMatchObject({ kind: 'disk', n: 400, bulge: { mass_Msun: expect.any(Number) } });

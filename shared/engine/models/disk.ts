@@ -489,13 +489,13 @@ export const diskModule = defineSystem({
   checkSystem(d, path, ctx) {
     checkSystem(d, 'scaleLength_kpc', path, ctx);
     const parts = 1 + (d.bulge ? 1 : 0) + (d.gas ? 1 : 0);
-    if (d.n < parts) ctx.addIssue({ code: 'custom', path: [...path, 'n'], message: `n must be at least ${parts}: one particle for each of disk, bulge and gas` });
+    if (d.n < parts) ctx.addIssue({ code: 'custom', path: [...path, 'n'], message: `Particles N must be at least ${parts}: one for each part (${['disk', d.bulge && 'bulge', d.gas && 'gas'].filter(Boolean).join(', ')})` });
     const rt = d.truncationRadius_kpc;
     if (d.gas && rt !== undefined && rt < MIN_TRUNCATION_FRACTION * d.gas.scaleLength_kpc) {
       ctx.addIssue({
         code: 'custom',
         path: [...path, 'truncationRadius_kpc'],
-        message: `truncationRadius_kpc ${rt} is below ${MIN_TRUNCATION_FRACTION} x gas.scaleLength_kpc (${d.gas.scaleLength_kpc}); the gas disk would hold almost none of its mass`,
+        message: `Truncation radius ${rt} kpc is below ${MIN_TRUNCATION_FRACTION * 100}% of the gas disk's scale length (${d.gas.scaleLength_kpc} kpc): the gas disk would hold almost none of its mass`,
       });
     }
   },

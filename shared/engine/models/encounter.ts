@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { LIMITS } from '../../spec/limits';
+import { groupDigits, LIMITS } from '../../spec/limits';
 import { allocateParticles, type ParticleState } from '../state';
 import { G } from '../units';
 import { length } from './fields';
@@ -102,10 +102,10 @@ export const encounterModule = defineModel({
     for (const k of MEMBERS) if (e[k]) systemModule(e[k].kind).checkSystem(e[k], [...path, k], ctx);
     if (!e.primary || !e.secondary) return;
     if (particlesOf(e.primary) + particlesOf(e.secondary) > LIMITS.maxParticles) {
-      ctx.addIssue({ code: 'custom', path: [...path, 'secondary', 'n'], message: `primary.n + secondary.n (haloes included) must be at most ${LIMITS.maxParticles}` });
+      ctx.addIssue({ code: 'custom', path: [...path, 'secondary', 'n'], message: `The two systems hold ${groupDigits(particlesOf(e.primary) + particlesOf(e.secondary))} particles with their haloes; at most ${groupDigits(LIMITS.maxParticles)} are allowed` });
     }
     if (e.initialSeparation_kpc < e.pericentre_kpc) {
-      ctx.addIssue({ code: 'custom', path: [...path, 'initialSeparation_kpc'], message: 'initialSeparation_kpc must be at least pericentre_kpc' });
+      ctx.addIssue({ code: 'custom', path: [...path, 'initialSeparation_kpc'], message: `Initial separation ${e.initialSeparation_kpc} kpc must be at least the pericentre (${e.pericentre_kpc} kpc)` });
     }
   },
 });

@@ -1,7 +1,7 @@
 // Field schemas the model modules share, so a mass or a particle count reads and
 // is bounded the same in every model.
 import { z } from 'zod';
-import { LIMITS } from '../../spec/limits';
+import { groupDigits, LIMITS } from '../../spec/limits';
 import { lawSchema } from '../laws/registry';
 
 export const count = z.number().int().min(2).max(LIMITS.maxParticles).describe('number of particles').meta({ title: 'Particles N' });
@@ -21,12 +21,13 @@ export const equilibriumLaw = lawSchema
  */
 export const MIN_TRUNCATION_FRACTION = 0.01;
 
-/** Refuses a truncation radius far inside the scale radius (`scaleName` names the scale field). */
+/** Refuses a truncation radius far inside the scale radius (`scaleName` names the scale field, `scaleWords` says it to people). */
 export function checkTruncation(
   m: { truncationRadius_kpc?: number } & Record<string, unknown>,
   scaleName: string,
   path: (string | number)[],
   ctx: z.RefinementCtx,
+  scaleWords = scaleName === 'scaleLength_kpc' ? 'scale length' : 'scale radius',
 ): void {
   const rt = m.truncationRadius_kpc;
   const scale = m[scaleName];
@@ -34,7 +35,7 @@ export function checkTruncation(
   ctx.addIssue({
     code: 'custom',
     path: [...path, 'truncationRadius_kpc'],
-    message: `truncationRadius_kpc ${rt} is below ${MIN_TRUNCATION_FRACTION} x ${scaleName} (${scale}); the model would hold almost none of its mass`,
+    message: `Truncation radius ${rt} kpc is below ${MIN_TRUNCATION_FRACTION * 100}% of the ${scaleWords} (${scale} kpc): the model would hold almost none of its mass`,
   });
 }
 
@@ -71,13 +72,13 @@ export function checkSystem(
   path: (string | number)[],
   ctx: z.RefinementCtx,
 ): void {
-  if (s.halo) checkTruncation(s.halo, 'scale_kpc', [...path, 'halo'], ctx);
+  if (s.halo) checkTruncation(s.halo, 'scale_kpc', [...path, 'halo'], ctx, "halo's scale radius");
   checkTruncation(s, scaleName, path, ctx);
 }
 
 /** n + halo.n within the limit, for a system standing alone (an encounter checks both together). */
 export function checkSystemParticles(s: { n: number; halo?: HaloSpec }, path: (string | number)[], ctx: z.RefinementCtx): void {
   if (s.halo && s.n + s.halo.n > LIMITS.maxParticles) {
-    ctx.addIssue({ code: 'custom', path: [...path, 'halo', 'n'], message: `n + halo.n must be at most ${LIMITS.maxParticles}` });
+    ctx.addIssue({ code: 'custom', path: [...path, 'halo', 'n'], message: `Particles N and halo particles together must be at most ${groupDigits(LIMITS.maxParticles)}` });
   }
 }

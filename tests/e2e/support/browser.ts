@@ -1,4 +1,4 @@
-import { chromium, type Browser, type BrowserContext, type Page } from 'playwright-core';
+import { chromium, type Browser, type BrowserContext, type Locator, type Page } from 'playwright-core';
 import fs from 'node:fs';
 import path from 'node:path';
 
@@ -32,6 +32,14 @@ export async function shot(page: Page, name: string, fullPage = true): Promise<s
   const file = path.join(ARTIFACTS, `${name}.png`);
   await page.screenshot({ path: file, fullPage });
   return file;
+}
+
+/** Empties a field and types into it one key at a time, as a person would. */
+export async function typeInto(page: Page, field: Locator, text: string): Promise<void> {
+  await field.click();
+  await page.keyboard.press('ControlOrMeta+A');
+  await page.keyboard.press('Backspace');
+  await field.pressSequentially(text, { delay: 30 });
 }
 
 /** Signs in through the local fake provider as one of its invented people, landing on `next`. */

@@ -3,6 +3,7 @@ import request from 'supertest';
 import { openAuthStack, type AuthStack } from './harness';
 import { signIn, type Agent } from '../../support/auth';
 import { ApiToken } from '../../../server/db/entities';
+import { NAME_MAX_LENGTH } from '../../../shared/spec';
 
 let s: AuthStack;
 let agent: Agent;
@@ -101,9 +102,10 @@ describe('personal API tokens', () => {
     await agent.get('/api/auth/me').set('Authorization', 'Bearer infall_nope').expect(401);
   });
 
-  test('names are checked', async () => {
-    const res = await agent.post('/api/tokens').set('X-CSRF-Token', csrf).send({ name: 'x'.repeat(61) }).expect(400);
-    expect(res.body.error).toMatchObject({ code: 'BAD_REQUEST', field: 'name' });
+  test('names are checked, with the one name limit every name has', async () => {
+    await agent.post('/api/tokens').set('X-CSRF-Token', csrf).send({ name: 'x'.repeat(NAME_MAX_LENGTH) }).expect(201);
+    const res = await agent.post('/api/tokens').set('X-CSRF-Token', csrf).send({ name: 'x'.repeat(NAME_MAX_LENGTH + 1) }).expect(400);
+    expect(res.body.error).toMatchObject({ code: 'BAD_REQUEST', field: 'name', message: `name: name is at most ${NAME_MAX_LENGTH} characters` });
     await agent.post('/api/tokens').set('X-CSRF-Token', csrf).send({ name: 'ok', extra: 1 }).expect(400);
   });
 });
