@@ -44,7 +44,7 @@ const linesOf = (container: HTMLElement) => [...container.querySelectorAll('path
 describe('LinePlot', () => {
   const series = [
     { id: 'a', label: 'Newtonian', color: '#fff', x: [0, 50, 100], y: [1e-6, 1e-5, 1e-4] },
-    { id: 'b', label: 'MOND (simple nu)', color: '#f90', x: [0, 50, 100], y: [null, 2e-5, 3e-4], dashed: true, mark: 'triangle' as const },
+    { id: 'b', label: 'MOND (simple ν)', color: '#f90', x: [0, 50, 100], y: [null, 2e-5, 3e-4], dashed: true, mark: 'triangle' as const },
   ];
 
   it('draws one line per series, with axis titles carrying units and a legend', () => {
@@ -52,7 +52,7 @@ describe('LinePlot', () => {
     expect(view.getByText('time [Myr]')).toBeTruthy();
     expect(view.getByText('|ΔE / E₀|')).toBeTruthy();
     expect(view.getByLabelText('Newtonian, solid line')).toBeTruthy();
-    expect(view.getByLabelText('MOND (simple nu), dashed line with triangle marks')).toBeTruthy();
+    expect(view.getByLabelText('MOND (simple ν), dashed line with triangle marks')).toBeTruthy();
     const lines = linesOf(container);
     expect(lines).toHaveLength(2);
     // The gap (null) starts the second line at its second point.

@@ -17,7 +17,7 @@ const run = {
       analytic: {
         radii_kpc: radii,
         curves: [
-          { law: 'qumond', label: 'QUMOND (simple nu)', v_km_s: [100, 160, 185, 196] },
+          { law: 'qumond', label: 'QUMOND (simple ν)', v_km_s: [100, 160, 185, 196] },
           { law: 'newton', label: 'Newtonian', v_km_s: [95, 140, 150, 150] },
         ],
       },
@@ -28,7 +28,7 @@ const run = {
 describe('rotation curve of a field-form MOND run', () => {
   it('labels the preview as the algebraic form and draws the gap between the two forms', () => {
     const { view } = render(<RotationCurvePlot runs={[run]} />);
-    expect(view.getByLabelText(/^algebraic form \(preview of QUMOND \(simple nu\)\), dashed line/)).toBeTruthy();
+    expect(view.getByLabelText(/^algebraic form \(preview of QUMOND \(simple ν\)\), dashed line/)).toBeTruthy();
     expect(view.getByLabelText(/^field form − algebraic form, /)).toBeTruthy();
   });
 });

@@ -24,7 +24,7 @@ describe('the field form of MOND in the new-run form', () => {
     press(first.getByLabelText('MOND (field, QUMOND)'));
     await settle();
     expect(first.getByLabelText('64³').getAttribute('aria-checked')).toBe('true');
-    expect(first.getByText(/QUMOND \(simple nu\): energy conserved, momentum conserved/)).toBeTruthy();
+    expect(first.getByText(/QUMOND \(simple ν\): energy conserved, momentum conserved/)).toBeTruthy();
     expect(first.getByText(/Valid: The field equations of MOND in their quasi-linear form/)).toBeTruthy();
     // The optional vector is switched on from the law's schema, starting at zero in each component.
     expect(container.querySelector('[data-testid="field-law.externalField_m_s2.0"]')).toBeNull();

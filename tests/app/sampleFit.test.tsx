@@ -30,7 +30,7 @@ test('ticked galaxies are fitted as one sample and its page opened', async () =>
   const { view } = render(<GalaxiesView />);
   await settle();
   // Earlier sample fits are listed with their galaxies and laws.
-  expect(view.getByText(/^Invented A, Invented B · Newtonian \+ NFW halo, MOND \(simple nu\) · /)).toBeTruthy();
+  expect(view.getByText(/^Invented A, Invented B · Newtonian \+ NFW halo, MOND \(simple ν\) · /)).toBeTruthy();
   press(view.getByRole('checkbox', { name: 'Add Invented A to the acceleration relation' }));
   await settle();
   expect(view.getByText('Tick at least two galaxies.')).toBeTruthy();

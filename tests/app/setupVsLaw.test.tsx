@@ -32,7 +32,7 @@ test('a pair whose MOND run was balanced for Newton says so first, then separate
   const mond: SetupSide = {
     label: 'MOND',
     spec: spec({ kind: 'mond' }, { model: { ...model, equilibriumLaw: { kind: 'newton' } } }),
-    out: output('mond', 'MOND (simple nu)', false, { balancedFor: [{ system: 'plummer', law: 'newton', label: 'Newtonian', ownLaw: false }], ownLaw: false, initialClausiusRatio: 0.77 }, 0.77),
+    out: output('mond', 'MOND (simple ν)', false, { balancedFor: [{ system: 'plummer', law: 'newton', label: 'Newtonian', ownLaw: false }], ownLaw: false, initialClausiusRatio: 0.77 }, 0.77),
   };
   const { container, view } = render(<SetupVsLaw a={newtonSide} b={mond} />);
   const all = container.textContent ?? '';
@@ -54,11 +54,11 @@ test('a pair balanced each for its own law from the same positions credits the d
   const mond: SetupSide = {
     label: 'MOND',
     spec: spec({ kind: 'mond' }),
-    out: output('mond', 'MOND (simple nu)', false, { balancedFor: [{ system: 'plummer', law: 'mond', label: 'MOND (simple nu)', ownLaw: true }], ownLaw: true, initialClausiusRatio: 0.996 }, 0.996),
+    out: output('mond', 'MOND (simple ν)', false, { balancedFor: [{ system: 'plummer', law: 'mond', label: 'MOND (simple ν)', ownLaw: true }], ownLaw: true, initialClausiusRatio: 0.996 }, 0.996),
   };
   const { view, container } = render(<SetupVsLaw a={newtonSide} b={mond} />);
   expect(view.queryByLabelText('Caution')).toBeNull();
-  expect(view.getByText(/Velocities balanced for Newtonian \(Newton\) and for MOND \(simple nu\) \(MOND\)/)).toBeTruthy();
+  expect(view.getByText(/Velocities balanced for Newtonian \(Newton\) and for MOND \(simple ν\) \(MOND\)/)).toBeTruthy();
   expect(view.getByText(/come from the laws, up to integration error and particle noise/)).toBeTruthy();
   expect(container.textContent).not.toContain('Other settings differ');
 });
@@ -72,7 +72,7 @@ test('different settings are set-up differences, and a run stored before the rec
 });
 
 test('the diagnostics CSV carries what the velocities were balanced for on every row (empty for a run stored before the record)', () => {
-  const mond = output('mond', 'MOND (simple nu)', false, { balancedFor: [{ system: 'plummer', law: 'newton', label: 'Newtonian', ownLaw: false }], ownLaw: false, initialClausiusRatio: 0.77 }, 0.77);
+  const mond = output('mond', 'MOND (simple ν)', false, { balancedFor: [{ system: 'plummer', law: 'newton', label: 'Newtonian', ownLaw: false }], ownLaw: false, initialClausiusRatio: 0.77 }, 0.77);
   const [header, ...rows] = diagnosticsCsv(mond).trim().split('\n');
   expect(header.split(',').slice(-2)).toEqual(['velocities_balanced_for', 'balanced_for_own_law']);
   for (const r of rows) expect(r.endsWith(',"plummer: Newtonian","false"')).toBe(true);

@@ -162,7 +162,7 @@ describe('QUMOND on a grid', () => {
     expect(zero).toEqual(none);
   });
 
-  test('phantom energy density P(y) = Q(y^2) - y^2 matches the closed form for the simple nu (to 1e-8 relative)', () => {
+  test('phantom energy density P(y) = Q(y^2) - y^2 matches the closed form for the simple ν (to 1e-8 relative)', () => {
     // For nu = 1/2 + sqrt(1/4 + 1/y): P = -y^2/2 + integral_0^y sqrt(s^2 + 4 s) ds, and with u = s + 2,
     // integral sqrt(u^2 - 4) du = u sqrt(u^2 - 4) / 2 - 2 ln(u + sqrt(u^2 - 4)).
     const F = (u: number) => (u * Math.sqrt(u * u - 4)) / 2 - 2 * Math.log(u + Math.sqrt(u * u - 4));

@@ -16,7 +16,7 @@ const write = (name: string, text: string | Uint8Array) => {
   return path;
 };
 
-// An invented MOND galaxy (simple nu, a0 = 1.2e-10 m/s^2, disk mass-to-light 0.5), 3% errors, seeded.
+// An invented MOND galaxy (simple ν, a0 = 1.2e-10 m/s^2, disk mass-to-light 0.5), 3% errors, seeded.
 const a0 = accelFromSI(1.2e-10);
 const R = Array.from({ length: 24 }, (_, i) => 0.5 + 0.8 * i);
 const curve = inventedCurve({ disk: { mass_Msun: 6e10, scale_kpc: 2.5 }, gas: { mass_Msun: 1e10, scale_kpc: 6 } }, R, (r, c) => {

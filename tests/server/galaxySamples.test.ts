@@ -15,7 +15,7 @@ let other: { user: User; auth: Auth };
 const ids: number[] = [];
 let hidden: number;
 
-/** An invented galaxy under MOND (simple nu, a0 = 1.2e-10 m/s^2, disk Upsilon 0.5) as CSV text. */
+/** An invented galaxy under MOND (simple ν, a0 = 1.2e-10 m/s^2, disk Upsilon 0.5) as CSV text. */
 function mondTable(diskMass: number, scale: number, seed: number): string {
   const curve = inventedCurve(
     { disk: { mass_Msun: diskMass, scale_kpc: scale }, gas: { mass_Msun: diskMass / 4, scale_kpc: 2 * scale } },

@@ -44,9 +44,9 @@ export function mondAcceleration(p: MondParams, gN: number): number {
 }
 
 const LABELS: Record<MondParams['interpolation'], string> = {
-  simple: 'MOND (simple nu)',
-  standard: 'MOND (standard nu)',
-  rar: 'MOND (RAR nu)',
+  simple: 'MOND (simple ν)',
+  standard: 'MOND (standard ν)',
+  rar: 'MOND (RAR ν)',
 };
 
 /** One fit per interpolating function: a0 fixed or shared and free, mass-to-light ratios free. */
@@ -73,7 +73,7 @@ const info = (p: MondParams): LawInfo => ({
     'The algebraic form is exact only for symmetric (spherical, cylindrical, planar) configurations; elsewhere it approximates the field equations of MOND. ' +
     'For N-body runs use the field form (QUMOND), which has a potential and conserves momentum; keep this form for rotation curves and short, quick runs.',
   notes:
-    'Each particle\'s own Newtonian field is boosted by nu(|g_N|/a0), so the forces are not pairwise: particle noise makes an isolated system push itself, ' +
+    'Each particle\'s own Newtonian field is boosted by ν(|g_N|/a0), so the forces are not pairwise: particle noise makes an isolated system push itself, ' +
     'and there is no potential. Momentum and energy drifts here are artefacts of the algebraic form, not MOND physics and not integrator error.',
   readings: {
     meaningful: 'Rotation curves (analytic, and measured from the forces at t = 0) and structure over a few crossing times: Lagrangian radii, the Clausius ratio, the shape of a disk.',

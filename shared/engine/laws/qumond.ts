@@ -50,9 +50,9 @@ const schema = z
 export type QumondParams = z.infer<typeof schema>;
 
 const LABELS: Record<QumondParams['interpolation'], string> = {
-  simple: 'QUMOND (simple nu)',
-  standard: 'QUMOND (standard nu)',
-  rar: 'QUMOND (RAR nu)',
+  simple: 'QUMOND (simple ν)',
+  standard: 'QUMOND (standard ν)',
+  rar: 'QUMOND (RAR ν)',
 };
 
 const info = (p: QumondParams): LawInfo => ({
@@ -65,7 +65,7 @@ const info = (p: QumondParams): LawInfo => ({
   validity:
     'The field equations of MOND in their quasi-linear form, for any geometry inside the grid box. The field form\'s departure from the algebraic form (which it equals in spherical symmetry) is smoothed on the grid spacing (box / (grid - 1)); particles outside the ball inscribed in the grid get the algebraic form instead. A constant external field stands for a distant host; tides are not included.',
   notes:
-    'Newtonian part from the pairwise sum (exact momentum balance with the direct solver). Phantom part: the algebraic one, (nu - 1) g_N from each particle\'s own pairwise g_N, plus the correction that makes it curl-free, from two isolated FFT Poisson solves on the grid (which projects only the non-spherical rest). The net force left (the algebraic part\'s, whose pulls between particles closer than a cell are not equal and opposite, and the grid\'s) is removed each evaluation, so total momentum is conserved; a bound group smaller than a cell can still push itself, as under the algebraic form. Energy (QUMOND has a potential) is the pair energy plus the grid\'s phantom energy; its drift includes grid error. Angular momentum is not exactly conserved on a cubic grid. Accuracy, measured: a resolved sphere within 0.15% of the algebraic form from 1 grid cell from the centre; around a mass smaller than a cell, within 3% from 2 cells and 1% from 5.',
+    'Newtonian part from the pairwise sum (exact momentum balance with the direct solver). Phantom part: the algebraic one, (ν − 1) g_N from each particle\'s own pairwise g_N, plus the correction that makes it curl-free, from two isolated FFT Poisson solves on the grid (which projects only the non-spherical rest). The net force left (the algebraic part\'s, whose pulls between particles closer than a cell are not equal and opposite, and the grid\'s) is removed each evaluation, so total momentum is conserved; a bound group smaller than a cell can still push itself, as under the algebraic form. Energy (QUMOND has a potential) is the pair energy plus the grid\'s phantom energy; its drift includes grid error. Angular momentum is not exactly conserved on a cubic grid. Accuracy, measured: a resolved sphere within 0.15% of the algebraic form from 1 grid cell from the centre; around a mass smaller than a cell, within 3% from 2 cells and 1% from 5.',
 });
 
 // --- Phantom energy density ------------------------------------------------
