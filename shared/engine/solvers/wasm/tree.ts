@@ -22,7 +22,7 @@ const BLOCK: i32 = 32;
 // @ts-ignore: decorator
 @inline function high(v: v128): v128 { return f64x2.promote_low_f32x4(v128.shuffle<f32>(v, v, 2, 3, 2, 3)); }
 
-// Cell layout (tree.ts): centre x, y, z, half size, (2h)^2, centre of mass x, y, z, mass, moments xx, yy, zz, xy, xz, yz.
+// Cell layout (tree.ts): centre x, y, z, half size, b_max^2, centre of mass x, y, z, mass, moments xx, yy, zz, xy, xz, yz.
 const CELL_BYTES: usize = 128;
 const LINK_BYTES: usize = 16;
 
