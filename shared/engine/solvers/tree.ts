@@ -27,7 +27,7 @@ const MAX_DEPTH = 48;
 /**
  * Barnes & Hut (1986) octree over the sources: cubic cells split into eight,
  * each holding its mass, centre of mass and second moments about it (for the
- * quadrupole term), and the box around its particles (its size in the opening test). Built by partitioning an index array, so the same sources
+ * quadrupole term), and the box around its particles (its reach from the centre of mass is the size in the opening test). Built by partitioning an index array, so the same sources
  * always give the same tree. Each cell's numbers sit together (CELL doubles in
  * `cells`, LINK integers in `links`), so a walk that visits a cell touches one
  * or two cache lines rather than one per quantity; this is what makes walks
@@ -36,7 +36,7 @@ const MAX_DEPTH = 48;
  */
 export interface Octree {
   nodes: number;
-  /** Per cell: geometric centre x, y, z (kpc); half size h; (2h)^2; centre of mass x, y, z; mass (Msun); second moments xx, yy, zz, xy, xz, yz about the centre of mass (Msun kpc^2). */
+  /** Per cell: geometric centre x, y, z (kpc); half size h of the box around its particles; b_max^2, the squared distance from the centre of mass to that box's farthest corner; centre of mass x, y, z; mass (Msun); second moments xx, yy, zz, xy, xz, yz about the centre of mass (Msun kpc^2). */
   cells: Float64Array;
   /** Per cell: first child (-1 for a leaf; children are consecutive), child count, first particle slot, particle count (its particles are consecutive slots, leaf or not). */
   links: Int32Array;
@@ -61,7 +61,7 @@ export interface Octree {
 
 /** Layout of one cell in Octree.cells and Octree.links. */
 const CELL = 16;
-const CENTRE_X = 0, CENTRE_Y = 1, CENTRE_Z = 2, HALF = 3, SIZE2 = 4, COM_X = 5, COM_Y = 6, COM_Z = 7, MASS = 8;
+const CENTRE_X = 0, CENTRE_Y = 1, CENTRE_Z = 2, HALF = 3, BMAX2 = 4, COM_X = 5, COM_Y = 6, COM_Z = 7, MASS = 8;
 const IXX = 9, IYY = 10, IZZ = 11, IXY = 12, IXZ = 13, IYZ = 14;
 const LINK = 4;
 /** Doubles and integers per cell, for copying a tree into memory shared between threads. */
@@ -120,14 +120,19 @@ function allocCell(b: CellBuild): number {
   return node;
 }
 
-// The cell's size is that of the box around its particles, not of its cube: multipole terms
-// are only as good as the mass is compact, and in sparse regions the box is much the smaller.
+// The cell's size in the opening test is b_max, the farthest its particles' box reaches from its
+// centre of mass (Salmon & Warren 1994, J. Comput. Phys. 111, 136): the multipole error grows
+// with how far the mass lies from the centre of mass, so a lopsided cell (centre of mass near a
+// corner) is opened sooner and a compact one later than with the box's side. The box, not the
+// cube: in sparse regions it is much the smaller. Needs the centre of mass written first.
 function sizeFromBox(cells: Float64Array, boxes: Float64Array, node: number): void {
   const c = node * CELL, b = 6 * node;
   const x0 = boxes[b], y0 = boxes[b + 1], z0 = boxes[b + 2], x1 = boxes[b + 3], y1 = boxes[b + 4], z1 = boxes[b + 5];
   const h = 0.5 * max(x1 - x0, y1 - y0, z1 - z0);
   cells[c + CENTRE_X] = 0.5 * (x0 + x1); cells[c + CENTRE_Y] = 0.5 * (y0 + y1); cells[c + CENTRE_Z] = 0.5 * (z0 + z1);
-  cells[c + HALF] = h; cells[c + SIZE2] = 4 * h * h;
+  const gx = cells[c + COM_X], gy = cells[c + COM_Y], gz = cells[c + COM_Z];
+  const bx = max(x1 - gx, gx - x0), by = max(y1 - gy, gy - y0), bz = max(z1 - gz, gz - z0);
+  cells[c + HALF] = h; cells[c + BMAX2] = bx * bx + by * by + bz * bz;
 }
 
 /** Writes a cell's mass, centre of mass, second moments and box, and its size from the box. */
@@ -454,9 +459,10 @@ function room(a: Float64Array, need: number): Float64Array {
 /**
  * What a group of targets interacts with, gathered by one walk: accepted
  * cells with their moments, and the particles of leaves that had to be
- * opened. A cell is accepted when size < theta * (distance from its centre
- * of mass to the nearest point of the target box), its size being the longest
- * side of the box around its particles, and when its cube around that box does
+ * opened. A cell is accepted when b_max < theta * (distance from its centre
+ * of mass to the nearest point of the target box), b_max being the distance
+ * from its centre of mass to the farthest corner of the box around its
+ * particles (sizeFromBox), and when its cube around that box does
  * not overlap the target box (the second condition is a common-practice guard against targets
  * inside large, lopsided cells). Sharing the walk among a group's particles is
  * the grouping of Barnes (1990); for a single point it is the 1986 criterion.
@@ -510,7 +516,7 @@ class InteractionList implements GatheredList {
       const gx = cells[c + COM_X], gy = cells[c + COM_Y], gz = cells[c + COM_Z];
       const dx = max(minX - gx, 0, gx - maxX), dy = max(minY - gy, 0, gy - maxY), dz = max(minZ - gz, 0, gz - maxZ);
       const l = node * LINK;
-      if (apart && cells[c + SIZE2] < theta2 * (dx * dx + dy * dy + dz * dz)) {
+      if (apart && cells[c + BMAX2] < theta2 * (dx * dx + dy * dy + dz * dz)) {
         if (links[l + SLOT_COUNT] <= FEW) this.pushParticles(sx, sy, sz, sm, links[l + FIRST_SLOT], links[l + SLOT_COUNT]);
         else this.pushCell(cells, c);
       } else if (links[l + FIRST_CHILD] < 0) {

@@ -4,7 +4,7 @@
 // it loads, else its lists summed at two targets per pass. Each is the generic
 // loops' arithmetic for phi = 1/s written out with the kernel's constants read
 // once: no calls, no branch on the law.
-import { G } from '../../units';
+import { G as G_UNITS } from '../../units';
 import { wasmDirect } from '../directWasm';
 import { wasmTree } from '../treeWasm';
 import { MOMENTS, type PairLoops } from '../types';
@@ -12,6 +12,9 @@ import { MOMENTS, type PairLoops } from '../types';
 // Module-local alias: inside a vm context (Jest, sandboxes) every global
 // lookup of Math is slow enough to dominate a hot loop.
 const { sqrt } = Math;
+// A module-local copy of G for the same reason: transpiled to CommonJS (tsx, Jest)
+// an imported binding is a getter on the units module, called once per target.
+const G = G_UNITS;
 
 export const newtonLoops: PairLoops = {
   pull(x, y, z, m, count, xi, yi, zi, eps2, _p, acc) {

@@ -22,7 +22,7 @@ const BLOCK: i32 = 32;
 // @ts-ignore: decorator
 @inline function high(v: v128): v128 { return f64x2.promote_low_f32x4(v128.shuffle<f32>(v, v, 2, 3, 2, 3)); }
 
-// Cell layout (tree.ts): centre x, y, z, half size, (2h)^2, centre of mass x, y, z, mass, moments xx, yy, zz, xy, xz, yz.
+// Cell layout (tree.ts): centre x, y, z, half size, b_max^2, centre of mass x, y, z, mass, moments xx, yy, zz, xy, xz, yz.
 const CELL_BYTES: usize = 128;
 const LINK_BYTES: usize = 16;
 
@@ -71,7 +71,8 @@ function gather(
   const r0 = <usize>from << 3;
   rx = load<f64>(tx + r0); ry = load<f64>(ty + r0); rz = load<f64>(tz + r0);
   // Particles as float32 x, y, z, m (relative), 16 bytes each; cells as float32 centre of mass
-  // (relative), mass, six second moments and their trace, 48 bytes each.
+  // (relative), mass, the six second moments times 3 (J = 3I) and 1.5 tr(I), 48 bytes each:
+  // the factors the sums would otherwise apply at every term.
   np = 0; nc = 0;
   let top: i32 = 0;
   store<i32>(stack, 0);
@@ -93,9 +94,9 @@ function gather(
       store<f32>(o, <f32>(gx - rx)); store<f32>(o, <f32>(gy - ry), 4); store<f32>(o, <f32>(gz - rz), 8);
       store<f32>(o, <f32>load<f64>(c, 64), 12);
       const xx = load<f64>(c, 72), yy = load<f64>(c, 80), zz = load<f64>(c, 88);
-      store<f32>(o, <f32>xx, 16); store<f32>(o, <f32>yy, 20); store<f32>(o, <f32>zz, 24);
-      store<f32>(o, <f32>load<f64>(c, 96), 28); store<f32>(o, <f32>load<f64>(c, 104), 32); store<f32>(o, <f32>load<f64>(c, 112), 36);
-      store<f32>(o, <f32>(xx + yy + zz), 40);
+      store<f32>(o, <f32>(3 * xx), 16); store<f32>(o, <f32>(3 * yy), 20); store<f32>(o, <f32>(3 * zz), 24);
+      store<f32>(o, <f32>(3 * load<f64>(c, 96)), 28); store<f32>(o, <f32>(3 * load<f64>(c, 104)), 32); store<f32>(o, <f32>(3 * load<f64>(c, 112)), 36);
+      store<f32>(o, <f32>(1.5 * (xx + yy + zz)), 40);
       nc++;
     } else if (accept || first < 0) {
       // An accepted cell of few particles, or an opened leaf: its particles.
@@ -140,7 +141,7 @@ function gather(
 }
 
 function sumField(P: usize, C: usize, tx: usize, ty: usize, tz: usize, from: i32, to: i32, eps2: f64, ox: usize, oy: usize, oz: usize): void {
-  const e = f(<f32>eps2), one = f(1), three = f(3), seven5 = f(7.5), three2 = f(1.5);
+  const e = f(<f32>eps2), one = f(1), five2 = f(2.5);
   for (let i: i32 = from; i < to; i += 4) {
     const xt = targets(tx, i, to, rx), yt = targets(ty, i, to, ry), zt = targets(tz, i, to, rz);
     // float64 sums: lanes 0-1 and 2-3 of each component.
@@ -152,8 +153,8 @@ function sumField(P: usize, C: usize, tx: usize, ty: usize, tz: usize, from: i32
         const o = P + (<usize>j << 4);
         const dx = f32x4.sub(v128.load32_splat(o), xt), dy = f32x4.sub(v128.load32_splat(o, 4), yt), dz = f32x4.sub(v128.load32_splat(o, 8), zt);
         const r2 = f32x4.add(f32x4.add(f32x4.add(f32x4.mul(dx, dx), f32x4.mul(dy, dy)), f32x4.mul(dz, dz)), e);
-        const inv = f32x4.div(one, f32x4.sqrt(r2));
-        const s = f32x4.mul(f32x4.mul(f32x4.mul(v128.load32_splat(o, 12), inv), inv), inv);
+        // m / s^3 as one division: two multiplications fewer than m (1/s)^3.
+        const s = f32x4.div(v128.load32_splat(o, 12), f32x4.mul(r2, f32x4.sqrt(r2)));
         ax = f32x4.add(ax, f32x4.mul(s, dx)); ay = f32x4.add(ay, f32x4.mul(s, dy)); az = f32x4.add(az, f32x4.mul(s, dz));
       }
       X0 = f64x2.add(X0, f64x2.promote_low_f32x4(ax)); X1 = f64x2.add(X1, high(ax));
@@ -169,21 +170,21 @@ function sumField(P: usize, C: usize, tx: usize, ty: usize, tz: usize, from: i32
         const r2 = f32x4.add(f32x4.add(f32x4.add(f32x4.mul(dx, dx), f32x4.mul(dy, dy)), f32x4.mul(dz, dz)), e);
         const inv = f32x4.div(one, f32x4.sqrt(r2));
         const inv2 = f32x4.mul(inv, inv), inv3 = f32x4.mul(inv2, inv), inv5 = f32x4.mul(inv3, inv2);
-        const Ixx = v128.load32_splat(o, 16), Iyy = v128.load32_splat(o, 20), Izz = v128.load32_splat(o, 24);
-        const Ixy = v128.load32_splat(o, 28), Ixz = v128.load32_splat(o, 32), Iyz = v128.load32_splat(o, 36);
-        const Idx = f32x4.add(f32x4.add(f32x4.mul(Ixx, dx), f32x4.mul(Ixy, dy)), f32x4.mul(Ixz, dz));
-        const Idy = f32x4.add(f32x4.add(f32x4.mul(Ixy, dx), f32x4.mul(Iyy, dy)), f32x4.mul(Iyz, dz));
-        const Idz = f32x4.add(f32x4.add(f32x4.mul(Ixz, dx), f32x4.mul(Iyz, dy)), f32x4.mul(Izz, dz));
-        const dId = f32x4.add(f32x4.add(f32x4.mul(dx, Idx), f32x4.mul(dy, Idy)), f32x4.mul(dz, Idz));
-        // M / s^3 + 7.5 d.I.d / s^7 - 1.5 tr(I) / s^5, as in the JS loops (fast/newton.ts).
-        const radial = f32x4.sub(
-          f32x4.add(f32x4.mul(v128.load32_splat(o, 12), inv3), f32x4.mul(f32x4.mul(f32x4.mul(seven5, dId), inv5), inv2)),
-          f32x4.mul(f32x4.mul(three2, v128.load32_splat(o, 40)), inv5),
+        const Jxx = v128.load32_splat(o, 16), Jyy = v128.load32_splat(o, 20), Jzz = v128.load32_splat(o, 24);
+        const Jxy = v128.load32_splat(o, 28), Jxz = v128.load32_splat(o, 32), Jyz = v128.load32_splat(o, 36);
+        const Jdx = f32x4.add(f32x4.add(f32x4.mul(Jxx, dx), f32x4.mul(Jxy, dy)), f32x4.mul(Jxz, dz));
+        const Jdy = f32x4.add(f32x4.add(f32x4.mul(Jxy, dx), f32x4.mul(Jyy, dy)), f32x4.mul(Jyz, dz));
+        const Jdz = f32x4.add(f32x4.add(f32x4.mul(Jxz, dx), f32x4.mul(Jyz, dy)), f32x4.mul(Jzz, dz));
+        const dJd = f32x4.add(f32x4.add(f32x4.mul(dx, Jdx), f32x4.mul(dy, Jdy)), f32x4.mul(dz, Jdz));
+        // M / s^3 + 7.5 d.I.d / s^7 - 1.5 tr(I) / s^5 as in the JS loops (fast/newton.ts), written
+        // M / s^3 + (2.5 d.J.d / s^2 - 1.5 tr(I)) / s^5; the pull is that times d, less J.d / s^5.
+        const radial = f32x4.add(
+          f32x4.mul(v128.load32_splat(o, 12), inv3),
+          f32x4.mul(f32x4.sub(f32x4.mul(f32x4.mul(five2, dJd), inv2), v128.load32_splat(o, 40)), inv5),
         );
-        const q = f32x4.mul(three, inv5);
-        ax = f32x4.add(ax, f32x4.sub(f32x4.mul(radial, dx), f32x4.mul(q, Idx)));
-        ay = f32x4.add(ay, f32x4.sub(f32x4.mul(radial, dy), f32x4.mul(q, Idy)));
-        az = f32x4.add(az, f32x4.sub(f32x4.mul(radial, dz), f32x4.mul(q, Idz)));
+        ax = f32x4.add(ax, f32x4.sub(f32x4.mul(radial, dx), f32x4.mul(inv5, Jdx)));
+        ay = f32x4.add(ay, f32x4.sub(f32x4.mul(radial, dy), f32x4.mul(inv5, Jdy)));
+        az = f32x4.add(az, f32x4.sub(f32x4.mul(radial, dz), f32x4.mul(inv5, Jdz)));
       }
       X0 = f64x2.add(X0, f64x2.promote_low_f32x4(ax)); X1 = f64x2.add(X1, high(ax));
       Y0 = f64x2.add(Y0, f64x2.promote_low_f32x4(ay)); Y1 = f64x2.add(Y1, high(ay));
@@ -195,7 +196,7 @@ function sumField(P: usize, C: usize, tx: usize, ty: usize, tz: usize, from: i32
 }
 
 function sumPotential(P: usize, C: usize, tx: usize, ty: usize, tz: usize, from: i32, to: i32, eps2: f64, o: usize): void {
-  const e = f(<f32>eps2), one = f(1), zero = f(0), half = f(0.5), three2 = f(1.5);
+  const e = f(<f32>eps2), one = f(1), zero = f(0), half = f(0.5), third = f(<f32>(1.0 / 3));
   for (let i: i32 = from; i < to; i += 4) {
     const xt = targets(tx, i, to, rx), yt = targets(ty, i, to, ry), zt = targets(tz, i, to, rz);
     let S0 = f64x2.splat(0), S1 = f64x2.splat(0);
@@ -221,16 +222,17 @@ function sumPotential(P: usize, C: usize, tx: usize, ty: usize, tz: usize, from:
         const r2 = f32x4.add(f32x4.add(f32x4.add(f32x4.mul(dx, dx), f32x4.mul(dy, dy)), f32x4.mul(dz, dz)), e);
         const inv = f32x4.div(one, f32x4.sqrt(r2));
         const inv2 = f32x4.mul(inv, inv), inv3 = f32x4.mul(inv2, inv);
-        const Ixx = v128.load32_splat(o, 16), Iyy = v128.load32_splat(o, 20), Izz = v128.load32_splat(o, 24);
-        const Ixy = v128.load32_splat(o, 28), Ixz = v128.load32_splat(o, 32), Iyz = v128.load32_splat(o, 36);
-        const dId = f32x4.add(f32x4.add(
-          f32x4.mul(dx, f32x4.add(f32x4.add(f32x4.mul(Ixx, dx), f32x4.mul(Ixy, dy)), f32x4.mul(Ixz, dz))),
-          f32x4.mul(dy, f32x4.add(f32x4.add(f32x4.mul(Ixy, dx), f32x4.mul(Iyy, dy)), f32x4.mul(Iyz, dz)))),
-          f32x4.mul(dz, f32x4.add(f32x4.add(f32x4.mul(Ixz, dx), f32x4.mul(Iyz, dy)), f32x4.mul(Izz, dz))));
-        // M / s + 1.5 d.I.d / s^5 - 0.5 tr(I) / s^3, as in the JS loops (fast/newton.ts).
-        sp = f32x4.add(sp, f32x4.sub(
-          f32x4.add(f32x4.mul(v128.load32_splat(o, 12), inv), f32x4.mul(f32x4.mul(f32x4.mul(three2, dId), inv3), inv2)),
-          f32x4.mul(f32x4.mul(half, v128.load32_splat(o, 40)), inv3),
+        const Jxx = v128.load32_splat(o, 16), Jyy = v128.load32_splat(o, 20), Jzz = v128.load32_splat(o, 24);
+        const Jxy = v128.load32_splat(o, 28), Jxz = v128.load32_splat(o, 32), Jyz = v128.load32_splat(o, 36);
+        const dJd = f32x4.add(f32x4.add(
+          f32x4.mul(dx, f32x4.add(f32x4.add(f32x4.mul(Jxx, dx), f32x4.mul(Jxy, dy)), f32x4.mul(Jxz, dz))),
+          f32x4.mul(dy, f32x4.add(f32x4.add(f32x4.mul(Jxy, dx), f32x4.mul(Jyy, dy)), f32x4.mul(Jyz, dz)))),
+          f32x4.mul(dz, f32x4.add(f32x4.add(f32x4.mul(Jxz, dx), f32x4.mul(Jyz, dy)), f32x4.mul(Jzz, dz))));
+        // M / s + 1.5 d.I.d / s^5 - 0.5 tr(I) / s^3 as in the JS loops (fast/newton.ts), written
+        // M / s + (0.5 d.J.d / s^2 - (1.5 tr(I)) / 3) / s^3.
+        sp = f32x4.add(sp, f32x4.add(
+          f32x4.mul(v128.load32_splat(o, 12), inv),
+          f32x4.mul(f32x4.sub(f32x4.mul(f32x4.mul(half, dJd), inv2), f32x4.mul(third, v128.load32_splat(o, 40))), inv3),
         ));
       }
       S0 = f64x2.add(S0, f64x2.promote_low_f32x4(sp)); S1 = f64x2.add(S1, high(sp));
