@@ -49,8 +49,8 @@ export function wasmDirect(): WasmDirect | null {
 }
 
 const BYTES = 8;
-/** Bytes of a source's float32 record in the module. */
-const RECORD = 16;
+/** Bytes of a source's float32 record in the module: high parts and mass, low parts. */
+const RECORD = 32;
 const PAGE = 65536;
 
 /**
