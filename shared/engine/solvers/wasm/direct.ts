@@ -17,15 +17,10 @@
 // Arrays are float64 in linear memory at the byte offsets given; `scratch` (P) has 32
 // bytes for every source (its float32 record).
 
+import { f, high, put } from './lanes';
+
 /** Sources summed in float32 before the partial sums join the float64 ones. */
 const BLOCK: i32 = 32;
-
-// @ts-ignore: decorator
-@inline function f(v: f32): v128 { return f32x4.splat(v); }
-
-/** Lanes 2 and 3 of a float32 vector as a float64 pair. */
-// @ts-ignore: decorator
-@inline function high(v: v128): v128 { return f64x2.promote_low_f32x4(v128.shuffle<f32>(v, v, 2, 3, 2, 3)); }
 
 /** Target i's coordinate relative to the reference (past the end, the last target again: its lanes are not written back). */
 // @ts-ignore: decorator
@@ -48,15 +43,6 @@ const BLOCK: i32 = 32;
 // @ts-ignore: decorator
 @inline function d(o: usize, k: usize, high: v128, low: v128): v128 {
   return f32x4.add(f32x4.sub(v128.load32_splat(o + k), high), f32x4.sub(v128.load32_splat(o + k + 16), low));
-}
-
-/** Writes the float64 lanes of (lo, hi) for the targets left. */
-// @ts-ignore: decorator
-@inline function put(o: usize, lo: v128, hi: v128, left: i32): void {
-  store<f64>(o, f64x2.extract_lane(lo, 0));
-  if (left > 1) store<f64>(o, f64x2.extract_lane(lo, 1), 8);
-  if (left > 2) store<f64>(o, f64x2.extract_lane(hi, 0), 16);
-  if (left > 3) store<f64>(o, f64x2.extract_lane(hi, 1), 24);
 }
 
 /** The sources as float32 records at P, 32 bytes each: x, y, z relative to the first source (high parts), m, then the low parts. */
