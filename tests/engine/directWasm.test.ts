@@ -1,6 +1,7 @@
-// The WebAssembly SIMD direct sum against the typed-array kernel it replaces:
-// the same operations in the same per-target order, so the same bits, for every
-// target range and target kind; and the fallback when WebAssembly is missing.
+// The WebAssembly SIMD direct sum (mixed precision) against the float64 typed-array
+// kernel: within float32's rounding at every target, the same bits whatever range of
+// targets a call covers (so threads can split it), float64 wherever float32 cannot
+// hold the terms, and the fallback when WebAssembly is missing.
 import { execFileSync } from 'node:child_process';
 import path from 'node:path';
 import { directFieldRange, directPotentialRange } from '../../shared/engine/solvers/direct';
@@ -41,7 +42,28 @@ test('the WebAssembly kernel loads here (Node, as in the pool threads and the CL
   expect(directKernelInUse()).toBe('wasm');
 });
 
-test('WebAssembly and JS kernels give the same bits for the field and potential, whole and partial target ranges, sources or probes', () => {
+/** Largest relative difference at any target: |a - b| / |b| for the field, |p - q| / |q| for the potential. */
+function worst(a: Sums, b: Sums): { field: number; potential: number } {
+  let field = 0, potential = 0;
+  for (let i = 0; i < a.ax.length; i++) {
+    field = Math.max(field, Math.hypot(a.ax[i] - b.ax[i], a.ay[i] - b.ay[i], a.az[i] - b.az[i]) / Math.hypot(b.ax[i], b.ay[i], b.az[i]));
+    potential = Math.max(potential, Math.abs(a.pot[i] - b.pot[i]) / Math.abs(b.pot[i]));
+  }
+  return { field, potential };
+}
+
+/** The range [a, b) of a whole-range result, NaN elsewhere, as sums() leaves it. */
+function cut(whole: Sums, a: number, b: number): Sums {
+  const keep = (x: Float64Array) => x.map((v, i) => (i >= a && i < b ? v : NaN));
+  return { ax: keep(whole.ax), ay: keep(whole.ay), az: keep(whole.az), pot: keep(whole.pot) };
+}
+
+// Float32 terms round at 6e-8 and the separations keep float32's relative precision (wasm/direct.ts):
+// measured at most 5.8e-7 of the field on Plummer spheres of 64 to 3,000 at 0.05 and 1e-3 kpc softening;
+// 1e-6 is the issue's bound and ours at every target.
+const MIXED = 1e-6;
+
+test('the WebAssembly kernel gives the float64 field and potential to 1e-6 relative at every target, and any range of targets the bits of the whole', () => {
   for (const n of [2, 3, 5, 64, 1001, 3000]) {
     const p = plummerParticles(n);
     // Probes off the particles, and some exactly on them (a coincident pair must add nothing to the potential).
@@ -54,28 +76,67 @@ test('WebAssembly and JS kernels give the same bits for the field and potential,
     for (const k of [newtonKernel(0.05), newtonKernel(1e-3)]) {
       for (const targets of [p, probes]) {
         const count = targets.x.length;
-        const ranges: [number, number][] = [[0, count], [1, count], [Math.floor(count / 3), Math.max(Math.floor(count / 3), count - 2)]];
-        for (const [a, b] of ranges) expectSameBits(sums('wasm', p, targets, k, a, b), sums('js', p, targets, k, a, b));
+        const whole = sums('wasm', p, targets, k, 0, count);
+        const e = worst(whole, sums('js', p, targets, k, 0, count));
+        expect(e.field).toBeLessThan(MIXED);
+        expect(e.potential).toBeLessThan(MIXED);
+        // A thread's share: every split point, odd or even, leaves each target's sums as they were.
+        const ranges: [number, number][] = [[1, count], [Math.floor(count / 3), Math.max(Math.floor(count / 3), count - 2)], [Math.floor(count / 2), Math.floor(count / 2) + 5]];
+        for (const [a, b] of ranges) expectSameBits(sums('wasm', p, targets, k, a, Math.min(b, count)), cut(whole, a, Math.min(b, count)));
       }
     }
   }
 });
 
-test('a bigger run after a smaller one (the module grows its memory) still matches, and the sum is the physical field', () => {
+test('the mixed kernel did run: its sums are not the float64 bits', () => {
+  const p = plummerParticles(500);
+  const e = worst(sums('wasm', p, p, newtonKernel(0.05), 0, 500), sums('js', p, p, newtonKernel(0.05), 0, 500));
+  expect(e.field).toBeGreaterThan(0);
+  expect(e.potential).toBeGreaterThan(0);
+});
+
+test('a system far from the origin keeps its accuracy: positions are taken relative to the first source (float32 at 3e4 kpc alone would carry 2e-3 kpc)', () => {
+  const p = plummerParticles(1000);
+  const far = { ...p, x: p.x.map((v) => v + 3e4), y: p.y.map((v) => v - 2e4) };
+  const k = newtonKernel(0.05);
+  const e = worst(sums('wasm', far, far, k, 0, 1000), sums('js', far, far, k, 0, 1000));
+  expect(e.field).toBeLessThan(MIXED);
+  expect(e.potential).toBeLessThan(MIXED);
+});
+
+test('where float32 cannot hold the terms, float64 sums instead: all of them for sources or softening out of reach, one target for a target out of reach', () => {
+  const p = plummerParticles(200);
+  const k = newtonKernel(0.05);
+  const spread = { ...p, x: p.x.map((v, i) => (i === 150 ? 1e13 : v)) };
+  const heavy = { ...p, m: p.m.map((v, i) => (i === 7 ? 1e31 : v)) };
+  for (const s of [spread, heavy]) expectSameBits(sums('wasm', s, s, k, 0, 200), sums('js', s, s, k, 0, 200));
+  // Softening 1e-16 kpc: eps^2 = 1e-32 is below float32's normal numbers.
+  expectSameBits(sums('wasm', p, p, newtonKernel(1e-16), 0, 200), sums('js', p, p, newtonKernel(1e-16), 0, 200));
+  const probes: Points = { x: Float64Array.of(0.5, 2e12, -0.3), y: Float64Array.of(0.1, 0, 0.2), z: Float64Array.of(0, 0, 0.4) };
+  const w = sums('wasm', p, probes, k, 0, 3), j = sums('js', p, probes, k, 0, 3);
+  expectSameBits(cut(w, 1, 2), cut(j, 1, 2));
+  // The targets within reach stay in float32.
+  expect(w.ax[0]).not.toBe(j.ax[0]);
+  expect(Math.abs(w.ax[0] / j.ax[0] - 1)).toBeLessThan(MIXED);
+});
+
+test('a bigger run after a smaller one (the module grows its memory) still agrees, and the sum is the physical field', () => {
   const small = plummerParticles(10);
   sums('wasm', small, small, newtonKernel(0.05), 0, 10);
   const p = plummerParticles(4000);
   const k = newtonKernel(0.05);
   const w = sums('wasm', p, p, k, 0, 4000);
-  expectSameBits(w, sums('js', p, p, k, 0, 4000));
+  const e = worst(w, sums('js', p, p, k, 0, 4000));
+  expect(e.field).toBeLessThan(MIXED);
+  expect(e.potential).toBeLessThan(MIXED);
   // Newton's third law: the pulls of a pair are equal and opposite, so the mass-weighted field sums
-  // to zero up to rounding (relative to the sum of magnitudes; 1e-12 is our own margin over float64 rounding).
+  // to zero up to rounding (relative to the sum of magnitudes; 1e-6 is our margin over float32 terms).
   let sx = 0, mag = 0;
   for (let i = 0; i < 4000; i++) {
     sx += p.m[i] * w.ax[i];
     mag += p.m[i] * Math.abs(w.ax[i]);
   }
-  expect(Math.abs(sx) / mag).toBeLessThan(1e-12);
+  expect(Math.abs(sx) / mag).toBeLessThan(1e-6);
 });
 
 test('unsoftened and Yukawa kernels, which the WebAssembly kernel does not cover, take the JS loops with either choice', () => {
@@ -85,10 +146,10 @@ test('unsoftened and Yukawa kernels, which the WebAssembly kernel does not cover
   }
 });
 
-test('without WebAssembly the engine falls back to the JS kernel and gives the same bits', () => {
+test('without WebAssembly the engine falls back to the JS kernel and gives its bits', () => {
   const p = plummerParticles(300);
   const k = newtonKernel(0.05);
-  const withWasm = sums('wasm', p, p, k, 0, 300);
+  const js = sums('js', p, p, k, 0, 300);
   const saved = globalThis.WebAssembly;
   let fallback: Sums | undefined;
   let used: string | undefined;
@@ -109,7 +170,7 @@ test('without WebAssembly the engine falls back to the JS kernel and gives the s
     globalThis.WebAssembly = saved;
   }
   expect(used).toBe('js');
-  expectSameBits(fallback!, withWasm);
+  expectSameBits(fallback!, js);
 });
 
 test('INFALL_DIRECT_KERNEL takes wasm or js, and names itself when given anything else', () => {

@@ -1,5 +1,5 @@
 import { defaultRunSpec, parseRunSpec, type RunSpec } from '../../shared/spec';
-import { CancelledDuringSetup, lawInfo, precheck, runSimulation, type RunProgress } from '../../shared/engine';
+import { CancelledDuringSetup, lawInfo, precheck, runSimulation, setDirectKernel, type RunProgress } from '../../shared/engine';
 
 function spec(overrides: Record<string, unknown>): RunSpec {
   const r = parseRunSpec({ ...defaultRunSpec(), ...overrides });
@@ -64,7 +64,15 @@ describe('runSimulation', () => {
     const r = runSimulation(small());
     expect(r.summary.quantities.energy).toBe('conserved');
     expect(r.summary.maxAbsEnergyDrift!).toBeLessThan(1e-3);
-    expect(r.summary.finalMomentumDrift).toBeLessThan(1e-12);
+    // The WebAssembly direct sum's float32 pair terms do not cancel pair by pair to the bit (measured
+    // 6.4e-10); the float64 JS kernel's do, to rounding.
+    expect(r.summary.finalMomentumDrift).toBeLessThan(1e-8);
+    const previous = setDirectKernel('js');
+    try {
+      expect(runSimulation(small()).summary.finalMomentumDrift).toBeLessThan(1e-12);
+    } finally {
+      setDirectKernel(previous);
+    }
   });
 
   test('precheck reports crossing and relaxation time N/(8 ln N) t_cross (Binney & Tremaine 2008, eq. 1.38)', () => {

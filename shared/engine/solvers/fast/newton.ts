@@ -1,5 +1,5 @@
-// Softened Newton's own loops: the WebAssembly SIMD direct sum where it loads,
-// else two targets per pass over the sources; the tree's self-field walked and
+// Softened Newton's own loops: the WebAssembly SIMD direct sum (mixed precision,
+// directWasm.ts) where it loads, else two targets per pass over the sources; the tree's self-field walked and
 // summed group by group in WebAssembly SIMD (mixed precision, treeWasm.ts) where
 // it loads, else its lists summed at two targets per pass. Each is the generic
 // loops' arithmetic for phi = 1/s written out with the kernel's constants read
@@ -71,19 +71,28 @@ export const newtonLoops: PairLoops = {
   },
 
   // With eps > 0 only: the paired loops below rely on a coincident pair adding exactly +0 to the field.
-  directField(sources, targets, eps2, _p, iStart, iEnd, out) {
+  directField(sources, targets, eps2, p, iStart, iEnd, out) {
     if (!(eps2 > 0)) return 0;
     const { ax, ay, az } = out;
-    const even = (iEnd - iStart) & ~1;
-    const wasm = wasmDirect();
-    if (wasm) {
-      wasm.field(sources, targets, eps2, iStart, even, ax, ay, az);
-      for (const a of [ax, ay, az]) for (let k = iStart; k < iStart + even; k++) a[k] *= G;
-      return even;
-    }
     const { x, y, z, m } = sources;
     const n = m.length;
     const tx = targets.x, ty = targets.y, tz = targets.z;
+    const wasm = wasmDirect();
+    if (wasm?.field(sources, targets, eps2, iStart, iEnd - iStart, ax, ay, az)) {
+      const acc = new Float64Array(3);
+      for (let k = iStart; k < iEnd; k++) {
+        if (Number.isFinite(ax[k] + ay[k] + az[k])) {
+          ax[k] *= G; ay[k] *= G; az[k] *= G;
+          continue;
+        }
+        // Out of float32's reach: this target's float64 sum instead.
+        acc[0] = 0; acc[1] = 0; acc[2] = 0;
+        newtonLoops.pull(x, y, z, m, n, tx[k], ty[k], tz[k], eps2, p, acc);
+        ax[k] = G * acc[0]; ay[k] = G * acc[1]; az[k] = G * acc[2];
+      }
+      return iEnd - iStart;
+    }
+    const even = (iEnd - iStart) & ~1;
     // Two targets per pass over the sources: each source is loaded once for both. With eps > 0 a
     // coincident pair adds exactly +0 (d = 0 times a finite factor), so the loop needs no test for it.
     for (let i = iStart; i < iStart + even; i += 2) {
@@ -105,18 +114,20 @@ export const newtonLoops: PairLoops = {
     return even;
   },
 
-  directPotential(sources, targets, eps2, _p, iStart, iEnd, out) {
+  directPotential(sources, targets, eps2, p, iStart, iEnd, out) {
     if (!(eps2 > 0)) return 0;
-    const even = (iEnd - iStart) & ~1;
-    const wasm = wasmDirect();
-    if (wasm) {
-      wasm.potentialSums(sources, targets, eps2, iStart, even, out);
-      for (let k = iStart; k < iStart + even; k++) out[k] *= -G;
-      return even;
-    }
     const { x, y, z, m } = sources;
     const n = m.length;
     const tx = targets.x, ty = targets.y, tz = targets.z;
+    const wasm = wasmDirect();
+    if (wasm?.potentialSums(sources, targets, eps2, iStart, iEnd - iStart, out)) {
+      for (let k = iStart; k < iEnd; k++) {
+        // A target out of float32's reach is redone in float64.
+        out[k] = -G * (Number.isFinite(out[k]) ? out[k] : newtonLoops.potential(x, y, z, m, n, tx[k], ty[k], tz[k], eps2, p));
+      }
+      return iEnd - iStart;
+    }
+    const even = (iEnd - iStart) & ~1;
     // Two targets per pass, as in the field; here a coincident pair must be skipped (it would add m / eps).
     for (let i = iStart; i < iStart + even; i += 2) {
       const xa = tx[i], ya = ty[i], za = tz[i], xb = tx[i + 1], yb = ty[i + 1], zb = tz[i + 1];

@@ -12,15 +12,11 @@
 // partial sums added into float64 sums. A target's own slot in the list rounds to
 // the same numbers as the target, so it adds exactly zero (eps > 0). The sums at
 // a target depend only on the tree and its group, so threads do not change them.
+
+import { f, high, put } from './lanes';
+
 /** Terms summed in float32 before the partial sums join the float64 ones. */
 const BLOCK: i32 = 32;
-
-// @ts-ignore: decorator
-@inline function f(v: f32): v128 { return f32x4.splat(v); }
-
-/** Lanes 2 and 3 of a float32 vector as a float64 pair. */
-// @ts-ignore: decorator
-@inline function high(v: v128): v128 { return f64x2.promote_low_f32x4(v128.shuffle<f32>(v, v, 2, 3, 2, 3)); }
 
 // Cell layout (tree.ts): centre x, y, z, half size, b_max^2, centre of mass x, y, z, mass, moments xx, yy, zz, xy, xz, yz.
 const CELL_BYTES: usize = 128;
@@ -129,15 +125,6 @@ function gather(
   v = f32x4.replace_lane(v, 1, lane(t, i + 1, to, r));
   v = f32x4.replace_lane(v, 2, lane(t, i + 2, to, r));
   return f32x4.replace_lane(v, 3, lane(t, i + 3, to, r));
-}
-
-/** Writes the four float64 lanes of (lo, hi) for the targets left of a pass. */
-// @ts-ignore: decorator
-@inline function put(o: usize, lo: v128, hi: v128, left: i32): void {
-  store<f64>(o, f64x2.extract_lane(lo, 0));
-  if (left > 1) store<f64>(o, f64x2.extract_lane(lo, 1), 8);
-  if (left > 2) store<f64>(o, f64x2.extract_lane(hi, 0), 16);
-  if (left > 3) store<f64>(o, f64x2.extract_lane(hi, 1), 24);
 }
 
 function sumField(P: usize, C: usize, tx: usize, ty: usize, tz: usize, from: i32, to: i32, eps2: f64, ox: usize, oy: usize, oz: usize): void {
