@@ -1,3 +1,4 @@
+import { createHash } from 'node:crypto';
 import fs from 'node:fs';
 import path from 'node:path';
 import { MessageChannel } from 'node:worker_threads';
@@ -63,7 +64,8 @@ function bundledTask(): string {
   const [out] = buildSync({ entryPoints: [path.join(__dirname, 'task.ts')], bundle: true, platform: 'node', format: 'cjs', target: 'node20', write: false, logLevel: 'error' }).outputFiles;
   // Beside the installed packages, where only their owner writes (a shared /tmp would let others put code there).
   const dir = path.join(__dirname, '..', 'node_modules', '.cache', 'infall-threads');
-  const file = path.join(dir, `task-${out.hash}.js`);
+  // Hex, not esbuild's own hash, which may hold a '/'.
+  const file = path.join(dir, `task-${createHash('sha256').update(out.contents).digest('hex').slice(0, 20)}.js`);
   if (!fs.existsSync(file)) {
     fs.mkdirSync(dir, { recursive: true });
     // Whole or absent: another process may be writing the same bytes.
