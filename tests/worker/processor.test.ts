@@ -71,9 +71,11 @@ test('a submitted run is integrated in a pool thread and lands whole in PostgreS
 
   const output = await check.findOneOrFail(RunOutput, { run: summary.id });
   expect((output.diagnostics as unknown[]).length).toBeGreaterThan(1);
-  // Every stored sample carries the centre series; an isolated Newtonian sphere's centre of mass stays at rest.
+  // Every stored sample carries the centre series; an isolated Newtonian sphere's centre of mass stays at rest:
+  // within 1e-6 km/s, as the direct sum's float32 pair terms are equal and opposite only to rounding
+  // (momentum held to about 1e-9 of the sum of m|v|, tests/engine/run.test.ts), against ~100 km/s speeds.
   const rows = output.diagnostics as DiagnosticSample[];
-  expect(rows.every((d) => Math.hypot(d.centreOfMassVelocity.x, d.centreOfMassVelocity.y, d.centreOfMassVelocity.z) < 1e-9)).toBe(true);
+  expect(rows.every((d) => Math.hypot(d.centreOfMassVelocity.x, d.centreOfMassVelocity.y, d.centreOfMassVelocity.z) < 1e-6)).toBe(true);
   expect(rows.every((d) => [d.centreOfMass.x, d.densityCentre.x, d.densityCentre.y, d.densityCentre.z].every(Number.isFinite))).toBe(true);
   const frames = await check.count(RunSnapshot, { run: summary.id });
   expect(frames).toBeGreaterThan(1);
