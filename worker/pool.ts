@@ -59,7 +59,7 @@ let threadScript: string | undefined;
  * thread ended. Built once per process and named by its content, so processes of the same sources
  * share one file and a killed process leaves nothing new behind.
  */
-function bundledTask(): string {
+export function bundledTask(): string {
   if (threadScript) return threadScript;
   const [out] = buildSync({ entryPoints: [path.join(__dirname, 'task.ts')], bundle: true, platform: 'node', format: 'cjs', target: 'node20', write: false, logLevel: 'error' }).outputFiles;
   // Beside the installed packages, where only their owner writes (a shared /tmp would let others put code there).

@@ -22,7 +22,7 @@ test('the phantom grid split with a helper thread equals one thread bit for bit:
     { kind: 'qumond', interpolation: 'simple', a0_m_s2: 1.2e-10, grid: 32 },
     { kind: 'qumond', interpolation: 'rar', a0_m_s2: 1.2e-10, grid: 32, externalField_m_s2: [2e-11, 0, -1e-11] },
   ];
-  const pool = new Piscina({ filename: taskFile, maxThreads: 1, execArgv: ['--import', 'tsx'] });
+  const pool = new Piscina({ filename: taskFile, maxThreads: 1 });
   try {
     for (const [k, law] of laws.entries()) {
       const softening_kpc = k === 0 ? 0.05 : 0; // with and without the softened kernel's array

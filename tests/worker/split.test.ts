@@ -48,7 +48,7 @@ test('a force sum split with a helper thread equals the single-thread direct sum
   const p = plummerParticles(n);
   const probes: Points = { x: p.x.slice(0, 333).map((v) => v + 0.01), y: p.y.slice(0, 333), z: p.z.slice(0, 333) };
   const kernels: PairKernel[] = [...everyKernel(0.05), ...everyKernel(0)];
-  const pool = new Piscina({ filename: taskFile, maxThreads: 1, execArgv: ['--import', 'tsx'] });
+  const pool = new Piscina({ filename: taskFile, maxThreads: 1 });
   const shared = createSharedField(n, 1);
   const helper = pool.run({ sharedField: shared }, { name: 'fieldHelper' }) as Promise<number>;
   try {
@@ -73,7 +73,7 @@ test('split with the WebAssembly kernel in every thread, or the JS kernel in eve
   // The two kernels differ (float32 terms in WebAssembly), so each split is held to its own kernel's one-thread sums.
   for (const choice of ['wasm', 'js'] as const) {
     setDirectKernel(choice);
-    const pool = new Piscina({ filename: taskFile, maxThreads: 1, execArgv: ['--import', 'tsx'], env: { ...process.env, INFALL_DIRECT_KERNEL: choice } });
+    const pool = new Piscina({ filename: taskFile, maxThreads: 1, env: { ...process.env, INFALL_DIRECT_KERNEL: choice } });
     try {
       const want = allocateAccelerations(n);
       const wantPot = new Float64Array(n);
@@ -116,7 +116,7 @@ test('a helper leaves when the run ends right after a round, and a small round f
   directSolver.field(p, probes, kernel, wantProbes);
   directSolver.field(p, p, kernel, wantAll);
   directSolver.field(p, one, kernel, wantOne);
-  const pool = new Piscina({ filename: taskFile, maxThreads: 1, execArgv: ['--import', 'tsx'] });
+  const pool = new Piscina({ filename: taskFile, maxThreads: 1 });
   try {
     for (let i = 0; i < 150; i++) {
       const shared = createSharedField(n, 1);
@@ -141,7 +141,7 @@ test('a helper leaves when the run ends right after a round, and a small round f
 
 /** A tree SplitSolver for n particles with one helper thread serving it; checks the helper took part and left. */
 async function withTreeHelper(n: number, theta: number, use: (split: SplitSolver, shared: SharedField) => void): Promise<void> {
-  const pool = new Piscina({ filename: taskFile, maxThreads: 1, execArgv: ['--import', 'tsx'] });
+  const pool = new Piscina({ filename: taskFile, maxThreads: 1 });
   const shared = createSharedField(n, 1, theta);
   const helper = pool.run({ sharedField: shared }, { name: 'fieldHelper' }) as Promise<number>;
   try {

@@ -1,7 +1,8 @@
 // What the thread-split tests share: the pool's task file and a wait for a helper thread.
-import path from 'node:path';
+import { bundledTask } from '../../worker/pool';
 
-export const taskFile = path.resolve(__dirname, '../../worker/task.ts');
+// The bundle the pool's threads load, so these threads start as the worker's do (no tsx, no esbuild service left behind).
+export const taskFile = bundledTask();
 
 export async function until(cond: () => boolean, what: string): Promise<void> {
   for (const started = Date.now(); !cond(); await new Promise((r) => setTimeout(r, 20))) {
