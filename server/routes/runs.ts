@@ -11,6 +11,7 @@ import { SNAPSHOT_WIRE_FORMAT } from '../../shared/api/snapshots';
 import { submitRuns, listRuns, findVisibleRun, runDetail, snapshotBytes, cancelRun, toSummary, progressSoFar } from '../services/runs';
 import { extendRun } from '../services/extend';
 import type { Deps } from '../app';
+import type { RunSignal } from '../queue';
 
 const em = () => RequestContext.getEntityManager() as EntityManager;
 
@@ -64,7 +65,18 @@ export function runsRouter({ queue, signals, orm }: Deps): Router {
   // of its progress so far, `progress` while it runs, `end` last.
   r.get('/:id/events', async (req, res) => {
     const user = req.user!;
-    const run = await findVisibleRun(em(), user, req.params.id);
+    // Listen before the run is read: an end that lands while it is read (the run finishing or
+    // cancelled in that moment) would otherwise be missed, and the stream would stay open for good.
+    let endHeard = false;
+    let listener: (s: RunSignal) => void = (s) => void (endHeard ||= s.kind === 'end');
+    const unsubscribe = signals.subscribe(req.params.id, (s) => listener(s));
+    let run: Run;
+    try {
+      run = await findVisibleRun(em(), user, req.params.id);
+    } catch (err) {
+      unsubscribe();
+      throw err;
+    }
     res.writeHead(200, { 'Content-Type': 'text/event-stream', 'Cache-Control': 'no-cache, no-transform', Connection: 'keep-alive', 'X-Accel-Buffering': 'no' });
     const send = (event: RunEventName, data: unknown, id?: number) => res.write(`${id === undefined ? '' : `id: ${id}\n`}event: ${event}\ndata: ${JSON.stringify(data)}\n\n`);
     // Progress events carry their step as the event id: a client that reconnects (after a server
@@ -89,15 +101,14 @@ export function runsRouter({ queue, signals, orm }: Deps): Router {
       }
       res.end();
     };
-    // Subscribe before reading the state so an end in between is not missed.
-    const unsubscribe = signals.subscribe(run.id, (s) => {
+    listener = (s) => {
       if (s.kind === 'progress') {
         if (s.progress.step <= lastStep) return;
         lastStep = s.progress.step;
         send('progress', s.progress, lastStep);
       }
       else void finish();
-    });
+    };
     const heartbeat = setInterval(() => res.write(': still here\n\n'), 15000);
     req.on('close', () => {
       closed = true;
@@ -105,7 +116,7 @@ export function runsRouter({ queue, signals, orm }: Deps): Router {
       clearInterval(heartbeat);
     });
     send('state', toSummary(run));
-    if (FINAL_STATUSES.includes(run.status)) await finish();
+    if (endHeard || FINAL_STATUSES.includes(run.status)) await finish();
     else if (run.status === 'running') {
       // Samples may also arrive as `progress` meanwhile; clients merge the two by step.
       const history = await progressSoFar(queue, run.id).catch(() => []);

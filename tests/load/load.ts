@@ -122,7 +122,8 @@ function watch(url: string, token: string, runId: string, limitMs: number): Prom
         firstMs ??= performance.now() - t0;
         text += c;
       });
-      res.on('end', () => (clearTimeout(limit), resolve({ firstMs, sawEnd: /event: end/.test(text), error: false })));
+      // 'close' comes after 'end', and also when the limit cuts the stream short (no 'end' then).
+      res.on('close', () => (clearTimeout(limit), resolve({ firstMs, sawEnd: /event: end/.test(text), error: !res.complete })));
     });
     req.on('error', () => (clearTimeout(limit), resolve({ firstMs, sawEnd: false, error: true })));
     const limit = setTimeout(() => req.destroy(), limitMs);

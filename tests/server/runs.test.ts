@@ -4,7 +4,8 @@ import request from 'supertest';
 import { Worker } from 'bullmq';
 import { openAuthStack, userWithToken, type AuthStack } from './auth/harness';
 import { config } from '../../server/config';
-import { redisConnection, type RunJobData } from '../../server/queue';
+import { redisConnection, RunEndAnnouncer, type RunJobData } from '../../server/queue';
+import { Run } from '../../server/db/entities';
 import { RunPool } from '../../worker/pool';
 import { runProcessor } from '../../worker/processor';
 import { readFileSync } from 'node:fs';
@@ -12,6 +13,7 @@ import { join } from 'node:path';
 import { startHeartbeat } from '../../worker/heartbeat';
 import { defaultRunSpec, NAME_MAX_LENGTH } from '../../shared/spec';
 import { decodeSnapshots } from '../../shared/api/snapshots';
+import * as runsService from '../../server/services/runs';
 
 jest.setTimeout(90_000);
 
@@ -249,5 +251,37 @@ describe('a run from submit to results', () => {
     expect(events.at(-1)).toMatchObject({ event: 'end', data: { status: 'finished' } });
     // The samples were kept only while the run ran; its stored diagnostics take over.
     expect((await s.queue.getJobLogs(id)).count).toBe(0);
+  });
+
+  test('a run that ends while its stream is being opened still closes the stream with its end', async () => {
+    // Seen under load (300 watchers): a stream that read the run just before it ended, and began
+    // listening just after the end was heard, waited for good. Here the run ends in that moment,
+    // between the stream's read of the run and the rest of its opening: another process (a worker,
+    // the reconciler) stores its end and announces it once through Redis, and this server hears it.
+    await s.queue.pause();
+    const announcer = new RunEndAnnouncer();
+    try {
+      const res = await request(s.app).post('/api/runs').set(auth).send({ name: 'ends while watched', spec: small() }).expect(201);
+      const id: string = res.body.runs[0].id;
+      const read = runsService.findVisibleRun;
+      jest.spyOn(runsService, 'findVisibleRun').mockImplementationOnce(async (em, user, runId) => {
+        const run = await read(em, user, runId);
+        await s.em().nativeUpdate(Run, { id }, { status: 'failed', error: 'ended elsewhere', finishedAt: new Date() });
+        const heard = new Promise<void>((resolve) => {
+          const off = s.signals.subscribe(id, (signal) => signal.kind === 'end' && (off(), resolve()));
+        });
+        await announcer.announce(id);
+        await heard;
+        return run;
+      });
+      const events = parseEvents((await request(s.app).get(`/api/runs/${id}/events`).set(auth).timeout(15_000).expect(200)).text);
+      expect(events.map((e) => e.event)).toEqual(['state', 'state', 'end']);
+      expect(events[0].data.status).toBe('queued');
+      expect(events.at(-1)).toMatchObject({ event: 'end', data: { status: 'failed' } });
+    } finally {
+      await announcer.close();
+      jest.restoreAllMocks();
+      await s.queue.resume();
+    }
   });
 });
