@@ -53,8 +53,8 @@ const WIDEN = 1.4, MARGIN = 3;
 /**
  * A warm disk drawn from a distribution function of the integrals of motion
  * E and L_z in the law's own midplane field, so that it is a steady state of
- * that field whatever its temperature: Dehnen's (1999, AJ 118, 1201, eq. 10
- * as we recall it) f_new,
+ * that field whatever its temperature: Dehnen's (1999, AJ 118, 1201; the form
+ * from memory) f_new,
  *   f(E, L) = F(R_E) / sigma^2(R_E) exp(Omega(R_E) (L - L_c(E)) / sigma^2(R_E)),
  * with R_E, L_c(E) and Omega(R_E) the radius, angular momentum and angular
  * speed of the circular orbit of energy E. Near circular orbits it is
@@ -62,16 +62,17 @@ const WIDEN = 1.4, MARGIN = 3;
  * (Binney & Tremaine 2008 §4.4). sigma is the target radial dispersion; F
  * starts as the target surface density and is corrected round by round by
  * the ratio of target to the DF's own integrated surface density at the same
- * radius, as Dehnen does, so the positions (drawn from the exponential) and
- * the velocities (drawn from f at each position) agree: the sampled disk is
+ * radius, as Dehnen proposes (from memory), so the positions (drawn from the
+ * exponential) and the velocities (drawn from f at each position) agree: the sampled disk is
  * then f times a ratio within 0.3 % of constant from 0.02 to 10 R_d
  * (measured on the disk of tests/engine/diskLaws.test.ts), a steady state.
  * sigma is not corrected: in a disk as warm as Q = 2 makes a heavy one (sigma_R
  * half the circular speed), orbits from the hot middle reach the centre, so
  * the colder centre Q asks for where the bulge makes kappa large cannot be
- * matched; correcting sigma too made the inner disk hotter still, the rounds
- * oscillate and the disk thickened and lost 6.7 % of its curve within a
- * period under Yukawa (measured). The realised sigma_R of that disk is 11-13 %
+ * matched; correcting sigma too (everywhere, the rounds oscillating, or only
+ * outside the peak of Q's sigma) made the inner disk hotter still, and the
+ * Yukawa disk thickened and lost 9.3 % or 6.7 % of its curve within a period
+ * (measured; 4.5 % as it is). The realised sigma_R of that disk is 11-13 %
  * below the target from 1 to 2.5 R_d and above it inside 0.5 R_d and beyond
  * 4 R_d (measured). The vertical motion is left to the caller (isothermal
  * sech^2 layer).
