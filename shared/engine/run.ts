@@ -3,7 +3,7 @@ import { particleCount } from '../spec/runSpec';
 import type { DensityCentre } from './centre';
 import { analyticCurves, CURVE_BINS, type AnalyticCurves } from './analytic';
 import { sampleDiagnostics, type DiagnosticSample, type DriftReference } from './diagnostics';
-import { lawInfo } from './laws/registry';
+import { lawInfo, localCoupling } from './laws/registry';
 import type { LawInfo } from './laws/types';
 import { balancedSystems, modelModule, type Component } from './models';
 import { measureRotationCurve, type RotationCurve } from './rotationCurves';
@@ -188,7 +188,7 @@ export function runSimulation(spec: RunSpec, hooks: RunHooks = {}): RunResult {
   const diskPart = disk && sim.initial.components.find((c) => c.label === disk.component);
   const toomre =
     disk && diskPart
-      ? (p: ParticleState, centre: DensityCentre) => toomreProfile(p, sim.law, diskPart, TOOMRE_RANGE_SCALE_LENGTHS * disk.scaleLength_kpc, TOOMRE_BINS, centre)
+      ? (p: ParticleState, centre: DensityCentre) => toomreProfile(p, sim.law, diskPart, TOOMRE_RANGE_SCALE_LENGTHS * disk.scaleLength_kpc, TOOMRE_BINS, centre, localCoupling(spec.law))
       : null;
 
   const diagnose = () => {

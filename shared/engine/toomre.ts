@@ -14,7 +14,9 @@ const MIN_PARTICLES_PER_BIN = 20;
  * plane, from the disk particles (index range) about the density centre
  * (its position, and the mean velocity of the particles that define it).
  * kappa comes from the circular speed of the law's field sampled at probes,
- * kappa^2 = 2 vc^2 / R^2 + (1/R) d(vc^2)/dR by central differences.
+ * kappa^2 = 2 vc^2 / R^2 + (1/R) d(vc^2)/dR by central differences. G is
+ * taken times `coupling`, the law's short-range coupling (Yukawa: 1 + alpha),
+ * as a disk's set-up takes it, so Q is the stability margin under the law.
  */
 export function toomreProfile(
   p: ParticleState,
@@ -23,6 +25,7 @@ export function toomreProfile(
   maxRadius_kpc: number,
   bins: number,
   c: DensityCentre = densityCentre(p, p),
+  coupling = 1,
 ): ToomreProfile {
   const width = maxRadius_kpc / bins;
   const mass = new Float64Array(bins), sumV = new Float64Array(bins), sumV2 = new Float64Array(bins), counts = new Int32Array(bins);
@@ -49,7 +52,7 @@ export function toomreProfile(
     const mean = sumV[k] / mass[k];
     const sigmaR = Math.sqrt(Math.max(0, sumV2[k] / mass[k] - mean * mean));
     const area = Math.PI * ((R + 0.5 * width) ** 2 - (R - 0.5 * width) ** 2);
-    return (sigmaR * Math.sqrt(kappa2)) / (TOOMRE_STELLAR * G * (mass[k] / area));
+    return (sigmaR * Math.sqrt(kappa2)) / (TOOMRE_STELLAR * G * coupling * (mass[k] / area));
   });
   return { radius_kpc: centres, q };
 }

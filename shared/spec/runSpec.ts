@@ -10,9 +10,12 @@ import { solverSchema } from './solver';
  * spec (seed included) gives bit-identical results. Units sit in field names:
  * kpc, km/s, Msun, Myr at the interface.
  */
-export const RUN_SPEC_VERSION = 2 as const;
-// Version 1 is still read. It differs in one meaning only: a sphere with no
-// equilibriumLaw is balanced for Newton (version 2: for the run's law).
+export const RUN_SPEC_VERSION = 3 as const;
+// Versions 1 and 2 are still read, each with its own meaning where it differs:
+// version 1, a sphere with no equilibriumLaw is balanced for Newton (from 2 on: for
+// the run's law); versions 1 and 2, a disk's velocities are Gaussians about moments
+// with Toomre's Q taken with Newton's G (from 3 on: drawn from a distribution
+// function, Q taken with the law's short-range coupling; models/disk.ts).
 
 export { LIMITS } from './limits';
 
@@ -43,7 +46,7 @@ export { MIN_TRUNCATION_FRACTION } from '../engine/models/fields';
 
 export const runSpecSchema = z
   .strictObject({
-    version: z.union([z.literal(1), z.literal(RUN_SPEC_VERSION)], `version must be ${RUN_SPEC_VERSION}, the current spec format (1 is still read)`).describe('2 is current; 1 is read with its own default for equilibriumLaw'),
+    version: z.union([z.literal(1), z.literal(2), z.literal(RUN_SPEC_VERSION)], `version must be ${RUN_SPEC_VERSION}, the current spec format (1 and 2 are still read)`).describe('3 is current; 1 and 2 are read with their own set-ups (equilibriumLaw default, disk velocities)'),
     name: runNameSchema.optional(),
     model: modelSchema.meta({ title: 'Model' }),
     law: lawSchema.meta({ title: 'Force law' }),

@@ -49,7 +49,7 @@ describe('sim command line', () => {
     const r = sim('schema');
     expect(r.status).toBe(0);
     const schema = JSON.parse(r.stdout);
-    expect(schema.properties.version.anyOf.map((v: { const: number }) => v.const)).toEqual([1, 2]);
+    expect(schema.properties.version.anyOf.map((v: { const: number }) => v.const)).toEqual([1, 2, 3]);
     expect(schema.required).toEqual(expect.arrayContaining(['model', 'law', 'timestep_Myr']));
   });
 

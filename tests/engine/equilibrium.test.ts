@@ -88,10 +88,12 @@ const diskSpec = (law: Record<string, unknown>) =>
 
 describe('disks balanced for their law', () => {
   // Tolerance 5% (the requirement), from 0.5 to 5 scale lengths, at t = 0 and after one rotation period at 5 R_d.
-  // Measured worst: Newton 4.6%, NFW halo 3.7% (both after the period, at 3-5 R_d, where vertical
-  // heating by particle noise thickens the disk). Emergent gravity, field-form MOND and a gas disk are
-  // in diskLaws.test.ts and diskFieldForm.test.ts. Not held, and said in README: algebraic MOND (8% at
-  // 3 R_d, it pushes itself) and Yukawa (12% at 4 R_d with alpha 0.3, direct sum too: the disk bars).
+  // Measured worst, velocities from the disk's distribution function (spec version 3): Newton 3.4%
+  // (0.5 R_d), NFW halo 2.2% (0.5 R_d), both after the period (version 2's Gaussian moments: 4.6-4.9%
+  // and 3.7%, at 3-5 R_d). Over seeds 1-4 Newton's worst is 3.2-4.8% (moments 3.2-4.8% too): at Q = 2
+  // this heavy disk is near the edge of barring, and in one seed of four an m = 2 mode grows to 0.2.
+  // Emergent gravity, Yukawa, field-form MOND and a gas disk are in diskLaws.test.ts and
+  // diskFieldForm.test.ts; algebraic MOND pushes itself (diskLaws.test.ts).
   test.each([
     ['newton', { kind: 'newton' }],
     ['halo', { kind: 'halo', profile: 'nfw', scale_kpc: 10, density_Msun_kpc3: 1e7 }],
@@ -207,8 +209,8 @@ describe('spec versions and the run record', () => {
     expect(precheck(specWith({ ...v1, version: 2 })).warnings.map((w) => w.code)).not.toContain('set-up-for-another-law');
   });
 
-  test('a version outside 1 and 2 is refused, naming the field', () => {
-    const r = parseRunSpec({ ...v1, version: 3 });
+  test('a version outside 1 to 3 is refused, naming the field', () => {
+    const r = parseRunSpec({ ...v1, version: 4 });
     expect(r.ok).toBe(false);
     if (!r.ok) expect(r.issues[0].path).toBe('version');
   });

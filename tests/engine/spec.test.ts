@@ -44,7 +44,7 @@ describe('run spec schema', () => {
     const { version: _v, ...unversioned } = base();
     const missing = parseRunSpec(unversioned);
     expect(missing.ok).toBe(false);
-    if (!missing.ok) expect(missing.issues[0]).toEqual({ path: 'version', message: `version must be ${RUN_SPEC_VERSION}, the current spec format (1 is still read)` });
+    if (!missing.ok) expect(missing.issues[0]).toEqual({ path: 'version', message: `version must be ${RUN_SPEC_VERSION}, the current spec format (1 and 2 are still read)` });
   });
 
   // These show under their field in the launch form and in API refusals: in words, with units and

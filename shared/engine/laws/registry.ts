@@ -32,6 +32,9 @@ export const createLaw = (law: LawSpec, ctx: LawContext): ForceLaw => lawModule(
 export const modelAcceleration = (law: LawSpec, model: MassModel, R_kpc: number): number =>
   lawModule(law.kind).modelAcceleration(law, model, R_kpc);
 
+/** Factor on G in Toomre's Q of a disk balanced for the law (LawModule.localCoupling). */
+export const localCoupling = (law: LawSpec): number => lawModule(law.kind).localCoupling?.(law) ?? 1;
+
 /** The law's parameters as JSON Schema (titles, units, option labels from `.meta`): what forms are generated from. */
 export const lawJsonSchema = (kind: string) => z.toJSONSchema(lawModule(kind).schema, { io: 'input' });
 

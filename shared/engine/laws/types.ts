@@ -135,6 +135,12 @@ export interface LawModule<S extends LawSchema = LawSchema> {
    * the law corrects it by the law's measured in-plane pull.
    */
   approximateCurve?: string;
+  /**
+   * The law's pull between particles much closer than any of its scales, over Newton's (Yukawa:
+   * 1 + alpha below lambda). Toomre's Q of a disk balanced for the law is taken with G times
+   * this, since the local stability margin is set by the short-range pull. Absent: 1.
+   */
+  localCoupling?(params: z.infer<S>): number;
   /** Work per force evaluation beyond the pair sum (a grid), in pair interactions, for the quota's cost estimate. */
   extraInteractions?(params: z.infer<S>): number;
   /** The field takes a second or more per evaluation: not recomputed per animation frame. */

@@ -43,7 +43,7 @@ const info = (p: YukawaParams): LawInfo => ({
   conservesAngularMomentum: true,
   hasPotential: true,
   validity: 'A phenomenological fifth force, valid wherever its pair potential is assumed; softened like Newton (r replaced by sqrt(r^2 + eps^2)).',
-  notes: 'Central pairwise force with a potential: energy, momentum and angular momentum are conserved.',
+  notes: `Central pairwise force with a potential: energy, momentum and angular momentum are conserved. A disk balanced for it takes Toomre's Q with G (1 + alpha), the pull at separations well below lambda, so its Q is the same stability margin as under Newton (hotter by ${(1 + p.alpha).toFixed(2)} in sigma_R).`,
 });
 
 export const yukawaLaw = defineLaw({
@@ -66,5 +66,7 @@ export const yukawaLaw = defineLaw({
       potentialEnergy: (sources) => pairPotentialEnergy(solver, kernel, sources, scratch),
     };
   },
+  // Below lambda the pair pull is (1 + alpha) times Newton's: Toomre's Q of a disk balanced for the law takes G (1 + alpha).
+  localCoupling: (params) => 1 + params.alpha,
   modelAcceleration: (params, model, R) => model.newtonAccel(R) + params.alpha * model.screenedAccel(R, params.lambda_kpc),
 });

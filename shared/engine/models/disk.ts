@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { createLaw, modelAcceleration, type LawSpec } from '../laws/registry';
+import { createLaw, localCoupling, modelAcceleration, type LawSpec } from '../laws/registry';
 import type { LawContext } from '../laws/types';
 import type { RngState } from '../rng';
 import { normal, uniform, uniformOpen } from '../rng';
@@ -14,6 +14,7 @@ import { radialProfile, type RadialMassProfile } from '../radialProfile';
 import { checkSystem, count, equilibriumLaw, length, liveHaloSchema, mass, MIN_TRUNCATION_FRACTION, truncation } from './fields';
 import { combinedModel, type MassModel } from './massModel';
 import { lawPullRatio, ringDirections } from './lawPull';
+import { planarDiskDF, type PlanarDiskDF } from './diskDF';
 import { defineSystem } from './system';
 import type { Component } from './types';
 
@@ -28,7 +29,7 @@ const schema = z
     mass_Msun: mass.describe('disk mass'),
     scaleLength_kpc: length.describe('exponential scale length R_d').meta({ title: 'Scale length R_d' }),
     scaleHeight_kpc: length.describe('sech^2 scale height z0: rho ~ sech^2(z / z0)').meta({ title: 'Scale height z₀' }),
-    toomreQ: z.number().min(0.5).max(10).default(1.5).describe('Toomre (1964) stability parameter setting the radial dispersion').meta({ title: 'Toomre Q' }),
+    toomreQ: z.number().min(0.5).max(10).default(1.5).describe("Toomre (1964) stability parameter setting the radial dispersion, taken with the short-range pull of the law the disk is balanced for (Yukawa: G (1 + alpha)), so a value is the same stability margin under every law").meta({ title: 'Toomre Q' }),
     truncationRadius_kpc: truncation,
     // examples[0] of an optional part: what the launch form fills in when it is switched on (invented values).
     bulge: z
@@ -271,31 +272,52 @@ function exponentialRadius(F: number): number {
   return x;
 }
 
+/** Squared midplane circular speed of `law` for the whole model, times the law's measured pull over the model's (fieldCorrection). */
+const circularSpeed2 = (law: LawSpec, model: MassModel, correction: (R: number) => number) => (R: number): number =>
+  R * modelAcceleration(law, model, R) * correction(R);
+
+/** kappa^2 = R^-3 d(R^4 Omega^2)/dR = 2 vc^2 / R^2 + (1/R) d(vc^2)/dR, floored at 0. */
+function epicyclic2(vc2: (R: number) => number, R: number): number {
+  const h = 1e-4 * R;
+  return Math.max(0, (2 * vc2(R)) / (R * R) + (vc2(R + h) - vc2(R - h)) / (2 * h * R));
+}
+
+/** sigma_R from Toomre's Q over the surface density `stable`, with G times `coupling` (localCoupling of the law). */
+const toomreSigmaR = (toomreQ: number, coupling: number, stable: (R: number) => number, vc2: (R: number) => number) => (R: number): number => {
+  const kappa2 = epicyclic2(vc2, R);
+  return kappa2 > 0 ? (toomreQ * TOOMRE_STELLAR * G * coupling * stable(R)) / sqrt(kappa2) : 0;
+};
+
+/** How a disk's in-plane velocities are drawn: from moments (spec versions 1 and 2) or from a distribution function. */
+export type DiskSetUp = 'moments' | 'distribution';
+
+/** In-plane velocity (v_R, v_phi) of a particle at R. */
+type PlanarDraw = (R: number, rng: RngState) => [number, number];
+
 /**
- * Kinematics of one layer on a grid in ln R: circular speed of `law` for the
- * whole model, epicyclic frequency, sigma_R from Toomre's Q over the surface
- * density `stable` (the stars', or stars and gas together), and the layer's
- * mean azimuthal speed from the thin-disk asymmetric-drift equation (Binney &
- * Tremaine 2008, eq. 4.227, tilt term dropped) with its own surface density.
+ * Version 1 and 2 specs' set-up, kept so they give what they gave: on a grid
+ * in ln R, sigma_R from Toomre's Q with Newton's G, sigma_phi from the
+ * epicyclic ratio, the mean azimuthal speed from the thin-disk
+ * asymmetric-drift equation (Binney & Tremaine 2008, eq. 4.227, tilt term
+ * dropped) with the layer's own surface density, and Gaussian velocities
+ * about those moments (Hernquist 1993). Not a steady state of a warm disk
+ * (README: the disk's curve leaves 5 % within a period under Yukawa and
+ * field-form MOND).
  */
-function diskKinematics(d: ExponentialLayer, toomreQ: number, stable: (R: number) => number, law: LawSpec, model: MassModel, correction: (R: number) => number) {
+function momentDraw(d: ExponentialLayer, toomreQ: number, stable: (R: number) => number, vc2: (R: number) => number): PlanarDraw {
   const Rd = d.scaleLength_kpc;
   const NODES = 256;
   const lo = log(1e-3 * Rd), hi = log(diskTruncation(d));
   const lnR = Float64Array.from({ length: NODES }, (_, k) => lo + ((hi - lo) * k) / (NODES - 1));
-  const vc2 = (R: number) => R * modelAcceleration(law, model, R) * correction(R);
+  const toomre = toomreSigmaR(toomreQ, 1, stable, vc2);
   const sigmaR = new Float64Array(NODES), sigmaPhi = new Float64Array(NODES), vPhi = new Float64Array(NODES);
   const kappa2 = new Float64Array(NODES), omega2 = new Float64Array(NODES), lnSS = new Float64Array(NODES);
   lnR.forEach((l, k) => {
     const R = exp(l);
-    const h = 1e-4 * R;
-    const v2 = vc2(R);
-    // kappa^2 = R^-3 d(R^4 Omega^2)/dR = 2 vc^2 / R^2 + (1/R) d(vc^2)/dR
-    kappa2[k] = Math.max(0, (2 * v2) / (R * R) + (vc2(R + h) - vc2(R - h)) / (2 * h * R));
-    omega2[k] = v2 / (R * R);
-    const sigma = diskSurfaceDensity(d, R);
-    sigmaR[k] = kappa2[k] > 0 ? (toomreQ * TOOMRE_STELLAR * G * stable(R)) / sqrt(kappa2[k]) : 0;
-    lnSS[k] = log(sigma * sigmaR[k] ** 2 + 1e-300);
+    kappa2[k] = epicyclic2(vc2, R);
+    omega2[k] = vc2(R) / (R * R);
+    sigmaR[k] = toomre(R);
+    lnSS[k] = log(diskSurfaceDensity(d, R) * sigmaR[k] ** 2 + 1e-300);
   });
   for (let k = 0; k < NODES; k++) {
     const a = Math.max(0, k - 1), b = Math.min(NODES - 1, k + 1);
@@ -305,10 +327,26 @@ function diskKinematics(d: ExponentialLayer, toomreQ: number, stable: (R: number
     const v2 = omega2[k] * exp(2 * lnR[k]);
     vPhi[k] = sqrt(Math.max(0, v2 + sigmaR[k] ** 2 * (1 - ratio + slope)));
   }
-  return (R: number) => {
+  return (R, rng) => {
     const l = log(Math.max(R, 1e-300));
-    return { vPhi: interpolate(lnR, vPhi, l), sigmaR: interpolate(lnR, sigmaR, l), sigmaPhi: interpolate(lnR, sigmaPhi, l) };
+    const vR = interpolate(lnR, sigmaR, l) * normal(rng);
+    return [vR, interpolate(lnR, vPhi, l) + interpolate(lnR, sigmaPhi, l) * normal(rng)];
   };
+}
+
+/**
+ * The layer's distribution function in the law's midplane field (diskDF.ts):
+ * sigma_R from Toomre's Q with the law's short-range coupling, so "Q = 2" is
+ * the same stability margin under every law (Yukawa: G (1 + alpha)).
+ */
+function layerDF(d: ExponentialLayer, toomreQ: number, stable: (R: number) => number, law: LawSpec, vc2: (R: number) => number, heightAverage: (R: number) => number): PlanarDiskDF {
+  return planarDiskDF({
+    vc2: (R) => vc2(R) * heightAverage(R),
+    surface: (R) => diskSurfaceDensity(d, R),
+    sigmaR: toomreSigmaR(toomreQ, localCoupling(law), stable, vc2),
+    scaleLength_kpc: d.scaleLength_kpc,
+    outer_kpc: diskTruncation(d),
+  });
 }
 
 /** Probe radii for the vertical field, in scale lengths: where the disk has particles to speak of. */
@@ -324,13 +362,20 @@ const PROBE_LAYER = gaussLegendre01(4);
  * with u = tanh(z/z0). g_z is the law's own pull on probes among the sampled
  * particles, so disk, bulge, softening and the law's boost all count. For a
  * lone self-gravitating sheet it gives pi G Sigma z0 (Spitzer 1942).
+ *
+ * From the same probes, and one midplane ring per radius, `heightAverage`: the
+ * inward pull averaged over the layer's density, int rho g_R dz / Sigma, over
+ * the midplane pull. That average is the pull in the vertically integrated
+ * radial Jeans equation (Binney & Tremaine 2008, eq. 4.222a integrated over z):
+ * a layer's particles spend their time above and below the plane, where the
+ * pull is weaker (measured 2-3 % at 0.5-1 R_d in a layer of z0 = R_d / 6).
  */
-function verticalDispersion(d: ExponentialLayer, law: LawSpec, ctx: LawContext, sources: Sources): (R: number) => number {
+function layerField(d: ExponentialLayer, law: LawSpec, ctx: LawContext, sources: Sources): { sigmaZ: (R: number) => number; heightAverage: (R: number) => number } {
   const Rd = d.scaleLength_kpc, z0 = d.scaleHeight_kpc;
   const outer = Math.min(PROBE_OUTER * Rd, diskTruncation(d));
   const lnR = Float64Array.from({ length: PROBE_RADII }, (_, k) => log(PROBE_INNER * Rd) + ((log(outer) - log(PROBE_INNER * Rd)) * k) / (PROBE_RADII - 1));
   const layers = PROBE_LAYER.u.length;
-  const n = PROBE_RADII * layers * 2 * PROBE_AZIMUTHS;
+  const layered = PROBE_RADII * layers * 2 * PROBE_AZIMUTHS, n = layered + PROBE_RADII * 2 * PROBE_AZIMUTHS;
   const probes = { x: new Float64Array(n), y: new Float64Array(n), z: new Float64Array(n) };
   let k = 0;
   for (let r = 0; r < PROBE_RADII; r++)
@@ -341,20 +386,31 @@ function verticalDispersion(d: ExponentialLayer, law: LawSpec, ctx: LawContext, 
           probes.x[k] = exp(lnR[r]) * cos(phi); probes.y[k] = exp(lnR[r]) * Math.sin(phi);
           probes.z[k] = side * z0 * Math.atanh(PROBE_LAYER.u[l]);
         }
+  for (let r = 0; r < PROBE_RADII; r++)
+    for (let j = 0; j < 2 * PROBE_AZIMUTHS; j++, k++) {
+      const phi = (PI * j) / PROBE_AZIMUTHS;
+      probes.x[k] = exp(lnR[r]) * cos(phi); probes.y[k] = exp(lnR[r]) * Math.sin(phi);
+    }
   const acc = allocateAccelerations(n);
   createLaw(law, ctx).accelerations(sources, probes, acc);
-  const sigma = new Float64Array(PROBE_RADII);
+  const sigma = new Float64Array(PROBE_RADII), ratio = new Float64Array(PROBE_RADII);
+  const inward = (i: number) => -(acc.ax[i] * probes.x[i] + acc.ay[i] * probes.y[i]);
   k = 0;
+  let m = layered;
   for (let r = 0; r < PROBE_RADII; r++) {
-    let s2 = 0;
+    let s2 = 0, gR = 0, g0 = 0;
     for (let l = 0; l < layers; l++) {
-      let gz = 0;
-      for (const side of [1, -1]) for (let j = 0; j < PROBE_AZIMUTHS; j++, k++) gz -= side * acc.az[k];
+      let gz = 0, gl = 0;
+      for (const side of [1, -1]) for (let j = 0; j < PROBE_AZIMUTHS; j++, k++) { gz -= side * acc.az[k]; gl += inward(k); }
       s2 += PROBE_LAYER.w[l] * (gz / (2 * PROBE_AZIMUTHS));
+      gR += PROBE_LAYER.w[l] * gl;
     }
+    for (let j = 0; j < 2 * PROBE_AZIMUTHS; j++, m++) g0 += inward(m);
     sigma[r] = sqrt(Math.max(0, z0 * s2));
+    ratio[r] = g0 > 0 ? gR / g0 : 1;
   }
-  return (R) => interpolate(lnR, sigma, log(Math.max(R, 1e-300)));
+  const at = (t: Float64Array) => (R: number) => interpolate(lnR, t, log(Math.max(R, 1e-300)));
+  return { sigmaZ: at(sigma), heightAverage: at(ratio) };
 }
 
 /**
@@ -405,14 +461,18 @@ function sampleLayerPositions(l: ExponentialLayer, rng: RngState, out: ParticleS
   }
 }
 
-/** Velocities of a layer's particles from its kinematics: mean rotation plus Gaussian dispersions, counter-clockwise seen from +z. */
-function assignLayerVelocities(kin: ReturnType<typeof diskKinematics>, sigmaZ: (R: number) => number, rng: RngState, out: ParticleState, from: number, count: number): void {
+/** How a layer's velocities are drawn: in plane, and vertically as a Gaussian of dispersion sigmaZ. */
+interface LayerDraw {
+  planar: PlanarDraw;
+  sigmaZ: (R: number) => number;
+}
+
+/** Velocities of a layer's particles from `draw`, counter-clockwise seen from +z. */
+function assignLayerVelocities({ planar, sigmaZ }: LayerDraw, rng: RngState, out: ParticleState, from: number, count: number): void {
   for (let i = from; i < from + count; i++) {
     const R = Math.hypot(out.x[i], out.y[i]);
     const c = out.x[i] / R, s = out.y[i] / R;
-    const k = kin(R);
-    const vR = k.sigmaR * normal(rng);
-    const vT = k.vPhi + k.sigmaPhi * normal(rng);
+    const [vR, vT] = planar(R, rng);
     out.vx[i] = vR * c - vT * s; out.vy[i] = vR * s + vT * c; out.vz[i] = sigmaZ(R) * normal(rng);
   }
 }
@@ -431,9 +491,13 @@ function assignLayerVelocities(kin: ReturnType<typeof diskKinematics>, sigmaZ: (
  * layers each at Q would together be less stable than Q says (two-component
  * stability, Jog & Solomon 1984; from memory). A cold, pressureless gas layer of
  * particles would only fragment. Each layer keeps its own sigma_z (its own scale
- * height in the total field) and its own asymmetric drift.
+ * height in the total field) and its own mean rotation.
+ *
+ * `setUp` 'distribution' (spec version 3 on) draws the in-plane velocities from
+ * each layer's distribution function (layerDF); 'moments' (versions 1 and 2)
+ * from Gaussians about the moments (momentDraw).
  */
-export function sampleDiskGalaxy(d: DiskSpec, law: LawSpec, ctx: LawContext, rng: RngState, out: ParticleState, start: number): Component[] {
+export function sampleDiskGalaxy(d: DiskSpec, law: LawSpec, ctx: LawContext, rng: RngState, out: ParticleState, start: number, setUp: DiskSetUp): Component[] {
   const model = diskGalaxyModel(d, ctx.softening_kpc);
   const split = diskParticleSplit(d);
   const gas = gasLayer(d);
@@ -447,21 +511,25 @@ export function sampleDiskGalaxy(d: DiskSpec, law: LawSpec, ctx: LawContext, rng
 
   const view = (a: Float64Array) => a.subarray(start, haloEnd);
   const sources = { x: view(out.x), y: view(out.y), z: view(out.z), m: view(out.m) };
-  const sigmaZ = verticalDispersion(d, law, ctx, sources);
+  const stars = layerField(d, law, ctx, sources);
   const correction = fieldCorrection(d, law, ctx, sources, model);
   const stable = gas ? (R: number) => diskSurfaceDensity(d, R) + diskSurfaceDensity(gas, R) : (R: number) => diskSurfaceDensity(d, R);
   const asSampled = withSampledProfile(sources);
-  const field = asSampled(model);
-  assignLayerVelocities(diskKinematics(d, d.toomreQ, stable, law, field, correction), sigmaZ, rng, out, start, split.disk);
+  const vc2 = circularSpeed2(law, asSampled(model), correction);
+  const draw = (l: ExponentialLayer, f: ReturnType<typeof layerField>): LayerDraw => {
+    if (setUp === 'moments') return { planar: momentDraw(l, d.toomreQ, stable, vc2), sigmaZ: f.sigmaZ };
+    const df = layerDF(l, d.toomreQ, stable, law, vc2, f.heightAverage);
+    return { planar: (R, r) => df.sample(R, r), sigmaZ: f.sigmaZ };
+  };
+  assignLayerVelocities(draw(d, stars), rng, out, start, split.disk);
   const components: Component[] = [{ label: 'disk', start, count: split.disk }];
-  const spherical = b || d.halo || gas ? asSampled(sphericalPartsField(d, ctx.softening_kpc)) : field;
+  const spherical = asSampled(b || d.halo || gas ? sphericalPartsField(d, ctx.softening_kpc) : model);
   if (b) {
     assignIsotropicVelocities(out, diskEnd, split.bulge, isotropicSpeedSampler(hernquistProfile(b), spherical, law), rng);
     components.push({ label: 'bulge', start: diskEnd, count: split.bulge });
   }
   if (gas) {
-    const gasSigmaZ = verticalDispersion(gas, law, ctx, sources);
-    assignLayerVelocities(diskKinematics(gas, d.toomreQ, stable, law, field, correction), gasSigmaZ, rng, out, bulgeEnd, split.gas);
+    assignLayerVelocities(draw(gas, layerField(gas, law, ctx, sources)), rng, out, bulgeEnd, split.gas);
     components.push({ label: 'gas', start: bulgeEnd, count: split.gas });
   }
   if (d.halo) {
@@ -485,7 +553,7 @@ export const diskModule = defineSystem({
   mass: (d) => d.mass_Msun + (d.bulge?.mass_Msun ?? 0) + (d.gas?.mass_Msun ?? 0) + (d.halo?.mass_Msun ?? 0),
   massModel: diskGalaxyModel,
   sample: (d, law, { spec, rng }, out, start) =>
-    sampleDiskGalaxy(d, law, { solver: makeSolver(spec.solver), softening_kpc: spec.softening_kpc }, rng, out, start),
+    sampleDiskGalaxy(d, law, { solver: makeSolver(spec.solver), softening_kpc: spec.softening_kpc }, rng, out, start, spec.version >= 3 ? 'distribution' : 'moments'),
   checkSystem(d, path, ctx) {
     checkSystem(d, 'scaleLength_kpc', path, ctx);
     const parts = 1 + (d.bulge ? 1 : 0) + (d.gas ? 1 : 0);
