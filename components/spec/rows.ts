@@ -80,19 +80,26 @@ function fieldRows(spec: RunSpec, obj: Obj, path: string, group: SpecGroup, labe
 
 /** The law a system's velocities were balanced for when the spec named none. */
 function defaultBalance(spec: RunSpec, kind: string, absent = 'the run’s law'): string {
-  try {
-    // Version-1 specs balanced some systems for the reference law.
-    if (spec.version === 1 && systemModule(kind).version1Reference) return `${lawFullName(referenceLaw())} (a version 1 spec)`;
-  } catch {
-    // not a system any module knows: say what version 2 does
-  }
+  // Version-1 specs balanced some systems for the reference law.
+  if (spec.version === 1 && systemModuleOf(kind)?.version1Reference) return `${lawFullName(referenceLaw())} (a version 1 spec)`;
   return absent;
+}
+
+/** The system module of a kind, or null for a model that is not a system (an encounter, a table). */
+function systemModuleOf(kind: string) {
+  try {
+    return systemModule(kind);
+  } catch {
+    return null;
+  }
 }
 
 function systemRows(spec: RunSpec, model: Obj, path: string, group: SpecGroup, labelPrefix: string): SpecRow[] {
   const kind = String(model.kind);
   const rows: SpecRow[] = [{ key: `${path}.kind`, group, label: labelPrefix ? labelPrefix.replace(/ · $/, '') : 'Model', value: modelName(kind) }];
   rows.push(...fieldRows(spec, model, path, group, labelPrefix));
+  const older = systemModuleOf(kind)?.olderSetUp;
+  if (older && spec.version < older.before) rows.push({ key: `${path}.setUp`, group, label: `${labelPrefix}Velocities`, value: `${older.text} (a version ${spec.version} spec)` });
   return rows;
 }
 

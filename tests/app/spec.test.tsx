@@ -74,8 +74,19 @@ describe('the spec a run ran', () => {
     expect(text(container, 'model.secondary.equilibriumLaw')).toBe('Secondary · Velocities balanced forthe run’s law');
     // A version-1 sphere that named no law was balanced for the reference law.
     expect(text(container, 'model.primary.equilibriumLaw')).toBe('Primary · Velocities balanced forNewtonian (a version 1 spec)');
+    // Its disk was drawn from Gaussians about moments, as every disk before version 3.
+    expect(text(container, 'model.secondary.setUp')).toBe("Secondary · Velocitiesin-plane velocities as Gaussians about moments, Toomre's Q with Newton's G (a version 1 spec)");
+    expect(text(container, 'model.primary.setUp')).toBeNull();
     expect(text(container, 'model.secondaryTilt_deg')).toBe('Secondary tilt30°');
     expect(text(container, 'model.primaryTilt_deg')).toBe('Primary tilt0°');
+  });
+
+  it('a disk of an older spec says how its velocities were drawn; a current one needs no such row', () => {
+    const older = render(<SpecTable columns={[{ title: 'Veyra', color: '#fff', spec: diskSpec() }]} />);
+    expect(text(older.container, 'model.setUp')).toBe("Velocitiesin-plane velocities as Gaussians about moments, Toomre's Q with Newton's G (a version 1 spec)");
+    const current = render(<SpecTable columns={[{ title: 'Veyra', color: '#fff', spec: { ...diskSpec(), version: 3 } }]} />);
+    expect(text(current.container, 'model.kind')).toBe('ModelExponential disk');
+    expect(text(current.container, 'model.setUp')).toBeNull();
   });
 
   it('says "1 step", not "1 steps"', () => {

@@ -290,6 +290,8 @@ const toomreSigmaR = (toomreQ: number, coupling: number, stable: (R: number) => 
 
 /** How a disk's in-plane velocities are drawn: from moments (spec versions 1 and 2) or from a distribution function. */
 export type DiskSetUp = 'moments' | 'distribution';
+/** The first spec version whose disks are drawn from their distribution function. */
+const DISTRIBUTION_FROM_VERSION = 3;
 
 /** In-plane velocity (v_R, v_phi) of a particle at R. */
 type PlanarDraw = (R: number, rng: RngState) => [number, number];
@@ -549,11 +551,12 @@ export const diskModule = defineSystem({
   traits: { geometry: 'flattened', systems: 1 },
   // Disks were balanced for the run's own law from the first version on.
   version1Reference: false,
+  olderSetUp: { before: DISTRIBUTION_FROM_VERSION, text: "in-plane velocities as Gaussians about moments, Toomre's Q with Newton's G" },
   components: (d) => ['disk', ...(d.bulge ? ['bulge'] : []), ...(d.gas ? ['gas'] : []), ...(d.halo ? ['halo'] : [])],
   mass: (d) => d.mass_Msun + (d.bulge?.mass_Msun ?? 0) + (d.gas?.mass_Msun ?? 0) + (d.halo?.mass_Msun ?? 0),
   massModel: diskGalaxyModel,
   sample: (d, law, { spec, rng }, out, start) =>
-    sampleDiskGalaxy(d, law, { solver: makeSolver(spec.solver), softening_kpc: spec.softening_kpc }, rng, out, start, spec.version >= 3 ? 'distribution' : 'moments'),
+    sampleDiskGalaxy(d, law, { solver: makeSolver(spec.solver), softening_kpc: spec.softening_kpc }, rng, out, start, spec.version >= DISTRIBUTION_FROM_VERSION ? 'distribution' : 'moments'),
   checkSystem(d, path, ctx) {
     checkSystem(d, 'scaleLength_kpc', path, ctx);
     const parts = 1 + (d.bulge ? 1 : 0) + (d.gas ? 1 : 0);

@@ -102,6 +102,8 @@ export interface SystemModule<S extends ModelSchema = ModelSchema> extends Model
   mass(params: z.infer<S>): number;
   /** A version-1 spec that named no equilibriumLaw balanced this system for the reference law. */
   version1Reference: boolean;
+  /** Specs older than `before` drew this system's velocities another way, said in `text` (shown beside such a run's spec). */
+  olderSetUp?: { before: number; text: string };
   /** Draws out[start..start+particleCount) with velocities balanced for `law`; components unprefixed. */
   sample(params: z.infer<S>, law: LawSpec, ctx: SampleContext, out: ParticleState, start: number): Component[];
   /** Its own checks (truncation radii), also run for an encounter's members. */
