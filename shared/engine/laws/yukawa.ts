@@ -43,7 +43,7 @@ const info = (p: YukawaParams): LawInfo => ({
   conservesAngularMomentum: true,
   hasPotential: true,
   validity: 'A phenomenological fifth force, valid wherever its pair potential is assumed; softened like Newton (r replaced by sqrt(r^2 + eps^2)).',
-  notes: `Central pairwise force with a potential: energy, momentum and angular momentum are conserved. A disk balanced for it takes Toomre's Q with G (1 + alpha), the pull at separations well below lambda, so its Q is the same stability margin as under Newton (hotter by ${(1 + p.alpha).toFixed(2)} in sigma_R).`,
+  notes: `Central pairwise force with a potential: energy, momentum and angular momentum are conserved. A disk balanced for it takes Toomre's Q with G (1 + α), the pull at separations well below λ, so its Q is the same stability margin as under Newton (σ_R ${(1 + p.alpha).toFixed(2)} times larger).`,
 });
 
 export const yukawaLaw = defineLaw({

@@ -29,7 +29,7 @@ const schema = z
     mass_Msun: mass.describe('disk mass'),
     scaleLength_kpc: length.describe('exponential scale length R_d').meta({ title: 'Scale length R_d' }),
     scaleHeight_kpc: length.describe('sech^2 scale height z0: rho ~ sech^2(z / z0)').meta({ title: 'Scale height z₀' }),
-    toomreQ: z.number().min(0.5).max(10).default(1.5).describe("Toomre (1964) stability parameter setting the radial dispersion, taken with the short-range pull of the law the disk is balanced for (Yukawa: G (1 + alpha)), so a value is the same stability margin under every law").meta({ title: 'Toomre Q' }),
+    toomreQ: z.number().min(0.5).max(10).default(1.5).describe("Toomre (1964) stability parameter setting the radial dispersion, taken with the short-range pull of the law the disk is balanced for (Yukawa: G (1 + α)), so a value is the same stability margin under every law").meta({ title: 'Toomre Q' }),
     truncationRadius_kpc: truncation,
     // examples[0] of an optional part: what the launch form fills in when it is switched on (invented values).
     bulge: z
