@@ -37,7 +37,7 @@ type YukawaParams = z.infer<typeof schema>;
 
 const info = (p: YukawaParams): LawInfo => ({
   kind: 'yukawa',
-  label: `Yukawa (alpha ${p.alpha}, lambda ${p.lambda_kpc} kpc)`,
+  label: `Yukawa (α ${p.alpha}, λ ${p.lambda_kpc} kpc)`,
   conservesEnergy: true,
   conservesMomentum: true,
   conservesAngularMomentum: true,
