@@ -1,5 +1,5 @@
-// The softened-Newton tree's walk and sums in WebAssembly (wasm/tree.ts),
-// instantiated once per thread on first use. The octree is copied into the
+// The tree's walk and sums in WebAssembly (wasm/tree.ts), for softened Newton and
+// the Yukawa law, instantiated once per thread on first use. The octree is copied into the
 // module's memory once per tree (a tree in shared memory is recognised by its
 // stamp), then each target group (or probe) is one call. Mixed precision (float32 terms,
 // float64 sums; see wasm/tree.ts), so its sums differ from the float64 JS loops
@@ -7,10 +7,14 @@
 // on how many threads split it. It is off wherever the direct-sum WebAssembly
 // kernel is off (INFALL_DIRECT_KERNEL=js, setDirectKernel('js'), WebAssembly or
 // its SIMD missing): then the JS walk and loops run.
+import { G as G_UNITS } from '../units';
 import { wasmDirect } from './directWasm';
 import { TREE_WASM_BYTES } from './treeWasm.generated';
-import type { Points } from '../state';
+import type { Accelerations, Points } from '../state';
 import type { Octree } from './tree';
+
+// A module-local copy of G: transpiled to CommonJS (tsx, Jest) an imported binding is a getter, called once per target.
+const G = G_UNITS;
 
 interface Exports {
   memory: WebAssembly.Memory;
@@ -19,6 +23,12 @@ interface Exports {
     from: number, to: number, theta2: number, few: number, eps2: number, ox: number, oy: number, oz: number, stack: number, scratch: number, cellScratch: number): void;
   groupPotential(cells: number, links: number, sx: number, sy: number, sz: number, sm: number, tx: number, ty: number, tz: number,
     from: number, to: number, theta2: number, few: number, eps2: number, o: number, stack: number, scratch: number, cellScratch: number): void;
+  groupFieldYukawa(cells: number, links: number, sx: number, sy: number, sz: number, sm: number, tx: number, ty: number, tz: number,
+    from: number, to: number, theta2: number, few: number, eps2: number, alpha: number, lambda: number,
+    ox: number, oy: number, oz: number, stack: number, scratch: number, cellScratch: number): void;
+  groupPotentialYukawa(cells: number, links: number, sx: number, sy: number, sz: number, sm: number, tx: number, ty: number, tz: number,
+    from: number, to: number, theta2: number, few: number, eps2: number, alpha: number, lambda: number,
+    o: number, stack: number, scratch: number, cellScratch: number): void;
 }
 
 const PAGE = 65536;
@@ -39,6 +49,23 @@ export function wasmTree(): WasmTree | null {
   if (!wasmDirect()) return null;
   if (loaded === undefined) loaded = WasmTree.load();
   return loaded;
+}
+
+/** A group's pulls from groupField(Yukawa), times G, where a PairLoops.treeGroupField hook writes them. */
+export function putGroupField(tree: Octree, targets: Points | null, from: number, to: number, sums: Float64Array[], out: Accelerations): void {
+  const [sx, sy, sz] = sums;
+  const { ax, ay, az } = out;
+  const order = tree.order;
+  for (let q = from; q < to; q++) {
+    const i = targets ? q : order[q], k = q - from;
+    ax[i] = G * sx[k]; ay[i] = G * sy[k]; az[i] = G * sz[k];
+  }
+}
+
+/** A group's sums of m phi from groupPotential(Yukawa), as potentials (-G times them), where treeGroupPotential writes them. */
+export function putGroupPotential(tree: Octree, targets: Points | null, from: number, to: number, sums: Float64Array, out: Float64Array): void {
+  const order = tree.order;
+  for (let q = from; q < to; q++) out[targets ? q : order[q]] = -G * sums[q - from];
 }
 
 export class WasmTree {
@@ -74,9 +101,7 @@ export class WasmTree {
     if (!t) return null;
     const a = this.at;
     this.ex.groupField(a.cells, a.links, a.sx, a.sy, a.sz, a.sm, t[0], t[1], t[2], t[3], t[4], theta2, few, eps2, a.ox, a.oy, a.oz, a.stack, a.scratch, a.cellScratch);
-    const [ox, oy, oz] = this.out;
-    for (let k = 0, nt = to - from; k < nt; k++) if (!Number.isFinite(ox[k] + oy[k] + oz[k])) return null;
-    return this.out;
+    return this.fieldOut(to - from);
   }
 
   /** The same walk's sum of m phi (the potential is -G times it): out[0..to - from), or null as above. */
@@ -85,8 +110,38 @@ export class WasmTree {
     if (!t) return null;
     const a = this.at;
     this.ex.groupPotential(a.cells, a.links, a.sx, a.sy, a.sz, a.sm, t[0], t[1], t[2], t[3], t[4], theta2, few, eps2, a.ox, a.stack, a.scratch, a.cellScratch);
+    return this.potentialOut(to - from);
+  }
+
+  /** groupField under the Yukawa law, phi = (1 + alpha e^(-s/lambda)) / s. */
+  groupFieldYukawa(tree: Octree, targets: Points | null, from: number, to: number, theta2: number, few: number, eps2: number, alpha: number, lambda: number): Float64Array[] | null {
+    const t = this.targets(tree, targets, from, to);
+    if (!t) return null;
+    const a = this.at;
+    this.ex.groupFieldYukawa(a.cells, a.links, a.sx, a.sy, a.sz, a.sm, t[0], t[1], t[2], t[3], t[4], theta2, few, eps2, alpha, lambda, a.ox, a.oy, a.oz, a.stack, a.scratch, a.cellScratch);
+    return this.fieldOut(to - from);
+  }
+
+  /** groupPotential under the Yukawa law. */
+  groupPotentialYukawa(tree: Octree, targets: Points | null, from: number, to: number, theta2: number, few: number, eps2: number, alpha: number, lambda: number): Float64Array | null {
+    const t = this.targets(tree, targets, from, to);
+    if (!t) return null;
+    const a = this.at;
+    this.ex.groupPotentialYukawa(a.cells, a.links, a.sx, a.sy, a.sz, a.sm, t[0], t[1], t[2], t[3], t[4], theta2, few, eps2, alpha, lambda, a.ox, a.stack, a.scratch, a.cellScratch);
+    return this.potentialOut(to - from);
+  }
+
+  /** The pulls the last call wrote, or null if a float32 sum overflowed. */
+  private fieldOut(nt: number): Float64Array[] | null {
+    const [ox, oy, oz] = this.out;
+    for (let k = 0; k < nt; k++) if (!Number.isFinite(ox[k] + oy[k] + oz[k])) return null;
+    return this.out;
+  }
+
+  /** The potential sums the last call wrote, or null as above. */
+  private potentialOut(nt: number): Float64Array | null {
     const o = this.out[0];
-    for (let k = 0, nt = to - from; k < nt; k++) if (!Number.isFinite(o[k])) return null;
+    for (let k = 0; k < nt; k++) if (!Number.isFinite(o[k])) return null;
     return o;
   }
 

@@ -6,7 +6,7 @@
 // once: no calls, no branch on the law.
 import { G as G_UNITS } from '../../units';
 import { wasmDirect } from '../directWasm';
-import { wasmTree } from '../treeWasm';
+import { putGroupField, putGroupPotential, wasmTree } from '../treeWasm';
 import { MOMENTS, type PairLoops } from '../types';
 
 // Module-local alias: inside a vm context (Jest, sandboxes) every global
@@ -150,13 +150,7 @@ export const newtonLoops: PairLoops = {
     const wasm = eps2 > 0 ? wasmTree() : null;
     const sums = wasm?.groupField(tree, targets, from, to, theta2, few, eps2);
     if (!sums) return false;
-    const [sx, sy, sz] = sums;
-    const { ax, ay, az } = out;
-    const order = tree.order;
-    for (let q = from; q < to; q++) {
-      const i = targets ? q : order[q], k = q - from;
-      ax[i] = G * sx[k]; ay[i] = G * sy[k]; az[i] = G * sz[k];
-    }
+    putGroupField(tree, targets, from, to, sums, out);
     return true;
   },
 
@@ -164,8 +158,7 @@ export const newtonLoops: PairLoops = {
     const wasm = eps2 > 0 ? wasmTree() : null;
     const sums = wasm?.groupPotential(tree, targets, from, to, theta2, few, eps2);
     if (!sums) return false;
-    const order = tree.order;
-    for (let q = from; q < to; q++) out[targets ? q : order[q]] = -G * sums[q - from];
+    putGroupPotential(tree, targets, from, to, sums, out);
     return true;
   },
 

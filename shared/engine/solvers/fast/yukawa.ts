@@ -1,10 +1,20 @@
 // Newton plus a Yukawa term: the generic loops' arithmetic for
-// phi = (1 + alpha e^(-s/lambda)) / s written out with the parameters read once.
+// phi = (1 + alpha e^(-s/lambda)) / s written out with the parameters read once;
+// the tree's self-field and probes walked and summed group by group in WebAssembly
+// SIMD (mixed precision, treeWasm.ts) where it loads, as Newton's are.
+import { putGroupField, putGroupPotential, wasmTree } from '../treeWasm';
 import { MOMENTS, type PairLoops } from '../types';
 
 // Module-local aliases: inside a vm context (Jest, sandboxes) every global
 // lookup of Math is slow enough to dominate a hot loop.
 const { sqrt, exp } = Math;
+
+/**
+ * The WebAssembly tree for these parameters, or null. With eps > 0 only (a target's own
+ * slot must add exactly zero), and not for alpha below -0.9: there 1 + alpha e^(-u) (1 + u)
+ * nears 0 at u << 1 and float32 terms would keep too few of its digits.
+ */
+const treeFor = (eps2: number, alpha: number) => (eps2 > 0 && alpha >= -0.9 ? wasmTree() : null);
 
 export const yukawaLoops: PairLoops = {
   pull(x, y, z, m, count, xi, yi, zi, eps2, p, acc) {
@@ -78,5 +88,20 @@ export const yukawaLoops: PairLoops = {
       sp += M * F0 + F1 * (Ixx + Iyy + Izz) + 2 * F2 * dId;
     }
     return sp;
+  },
+
+  // Where it declines (see treeFor) or a float32 sum overflows, the tree walks and sums the group with the loops above.
+  treeGroupField(tree, targets, from, to, theta2, few, eps2, p, out) {
+    const sums = treeFor(eps2, p[0])?.groupFieldYukawa(tree, targets, from, to, theta2, few, eps2, p[0], p[1]);
+    if (!sums) return false;
+    putGroupField(tree, targets, from, to, sums, out);
+    return true;
+  },
+
+  treeGroupPotential(tree, targets, from, to, theta2, few, eps2, p, out) {
+    const sums = treeFor(eps2, p[0])?.groupPotentialYukawa(tree, targets, from, to, theta2, few, eps2, p[0], p[1]);
+    if (!sums) return false;
+    putGroupPotential(tree, targets, from, to, sums, out);
+    return true;
   },
 };
