@@ -2,8 +2,12 @@ import { buildInitialConditions, runSimulation } from '../../shared/engine';
 import { directFieldRange, directPotentialRange } from '../../shared/engine/solvers/direct';
 import { buildOctant, buildOctree, joinOctree, planOctree, treeFieldRange, treeSolver, treeWorkUnits, type OctantCells, type Octree } from '../../shared/engine/solvers/tree';
 import { newtonKernel } from '../../shared/engine/laws/newton';
+import { yukawaPairKernel } from '../../shared/engine/laws/yukawa';
 import { setDirectKernel } from '../../shared/engine/solvers/directWasm';
-import { allocateAccelerations, allocateParticles } from '../../shared/engine/state';
+import { TREE_WASM_BYTES } from '../../shared/engine/solvers/treeWasm.generated';
+import { pairKernel, type PairKernel } from '../../shared/engine/solvers/types';
+import { allocateAccelerations, allocateParticles, type Accelerations, type Points, type Sources } from '../../shared/engine/state';
+import { G } from '../../shared/engine/units';
 import { quantile, specWith } from './helpers';
 
 const N = 3000;
@@ -175,5 +179,108 @@ describe('Barnes & Hut (1986) tree', () => {
     expect(r.summary.maxAbsEnergyDrift!).toBeLessThan(2e-3);
     expect(r.summary.finalMomentumDrift).toBeLessThan(1e-3);
     expect(r.summary.finalMomentumDrift).toBeGreaterThan(1e-12);
+  });
+});
+
+describe('the Yukawa law\'s tree in WebAssembly SIMD (float32 terms, float64 sums)', () => {
+  const sphere = buildInitialConditions(specWith({ model: { kind: 'plummer', n: 3000, mass_Msun: 1e10, scale_kpc: 1 }, seed: 7 })).particles;
+  // A disk-like cloud: the sphere squashed ten times along z.
+  const flat = { ...sphere, z: sphere.z.map((v) => 0.1 * v) };
+  const fieldErrors = (a: Accelerations, b: Accelerations): number[] =>
+    Array.from(b.ax, (_, i) => Math.hypot(a.ax[i] - b.ax[i], a.ay[i] - b.ay[i], a.az[i] - b.az[i]) / Math.hypot(b.ax[i], b.ay[i], b.az[i]));
+  const potentialErrors = (a: Float64Array, b: Float64Array): number[] => Array.from(b, (v, i) => Math.abs(a[i] / v - 1));
+  /** Field and potential from `solve`, with the JS loops (no WebAssembly) when `js`. */
+  const sums = (solve: (acc: Accelerations, pot: Float64Array) => void, n: number, js = false) => {
+    const acc = allocateAccelerations(n), pot = new Float64Array(n);
+    const previous = js ? setDirectKernel('js') : null;
+    try {
+      solve(acc, pot);
+    } finally {
+      if (previous) setDirectKernel(previous);
+    }
+    return { acc, pot };
+  };
+  const tree = (s: Sources, t: Points, k: PairKernel, js = false) =>
+    sums((acc, pot) => { treeSolver(0.6).field(s, t, k, acc); treeSolver(0.6).potential(s, t, k, pot); }, t.x.length, js);
+
+  // Range 0.5 kpc puts e^(-s/lambda) across its whole range (u from 0.1 to beyond 87 in a 40 kpc cloud); 50 kpc keeps u small.
+  test.each([[0.3, 3], [-0.5, 0.5], [1, 0.5], [-0.5, 50], [2, 50]])('alpha %p, lambda %p kpc: per-particle difference from the float64 JS walk below 2e-7 median, 5e-6 max for the pull, 1e-7 / 1e-6 for the potential, on a Plummer sphere and a flattened cloud, self-field and probes (our bounds; worst over the cases measured 7.9e-8 / 2.1e-6 and 3.2e-8 / 3.6e-7); its error against the direct sum is the JS tree\'s', (alpha, lambda) => {
+    const k = pairKernel(yukawaPairKernel, 0.05, [alpha, lambda]);
+    for (const cloud of [sphere, flat]) {
+      const probes = { x: cloud.x.map((v) => v + 0.01), y: cloud.y, z: cloud.z };
+      for (const targets of [cloud, probes]) {
+        const wasm = tree(cloud, targets, k), js = tree(cloud, targets, k, true);
+        const e = fieldErrors(wasm.acc, js.acc), ep = potentialErrors(wasm.pot, js.pot);
+        expect(quantile(e, 0.5)).toBeLessThan(2e-7);
+        expect(Math.max(...e)).toBeLessThan(5e-6);
+        expect(quantile(ep, 0.5)).toBeLessThan(1e-7);
+        expect(Math.max(...ep)).toBeLessThan(1e-6);
+        // It did run: float32 terms leave a trace.
+        expect(Math.max(...e)).toBeGreaterThan(0);
+        expect(Math.max(...ep)).toBeGreaterThan(0);
+      }
+      // The direct float64 sum (the Yukawa law has no WebAssembly direct sum): the tree's own error, theta 0.6, is the same either way.
+      const exact = sums((acc, pot) => { directFieldRange(cloud, cloud, k, 0, cloud.m.length, acc); directPotentialRange(cloud, cloud, k, 0, cloud.m.length, pot); }, cloud.m.length);
+      const wasm = tree(cloud, cloud, k), js = tree(cloud, cloud, k, true);
+      for (const q of [0.5, 0.99]) {
+        expect(quantile(fieldErrors(wasm.acc, exact.acc), q) / quantile(fieldErrors(js.acc, exact.acc), q)).toBeCloseTo(1, 2);
+        expect(quantile(potentialErrors(wasm.pot, exact.pot), q) / quantile(potentialErrors(js.pot, exact.pot), q)).toBeCloseTo(1, 2);
+      }
+      expect(quantile(fieldErrors(wasm.acc, exact.acc), 0.5)).toBeLessThan(1e-3);
+    }
+  });
+
+  test('one pair at separations from 0.01 to 60 kpc (u = s / lambda from 0.1 to 120): pull and potential within 1e-6 relative of the law\'s formula written out in float64, for alpha 1 and -0.5 (measured 3.8e-7 and 1.7e-7)', () => {
+    const source = allocateParticles(1);
+    source.m[0] = 1e10;
+    const n = 400, eps = 0.05, lambda = 0.5;
+    // Along a skew direction, separations spread evenly in log from 0.01 to 60 kpc.
+    const r = Float64Array.from({ length: n }, (_, i) => 0.01 * 6000 ** (i / (n - 1)));
+    const probes = { x: r.map((v) => 0.48 * v), y: r.map((v) => 0.6 * v), z: r.map((v) => 0.64 * v) };
+    for (const alpha of [1, -0.5]) {
+      const got = tree(source, probes, pairKernel(yukawaPairKernel, eps, [alpha, lambda]));
+      for (let i = 0; i < n; i++) {
+        const s = Math.sqrt(r[i] * r[i] + eps * eps), u = s / lambda, e = alpha * Math.exp(-u);
+        // phi = (1 + e) / s; pull = -phi'(s) r / s = (1 + e (1 + u)) r / s^3, toward the source.
+        const pull = (G * source.m[0] * (1 + e * (1 + u)) * r[i]) / (s * s * s), pot = (-G * source.m[0] * (1 + e)) / s;
+        expect(Math.abs(Math.hypot(got.acc.ax[i], got.acc.ay[i], got.acc.az[i]) / pull - 1)).toBeLessThan(1e-6);
+        expect(got.acc.ax[i]).toBeLessThan(0);
+        expect(Math.abs(got.pot[i] / pot - 1)).toBeLessThan(1e-6);
+      }
+    }
+  });
+
+  test('its e^(-u) (Cody & Waite range reduction, Cephes\'s expf polynomial) is within 1.5e-7 relative of Math.exp over u in [0, 80] and [80, 87] (measured 7.9e-8 and 8.1e-8; float32 rounding alone is up to 6e-8), and exactly 0 above 87', () => {
+    const ex = new WebAssembly.Instance(new WebAssembly.Module(TREE_WASM_BYTES), {}).exports as unknown as {
+      memory: WebAssembly.Memory; heapBase(): number; expMinusAt(u: number, o: number, n: number): void;
+    };
+    const n = 1 << 18, at = ex.heapBase();
+    const need = at + 8 * n - ex.memory.buffer.byteLength;
+    if (need > 0) ex.memory.grow(Math.ceil(need / 65536));
+    const u = new Float32Array(ex.memory.buffer, at, n), o = new Float32Array(ex.memory.buffer, at + 4 * n, n);
+    for (let i = 0; i < n; i++) u[i] = (90 * i) / n;
+    ex.expMinusAt(u.byteOffset, o.byteOffset, n);
+    let below80 = 0, to87 = 0;
+    for (let i = 0; i < n; i++) {
+      // The reference at the float32 argument the module saw.
+      if (u[i] > 87) {
+        expect(o[i]).toBe(0);
+        continue;
+      }
+      const err = Math.abs(o[i] / Math.exp(-u[i]) - 1);
+      if (u[i] <= 80) below80 = Math.max(below80, err);
+      else to87 = Math.max(to87, err);
+    }
+    expect(below80).toBeLessThan(1.5e-7);
+    expect(to87).toBeLessThan(1.5e-7);
+    // Not exact: float32 arithmetic shows.
+    expect(below80).toBeGreaterThan(1e-8);
+  });
+
+  test('below alpha = -0.9 (where 1 + alpha e^(-u) (1 + u) cancels in float32) the float64 JS walk runs: the same numbers bit for bit', () => {
+    const k = pairKernel(yukawaPairKernel, 0.05, [-0.95, 3]);
+    const wasm = tree(sphere, sphere, k), js = tree(sphere, sphere, k, true);
+    expect(Buffer.from(wasm.acc.ax.buffer).equals(Buffer.from(js.acc.ax.buffer))).toBe(true);
+    expect(Buffer.from(wasm.pot.buffer).equals(Buffer.from(js.pot.buffer))).toBe(true);
   });
 });

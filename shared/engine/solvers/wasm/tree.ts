@@ -258,10 +258,10 @@ function sumPotential(P: usize, C: usize, tx: usize, ty: usize, tz: usize, from:
 }
 
 // e^(-u) for u >= 0 in float32, four lanes: common practice, Cody & Waite style range reduction
-// plus a polynomial (Cephes's expf, S. L. Moshier). u = n ln2 - r with n an integer and |r| <= ln2/2,
+// plus a polynomial (Cephes's expf, S. L. Moshier). -u = n ln2 + r with n an integer and |r| <= ln2/2,
 // ln2 split in two so n ln2 is exact to float32; e^r from Cephes's degree-5 minimax polynomial;
 // 2^n from exponent bits. u above 87 (e^-87 = 1.6e-38, near float32's smallest normal) flushes to 0.
-// Measured error: tests/engine/tree.test.ts.
+// Measured max relative error against Math.exp: 7.9e-8 over u in [0, 80], 8.1e-8 on [80, 87] (tests/engine/tree.test.ts).
 const LOG2E: f32 = 1.44269504088896341, LN2_HI: f32 = 0.693359375, LN2_LO: f32 = -2.12194440e-4, U_MAX: f32 = 87;
 
 // @ts-ignore: decorator
