@@ -2,7 +2,7 @@
 // calls the same functions at tiny sizes so they can't rot.
 import os from 'node:os';
 import { benchDirect, type DirectFigures } from './direct';
-import { benchTree, type TreeFigure } from './tree';
+import { benchTree, benchYukawaTree, type TreeFigure, type YukawaTreeFigure } from './tree';
 import { benchQumond, qumondKey, type QumondFigure } from './qumond';
 import { benchThreads, type ThreadFigures } from './threads';
 import { benchEndToEnd, benchSnapshots, type EndToEndFigures, type SnapshotFigures, type StackTarget } from './stack';
@@ -11,6 +11,7 @@ import type { ClientFigures } from './client';
 export interface PureSizes {
   direct: { n: number; repeats: number; drift: { n: number; steps: number } };
   tree: { sizes: number[]; thetas: number[]; sampleTargets: number; repeats: number };
+  yukawaTree: { n: number; theta: number; alpha: number; lambda_kpc: number; repeats: number };
   threads: { n: number; steps: number; treeN: number; treeSteps: number; gridN: number; grid: ThreadFigures['grid']; gridSteps: number; threads: number; spinIterations: number; repeats: number };
   qumond: { grids: QumondFigure['grid'][]; sizes: number[]; repeats: number };
 }
@@ -18,6 +19,7 @@ export interface PureSizes {
 export const FULL_SIZES: PureSizes = {
   direct: { n: 4096, repeats: 7, drift: { n: 1000, steps: 400 } },
   tree: { sizes: [1_000, 3_000, 10_000, 100_000, 300_000], thetas: [0.5, 0.7], sampleTargets: 1_000, repeats: 3 },
+  yukawaTree: { n: 20_000, theta: 0.6, alpha: 0.3, lambda_kpc: 3, repeats: 2 },
   threads: { n: 6_000, steps: 25, treeN: 20_000, treeSteps: 40, gridN: 2_000, grid: 64, gridSteps: 6, threads: 2, spinIterations: 2e8, repeats: 3 },
   qumond: { grids: [64, 128], sizes: [10_000, 100_000], repeats: 2 },
 };
@@ -25,6 +27,7 @@ export const FULL_SIZES: PureSizes = {
 export interface PureReport {
   directSum: DirectFigures;
   tree: TreeFigure[];
+  yukawaTree: YukawaTreeFigure;
   threads: ThreadFigures;
   qumond: QumondFigure[];
 }
@@ -46,11 +49,13 @@ export async function benchPure(sizes: PureSizes = FULL_SIZES): Promise<PureRepo
   const directSum = benchDirect(sizes.direct);
   log(`tree at N = ${sizes.tree.sizes.join(', ')}`);
   const tree = benchTree(sizes.tree);
+  log(`Yukawa tree at N = ${sizes.yukawaTree.n}, JS loops and WebAssembly`);
+  const yukawaTree = benchYukawaTree(sizes.yukawaTree);
   log(`threads: one ${sizes.threads.n}-particle direct, one ${sizes.threads.treeN}-particle tree and one ${sizes.threads.gridN}-particle field-form MOND run (grid ${sizes.threads.grid}^3) on 1 and ${sizes.threads.threads} threads`);
   const threads = await benchThreads(sizes.threads);
   log(`field-form MOND: grid ${sizes.qumond.grids.join(', ')} at N = ${sizes.qumond.sizes.join(', ')}`);
   const qumond = benchQumond(sizes.qumond);
-  return { directSum, tree, threads, qumond };
+  return { directSum, tree, yukawaTree, threads, qumond };
 }
 
 export async function benchStackSections(
@@ -73,6 +78,7 @@ export function toJson(r: BenchReport): Record<string, unknown> {
   return {
     directSum: r.directSum ?? { interactionsPerSecond: null, referenceInteractionsPerSecond: null, ratio: null, nativeReferenceInteractionsPerSecond: null, maxRelativeDifference: null, energyDriftRatio: null },
     tree: r.tree ?? [],
+    yukawaTree: r.yukawaTree ?? { jsMsPerStep: null, wasmMsPerStep: null, speedup: null },
     threads: r.threads ?? { speedup: null },
     ...Object.fromEntries((r.qumond ?? []).map((f) => [qumondKey(f), { msPerEval: f.msPerEval, pairMsPerEval: f.pairMsPerEval }])),
     e2e: r.e2e ?? { firstProgressMs: null, diskRunSeconds: null, bigDiskRunSeconds: null },
@@ -120,6 +126,12 @@ export function toTable(r: BenchReport): string {
       const faster = f.cpuMsPerStep < (f.directCpuMsPerStep ?? 0);
       rows.push([`tree N=${f.n} theta=${f.theta} vs direct sum: CPU ms per step`, `${fmt(f.cpuMsPerStep)} vs ${fmt(f.directCpuMsPerStep ?? NaN)}`, 'tree faster from N = 3000', f.n >= 3_000 ? mark(faster) : '']);
     }
+  }
+  const y = r.yukawaTree;
+  if (y) {
+    const at = `tree Yukawa (α ${y.alpha}, λ ${y.lambda_kpc} kpc) N=${y.n} theta=${y.theta}`;
+    rows.push([`${at}: ms per step (CPU ms), JS loops -> WebAssembly`, `${fmt(y.jsMsPerStep)} (${fmt(y.jsCpuMsPerStep)}) -> ${fmt(y.wasmMsPerStep)} (${fmt(y.wasmCpuMsPerStep)})`, `yukawaTree.speedup (CPU) ${fmt(y.speedup)}x`, '']);
+    rows.push([`${at}: WebAssembly vs JS loops, max relative force difference`, fmt(y.maxRelativeDifference), '<= 5e-6 (tree.test.ts)', mark(y.maxRelativeDifference <= 5e-6)]);
   }
   const t = r.threads;
   if (t) {

@@ -1,9 +1,13 @@
 // Barnes-Hut tree: cost of one force evaluation (build and walk over every
 // particle) and its force error against the direct sum on a random subset of
 // targets; up to DIRECT_UP_TO particles, the direct sum's own cost beside it.
+// Under the Yukawa law, one evaluation with the JS loops and in WebAssembly.
 import { directSolver } from '../../shared/engine/solvers/direct';
+import { setDirectKernel } from '../../shared/engine/solvers/directWasm';
 import { treeSolver } from '../../shared/engine/solvers/tree';
+import { pairKernel } from '../../shared/engine/solvers/types';
 import { newtonKernel } from '../../shared/engine/laws/newton';
+import { yukawaPairKernel } from '../../shared/engine/laws/yukawa';
 import { allocateAccelerations, type Points } from '../../shared/engine/state';
 import { seedRng, uniform } from '../../shared/engine/rng';
 import { plummerParticles } from './specs';
@@ -22,6 +26,24 @@ export interface TreeFigure {
   /** One direct-sum evaluation of the same particles, ms, wall and CPU (null above DIRECT_UP_TO particles). */
   directMsPerStep: number | null;
   directCpuMsPerStep: number | null;
+}
+
+/** One Yukawa tree evaluation (self-field of a Plummer sphere) with the float64 JS loops and in WebAssembly SIMD. */
+export interface YukawaTreeFigure {
+  n: number;
+  theta: number;
+  alpha: number;
+  lambda_kpc: number;
+  /** Fastest evaluation, wall ms, and its CPU ms, with the JS walk and loops (setDirectKernel('js')). */
+  jsMsPerStep: number;
+  jsCpuMsPerStep: number;
+  /** The same in WebAssembly. */
+  wasmMsPerStep: number;
+  wasmCpuMsPerStep: number;
+  /** jsCpuMsPerStep / wasmCpuMsPerStep. */
+  speedup: number;
+  /** Largest per-particle |a_wasm - a_js| / |a_js|. */
+  maxRelativeDifference: number;
 }
 
 /** Largest N the direct sum is timed at, for the size where the tree starts to pay. */
@@ -78,4 +100,29 @@ export function benchTree({ sizes = [1_000, 10_000, 100_000], thetas = [0.5, 0.7
     }
   }
   return figures;
+}
+
+export function benchYukawaTree({ n = 20_000, theta = 0.6, alpha = 0.3, lambda_kpc = 3, repeats = 2, softening_kpc = 0.05 } = {}): YukawaTreeFigure {
+  const kernel = pairKernel(yukawaPairKernel, softening_kpc, [alpha, lambda_kpc]);
+  const p = plummerParticles(n);
+  const solver = treeSolver(theta);
+  const js = allocateAccelerations(n), wasm = allocateAccelerations(n);
+  const previous = setDirectKernel('js');
+  let slow: { ms: number; cpuMs: number };
+  try {
+    slow = best(repeats, () => solver.field(p, p, kernel, js));
+  } finally {
+    setDirectKernel(previous);
+  }
+  const fast = best(repeats, () => solver.field(p, p, kernel, wasm));
+  let maxRelativeDifference = 0;
+  for (let i = 0; i < n; i++) {
+    const d = Math.hypot(wasm.ax[i] - js.ax[i], wasm.ay[i] - js.ay[i], wasm.az[i] - js.az[i]) / Math.hypot(js.ax[i], js.ay[i], js.az[i]);
+    maxRelativeDifference = Math.max(maxRelativeDifference, d);
+  }
+  return {
+    n, theta, alpha, lambda_kpc,
+    jsMsPerStep: slow.ms, jsCpuMsPerStep: slow.cpuMs, wasmMsPerStep: fast.ms, wasmCpuMsPerStep: fast.cpuMs,
+    speedup: slow.cpuMs / fast.cpuMs, maxRelativeDifference,
+  };
 }

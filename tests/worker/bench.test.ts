@@ -7,6 +7,7 @@ jest.setTimeout(120_000);
 const TINY: PureSizes = {
   direct: { n: 64, repeats: 2, drift: { n: 64, steps: 20 } },
   tree: { sizes: [300, 600], thetas: [0.5, 0.7], sampleTargets: 50, repeats: 1 },
+  yukawaTree: { n: 300, theta: 0.6, alpha: 0.3, lambda_kpc: 3, repeats: 1 },
   threads: { n: 200, steps: 2, treeN: 300, treeSteps: 2, gridN: 200, grid: 32, gridSteps: 2, threads: 2, spinIterations: 1e5, repeats: 2 },
   qumond: { grids: [32], sizes: [300], repeats: 1 },
 };
@@ -36,6 +37,9 @@ test('the pure sections give every JSON key a finite number, and the table names
   for (const row of json.tree as unknown as Record<string, unknown>[]) {
     for (const key of ['n', 'theta', 'msPerStep', 'cpuMsPerStep', 'medianError', 'p99Error', 'directMsPerStep', 'directCpuMsPerStep']) expect(finite(row[key])).toBe(true);
   }
+  for (const key of ['jsMsPerStep', 'wasmMsPerStep', 'speedup']) expect(finite(json.yukawaTree[key])).toBe(true);
+  expect(report.yukawaTree.maxRelativeDifference).toBeLessThan(5e-6);
+  expect(report.yukawaTree.maxRelativeDifference).toBeGreaterThan(0);
   expect(finite(json.threads.speedup)).toBe(true);
   expect(finite((json['qumond[grid=32,n=300]'] as unknown as Record<string, unknown>).msPerEval)).toBe(true);
   expect(finite(report.threads.machineSpeedup)).toBe(true);
@@ -52,6 +56,6 @@ test('the pure sections give every JSON key a finite number, and the table names
   expect(json.snapshot).toEqual({ bytesPerParticle: null });
   expect(json.client).toEqual({ fps: null });
   const table = toTable(report);
-  for (const target of ['>= 1.0', '<= 2e-4', '>= 1.7x', '>= 1.6x', '<= 1e-6', '1 within 10 %']) expect(table).toContain(target);
+  for (const target of ['>= 1.0', '<= 2e-4', '<= 5e-6 (tree.test.ts)', '>= 1.7x', '>= 1.6x', '<= 1e-6', '1 within 10 %']) expect(table).toContain(target);
   if (native !== null) expect(table).toContain('>= 0.5');
 });
