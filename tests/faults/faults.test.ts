@@ -13,6 +13,7 @@ import { RunEndAnnouncer } from '../../server/queue';
 import { GAVE_UP_STALLED, STALLED_OUT_ERROR } from '../../worker/reconciler';
 import http from 'node:http';
 import net from 'node:net';
+import type { Redis } from 'ioredis';
 
 jest.setTimeout(240_000);
 
@@ -110,7 +111,10 @@ function watch(port: number, token: string, runId: string, lastEventId?: string)
   return { events, ids, closed };
 }
 
+/** Submits as a client would after a fault: once the test's own queue connection is back (a Redis restart leaves it reconnecting for a while). */
 async function submit(spec: RunSpec, name: string): Promise<string> {
+  const client = (await stack.queue.getBackend().client) as unknown as Redis;
+  await poll('queue connection ready', async () => client.status, (st) => st === 'ready', 30_000);
   const [s] = await submitRuns(stack.orm.em.fork(), stack.queue, user, { name, spec });
   return s.id;
 }
