@@ -1,17 +1,10 @@
-import { useCallback, useDeferredValue, useMemo, useState } from 'react';
-import { analyticCurves, isReferenceLaw, modelModule, precheck, referenceLaw, type AnalyticCurves, type EngineWarning, type Timescales } from '../shared/engine';
+import { useCallback, useMemo, useState } from 'react';
 import { defaultRunSpec, estimateInteractions, particleCount, runSpecSchema, stepCount, type LawSpec, type RunSpec, type RunSpecInput } from '../shared/spec';
 import { setIn, type Path } from '../components/launch/draft';
 import type { SubmitRunInput } from './runs';
+import { usePreview } from './preview';
 
 type Draft = Record<string, unknown>;
-
-export interface Preview {
-  curves: AnalyticCurves | null;
-  curvesError: string | null;
-  checks: { law: string; timescales: Timescales; warnings: EngineWarning[] }[];
-  checksError: string | null;
-}
 
 function issueMap(issues: { path: PropertyKey[]; message: string }[], prefix = ''): Record<string, string> {
   const out: Record<string, string> = {};
@@ -60,29 +53,7 @@ export function useRunDraft(initial?: RunSpecInput, initialPairLaw?: LawSpec | n
 
   const valid = Boolean(spec) && (!pairLaw || (Boolean(pairSpec) && !samePair));
 
-  // The preview runs the engine (drawing the initial particles for its checks), so it follows the
-  // draft a beat behind typing.
-  const deferredSpec = useDeferredValue(spec);
-  const deferredPair = useDeferredValue(pairSpec);
-  const preview = useMemo<Preview | null>(() => {
-    if (!deferredSpec) return null;
-    const laws: LawSpec[] = [deferredSpec.law];
-    if (deferredPair) laws.push(deferredPair.law);
-    if (!laws.some((l) => isReferenceLaw(l.kind))) laws.push(referenceLaw());
-    const result: Preview = { curves: null, curvesError: null, checks: [], checksError: null };
-    try {
-      // A two-body orbit has no extended mass model to draw a curve of.
-      result.curves = modelModule(deferredSpec.model.kind).orbit ? null : analyticCurves(deferredSpec, { laws });
-    } catch (e) {
-      result.curvesError = (e as Error).message;
-    }
-    try {
-      for (const s of deferredPair ? [deferredSpec, deferredPair] : [deferredSpec]) result.checks.push({ law: s.law.kind, ...precheck(s) });
-    } catch (e) {
-      result.checksError = (e as Error).message;
-    }
-    return result;
-  }, [deferredSpec, deferredPair]);
+  const preview = usePreview(spec, pairSpec);
 
   const cost = spec
     ? { particles: particleCount(spec), steps: stepCount(spec), interactions: estimateInteractions(spec) + (pairSpec ? estimateInteractions(pairSpec) : 0), runs: pairSpec ? 2 : 1 }

@@ -1,6 +1,6 @@
 import { View } from 'react-native';
 import { colors, lawColor, space } from '../../constants/theme';
-import type { Preview } from '../../hooks/runDraft';
+import type { Preview } from './preview';
 import { Button } from '../Button';
 import { formatValue } from '../format';
 import { isReferenceLaw, lawName } from '../../shared/engine';
