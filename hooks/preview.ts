@@ -22,8 +22,6 @@ function startWorker(): Worker | null {
   }
 }
 
-const failed = (message: string): Preview => ({ curves: null, curvesError: message, checks: [], checksError: message });
-
 /**
  * The new-run form's preview of a valid spec (null otherwise). On the web it is computed in a
  * worker, one draft at a time: while one computes, only the newest draft waits, and an answer to a
@@ -38,6 +36,15 @@ export function usePreview(spec: RunSpec | null, pair: RunSpec | null): Preview 
   const waiting = useRef<PreviewRequest | null>(null);
   const newest = useRef(0);
 
+  // Sends the waiting draft if the worker is free; refs only, so any render's copy will do.
+  const sendWaiting = () => {
+    const w = worker.current, r = waiting.current;
+    if (!w || busy.current || !r) return;
+    waiting.current = null;
+    busy.current = true;
+    w.postMessage(r);
+  };
+
   useEffect(() => {
     if (inPlace) return;
     const w = startWorker();
@@ -47,16 +54,10 @@ export function usePreview(spec: RunSpec | null, pair: RunSpec | null): Preview 
     }
     worker.current = w;
     busy.current = false;
-    const post = (r: PreviewRequest) => {
-      busy.current = true;
-      w.postMessage(r);
-    };
     w.onmessage = ({ data }: MessageEvent<PreviewAnswer>) => {
       busy.current = false;
-      const next = waiting.current;
-      waiting.current = null;
-      if (next) post(next);
-      else if (data.id === newest.current) setAnswer('preview' in data ? data.preview : failed(data.error));
+      if (waiting.current) sendWaiting();
+      else if (data.id === newest.current) setAnswer(data.preview);
     };
     // A worker script that cannot load (or dies) leaves the preview to the main thread.
     w.onerror = () => {
@@ -64,11 +65,7 @@ export function usePreview(spec: RunSpec | null, pair: RunSpec | null): Preview 
       worker.current = null;
       setInPlace(true);
     };
-    if (waiting.current) {
-      const first = waiting.current;
-      waiting.current = null;
-      post(first);
-    }
+    sendWaiting();
     return () => {
       w.terminate();
       worker.current = null;
@@ -77,13 +74,8 @@ export function usePreview(spec: RunSpec | null, pair: RunSpec | null): Preview 
 
   useEffect(() => {
     if (inPlace || !spec) return;
-    const request: PreviewRequest = { id: ++newest.current, spec, pair };
-    if (worker.current && !busy.current) {
-      busy.current = true;
-      worker.current.postMessage(request);
-    } else {
-      waiting.current = request;
-    }
+    waiting.current = { id: ++newest.current, spec, pair };
+    sendWaiting();
   }, [inPlace, spec, pair]);
 
   const deferredSpec = useDeferredValue(spec);

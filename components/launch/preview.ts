@@ -36,4 +36,7 @@ export interface PreviewRequest {
   pair: RunSpec | null;
 }
 
-export type PreviewAnswer = { id: number; preview: Preview } | { id: number; error: string };
+export interface PreviewAnswer {
+  id: number;
+  preview: Preview;
+}

@@ -4,10 +4,6 @@ import { computePreview, type PreviewAnswer, type PreviewRequest } from './previ
 
 const scope = self as unknown as { onmessage: ((e: MessageEvent<PreviewRequest>) => void) | null; postMessage(m: PreviewAnswer): void };
 
-scope.onmessage = ({ data }) => {
-  try {
-    scope.postMessage({ id: data.id, preview: computePreview(data.spec, data.pair) });
-  } catch (e) {
-    scope.postMessage({ id: data.id, error: (e as Error).message });
-  }
-};
+// computePreview reports the engine's errors in the preview itself; anything else ends the
+// worker, and the form computes in place (hooks/preview.ts).
+scope.onmessage = ({ data }) => scope.postMessage({ id: data.id, preview: computePreview(data.spec, data.pair) });
